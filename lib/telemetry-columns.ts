@@ -1,0 +1,378 @@
+/**
+ * Reading vehicle telemetry logs: which CSV column holds which channel, and
+ * turning one CSV record into a telemetry sample.
+ *
+ * Pure functions over strings; the caller does the CSV tokenising and calls
+ * {@link recogniseHeaders} once and {@link parseRow} for every record.
+ */
+import { gpsToUtcMs } from './gnss-time';
+import type { TelemetryRow } from './interpolate';
+import { depthFromPressure, seaPressureFromAbsolute } from './seawater';
+
+/** Channels a log column can map to. */
+export const TELEMETRY_CHANNELS = ['time', 'pressure', 'depth', 'lat', 'lon', 'heading', 'altitude', 'temperature', 'salinity'] as const;
+
+/** A channel a log column can map to. */
+export type TelemetryChannel = (typeof TELEMETRY_CHANNELS)[number];
+
+/** Column index (0-based) of each channel found in a log. */
+export type ColumnMapping = Partial<Record<TelemetryChannel, number>>;
+
+/** Explicit choice for a header, by header text: a channel, or `'ignore'` to leave the column out. */
+export type MappingOverride = Readonly<Record<string, TelemetryChannel | 'ignore'>>;
+
+/** What {@link recogniseHeaders} made of a header row. */
+export interface HeaderRecognition {
+  mapping: ColumnMapping;
+  /** Headers (BOM removed, otherwise as given) mapped to no channel. */
+  unknown: string[];
+  /** Headers naming a channel but in units this reader does not convert; left unmapped. */
+  unsupportedUnits: { header: string; channel: TelemetryChannel; unit: string }[];
+  /** Further columns for a channel already mapped to an earlier (or overridden) column; left unmapped. */
+  duplicates: { header: string; channel: TelemetryChannel }[];
+  /** True when no column holds the time. */
+  missingTime: boolean;
+  /** Time scale stated in the time column's unit, e.g. "time (GPS)"; null when none is stated. */
+  timeScale: 'gps' | 'utc' | null;
+}
+
+const ALIASES: Readonly<Record<TelemetryChannel, readonly string[]>> = {
+  time: ['time', 'timestamp', 'utc', 'datetime'],
+  pressure: ['pressure_dbar', 'pressure'],
+  depth: ['depth_m', 'depth'],
+  lat: ['lat', 'latitude'],
+  lon: ['lon', 'longitude', 'long'],
+  heading: ['heading'],
+  altitude: ['altitude_m', 'altitude'],
+  temperature: ['temperature_c', 'temperature', 'temp'],
+  salinity: ['salinity'],
+};
+
+const DEGREES = ['deg', 'degree', 'degrees', '°', 'dd', 'decimal degrees'];
+const METRES = ['m', 'metre', 'metres', 'meter', 'meters'];
+
+/** Units accepted in brackets after a header; any other unit leaves the column unmapped. */
+const UNITS: Readonly<Record<TelemetryChannel, readonly string[]>> = {
+  time: ['utc', 'z', 'gps', 'iso', 'iso 8601', 'iso8601', 's', 'ms'],
+  pressure: ['dbar', 'db', 'decibar', 'decibars'],
+  depth: METRES,
+  lat: DEGREES,
+  lon: DEGREES,
+  heading: [...DEGREES, 'deg true', '°t', 'degt'],
+  altitude: METRES,
+  temperature: ['c', '°c', 'degc', 'deg c', 'celsius', 'its-90', '°c its-90'],
+  salinity: ['psu', 'pss-78', 'pss78', '1'],
+};
+
+const CHANNEL_BY_ALIAS = new Map<string, TelemetryChannel>(
+  TELEMETRY_CHANNELS.flatMap((channel) => ALIASES[channel].map((alias) => [alias, channel] as const)),
+);
+
+interface HeaderParts {
+  /** Header as given, without a byte-order mark. */
+  display: string;
+  /** Lower-case name with runs of spaces and hyphens as "_". */
+  name: string;
+  /** Lower-case unit from trailing "(…)" or "[…]", or null. */
+  unit: string | null;
+}
+
+function splitHeader(header: string): HeaderParts {
+  const display = header.replace(/^\uFEFF/, '');
+  let name = display.trim().toLowerCase();
+  let unit: string | null = null;
+  const bracketed = /^(.*?)\s*[([]([^()[\]]*)[)\]]$/.exec(name);
+  if (bracketed !== null) {
+    name = bracketed[1] ?? '';
+    unit = (bracketed[2] ?? '').trim().replace(/\s+/g, ' ');
+  }
+  return { display, name: name.replace(/[\s-]+/g, '_'), unit };
+}
+
+function overrideKey(header: string): string {
+  return header
+    .replace(/^\uFEFF/, '')
+    .trim()
+    .toLowerCase();
+}
+
+/**
+ * Maps the header row of a log to channels. Matching is case-insensitive,
+ * ignores surrounding spaces and a byte-order mark, and reads a unit in
+ * brackets ("depth (m)", "Temperature [°C]"): a unit this reader cannot
+ * convert (say "depth (ft)") leaves the column unmapped and is reported.
+ * The first column found for a channel wins.
+ *
+ * @param headers the header record
+ * @param override explicit channel (or `'ignore'`) per header text, matched
+ *   the same case-insensitive way; it takes precedence over recognition
+ * @throws RangeError when the override names something that is not a channel
+ */
+export function recogniseHeaders(headers: readonly string[], override: MappingOverride = {}): HeaderRecognition {
+  const overrides = new Map<string, TelemetryChannel | 'ignore'>();
+  for (const [header, target] of Object.entries(override)) {
+    if (target !== 'ignore' && !(TELEMETRY_CHANNELS as readonly string[]).includes(target)) {
+      throw new RangeError(`mapping override for "${header}" names no channel: "${String(target)}"`);
+    }
+    overrides.set(overrideKey(header), target);
+  }
+
+  const result: HeaderRecognition = {
+    mapping: {},
+    unknown: [],
+    unsupportedUnits: [],
+    duplicates: [],
+    missingTime: true,
+    timeScale: null,
+  };
+  const parts = headers.map(splitHeader);
+  const decided = new Set<number>();
+
+  parts.forEach((p, index) => {
+    const target = overrides.get(overrideKey(p.display));
+    if (target === undefined) return;
+    decided.add(index);
+    if (target === 'ignore') return;
+    if (result.mapping[target] === undefined) result.mapping[target] = index;
+    else result.duplicates.push({ header: p.display, channel: target });
+  });
+
+  parts.forEach((p, index) => {
+    if (decided.has(index)) return;
+    const channel = CHANNEL_BY_ALIAS.get(p.name);
+    if (channel === undefined) {
+      result.unknown.push(p.display);
+      return;
+    }
+    if (p.unit !== null && !UNITS[channel].includes(p.unit)) {
+      result.unsupportedUnits.push({ header: p.display, channel, unit: p.unit });
+      return;
+    }
+    if (result.mapping[channel] !== undefined) {
+      result.duplicates.push({ header: p.display, channel });
+      return;
+    }
+    result.mapping[channel] = index;
+    if (channel === 'time' && p.unit !== null) {
+      if (p.unit === 'gps') result.timeScale = 'gps';
+      else if (p.unit === 'utc' || p.unit === 'z') result.timeScale = 'utc';
+    }
+  });
+
+  result.missingTime = result.mapping.time === undefined;
+  return result;
+}
+
+/** Machine-readable reason a value was refused. */
+export type TelemetryErrorCode = 'missing-time' | 'bad-time' | 'no-zone' | 'bad-number' | 'out-of-range';
+
+/** Result of {@link parseTime}. */
+export type TimeResult = { ok: true; ms: number } | { ok: false; code: TelemetryErrorCode; reason: string };
+
+/** Earliest instant accepted from a log: 1980-01-01 UTC. */
+export const EARLIEST_LOG_MS = Date.UTC(1980, 0, 1);
+/** First instant no longer accepted from a log: 2200-01-01 UTC. */
+export const LATEST_LOG_MS = Date.UTC(2200, 0, 1);
+
+/** Epoch numbers below this are seconds, at or above it milliseconds. */
+export const EPOCH_MS_THRESHOLD = 1e11;
+
+const ISO_8601 = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?\s*(?:(Z)|([+-])(\d{2})(?::?(\d{2}))?)?$/i;
+const EPOCH_NUMBER = /^\d+(?:\.\d+)?$/;
+
+/**
+ * Reads a log time stamp as ms since epoch UTC, rounded to the millisecond.
+ *
+ * Accepted forms:
+ * - ISO 8601 date and time with "Z" or a UTC offset ("2024-03-01T10:15:30.250Z",
+ *   "2024-03-01 22:15:30+12:00"). A time without a zone is refused rather than
+ *   read in the zone of whichever computer parses it.
+ * - Epoch seconds or epoch milliseconds, told apart by size: values below
+ *   10¹¹ are seconds (10¹¹ s is in the year 5138), values from 10¹¹ up are
+ *   milliseconds (10¹¹ ms is 1973-03-03), so every instant from 1980 on is
+ *   read unambiguously.
+ *
+ * Instants before 1980 or from 2200 on are refused: they come from a column of
+ * elapsed seconds or from microseconds, not from a clock.
+ *
+ * @param options.gpsTime the log's clock runs on GPS time; leap seconds are removed
+ */
+export function parseTime(value: string, options: { gpsTime?: boolean } = {}): TimeResult {
+  const text = value.trim();
+  if (text === '') return { ok: false, code: 'missing-time', reason: 'the time is empty' };
+
+  let ms: number;
+  if (EPOCH_NUMBER.test(text)) {
+    const n = Number(text);
+    ms = n < EPOCH_MS_THRESHOLD ? n * 1000 : n;
+  } else {
+    const m = ISO_8601.exec(text);
+    if (m === null) {
+      return { ok: false, code: 'bad-time', reason: `"${text}" is not an ISO 8601 time or an epoch number` };
+    }
+    const [, y, mo, d, h, mi, s, frac, z, sign, oh, om] = m;
+    if (z === undefined && sign === undefined) {
+      return { ok: false, code: 'no-zone', reason: `"${text}" has no time zone; add Z or an offset such as +12:00` };
+    }
+    const year = Number(y);
+    const month = Number(mo);
+    const day = Number(d);
+    const hour = Number(h);
+    const minute = Number(mi);
+    const second = s === undefined ? 0 : Number(s);
+    const offsetH = oh === undefined ? 0 : Number(oh);
+    const offsetM = om === undefined ? 0 : Number(om);
+    const base = Date.UTC(year, month - 1, day, hour, minute, second);
+    const check = new Date(base);
+    if (
+      hour > 23 ||
+      minute > 59 ||
+      second > 59 ||
+      offsetH > 23 ||
+      offsetM > 59 ||
+      check.getUTCFullYear() !== year ||
+      check.getUTCMonth() !== month - 1 ||
+      check.getUTCDate() !== day
+    ) {
+      return { ok: false, code: 'bad-time', reason: `"${text}" is not a valid date and time` };
+    }
+    const fractionMs = frac === undefined ? 0 : Number(`0.${frac}`) * 1000;
+    const offsetMs = (sign === '-' ? -1 : 1) * (offsetH * 60 + offsetM) * 60_000;
+    ms = base + fractionMs - offsetMs;
+  }
+
+  ms = Math.round(ms);
+  if (options.gpsTime === true) ms = gpsToUtcMs(ms);
+  if (!(ms >= EARLIEST_LOG_MS && ms < LATEST_LOG_MS)) {
+    return { ok: false, code: 'out-of-range', reason: `"${text}" is not between 1980 and 2200` };
+  }
+  return { ok: true, ms };
+}
+
+/** Options for {@link parseRow}. */
+export interface ParseRowOptions {
+  /** Latitude of the dive site in degrees, for depth from pressure. */
+  latitudeDeg: number;
+  /** Whether the pressure column is sea pressure or absolute pressure (sea + one atmosphere). */
+  pressure: 'sea' | 'absolute';
+  /** The log's clock runs on GPS time. */
+  gpsTime: boolean;
+  /**
+   * Numbers use "," as the decimal mark ("-7,43"), as in semicolon-separated
+   * files from locales that write decimals that way. The caller sets this
+   * for the whole file (typically when the delimiter is ";"); it is never
+   * guessed per value, since "1,234" could be either. Default false.
+   */
+  decimalComma?: boolean;
+}
+
+/** Result of {@link parseRow}. */
+export type RowResult =
+  { ok: true; sample: TelemetryRow } | { ok: false; code: TelemetryErrorCode; channel: TelemetryChannel; reason: string };
+
+type NumericChannel = Exclude<TelemetryChannel, 'time'>;
+
+/** Accepted ranges, inclusive (common practice, chosen to catch sensor and unit errors). */
+const RANGES: Readonly<Record<NumericChannel, readonly [number, number]>> = {
+  pressure: [-5, 11_500],
+  depth: [-5, 11_000],
+  lat: [-90, 90],
+  lon: [-180, 180],
+  heading: [-180, 360],
+  altitude: [0, 11_000],
+  temperature: [-5, 45],
+  salinity: [0, 50],
+};
+
+const UNITS_FOR_MESSAGE: Readonly<Record<NumericChannel, string>> = {
+  pressure: ' dbar',
+  depth: ' m',
+  lat: '°',
+  lon: '°',
+  heading: '°',
+  altitude: ' m',
+  temperature: ' °C',
+  salinity: '',
+};
+
+const NUMBER = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
+const NO_VALUE = new Set(['', 'nan', 'na', 'n/a', 'null', 'none']);
+
+/**
+ * Reads a number strictly: the whole text must be a decimal number ("12abc",
+ * "0x1F", "1 000" and "Infinity" are refused). With `decimalComma`, "," is
+ * the decimal mark and "." is refused.
+ *
+ * @returns the number, or null when the text is not one
+ */
+export function parseStrictNumber(text: string, decimalComma = false): number | null {
+  let t = text.trim();
+  if (decimalComma) {
+    if (t.includes('.')) return null;
+    t = t.replace(',', '.');
+  }
+  if (!NUMBER.test(t)) return null;
+  const n = Number(t);
+  return Number.isFinite(n) ? n : null;
+}
+
+function fail(code: TelemetryErrorCode, channel: TelemetryChannel, reason: string): RowResult {
+  return { ok: false, code, channel, reason };
+}
+
+/**
+ * Turns one CSV record into a telemetry sample.
+ *
+ * Empty cells and "NaN", "NA", "N/A", "null", "none" mean the channel is
+ * absent from this row. Any other cell must be a number within the channel's
+ * range, or the whole row is refused, naming the column. Absolute pressure is
+ * converted to sea pressure, and when the log has a pressure column but no
+ * depth column, depth is computed from pressure (UNESCO 1983) at
+ * `latitudeDeg`. Depth is never mixed from both sources within one log.
+ * Headings are returned in [0, 360).
+ *
+ * @throws RangeError when depth must be computed and `latitudeDeg` is not a valid latitude
+ */
+export function parseRow(record: readonly string[], mapping: ColumnMapping, options: ParseRowOptions): RowResult {
+  const timeIndex = mapping.time;
+  if (timeIndex === undefined) return fail('missing-time', 'time', 'the log has no time column');
+  const timeCell = record[timeIndex] ?? '';
+  if (NO_VALUE.has(timeCell.trim().toLowerCase())) return fail('missing-time', 'time', 'the time is empty');
+  const time = parseTime(timeCell, { gpsTime: options.gpsTime });
+  if (!time.ok) return fail(time.code, 'time', time.reason);
+
+  const sample: TelemetryRow = { t: time.ms };
+  const decimalComma = options.decimalComma ?? false;
+
+  for (const channel of TELEMETRY_CHANNELS) {
+    if (channel === 'time') continue;
+    const index = mapping[channel];
+    if (index === undefined) continue;
+    const cell = (record[index] ?? '').trim();
+    if (NO_VALUE.has(cell.toLowerCase())) continue;
+    let value = parseStrictNumber(cell, decimalComma);
+    if (value === null) return fail('bad-number', channel, `${channel} "${cell}" is not a number`);
+    if (channel === 'pressure' && options.pressure === 'absolute') value = seaPressureFromAbsolute(value);
+    const [min, max] = RANGES[channel];
+    if (value < min || value > max) {
+      const unit = UNITS_FOR_MESSAGE[channel];
+      return fail('out-of-range', channel, `${channel} ${cell} is outside ${min}${unit} to ${max}${unit}`);
+    }
+    if (channel === 'heading') value = value < 0 || value >= 360 ? value - 360 * Math.floor(value / 360) : value;
+    sample[channel] = value;
+  }
+
+  if (mapping.depth === undefined && sample.pressure !== undefined && sample.pressure !== null) {
+    const lat = options.latitudeDeg;
+    if (!Number.isFinite(lat) || Math.abs(lat) > 90) {
+      throw new RangeError(`latitudeDeg must be a latitude for depth from pressure, got ${lat}`);
+    }
+    const depth = depthFromPressure(sample.pressure, lat);
+    const [min, max] = RANGES.depth;
+    if (depth < min || depth > max) {
+      return fail('out-of-range', 'pressure', `depth ${depth.toFixed(1)} m from pressure is outside ${min} m to ${max} m`);
+    }
+    sample.depth = depth;
+  }
+  return { ok: true, sample };
+}
