@@ -1,0 +1,32 @@
+import { mkdirSync } from 'node:fs';
+import path from 'node:path';
+
+import Database from 'better-sqlite3';
+import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3';
+import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
+
+import * as schema from './schema';
+
+export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
+
+const migrationsFolder = path.join(__dirname, 'migrations');
+
+/**
+ * Opens the database with the pragmas the notebook relies on: WAL so readers never block the
+ * writer, foreign keys enforced, a generous busy timeout for concurrent writers, and
+ * `synchronous=FULL` so that an entry acknowledged with 201 survives a power cut, not only a
+ * process crash.
+ */
+export function openDatabase(file: string): Db {
+  if (file !== ':memory:') mkdirSync(path.dirname(path.resolve(file)), { recursive: true });
+  const sqlite = new Database(file);
+  sqlite.pragma('journal_mode = WAL');
+  sqlite.pragma('foreign_keys = ON');
+  sqlite.pragma('busy_timeout = 5000');
+  sqlite.pragma('synchronous = FULL');
+  return drizzle(sqlite, { schema });
+}
+
+export function migrateDatabase(db: Db): void {
+  migrate(db, { migrationsFolder });
+}

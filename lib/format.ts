@@ -1,0 +1,64 @@
+/** Display formatting shared by the app, mails and exports. UTC is always shown with its "Z". */
+import { DateTime } from 'luxon';
+
+/** "2026-05-14 21:14:07Z" (seconds always; milliseconds only when asked). */
+export function formatUtc(iso: string, withMs = false): string {
+  const d = new Date(iso);
+  if (Number.isNaN(d.getTime())) return '—';
+  const s = d.toISOString();
+  return `${s.slice(0, 10)} ${s.slice(11, withMs ? 23 : 19)}Z`;
+}
+
+/** "21:14:07Z" */
+export function formatUtcTime(iso: string): string {
+  const d = new Date(iso);
+  return Number.isNaN(d.getTime()) ? '—' : `${d.toISOString().slice(11, 19)}Z`;
+}
+
+/** The same instant in the campaign's display zone, e.g. "22:14:07 WEST". */
+export function formatInZone(iso: string, zone: string): string {
+  const dt = DateTime.fromISO(iso, { zone: 'utc' }).setZone(zone);
+  return dt.isValid ? dt.toFormat('yyyy-LL-dd HH:mm:ss ZZZZ') : '—';
+}
+
+export function formatDepth(depth: number | null | undefined): string {
+  return depth == null ? '—' : `${depth.toFixed(1)} m`;
+}
+
+export function formatTemperature(t: number | null | undefined): string {
+  return t == null ? '—' : `${t.toFixed(2)} °C`;
+}
+
+export function formatLatLon(lat: number | null | undefined, lon: number | null | undefined): string {
+  if (lat == null || lon == null) return '—';
+  const ns = lat >= 0 ? 'N' : 'S';
+  const ew = lon >= 0 ? 'E' : 'W';
+  return `${Math.abs(lat).toFixed(5)}° ${ns}, ${Math.abs(lon).toFixed(5)}° ${ew}`;
+}
+
+/**
+ * Reads what a person types as a UTC time: "2026-05-14 21:14:07", with optional milliseconds,
+ * a "T" instead of the space and an optional trailing "Z". Never read as local time.
+ */
+export function parseUtcInput(text: string): string | null {
+  const m = /^\s*(\d{4})-(\d{2})-(\d{2})[ T](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,3}))?)?\s*Z?\s*$/i.exec(text);
+  if (!m) return null;
+  const [, y, mo, d, h, mi, sec = '0', ms = '0'] = m;
+  const t = Date.UTC(Number(y), Number(mo) - 1, Number(d), Number(h), Number(mi), Number(sec), Number(ms.padEnd(3, '0')));
+  const date = new Date(t);
+  // Date.UTC rolls 2026-02-30 over into March; a typed date that rolls over is a typo.
+  if (
+    date.getUTCDate() !== Number(d) ||
+    date.getUTCHours() !== Number(h) ||
+    date.getUTCMinutes() !== Number(mi) ||
+    date.getUTCSeconds() !== Number(sec)
+  ) {
+    return null;
+  }
+  return date.toISOString();
+}
+
+/** The editable text form of an instant: "2026-05-14 21:14:07". */
+export function toUtcInput(iso: string): string {
+  return new Date(iso).toISOString().slice(0, 19).replace('T', ' ');
+}

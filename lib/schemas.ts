@@ -1,0 +1,184 @@
+/**
+ * The HTTP contract: zod schemas shared by the server (which validates with them) and the app
+ * (which parses every response with them). Times cross the wire as ISO 8601 UTC strings with
+ * milliseconds; inside the server they are `Date` objects.
+ */
+import { z } from 'zod';
+
+export const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
+export type CampaignRole = (typeof campaignRoles)[number];
+
+export const observationKinds = ['biology', 'archaeology', 'environment', 'operations'] as const;
+export type ObservationKind = (typeof observationKinds)[number];
+
+export const valueSources = ['telemetry', 'manual'] as const;
+export type DepthSource = (typeof valueSources)[number];
+
+export const divePhases = ['launch', 'on-bottom', 'off-bottom', 'on-deck'] as const;
+export type DivePhase = (typeof divePhases)[number];
+
+/** An instant as sent over the wire: ISO 8601 with a zone (Z or an offset), never local time. */
+export const instant = z.iso.datetime({ offset: true, message: 'Expected an ISO 8601 time with a zone, e.g. 2026-05-14T21:14:07.250Z' });
+
+const id = z.string().min(1);
+const isoOut = z.string();
+
+/* ---- errors ---- */
+
+export const apiErrorSchema = z.object({
+  error: z.object({
+    code: z.string(),
+    message: z.string(),
+    issues: z.array(z.object({ path: z.string(), message: z.string(), code: z.string().optional() })).optional(),
+  }),
+});
+export type ApiErrorBody = z.infer<typeof apiErrorSchema>;
+
+/* ---- people ---- */
+
+export const membershipSchema = z.object({ campaignId: id, role: z.enum(campaignRoles) });
+
+export const meSchema = z.object({
+  user: z.object({ id, name: z.string(), email: z.string() }),
+  siteRole: z.enum(['admin', 'user']),
+  memberships: z.array(membershipSchema),
+});
+export type Me = z.infer<typeof meSchema>;
+
+export const memberSchema = z.object({
+  userId: id,
+  name: z.string(),
+  email: z.string(),
+  role: z.enum(campaignRoles),
+  joinedAt: isoOut,
+});
+export type Member = z.infer<typeof memberSchema>;
+
+/* ---- campaigns ---- */
+
+export const campaignSchema = z.object({
+  id,
+  name: z.string(),
+  siteName: z.string(),
+  datumLat: z.number(),
+  datumLon: z.number(),
+  permitRef: z.string().nullable(),
+  vessel: z.string().nullable(),
+  vehicle: z.string().nullable(),
+  startDate: z.string().nullable(),
+  endDate: z.string().nullable(),
+  timeZone: z.string(),
+  allowFreeTags: z.boolean(),
+  myRole: z.enum([...campaignRoles, 'admin']),
+  diveCount: z.number().int(),
+  observationCount: z.number().int(),
+  createdAt: isoOut,
+  updatedAt: isoOut,
+});
+export type Campaign = z.infer<typeof campaignSchema>;
+
+export const tagSchema = z.object({ id, name: z.string(), retired: z.boolean(), usage: z.number().int() });
+export type Tag = z.infer<typeof tagSchema>;
+
+/* ---- dives ---- */
+
+export const diveSchema = z.object({
+  id,
+  campaignId: id,
+  number: z.string(),
+  objectives: z.string(),
+  plannedMaxDepth: z.number().nullable(),
+  plannedStartAt: isoOut.nullable(),
+  phases: z.object({
+    launch: isoOut.nullable(),
+    onBottom: isoOut.nullable(),
+    offBottom: isoOut.nullable(),
+    onDeck: isoOut.nullable(),
+  }),
+  observationCount: z.number().int(),
+  version: z.number().int(),
+  createdAt: isoOut,
+  updatedAt: isoOut,
+});
+export type Dive = z.infer<typeof diveSchema>;
+
+/* ---- observations ---- */
+
+const title = z.string().trim().min(1, 'A title is needed').max(200, 'At most 200 characters');
+const note = z.string().max(20_000, 'Notes are limited to 20,000 characters');
+const depth = z.number().finite().min(-10, 'Depth is in metres below the surface').max(11_000, 'Deeper than any ocean');
+const lat = z.number().finite().min(-90).max(90);
+const lon = z.number().finite().min(-180).max(180);
+const temperature = z.number().finite().min(-3, 'Colder than sea water gets').max(400, 'Hotter than any vent');
+const tagName = z
+  .string()
+  .trim()
+  .min(1)
+  .max(40, 'Tags are at most 40 characters')
+  .regex(/^[^,#\r\n]+$/, 'Tags may not contain commas, # or line breaks');
+
+/**
+ * What a client may send to create an observation. Unknown fields are refused, so a body cannot
+ * smuggle in `authorId`, `campaignId` or `version`.
+ */
+export const observationCreateSchema = z
+  .object({
+    observedAt: instant.optional(),
+    kind: z.enum(observationKinds),
+    title,
+    note: note.default(''),
+    depth: depth.nullable().optional(),
+    lat: lat.nullable().optional(),
+    lon: lon.nullable().optional(),
+    temperature: temperature.nullable().optional(),
+    tags: z.array(tagName).max(20, 'At most 20 tags').default([]),
+  })
+  .strict()
+  .refine((o) => (o.lat == null) === (o.lon == null), {
+    message: 'Give both latitude and longitude, or neither',
+    path: ['lon'],
+  });
+export type ObservationCreate = z.input<typeof observationCreateSchema>;
+
+export const observationSchema = z.object({
+  id,
+  diveId: id,
+  campaignId: id,
+  observedAt: isoOut,
+  kind: z.enum(observationKinds),
+  title: z.string(),
+  note: z.string(),
+  depth: z.number().nullable(),
+  depthSource: z.enum(valueSources).nullable(),
+  lat: z.number().nullable(),
+  lon: z.number().nullable(),
+  positionSource: z.enum(valueSources).nullable(),
+  temperature: z.number().nullable(),
+  temperatureSource: z.enum(valueSources).nullable(),
+  tags: z.array(z.string()),
+  authorId: id,
+  authorName: z.string(),
+  version: z.number().int(),
+  retired: z.boolean(),
+  createdAt: isoOut,
+  updatedAt: isoOut,
+});
+export type Observation = z.infer<typeof observationSchema>;
+
+export const observationPageSchema = z.object({
+  items: z.array(observationSchema),
+  nextCursor: z.string().nullable(),
+});
+export type ObservationPage = z.infer<typeof observationPageSchema>;
+
+export const observationListQuerySchema = z
+  .object({
+    cursor: z.string().max(200).optional(),
+    limit: z.coerce.number().int().min(1).max(200).default(50),
+    kind: z.enum(observationKinds).optional(),
+    tag: z.string().max(40).optional(),
+    author: z.string().max(100).optional(),
+  })
+  .strict();
+
+export const healthSchema = z.object({ ok: z.literal(true), version: z.string() });

@@ -1,0 +1,74 @@
+/**
+ * Builds the web export into dist/ when it is missing or older than its sources. A fingerprint
+ * of every input file is kept beside the export, so an unchanged tree starts at once.
+ */
+import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+
+const root = path.resolve(__dirname, '..');
+const outDir = path.join(root, 'dist');
+const stampFile = path.join(outDir, '.bathynote-build');
+const inputs = [
+  'app',
+  'components',
+  'hooks',
+  'lib',
+  'assets',
+  'public',
+  'app.json',
+  'package-lock.json',
+  'tsconfig.json',
+  'babel.config.js',
+  'metro.config.js',
+];
+
+function* files(p: string): Generator<string> {
+  if (!existsSync(p)) return;
+  if (statSync(p).isFile()) {
+    yield p;
+    return;
+  }
+  for (const entry of readdirSync(p).sort()) yield* files(path.join(p, entry));
+}
+
+export function sourceFingerprint(): string {
+  const hash = createHash('sha256');
+  for (const input of inputs) {
+    for (const file of files(path.join(root, input))) {
+      hash.update(path.relative(root, file));
+      hash.update(readFileSync(file));
+    }
+  }
+  return hash.digest('hex');
+}
+
+export function webBuildIsCurrent(): boolean {
+  return (
+    existsSync(path.join(outDir, 'index.html')) && existsSync(stampFile) && readFileSync(stampFile, 'utf8').trim() === sourceFingerprint()
+  );
+}
+
+export function ensureWebBuild(): void {
+  if (webBuildIsCurrent()) return;
+  process.stdout.write('Building the web app (dist/); a cold build takes about two minutes…\n');
+  const started = Date.now();
+  const result = spawnSync('npx', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist'], {
+    cwd: root,
+    stdio: ['ignore', 'inherit', 'inherit'],
+    env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1' },
+  });
+  if (result.status !== 0) throw new Error(`The web build failed (exit code ${result.status ?? result.signal}).`);
+  writeFileSync(stampFile, sourceFingerprint());
+  process.stdout.write(`Web app built in ${Math.round((Date.now() - started) / 1000)} s.\n`);
+}
+
+if (require.main === module) {
+  try {
+    ensureWebBuild();
+  } catch (err) {
+    process.stderr.write(`${(err as Error).message}\n`);
+    process.exit(1);
+  }
+}

@@ -1,0 +1,86 @@
+import express, { type Express } from 'express';
+import rateLimit from 'express-rate-limit';
+import helmet from 'helmet';
+
+import { CLIENT_IP_HEADER } from './auth';
+import type { AppContext } from './context';
+import { authHandler } from './middleware/auth-handler';
+import { apiNotFound, errorHandler } from './middleware/errors';
+import { campaignRoutes } from './routes/campaigns';
+import { diveRoutes } from './routes/dives';
+import { observationRoutes } from './routes/observations';
+import { webExport } from './services/web';
+
+/** Builds the whole HTTP app: API, sign-in and the web export, on one origin. */
+export function createApp(ctx: AppContext): Express {
+  const { env, auth, log } = ctx;
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', trustProxySetting(env.TRUST_PROXY));
+  app.set('query parser', 'simple');
+
+  const web = webExport(env.WEB_DIR);
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'", ...web.scriptHashes],
+          // react-native-web writes its styles into inline style elements at run time.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          fontSrc: ["'self'", 'data:'],
+          connectSrc: ["'self'"],
+          mediaSrc: ["'self'", 'blob:'],
+          objectSrc: ["'none'"],
+          frameSrc: ["'none'"],
+          baseUri: ["'self'"],
+          formAction: ["'self'"],
+          frameAncestors: ["'none'"],
+          workerSrc: ["'self'", 'blob:'],
+          ...(env.PUBLIC_URL.startsWith('https:') ? { upgradeInsecureRequests: [] } : {}),
+        },
+      },
+      crossOriginEmbedderPolicy: false,
+      strictTransportSecurity: env.PUBLIC_URL.startsWith('https:'),
+    }),
+  );
+
+  // better-auth reads the client address from this header only; set it from the socket (or the
+  // configured proxy) so that a forged X-Forwarded-For cannot dodge the sign-in rate limit.
+  app.use('/api/auth', (req, _res, next) => {
+    req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
+    next();
+  });
+  app.all('/api/auth/*splat', authHandler(auth, env.PUBLIC_URL));
+
+  app.use('/api', express.json({ limit: '256kb' }));
+  app.use(
+    '/api',
+    rateLimit({
+      windowMs: 60_000,
+      limit: env.API_RATE_LIMIT,
+      standardHeaders: 'draft-8',
+      legacyHeaders: false,
+      handler: (_req, res) => {
+        res.status(429).json({ error: { code: 'rate_limited', message: 'Too many requests; wait a moment and try again.' } });
+      },
+    }),
+  );
+  app.get('/api/health', (_req, res) => {
+    res.json({ ok: true, version: ctx.version });
+  });
+  app.use('/api', campaignRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx));
+  app.use('/api', apiNotFound);
+
+  app.use(...web.handlers);
+  app.use(errorHandler(log));
+  return app;
+}
+
+function trustProxySetting(value: string | undefined): boolean | number | string {
+  if (value === undefined || value === '' || value === 'false') return false;
+  if (value === 'true') return true;
+  return /^\d+$/.test(value) ? Number(value) : value;
+}

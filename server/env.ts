@@ -1,0 +1,62 @@
+import { randomBytes } from 'node:crypto';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { z } from 'zod';
+
+const flag = z.enum(['0', '1', 'true', 'false']).transform((v) => v === '1' || v === 'true');
+
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(8080),
+  HOST: z.string().min(1).default('127.0.0.1'),
+  DATABASE_PATH: z.string().min(1).default('data/bathynote.db'),
+  UPLOADS_DIR: z.string().min(1).default('uploads/'),
+  SMTP_URL: z.url({ protocol: /^smtps?$/ }).optional(),
+  BATHYNOTE_DEMO: flag.default(false),
+  AUTH_SECRET: z.string().min(32).optional(),
+  /** The origin people open in the browser; defaults to http://HOST:PORT. */
+  PUBLIC_URL: z.url({ protocol: /^https?$/ }).optional(),
+  /** Express "trust proxy" setting: unset trusts no proxy, so X-Forwarded-For is ignored. */
+  TRUST_PROXY: z.string().optional(),
+  /** Folder of the web export served on the same port. */
+  WEB_DIR: z.string().min(1).default('dist'),
+  /** Sign-in attempts allowed per client address per minute. */
+  AUTH_RATE_LIMIT: z.coerce.number().int().min(1).default(20),
+  /** API requests allowed per client address per minute (a whole ship may share one address). */
+  API_RATE_LIMIT: z.coerce.number().int().min(1).default(6000),
+  LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
+});
+
+export type Env = z.infer<typeof envSchema> & {
+  AUTH_SECRET: string;
+  PUBLIC_URL: string;
+  dataDir: string;
+};
+
+/** Reads and validates the environment once; the only place that touches `process.env`. */
+export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Invalid environment:\n${lines.join('\n')}`);
+  }
+  const env = parsed.data;
+  const dataDir = path.dirname(path.resolve(env.DATABASE_PATH));
+  const host = env.HOST === '0.0.0.0' || env.HOST === '::' ? 'localhost' : env.HOST;
+  return {
+    ...env,
+    dataDir,
+    AUTH_SECRET: env.AUTH_SECRET ?? persistentSecret(dataDir),
+    PUBLIC_URL: (env.PUBLIC_URL ?? `http://${host}:${env.PORT}`).replace(/\/$/, ''),
+  };
+}
+
+/** A secret generated on first start and kept beside the database, so sessions survive restarts. */
+function persistentSecret(dataDir: string): string {
+  const file = path.join(dataDir, 'auth-secret');
+  if (existsSync(file)) return readFileSync(file, 'utf8').trim();
+  mkdirSync(dataDir, { recursive: true });
+  const secret = randomBytes(32).toString('base64url');
+  writeFileSync(file, secret, { mode: 0o600 });
+  return secret;
+}

@@ -1,0 +1,90 @@
+import type { Request as ExpressRequest, RequestHandler, Response as ExpressResponse } from 'express';
+import { z } from 'zod';
+
+import type { Auth } from '../auth';
+import { ApiError } from '../errors';
+import { zodIssues } from './errors';
+
+const MAX_AUTH_BODY = 64 * 1024;
+
+/** Sign-in bodies are checked before they reach better-auth, so bad input gets field issues. */
+const signInSchema = z.object({
+  email: z.email('Enter an e-mail address').max(254),
+  password: z.string().min(8, 'Passwords have 8 to 128 characters').max(128, 'Passwords have 8 to 128 characters'),
+  rememberMe: z.boolean().optional(),
+  callbackURL: z.string().max(2048).optional(),
+});
+
+const preChecks: Record<string, z.ZodType> = {
+  '/api/auth/sign-in/email': signInSchema,
+};
+
+/**
+ * Runs better-auth's fetch handler behind Express, with a body limit of our own, and rewrites
+ * its error bodies (`{code, message}`) into the contract's `{error: {code, message}}` shape.
+ */
+export function authHandler(auth: Auth, publicUrl: string): RequestHandler {
+  return async (req, res) => {
+    const body = req.method === 'GET' || req.method === 'HEAD' ? undefined : await readBody(req);
+    const pathname = req.originalUrl.split('?')[0] ?? '';
+    const check = preChecks[pathname];
+    if (check && req.method === 'POST') {
+      const parsed = check.safeParse(body ? safeJson(body.toString('utf8')) : undefined);
+      if (!parsed.success) {
+        throw new ApiError(400, 'validation_failed', 'Some fields are not valid.', zodIssues(parsed.error));
+      }
+    }
+    const headers = new Headers();
+    for (const [k, v] of Object.entries(req.headers)) {
+      if (Array.isArray(v)) for (const item of v) headers.append(k, item);
+      else if (v !== undefined) headers.set(k, v);
+    }
+    const url = new URL(req.originalUrl, publicUrl);
+    const response = await auth.handler(
+      new Request(url, { method: req.method, headers, body: body && body.length > 0 ? new Uint8Array(body) : undefined }),
+    );
+    await send(res, response);
+  };
+}
+
+async function readBody(req: ExpressRequest): Promise<Buffer> {
+  const chunks: Buffer[] = [];
+  let size = 0;
+  for await (const chunk of req) {
+    size += (chunk as Buffer).length;
+    if (size > MAX_AUTH_BODY) throw new ApiError(413, 'too_large', 'The request body is too large.');
+    chunks.push(chunk as Buffer);
+  }
+  return Buffer.concat(chunks);
+}
+
+async function send(res: ExpressResponse, response: Response) {
+  res.status(response.status);
+  response.headers.forEach((value, key) => {
+    if (key !== 'set-cookie' && key !== 'content-length') res.setHeader(key, value);
+  });
+  const cookies = response.headers.getSetCookie();
+  if (cookies.length > 0) res.setHeader('set-cookie', cookies);
+  const text = await response.text();
+  if (response.status >= 400 && (response.headers.get('content-type') ?? '').includes('json')) {
+    const json = safeJson(text) as { code?: string; message?: string; error?: unknown } | undefined;
+    if (json && typeof json === 'object' && !('error' in json && typeof json.error === 'object')) {
+      res.json({
+        error: {
+          code: (json.code ?? 'auth_error').toLowerCase(),
+          message: json.message ?? 'Sign-in failed.',
+        },
+      });
+      return;
+    }
+  }
+  res.send(text);
+}
+
+function safeJson(text: string): unknown {
+  try {
+    return JSON.parse(text);
+  } catch {
+    return undefined;
+  }
+}

@@ -1,0 +1,87 @@
+import { and, eq } from 'drizzle-orm';
+import type { Request, RequestHandler } from 'express';
+
+import type { Db } from '../../db/client';
+import { campaigns, dives, memberships, observations } from '../../db/schema';
+import type { CampaignRole } from '../../lib/schemas';
+import { forbidden, notFound } from '../errors';
+import { userOf } from './session';
+
+export type AccessRole = CampaignRole | 'admin';
+export type CampaignAccess = { campaignId: string; role: AccessRole; userId: string };
+
+declare module 'express-serve-static-core' {
+  interface Request {
+    access?: CampaignAccess;
+  }
+}
+
+/** How a route's path leads to its campaign. */
+export type CampaignResolver = (db: Db, req: Request) => string | undefined;
+
+const param = (req: Request, name: string): string | undefined => {
+  const v = req.params[name];
+  return typeof v === 'string' ? v : undefined;
+};
+
+export const byCampaign: CampaignResolver = (db, req) => {
+  const id = param(req, 'campaignId');
+  return id ? db.select({ id: campaigns.id }).from(campaigns).where(eq(campaigns.id, id)).get()?.id : undefined;
+};
+
+export const byDive: CampaignResolver = (db, req) => {
+  const id = param(req, 'diveId');
+  return id ? db.select({ c: dives.campaignId }).from(dives).where(eq(dives.id, id)).get()?.c : undefined;
+};
+
+export const byObservation: CampaignResolver = (db, req) => {
+  const id = param(req, 'id');
+  return id ? db.select({ c: observations.campaignId }).from(observations).where(eq(observations.id, id)).get()?.c : undefined;
+};
+
+export function roleIn(db: Db, campaignId: string, user: { id: string; siteRole: string }): AccessRole | undefined {
+  const row = db
+    .select({ role: memberships.role })
+    .from(memberships)
+    .where(and(eq(memberships.campaignId, campaignId), eq(memberships.userId, user.id)))
+    .get();
+  if (row) return row.role;
+  return user.siteRole === 'admin' ? 'admin' : undefined;
+}
+
+const roleNames: Record<AccessRole, string> = {
+  lead: 'a lead',
+  scientist: 'a scientist',
+  pilot: 'a pilot',
+  guest: 'a guest',
+  admin: 'the site administrator',
+};
+
+/**
+ * Resolves the campaign a request touches and the caller's role in it. A caller who is not a
+ * member gets the same 404 as for something that does not exist, so a campaign never reveals
+ * itself to outsiders. With `allowed`, other members get a 403 that names their role.
+ */
+export function requireCampaignRole(
+  db: Db,
+  resolve: CampaignResolver,
+  allowed?: readonly AccessRole[],
+  action = 'do this',
+): RequestHandler {
+  return (req, _res, next) => {
+    const user = userOf(req);
+    const campaignId = resolve(db, req);
+    const role = campaignId ? roleIn(db, campaignId, user) : undefined;
+    if (!campaignId || !role) throw notFound();
+    if (allowed && !allowed.includes(role)) {
+      throw forbidden(`As ${roleNames[role]} of this campaign you may not ${action}.`);
+    }
+    req.access = { campaignId, role, userId: user.id };
+    next();
+  };
+}
+
+export function accessOf(req: Request): CampaignAccess {
+  if (!req.access) throw notFound();
+  return req.access;
+}

@@ -1,0 +1,72 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+
+const root = path.resolve(__dirname, '..', '..');
+
+export type ServerProcess = { url: string; dir: string; child: ChildProcess; output: () => string; stop: () => Promise<void> };
+
+export async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = createServer();
+    s.once('error', reject);
+    s.listen(0, '127.0.0.1', () => {
+      const address = s.address();
+      const port = typeof address === 'object' && address ? address.port : 0;
+      s.close(() => resolve(port));
+    });
+  });
+}
+
+/** The real server as a user starts it (`server/index.ts`), on a free port with a fresh database. */
+export async function startServerProcess(env: Record<string, string> = {}): Promise<ServerProcess> {
+  const dir = mkdtempSync(path.join(tmpdir(), 'bathynote-e2e-'));
+  const port = await freePort();
+  const url = `http://127.0.0.1:${port}`;
+  let log = '';
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    cwd: root,
+    env: {
+      ...process.env,
+      NODE_ENV: 'production',
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      DATABASE_PATH: path.join(dir, 'bathynote.db'),
+      UPLOADS_DIR: path.join(dir, 'uploads'),
+      BATHYNOTE_DEMO: '1',
+      LOG_LEVEL: 'error',
+      ...env,
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  child.stdout?.on('data', (d: Buffer) => (log += d.toString()));
+  child.stderr?.on('data', (d: Buffer) => (log += d.toString()));
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    if (child.exitCode !== null) throw new Error(`server exited early:\n${log}`);
+    try {
+      const res = await fetch(`${url}/api/health`);
+      if (res.ok) break;
+    } catch {
+      // Not listening yet.
+    }
+    if (Date.now() > deadline) throw new Error(`server did not start in 60 s:\n${log}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  return {
+    url,
+    dir,
+    child,
+    output: () => log,
+    stop: async () => {
+      if (child.exitCode === null) {
+        const exited = new Promise((r) => child.once('exit', r));
+        child.kill('SIGTERM');
+        await exited;
+      }
+      rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}

@@ -1,0 +1,43 @@
+import { describe, expect, it } from 'vitest';
+
+import { formatInZone, formatLatLon, formatUtc, formatUtcTime, parseUtcInput, toUtcInput } from '@/lib/format';
+
+// The suite runs under TZ=Pacific/Chatham (UTC+12:45 / +13:45): any local-time reading shows.
+describe('typed UTC times', () => {
+  it('reads what a person types as UTC, never as local time', () => {
+    expect(parseUtcInput('2026-05-14 21:14:07')).toBe('2026-05-14T21:14:07.000Z');
+    expect(parseUtcInput('2026-05-14T21:14:07.25Z')).toBe('2026-05-14T21:14:07.250Z');
+    expect(parseUtcInput(' 2026-05-14 21:14 ')).toBe('2026-05-14T21:14:00.000Z');
+  });
+
+  it.each(['2026-02-30 10:00:00', '2026-05-14 24:00:00', '2026-05-14 21:60:00', '2026-05-14 21:14:61', '14/05/2026 21:14', '', 'now'])(
+    'refuses %j',
+    (text) => {
+      expect(parseUtcInput(text)).toBeNull();
+    },
+  );
+
+  it('round-trips through the editable form', () => {
+    const iso = '2026-05-14T21:14:07.000Z';
+    expect(parseUtcInput(toUtcInput(iso))).toBe(iso);
+  });
+});
+
+describe('display', () => {
+  it('shows UTC with its Z', () => {
+    expect(formatUtc('2026-05-14T21:14:07.250Z')).toBe('2026-05-14 21:14:07Z');
+    expect(formatUtc('2026-05-14T21:14:07.250Z', true)).toBe('2026-05-14 21:14:07.250Z');
+    expect(formatUtcTime('2026-05-14T21:14:07.250Z')).toBe('21:14:07Z');
+    expect(formatUtc('garbage')).toBe('—');
+  });
+
+  it('shows the same instant in a display zone (Lisbon is UTC+1 in May: common practice, EU summer time)', () => {
+    expect(formatInZone('2026-05-14T21:14:07.000Z', 'Europe/Lisbon')).toMatch(/^2026-05-14 22:14:07 /);
+    expect(formatInZone('2026-01-14T21:14:07.000Z', 'Europe/Lisbon')).toMatch(/^2026-01-14 21:14:07 /);
+  });
+
+  it('writes hemispheres instead of signs', () => {
+    expect(formatLatLon(36.145, -7.432)).toBe('36.14500° N, 7.43200° W');
+    expect(formatLatLon(null, 1)).toBe('—');
+  });
+});
