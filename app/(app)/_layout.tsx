@@ -1,0 +1,13 @@
+import { Stack } from 'expo-router';
+
+import { AppShell } from '@/components/layout/app-shell';
+import { useTheme } from '@/hooks/theme';
+
+export default function AppLayout() {
+  const { colors } = useTheme();
+  return (
+    <AppShell>
+      <Stack screenOptions={{ headerShown: false, animation: 'none', contentStyle: { backgroundColor: colors.bg } }} />
+    </AppShell>
+  );
+}

@@ -1,0 +1,22 @@
+import { useLocalSearchParams } from 'expo-router';
+
+import { CampaignSummary } from '@/components/campaigns/campaign-summary';
+import { DiveList } from '@/components/dives/dive-list';
+import { Screen, ScreenBody, ScreenHeader } from '@/components/ui/screen';
+import { ErrorState } from '@/components/ui/states';
+import { useCampaign } from '@/hooks/campaigns';
+
+export default function CampaignScreen() {
+  const { campaignId } = useLocalSearchParams<{ campaignId: string }>();
+  const campaign = useCampaign(campaignId);
+  return (
+    <Screen>
+      <ScreenHeader title={campaign.data?.name ?? 'Campaign'} subtitle={campaign.data?.siteName} back="/" />
+      <ScreenBody>
+        {campaign.isError ? <ErrorState error={campaign.error} onRetry={() => void campaign.refetch()} /> : null}
+        {campaign.data ? <CampaignSummary campaign={campaign.data} /> : null}
+        {campaign.isError ? null : <DiveList campaignId={campaignId} />}
+      </ScreenBody>
+    </Screen>
+  );
+}

@@ -1,0 +1,5 @@
+import { SignInForm } from '@/components/auth/sign-in-form';
+
+export default function SignInScreen() {
+  return <SignInForm />;
+}

@@ -1,0 +1,72 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { useFonts } from 'expo-font';
+import { Stack } from 'expo-router';
+import { StatusBar } from 'expo-status-bar';
+import { useState } from 'react';
+import { SafeAreaProvider } from 'react-native-safe-area-context';
+
+import PublicSans_400Regular from '@/assets/fonts/PublicSans_400Regular.ttf';
+import PublicSans_500Medium from '@/assets/fonts/PublicSans_500Medium.ttf';
+import PublicSans_600SemiBold from '@/assets/fonts/PublicSans_600SemiBold.ttf';
+import PublicSans_700Bold from '@/assets/fonts/PublicSans_700Bold.ttf';
+import SpaceMono_400Regular from '@/assets/fonts/SpaceMono_400Regular.ttf';
+import SpaceMono_700Bold from '@/assets/fonts/SpaceMono_700Bold.ttf';
+import { LoadingState } from '@/components/ui/states';
+import { ApiError } from '@/hooks/api';
+import { useMe } from '@/hooks/session';
+import { ThemeProvider, useTheme } from '@/hooks/theme';
+
+function makeQueryClient() {
+  return new QueryClient({
+    defaultOptions: {
+      queries: {
+        staleTime: 15_000,
+        // A 4xx will not get better by asking again; a dropped satellite link might.
+        retry: (count, err) => !(err instanceof ApiError && err.status >= 400 && err.status < 500) && count < 3,
+      },
+    },
+  });
+}
+
+function Gate() {
+  const me = useMe();
+  const { scheme, colors } = useTheme();
+  if (me.isPending) return <LoadingState label="Opening Bathynote…" />;
+  const signedIn = !!me.data;
+  return (
+    <>
+      <StatusBar style={scheme === 'dark' ? 'light' : 'dark'} />
+      <Stack screenOptions={{ headerShown: false, contentStyle: { backgroundColor: colors.bg } }}>
+        <Stack.Protected guard={signedIn}>
+          <Stack.Screen name="(app)" />
+        </Stack.Protected>
+        <Stack.Protected guard={!signedIn}>
+          <Stack.Screen name="(auth)" />
+        </Stack.Protected>
+        <Stack.Screen name="+not-found" />
+      </Stack>
+    </>
+  );
+}
+
+export default function RootLayout() {
+  const [queryClient] = useState(makeQueryClient);
+  const [fontsLoaded, fontError] = useFonts({
+    PublicSans_400Regular,
+    PublicSans_500Medium,
+    PublicSans_600SemiBold,
+    PublicSans_700Bold,
+    SpaceMono_400Regular,
+    SpaceMono_700Bold,
+  });
+  if (!fontsLoaded && !fontError) return null;
+  return (
+    <SafeAreaProvider>
+      <QueryClientProvider client={queryClient}>
+        <ThemeProvider>
+          <Gate />
+        </ThemeProvider>
+      </QueryClientProvider>
+    </SafeAreaProvider>
+  );
+}

@@ -1,0 +1,54 @@
+import { StyleSheet, View } from 'react-native';
+
+import { Card } from '@/components/ui/card';
+import { Text } from '@/components/ui/text';
+import { useTheme } from '@/hooks/theme';
+import { formatDepth, formatUtcTime } from '@/lib/format';
+import type { Observation } from '@/lib/schemas';
+import { space } from '@/lib/tokens';
+import { KindBadge } from './kind-badge';
+
+type Props = { observation: Observation; onPress: () => void; selected?: boolean };
+
+export function ObservationCard({ observation: o, onPress, selected }: Props) {
+  const { colors } = useTheme();
+  return (
+    <Card
+      testID={`observation-${o.id}`}
+      onPress={onPress}
+      selected={selected}
+      accent={colors.kind[o.kind]}
+      label={`${formatUtcTime(o.observedAt)} ${o.title}`}
+    >
+      <View style={styles.top}>
+        <Text variant="mono" testID="observation-time">
+          {formatUtcTime(o.observedAt)}
+        </Text>
+        <KindBadge kind={o.kind} />
+        <View style={styles.flex} />
+        <Text variant="monoSmall" muted>
+          {formatDepth(o.depth)}
+        </Text>
+      </View>
+      <Text variant="title" numberOfLines={2} testID="observation-title">
+        {o.title}
+      </Text>
+      <View style={styles.meta}>
+        <Text variant="caption" muted>
+          {o.authorName}
+        </Text>
+        {o.tags.map((t) => (
+          <Text key={t} variant="caption" color={colors.accent}>
+            #{t}
+          </Text>
+        ))}
+      </View>
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  top: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+  flex: { flex: 1 },
+  meta: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+});

@@ -1,0 +1,44 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { z } from 'zod';
+
+import { campaignSchema, diveSchema, memberSchema, tagSchema } from '@/lib/schemas';
+import { request } from './api';
+
+export const campaignKeys = {
+  root: ['campaigns'] as const,
+  list: () => [...campaignKeys.root, 'list'] as const,
+  detail: (id: string) => [...campaignKeys.root, 'detail', id] as const,
+  dives: (id: string) => [...campaignKeys.root, 'detail', id, 'dives'] as const,
+  tags: (id: string) => [...campaignKeys.root, 'detail', id, 'tags'] as const,
+  members: (id: string) => [...campaignKeys.root, 'detail', id, 'members'] as const,
+};
+
+export const campaignsQuery = () =>
+  queryOptions({ queryKey: campaignKeys.list(), queryFn: () => request('/api/campaigns', z.array(campaignSchema)) });
+
+export const campaignQuery = (id: string) =>
+  queryOptions({ queryKey: campaignKeys.detail(id), queryFn: () => request(`/api/campaigns/${encodeURIComponent(id)}`, campaignSchema) });
+
+export const campaignDivesQuery = (id: string) =>
+  queryOptions({
+    queryKey: campaignKeys.dives(id),
+    queryFn: () => request(`/api/campaigns/${encodeURIComponent(id)}/dives`, z.array(diveSchema)),
+  });
+
+export const campaignTagsQuery = (id: string) =>
+  queryOptions({
+    queryKey: campaignKeys.tags(id),
+    queryFn: () => request(`/api/campaigns/${encodeURIComponent(id)}/tags`, z.array(tagSchema)),
+    staleTime: 5 * 60_000,
+  });
+
+export const campaignMembersQuery = (id: string) =>
+  queryOptions({
+    queryKey: campaignKeys.members(id),
+    queryFn: () => request(`/api/campaigns/${encodeURIComponent(id)}/members`, z.array(memberSchema)),
+  });
+
+export const useCampaigns = () => useQuery(campaignsQuery());
+export const useCampaign = (id: string | undefined) => useQuery({ ...campaignQuery(id ?? ''), enabled: !!id });
+export const useCampaignDives = (id: string | undefined) => useQuery({ ...campaignDivesQuery(id ?? ''), enabled: !!id });
+export const useCampaignTags = (id: string | undefined) => useQuery({ ...campaignTagsQuery(id ?? ''), enabled: !!id });

@@ -1,0 +1,50 @@
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+
+import { meSchema, type Me } from '@/lib/schemas';
+import { ApiError, request } from './api';
+
+export const sessionKeys = { root: ['session'] as const, me: () => [...sessionKeys.root, 'me'] as const };
+
+/** The signed-in person, or null when nobody is signed in (a 401 is an answer, not an error). */
+export const meQuery = queryOptions({
+  queryKey: sessionKeys.me(),
+  queryFn: async (): Promise<Me | null> => {
+    try {
+      return await request('/api/me', meSchema);
+    } catch (err) {
+      if (err instanceof ApiError && err.status === 401) return null;
+      throw err;
+    }
+  },
+  staleTime: 60_000,
+});
+
+export function useMe() {
+  return useQuery(meQuery);
+}
+
+const signInResponse = z.object({ user: z.object({ id: z.string() }) }).loose();
+
+export function useSignIn() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { email: string; password: string }) =>
+      request('/api/auth/sign-in/email', signInResponse, { body: { ...input, rememberMe: true } }),
+    onSuccess: async () => {
+      qc.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.root[0] });
+      await qc.invalidateQueries({ queryKey: sessionKeys.root });
+    },
+  });
+}
+
+export function useSignOut() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () => request('/api/auth/sign-out', z.unknown(), { body: {} }),
+    onSettled: () => {
+      qc.clear();
+      qc.setQueryData(sessionKeys.me(), null);
+    },
+  });
+}

@@ -1,0 +1,20 @@
+/**
+ * `npm run bench`: the speed and memory figures. Each benchmark prints its numbers; none of
+ * them asserts a time (machines differ), the targets are printed beside the figures.
+ */
+import { benchLogWrites } from './log-writes';
+
+async function main() {
+  const only = process.argv[2];
+  const benches: [string, () => Promise<void>][] = [['log-writes', benchLogWrites]];
+  for (const [name, run] of benches) {
+    if (only && only !== name) continue;
+    process.stdout.write(`\n== ${name} ==\n`);
+    await run();
+  }
+}
+
+main().catch((err: unknown) => {
+  process.stderr.write(`${(err as Error).stack ?? String(err)}\n`);
+  process.exit(1);
+});
