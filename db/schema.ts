@@ -100,6 +100,8 @@ export const campaigns = sqliteTable('campaigns', {
   endDate: text('end_date'),
   timeZone: text('time_zone').notNull().default('UTC'),
   allowFreeTags: integer('allow_free_tags', { mode: 'boolean' }).notNull().default(true),
+  /** Whether photo GPS metadata is kept (off by default: positions of heritage sites are sensitive). */
+  keepPhotoPositions: integer('keep_photo_positions', { mode: 'boolean' }).notNull().default(false),
   createdAt: createdAt(),
   updatedAt: updatedAt(),
 });
@@ -134,6 +136,11 @@ export const dives = sqliteTable(
     onBottomAt: integer('on_bottom_at', { mode: 'timestamp_ms' }),
     offBottomAt: integer('off_bottom_at', { mode: 'timestamp_ms' }),
     onDeckAt: integer('on_deck_at', { mode: 'timestamp_ms' }),
+    /** When the video recording started, and its frame rate name (lib/timecode FRAME_RATES). */
+    recordingStartAt: integer('recording_start_at', { mode: 'timestamp_ms' }),
+    frameRate: text('frame_rate'),
+    /** Telemetry samples further apart than this leave "no telemetry" between them. */
+    telemetryGapS: real('telemetry_gap_s').notNull().default(30),
     version: integer('version').notNull().default(1),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
@@ -202,4 +209,293 @@ export const observationTags = sqliteTable(
       .references(() => tags.id, { onDelete: 'restrict' }),
   },
   (t) => [primaryKey({ columns: [t.observationId, t.tagId] }), index('observation_tag_tag_idx').on(t.tagId)],
+);
+
+/* ---- the observation's history and its specialist parts ---- */
+
+/** Every earlier state of an observation, with who made the change and when. */
+export const observationRevisions = sqliteTable(
+  'observation_revisions',
+  {
+    id: id(),
+    observationId: text('observation_id')
+      .notNull()
+      .references(() => observations.id, { onDelete: 'cascade' }),
+    version: integer('version').notNull(),
+    action: text('action').$type<'created' | 'updated' | 'retired' | 'restored'>().notNull(),
+    /** The whole observation as it was after this change, as contract JSON. */
+    snapshot: text('snapshot', { mode: 'json' }).notNull(),
+    editedBy: text('edited_by')
+      .notNull()
+      .references(() => user.id, { onDelete: 'restrict' }),
+    editedAt: integer('edited_at', { mode: 'timestamp_ms' }).notNull(),
+  },
+  (t) => [uniqueIndex('revision_version_unique').on(t.observationId, t.version, t.action)],
+);
+
+/** A biology entry's identification (Darwin Core: scientificName, taxonRank, identificationQualifier). */
+export const identifications = sqliteTable('identifications', {
+  observationId: text('observation_id')
+    .primaryKey()
+    .references(() => observations.id, { onDelete: 'cascade' }),
+  scientificName: text('scientific_name').notNull(),
+  taxonRank: text('taxon_rank'),
+  qualifier: text('qualifier'),
+  confidence: text('confidence'),
+  taxonId: text('taxon_id'),
+  verificationStatus: text('verification_status').$type<'unverified' | 'verified' | 'disputed'>().notNull().default('unverified'),
+  verifiedBy: text('verified_by').references(() => user.id, { onDelete: 'restrict' }),
+  verifiedAt: integer('verified_at', { mode: 'timestamp_ms' }),
+  verificationNote: text('verification_note'),
+  identifiedBy: text('identified_by')
+    .notNull()
+    .references(() => user.id, { onDelete: 'restrict' }),
+  updatedAt: updatedAt(),
+});
+
+/** An archaeology entry's find, numbered uniquely within its campaign. */
+export const finds = sqliteTable(
+  'finds',
+  {
+    observationId: text('observation_id')
+      .primaryKey()
+      .references(() => observations.id, { onDelete: 'cascade' }),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    findNumber: text('find_number').notNull(),
+    objectType: text('object_type'),
+    material: text('material'),
+    condition: text('condition'),
+    state: text('state').$type<'in-situ' | 'recovered'>().notNull().default('in-situ'),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex('find_number_unique').on(t.campaignId, sql`lower(${t.findNumber})`)],
+);
+
+/** Who held a recovered find or a sample, since when, and where it was kept. */
+export const custodyEvents = sqliteTable(
+  'custody_events',
+  {
+    id: id(),
+    observationId: text('observation_id')
+      .notNull()
+      .references(() => observations.id, { onDelete: 'cascade' }),
+    holder: text('holder').notNull(),
+    since: integer('since', { mode: 'timestamp_ms' }).notNull(),
+    location: text('location').notNull(),
+    container: text('container'),
+    note: text('note'),
+    recordedBy: text('recorded_by')
+      .notNull()
+      .references(() => user.id, { onDelete: 'restrict' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('custody_observation_idx').on(t.observationId, t.since)],
+);
+
+/** One-tap presets that log an entry now with a kind and tags. */
+export const quickMarks = sqliteTable(
+  'quick_marks',
+  {
+    id: id(),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    label: text('label').notNull(),
+    kind: text('kind').$type<ObservationKind>().notNull(),
+    tags: text('tags', { mode: 'json' }).$type<string[]>().notNull().default([]),
+    position: integer('position').notNull().default(0),
+    retired: integer('retired', { mode: 'boolean' }).notNull().default(false),
+    createdAt: createdAt(),
+  },
+  (t) => [index('quick_mark_campaign_idx').on(t.campaignId, t.position)],
+);
+
+/* ---- photos ---- */
+
+export const photos = sqliteTable(
+  'photos',
+  {
+    id: id(),
+    observationId: text('observation_id')
+      .notNull()
+      .references(() => observations.id, { onDelete: 'restrict' }),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'restrict' }),
+    /** SHA-256 of the file as uploaded, to spot the same frame grab sent twice. */
+    sha256: text('sha256').notNull(),
+    mime: text('mime').notNull(),
+    width: integer('width').notNull(),
+    height: integer('height').notNull(),
+    bytes: integer('bytes').notNull(),
+    /** Storage keys (generated names), never the uploaded file name. */
+    originalKey: text('original_key').notNull(),
+    displayKey: text('display_key').notNull(),
+    thumbKey: text('thumb_key').notNull(),
+    originalName: text('original_name'),
+    caption: text('caption'),
+    credit: text('credit'),
+    capturedAt: integer('captured_at', { mode: 'timestamp_ms' }),
+    lat: real('lat'),
+    lon: real('lon'),
+    position: integer('position').notNull().default(0),
+    uploadedBy: text('uploaded_by')
+      .notNull()
+      .references(() => user.id, { onDelete: 'restrict' }),
+    retired: integer('retired', { mode: 'boolean' }).notNull().default(false),
+    createdAt: createdAt(),
+  },
+  (t) => [index('photo_observation_idx').on(t.observationId, t.position), index('photo_campaign_sha_idx').on(t.campaignId, t.sha256)],
+);
+
+/* ---- telemetry ---- */
+
+/** The vehicle's log, one row per sample; depth is stored in metres whatever the log gave. */
+export const telemetrySamples = sqliteTable(
+  'telemetry_samples',
+  {
+    diveId: text('dive_id')
+      .notNull()
+      .references(() => dives.id, { onDelete: 'cascade' }),
+    t: integer('t').notNull(),
+    depth: real('depth'),
+    pressure: real('pressure'),
+    lat: real('lat'),
+    lon: real('lon'),
+    heading: real('heading'),
+    altitude: real('altitude'),
+    temperature: real('temperature'),
+    salinity: real('salinity'),
+  },
+  (t) => [primaryKey({ columns: [t.diveId, t.t] })],
+);
+
+export const telemetryImports = sqliteTable(
+  'telemetry_imports',
+  {
+    id: id(),
+    diveId: text('dive_id')
+      .notNull()
+      .references(() => dives.id, { onDelete: 'cascade' }),
+    fileName: text('file_name'),
+    mode: text('mode').$type<'replace' | 'append'>().notNull(),
+    rowsTaken: integer('rows_taken').notNull(),
+    rowsRejected: integer('rows_rejected').notNull(),
+    firstAt: integer('first_at', { mode: 'timestamp_ms' }),
+    lastAt: integer('last_at', { mode: 'timestamp_ms' }),
+    /** The import report (columns recognised, rejected lines with reasons) as contract JSON. */
+    report: text('report', { mode: 'json' }).notNull(),
+    importedBy: text('imported_by')
+      .notNull()
+      .references(() => user.id, { onDelete: 'restrict' }),
+    importedAt: integer('imported_at', { mode: 'timestamp_ms' }).notNull(),
+  },
+  (t) => [index('telemetry_import_dive_idx').on(t.diveId, t.importedAt)],
+);
+
+/* ---- the team ---- */
+
+export const invitations = sqliteTable(
+  'invitations',
+  {
+    id: id(),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    email: text('email').notNull(),
+    role: text('role').$type<CampaignRole>().notNull(),
+    status: text('status').$type<'pending' | 'accepted' | 'expired' | 'revoked'>().notNull().default('pending'),
+    invitedBy: text('invited_by')
+      .notNull()
+      .references(() => user.id, { onDelete: 'restrict' }),
+    createdAt: createdAt(),
+    expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+    sentAt: integer('sent_at', { mode: 'timestamp_ms' }),
+    acceptedAt: integer('accepted_at', { mode: 'timestamp_ms' }),
+    acceptedBy: text('accepted_by').references(() => user.id, { onDelete: 'set null' }),
+  },
+  (t) => [index('invitation_campaign_idx').on(t.campaignId), index('invitation_email_idx').on(t.email)],
+);
+
+/** Mail caught by the built-in mail catcher when no SMTP_URL is set. */
+export const caughtMail = sqliteTable('caught_mail', {
+  id: id(),
+  to: text('to').notNull(),
+  from: text('from').notNull(),
+  subject: text('subject').notNull(),
+  text: text('text').notNull(),
+  html: text('html').notNull(),
+  headers: text('headers', { mode: 'json' }).$type<Record<string, string>>().notNull(),
+  receivedAt: integer('received_at', { mode: 'timestamp_ms' }).notNull(),
+});
+
+/* ---- digests ---- */
+
+export const subscriptions = sqliteTable(
+  'subscriptions',
+  {
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => user.id, { onDelete: 'cascade' }),
+    frequency: text('frequency').$type<'off' | 'daily' | 'after-each-dive'>().notNull().default('off'),
+    /** Which entries matter to this subscriber: kinds, tags, verified only. */
+    filters: text('filters', { mode: 'json' }).$type<Record<string, unknown>>().notNull().default({}),
+    lastDigestAt: integer('last_digest_at', { mode: 'timestamp_ms' }),
+    updatedAt: updatedAt(),
+  },
+  (t) => [primaryKey({ columns: [t.campaignId, t.userId] })],
+);
+
+export const digests = sqliteTable(
+  'digests',
+  {
+    id: id(),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => user.id, { onDelete: 'cascade' }),
+    subject: text('subject').notNull(),
+    observationCount: integer('observation_count').notNull(),
+    since: integer('since', { mode: 'timestamp_ms' }),
+    sentAt: integer('sent_at', { mode: 'timestamp_ms' }).notNull(),
+    sentBy: text('sent_by').references(() => user.id, { onDelete: 'set null' }),
+  },
+  (t) => [index('digest_campaign_idx').on(t.campaignId, t.sentAt)],
+);
+
+/* ---- live events and the audit trail ---- */
+
+/** Every change a dive's live readers are told about, kept so a reconnect can replay what it missed. */
+export const liveEvents = sqliteTable(
+  'live_events',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    campaignId: text('campaign_id').notNull(),
+    diveId: text('dive_id').notNull(),
+    type: text('type').notNull(),
+    payload: text('payload', { mode: 'json' }).notNull(),
+    at: integer('at', { mode: 'timestamp_ms' }).notNull(),
+  },
+  (t) => [index('live_event_dive_idx').on(t.diveId, t.id)],
+);
+
+export const auditLog = sqliteTable(
+  'audit_log',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    campaignId: text('campaign_id'),
+    actorId: text('actor_id'),
+    action: text('action').notNull(),
+    target: text('target'),
+    detail: text('detail', { mode: 'json' }),
+    at: integer('at', { mode: 'timestamp_ms' }).notNull(),
+  },
+  (t) => [index('audit_campaign_idx').on(t.campaignId, t.at)],
 );

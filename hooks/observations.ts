@@ -1,6 +1,6 @@
 import { infiniteQueryOptions, queryOptions, useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 
-import { observationPageSchema, observationSchema, type ObservationCreate } from '@/lib/schemas';
+import { observationDetailSchema, observationPageSchema, observationSchema, type ObservationCreate } from '@/lib/schemas';
 import { request } from './api';
 import { campaignKeys } from './campaigns';
 import { diveKeys } from './dives';
@@ -27,7 +27,7 @@ export const diveLogQuery = (diveId: string) =>
 export const observationQuery = (id: string) =>
   queryOptions({
     queryKey: observationKeys.detail(id),
-    queryFn: () => request(`/api/observations/${encodeURIComponent(id)}`, observationSchema),
+    queryFn: () => request(`/api/observations/${encodeURIComponent(id)}`, observationDetailSchema),
   });
 
 export const useDiveLog = (diveId: string | undefined) => useInfiniteQuery({ ...diveLogQuery(diveId ?? ''), enabled: !!diveId });
@@ -39,7 +39,6 @@ export function useCreateObservation(diveId: string) {
     mutationFn: (input: ObservationCreate) =>
       request(`/api/dives/${encodeURIComponent(diveId)}/observations`, observationSchema, { body: input }),
     onSuccess: async (created) => {
-      qc.setQueryData(observationKeys.detail(created.id), created);
       await Promise.all([
         qc.invalidateQueries({ queryKey: observationKeys.diveLog(diveId) }),
         qc.invalidateQueries({ queryKey: diveKeys.detail(diveId) }),

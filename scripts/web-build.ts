@@ -8,7 +8,8 @@ import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from '
 import path from 'node:path';
 
 const root = path.resolve(__dirname, '..');
-const outDir = path.join(root, 'dist');
+// WEB_DIR lets two checkouts or two test runs build side by side; the server reads the same variable.
+const outDir = path.resolve(root, process.env.WEB_DIR ?? 'dist');
 const stampFile = path.join(outDir, '.bathynote-build');
 const inputs = [
   'app',
@@ -54,7 +55,7 @@ export function ensureWebBuild(): void {
   if (webBuildIsCurrent()) return;
   process.stdout.write('Building the web app (dist/); a cold build takes about two minutes…\n');
   const started = Date.now();
-  const result = spawnSync('npx', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist'], {
+  const result = spawnSync('npx', ['expo', 'export', '--platform', 'web', '--output-dir', outDir], {
     cwd: root,
     stdio: ['ignore', 'inherit', 'inherit'],
     env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1' },

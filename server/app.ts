@@ -9,6 +9,8 @@ import { apiNotFound, errorHandler } from './middleware/errors';
 import { campaignRoutes } from './routes/campaigns';
 import { diveRoutes } from './routes/dives';
 import { observationRoutes } from './routes/observations';
+import { photoRoutes } from './routes/photos';
+import { telemetryRoutes } from './routes/telemetry';
 import { webExport } from './services/web';
 
 /** Builds the whole HTTP app: API, sign-in and the web export, on one origin. */
@@ -71,7 +73,7 @@ export function createApp(ctx: AppContext): Express {
   app.get('/api/health', (_req, res) => {
     res.json({ ok: true, version: ctx.version });
   });
-  app.use('/api', campaignRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx));
+  app.use('/api', campaignRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
   app.use('/api', apiNotFound);
 
   app.use(...web.handlers);

@@ -5,6 +5,7 @@ import { migrateDatabase, openDatabase } from '../db/client';
 import { createAuth } from './auth';
 import type { AppContext } from './context';
 import type { Env } from './env';
+import { LiveHub } from './services/live';
 import { createLogger } from './services/logger';
 
 const packageVersion = (): string => {
@@ -16,5 +17,5 @@ const packageVersion = (): string => {
 export function createContext(env: Env): AppContext {
   const db = openDatabase(env.DATABASE_PATH);
   migrateDatabase(db);
-  return { env, db, auth: createAuth(env, db), log: createLogger(env.LOG_LEVEL), version: packageVersion() };
+  return { env, db, auth: createAuth(env, db), log: createLogger(env.LOG_LEVEL), live: new LiveHub(db), version: packageVersion() };
 }

@@ -4,7 +4,7 @@ import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { accessOf, byDive, byObservation, requireCampaignRole } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
-import { createObservation, getObservation, listObservations } from '../services/observations';
+import { createObservation, getObservationDetail, listObservations } from '../services/observations';
 
 export function observationRoutes({ db, auth }: AppContext): Router {
   const r = Router();
@@ -24,7 +24,7 @@ export function observationRoutes({ db, auth }: AppContext): Router {
   });
 
   r.get('/observations/:id', ...observationMember, (req, res) => {
-    const observation = getObservation(db, req.params.id as string);
+    const observation = getObservationDetail(db, req.params.id as string);
     if (!observation) throw notFound();
     res.json(observation);
   });

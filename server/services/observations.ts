@@ -1,14 +1,22 @@
-import { and, desc, eq, inArray, lt, or, sql } from 'drizzle-orm';
+import { and, count, desc, eq, inArray, lt, or, sql } from 'drizzle-orm';
 import { z } from 'zod';
 
 import type { Db } from '../../db/client';
-import { campaigns, observations, observationTags, tags, user } from '../../db/schema';
-import { observationCreateSchema, observationListQuerySchema, type Observation, type ObservationPage } from '../../lib/schemas';
+import { campaigns, observations, observationTags, photos, tags, user } from '../../db/schema';
+import {
+  observationCreateSchema,
+  observationListQuerySchema,
+  type Observation,
+  type ObservationDetail,
+  type ObservationPage,
+} from '../../lib/schemas';
 import { ApiError } from '../errors';
+import { photosOf } from './photos';
+import { telemetryValuesAt } from './telemetry';
 
 type Row = typeof observations.$inferSelect;
 
-export function toObservation(row: Row, tagNames: string[], authorName: string): Observation {
+export function toObservation(row: Row, tagNames: string[], authorName: string, photoCount: number): Observation {
   return {
     id: row.id,
     diveId: row.diveId,
@@ -25,6 +33,7 @@ export function toObservation(row: Row, tagNames: string[], authorName: string):
     temperature: row.temperature,
     temperatureSource: row.temperatureSource,
     tags: tagNames,
+    photoCount,
     authorId: row.authorId,
     authorName,
     version: row.version,
@@ -56,12 +65,28 @@ function hydrate(db: Db, rows: Row[]): Observation[] {
       .all()
       .map((u) => [u.id, u.name]),
   );
-  return rows.map((r) => toObservation(r, tagsBy.get(r.id) ?? [], names.get(r.authorId) ?? 'Unknown'));
+  const photoCounts = new Map(
+    db
+      .select({ id: photos.observationId, n: count() })
+      .from(photos)
+      .where(and(inArray(photos.observationId, ids), eq(photos.retired, false)))
+      .groupBy(photos.observationId)
+      .all()
+      .map((p) => [p.id, p.n]),
+  );
+  return rows.map((r) => toObservation(r, tagsBy.get(r.id) ?? [], names.get(r.authorId) ?? 'Unknown', photoCounts.get(r.id) ?? 0));
 }
 
 export function getObservation(db: Db, id: string): Observation | undefined {
   const row = db.select().from(observations).where(eq(observations.id, id)).get();
   return row ? hydrate(db, [row])[0] : undefined;
+}
+
+/** One observation with everything that hangs off it. */
+export function getObservationDetail(db: Db, id: string): ObservationDetail | undefined {
+  const observation = getObservation(db, id);
+  if (!observation) return undefined;
+  return { ...observation, photos: photosOf(db, [id]).get(id) ?? [] };
 }
 
 const cursorSchema = z.object({ t: z.number().int(), id: z.string().min(1) });
@@ -152,6 +177,36 @@ function resolveTags(db: Db, campaignId: string, names: string[]): string[] {
   return wanted.map((n) => byLower.get(n.toLowerCase())!.id);
 }
 
+type Typed = { depth?: number | null; lat?: number | null; lon?: number | null; temperature?: number | null };
+
+/**
+ * The depth, position and temperature an entry starts with: what the person typed is `manual`;
+ * what they left empty comes from the telemetry log at that instant, when the log has a value.
+ */
+export function stampValues(db: Db, diveId: string, at: Date, typed: Typed) {
+  const fromLog =
+    typed.depth == null || typed.lat == null || typed.temperature == null ? telemetryValuesAt(db, diveId, at.getTime()) : null;
+  const pick = (manual: number | null | undefined, logged: number | null | undefined) =>
+    manual != null
+      ? { value: manual, source: 'manual' as const }
+      : logged != null
+        ? { value: logged, source: 'telemetry' as const }
+        : { value: null, source: null };
+  const depth = pick(typed.depth, fromLog?.depth);
+  const hasPosition = typed.lat != null && typed.lon != null;
+  const loggedPosition = fromLog?.lat != null && fromLog.lon != null;
+  const temperature = pick(typed.temperature, fromLog?.temperature);
+  return {
+    depth: depth.value,
+    depthSource: depth.source,
+    lat: hasPosition ? typed.lat! : loggedPosition ? fromLog.lat : null,
+    lon: hasPosition ? typed.lon! : loggedPosition ? fromLog.lon : null,
+    positionSource: hasPosition ? ('manual' as const) : loggedPosition ? ('telemetry' as const) : null,
+    temperature: temperature.value,
+    temperatureSource: temperature.source,
+  };
+}
+
 export function createObservation(
   db: Db,
   target: { diveId: string; campaignId: string; authorId: string },
@@ -159,9 +214,8 @@ export function createObservation(
   now = new Date(),
 ): Observation {
   const input = observationCreateSchema.parse(body);
-  const hasDepth = input.depth != null;
-  const hasPosition = input.lat != null && input.lon != null;
-  const hasTemperature = input.temperature != null;
+  const observedAt = input.observedAt ? new Date(input.observedAt) : now;
+  const stamped = stampValues(db, target.diveId, observedAt, input);
   const id = db.transaction((tx) => {
     const tagIds = resolveTags(tx as unknown as Db, target.campaignId, input.tags);
     const row = tx
@@ -170,17 +224,11 @@ export function createObservation(
         diveId: target.diveId,
         campaignId: target.campaignId,
         authorId: target.authorId,
-        observedAt: input.observedAt ? new Date(input.observedAt) : now,
+        observedAt,
         kind: input.kind,
         title: input.title,
         note: input.note,
-        depth: hasDepth ? input.depth : null,
-        depthSource: hasDepth ? 'manual' : null,
-        lat: hasPosition ? input.lat : null,
-        lon: hasPosition ? input.lon : null,
-        positionSource: hasPosition ? 'manual' : null,
-        temperature: hasTemperature ? input.temperature : null,
-        temperatureSource: hasTemperature ? 'manual' : null,
+        ...stamped,
         createdAt: now,
         updatedAt: now,
       })

@@ -5,6 +5,8 @@
  */
 import { z } from 'zod';
 
+import { photoSchema } from './photos';
+
 export const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
 export type CampaignRole = (typeof campaignRoles)[number];
 
@@ -69,6 +71,7 @@ export const campaignSchema = z.object({
   endDate: z.string().nullable(),
   timeZone: z.string(),
   allowFreeTags: z.boolean(),
+  keepPhotoPositions: z.boolean(),
   myRole: z.enum([...campaignRoles, 'admin']),
   diveCount: z.number().int(),
   observationCount: z.number().int(),
@@ -95,6 +98,8 @@ export const diveSchema = z.object({
     offBottom: isoOut.nullable(),
     onDeck: isoOut.nullable(),
   }),
+  recording: z.object({ startAt: isoOut.nullable(), frameRate: z.string().nullable() }),
+  telemetryGapS: z.number(),
   observationCount: z.number().int(),
   version: z.number().int(),
   createdAt: isoOut,
@@ -156,6 +161,7 @@ export const observationSchema = z.object({
   temperature: z.number().nullable(),
   temperatureSource: z.enum(valueSources).nullable(),
   tags: z.array(z.string()),
+  photoCount: z.number().int(),
   authorId: id,
   authorName: z.string(),
   version: z.number().int(),
@@ -164,6 +170,12 @@ export const observationSchema = z.object({
   updatedAt: isoOut,
 });
 export type Observation = z.infer<typeof observationSchema>;
+
+/** One observation as `GET /api/observations/:id` answers it: with its photos. */
+export const observationDetailSchema = observationSchema.extend({
+  photos: z.array(photoSchema),
+});
+export type ObservationDetail = z.infer<typeof observationDetailSchema>;
 
 export const observationPageSchema = z.object({
   items: z.array(observationSchema),

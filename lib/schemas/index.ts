@@ -1,0 +1,4 @@
+/** The HTTP contract, one file per area; import from `@/lib/schemas`. */
+export * from './core';
+export * from './photos';
+export * from './telemetry';

@@ -1,0 +1,2 @@
+/** The vehicle's telemetry log, interpolated values and dive statistics. */
+export {};

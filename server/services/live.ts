@@ -1,0 +1,41 @@
+import { EventEmitter } from 'node:events';
+
+import type { Db } from '../../db/client';
+import { liveEvents } from '../../db/schema';
+
+export type LiveEventType = 'observation.created' | 'observation.updated' | 'observation.retired' | 'dive.updated';
+
+export type LiveEvent = { id: number; campaignId: string; diveId: string; type: LiveEventType; payload: unknown; at: Date };
+
+/**
+ * The dive's live feed. Every change is written to `live_events` (so a reader who reconnects
+ * with Last-Event-ID gets what it missed, even across a restart) and then told to the readers
+ * connected to this process.
+ */
+export class LiveHub {
+  private readonly emitter = new EventEmitter();
+
+  constructor(private readonly db: Db) {
+    this.emitter.setMaxListeners(0);
+  }
+
+  publish(campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at = new Date()): LiveEvent {
+    const row = this.db.insert(liveEvents).values({ campaignId, diveId, type, payload, at }).returning({ id: liveEvents.id }).get();
+    const event: LiveEvent = { id: row.id, campaignId, diveId, type, payload, at };
+    this.emitter.emit(`dive:${diveId}`, event);
+    this.emitter.emit('any', event);
+    return event;
+  }
+
+  subscribe(diveId: string, listener: (e: LiveEvent) => void): () => void {
+    const key = `dive:${diveId}`;
+    this.emitter.on(key, listener);
+    return () => this.emitter.off(key, listener);
+  }
+
+  /** Every event of every dive (for membership changes and tests). */
+  subscribeAll(listener: (e: LiveEvent) => void): () => void {
+    this.emitter.on('any', listener);
+    return () => this.emitter.off('any', listener);
+  }
+}
