@@ -59,7 +59,18 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
         title={dive.data ? `Dive ${dive.data.number}` : 'Dive'}
         subtitle={[campaign.data?.name, dive.data ? diveStatus(dive.data) : null].filter(Boolean).join(' · ')}
         back={dive.data ? `/campaigns/${dive.data.campaignId}` : '/'}
-        right={navPlacement === 'side' ? <Button label="Log entry" icon="+" testID="new-observation" onPress={newEntry} /> : null}
+        right={
+          <View style={styles.actions}>
+            <Button
+              label="Summary"
+              tone="secondary"
+              compact
+              testID="dive-summary"
+              onPress={() => router.push(`/dives/${diveId}/summary`)}
+            />
+            {navPlacement === 'side' ? <Button label="Log entry" icon="+" testID="new-observation" onPress={newEntry} /> : null}
+          </View>
+        }
       />
       {splitView ? (
         <View style={styles.split}>
@@ -94,6 +105,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
 
 const styles = StyleSheet.create({
   listHeader: { gap: space.sm, marginBottom: space.md },
+  actions: { flexDirection: 'row', gap: space.sm, alignItems: 'center' },
   split: { flex: 1, flexDirection: 'row' },
   listPane: { width: 460, borderRightWidth: StyleSheet.hairlineWidth },
   detailPane: { flex: 1 },

@@ -6,9 +6,10 @@ import { useCampaign } from '@/hooks/campaigns';
 import { useObservation } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import { formatDepth, formatInZone, formatLatLon, formatTemperature, formatUtc } from '@/lib/format';
-import type { Observation } from '@/lib/schemas';
+import type { Observation, ObservationDetail as Detail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { KindBadge } from './kind-badge';
+import { ObservationPhotos } from '@/components/photos/observation-photos';
 import { NoteView } from './note-view';
 
 const sourceLabel = (s: Observation['depthSource']) => (s === 'telemetry' ? 'from telemetry' : s === 'manual' ? 'typed in' : 'no value');
@@ -20,7 +21,7 @@ export function ObservationDetail({ id }: { id: string }) {
   return <ObservationBody observation={observation.data} />;
 }
 
-function ObservationBody({ observation: o }: { observation: Observation }) {
+function ObservationBody({ observation: o }: { observation: Detail }) {
   const { colors } = useTheme();
   const campaign = useCampaign(o.campaignId).data;
   const facts: [string, string, string?][] = [
