@@ -73,6 +73,7 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
       <View style={[styles.note, { borderColor: colors.border, backgroundColor: colors.surface }]}>
         {o.note.trim() ? <NoteView markdown={o.note} testID="detail-note" /> : <Text muted>No note yet.</Text>}
       </View>
+      <ObservationPhotos observation={o} />
     </View>
   );
 }
