@@ -3,11 +3,14 @@ import path from 'node:path';
 
 import Database from 'better-sqlite3';
 import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3';
+import type { BaseSQLiteDatabase } from 'drizzle-orm/sqlite-core';
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
 
 import * as schema from './schema';
 
 export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
+/** The database or a transaction on it: what a service needs to read and write. */
+export type Executor = BaseSQLiteDatabase<'sync', Database.RunResult, typeof schema>;
 
 const migrationsFolder = path.join(__dirname, 'migrations');
 

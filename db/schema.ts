@@ -2,6 +2,7 @@ import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 
 import type { CampaignRole, DepthSource, ObservationKind } from '../lib/schemas';
+import type { identificationConfidences, identificationQualifiers, taxonRanks } from '../lib/schemas/record';
 
 const id = () =>
   text('id')
@@ -239,9 +240,9 @@ export const identifications = sqliteTable('identifications', {
     .primaryKey()
     .references(() => observations.id, { onDelete: 'cascade' }),
   scientificName: text('scientific_name').notNull(),
-  taxonRank: text('taxon_rank'),
-  qualifier: text('qualifier'),
-  confidence: text('confidence'),
+  taxonRank: text('taxon_rank').$type<(typeof taxonRanks)[number]>(),
+  qualifier: text('qualifier').$type<(typeof identificationQualifiers)[number]>(),
+  confidence: text('confidence').$type<(typeof identificationConfidences)[number]>(),
   taxonId: text('taxon_id'),
   verificationStatus: text('verification_status').$type<'unverified' | 'verified' | 'disputed'>().notNull().default('unverified'),
   verifiedBy: text('verified_by').references(() => user.id, { onDelete: 'restrict' }),

@@ -55,7 +55,10 @@ export function createApp(ctx: AppContext): Express {
     req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
     next();
   });
-  app.all('/api/auth/*splat', authHandler(auth, env.PUBLIC_URL));
+  app.all(
+    '/api/auth/*splat',
+    authHandler(auth, env.PUBLIC_URL, (token) => ctx.live.endSession(token)),
+  );
 
   app.use('/api', express.json({ limit: '256kb' }));
   app.use(

@@ -24,6 +24,8 @@ const envSchema = z.object({
   AUTH_RATE_LIMIT: z.coerce.number().int().min(1).default(20),
   /** API requests allowed per client address per minute (a whole ship may share one address). */
   API_RATE_LIMIT: z.coerce.number().int().min(1).default(6000),
+  /** How often a live stream sends a keep-alive and checks that its session still stands. */
+  STREAM_HEARTBEAT_MS: z.coerce.number().int().min(100).max(25_000).default(20_000),
   LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
 });
 

@@ -6,6 +6,7 @@
 import { z } from 'zod';
 
 import { photoSchema } from './photos';
+import { custodyEventSchema, findSchema, identificationSchema, verificationStatuses } from './record';
 
 export const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
 export type CampaignRole = (typeof campaignRoles)[number];
@@ -145,6 +146,31 @@ export const observationCreateSchema = z
   });
 export type ObservationCreate = z.input<typeof observationCreateSchema>;
 
+/**
+ * An edit: the fields to change and the `version` the editor started from. A stale version is
+ * refused with 409 so that nobody overwrites a change they have not seen. `null` clears a value
+ * (a cleared depth falls back to the telemetry log).
+ */
+export const observationUpdateSchema = z
+  .object({
+    version: z.number().int().min(1),
+    observedAt: instant.optional(),
+    kind: z.enum(observationKinds).optional(),
+    title: title.optional(),
+    note: note.optional(),
+    depth: depth.nullable().optional(),
+    lat: lat.nullable().optional(),
+    lon: lon.nullable().optional(),
+    temperature: temperature.nullable().optional(),
+    tags: z.array(tagName).max(20, 'At most 20 tags').optional(),
+  })
+  .strict()
+  .refine((o) => (o.lat === undefined) === (o.lon === undefined) && (o.lat === null) === (o.lon === null), {
+    message: 'Change latitude and longitude together',
+    path: ['lon'],
+  });
+export type ObservationUpdate = z.input<typeof observationUpdateSchema>;
+
 export const observationSchema = z.object({
   id,
   diveId: id,
@@ -162,6 +188,12 @@ export const observationSchema = z.object({
   temperatureSource: z.enum(valueSources).nullable(),
   tags: z.array(z.string()),
   photoCount: z.number().int(),
+  /** The identification's name and standing, for lists (biology). */
+  identification: z
+    .object({ scientificName: z.string(), qualifier: z.string().nullable(), verificationStatus: z.enum(verificationStatuses) })
+    .nullable(),
+  /** The find number (archaeology). */
+  findNumber: z.string().nullable(),
   authorId: id,
   authorName: z.string(),
   version: z.number().int(),
@@ -174,6 +206,9 @@ export type Observation = z.infer<typeof observationSchema>;
 /** One observation as `GET /api/observations/:id` answers it: with its photos. */
 export const observationDetailSchema = observationSchema.extend({
   photos: z.array(photoSchema),
+  identificationDetail: identificationSchema.nullable(),
+  find: findSchema.nullable(),
+  custody: z.array(custodyEventSchema),
 });
 export type ObservationDetail = z.infer<typeof observationDetailSchema>;
 
@@ -190,7 +225,73 @@ export const observationListQuerySchema = z
     kind: z.enum(observationKinds).optional(),
     tag: z.string().max(40).optional(),
     author: z.string().max(100).optional(),
+    hasPhotos: z.enum(['true', 'false']).optional(),
+    verification: z.enum(verificationStatuses).optional(),
+    sort: z.enum(['time', 'depth', 'kind', 'author']).default('time'),
+    order: z.enum(['asc', 'desc']).optional(),
   })
   .strict();
+
+/* ---- dives: planning, phases, recording ---- */
+
+export const diveCreateSchema = z
+  .object({
+    number: z
+      .string()
+      .trim()
+      .min(1)
+      .max(40)
+      .regex(/^[\w./-]+$/, 'Letters, digits and . / - _ only'),
+    objectives: z.string().trim().max(4000).default(''),
+    plannedMaxDepth: z.number().finite().min(0).max(11_000).nullable().optional(),
+    plannedStartAt: instant.nullable().optional(),
+  })
+  .strict();
+
+export const diveUpdateSchema = z
+  .object({
+    version: z.number().int().min(1),
+    objectives: z.string().trim().max(4000).optional(),
+    plannedMaxDepth: z.number().finite().min(0).max(11_000).nullable().optional(),
+    plannedStartAt: instant.nullable().optional(),
+    recordingStartAt: instant.nullable().optional(),
+    frameRate: z.string().max(20).nullable().optional(),
+    telemetryGapS: z.number().finite().min(1).max(3600).optional(),
+  })
+  .strict();
+
+export const phaseInputSchema = z
+  .object({
+    phase: z.enum(divePhases),
+    /** When the phase began; now when left out. `null` clears a phase set by mistake. */
+    at: instant.nullable().optional(),
+  })
+  .strict();
+
+/* ---- campaign vocabulary and quick marks ---- */
+
+export const tagCreateSchema = z.object({ name: tagName }).strict();
+export const tagUpdateSchema = z
+  .object({ name: tagName.optional(), retired: z.boolean().optional(), mergeInto: z.string().min(1).optional() })
+  .strict()
+  .refine((t) => Object.keys(t).length > 0, { message: 'Nothing to change' });
+
+export const quickMarkInputSchema = z
+  .object({
+    label: z.string().trim().min(1).max(80),
+    kind: z.enum(observationKinds),
+    tags: z.array(tagName).max(10).default([]),
+    position: z.number().int().min(0).max(1000).optional(),
+  })
+  .strict();
+
+export const quickMarkSchema = z.object({
+  id,
+  label: z.string(),
+  kind: z.enum(observationKinds),
+  tags: z.array(z.string()),
+  position: z.number().int(),
+});
+export type QuickMark = z.infer<typeof quickMarkSchema>;
 
 export const healthSchema = z.object({ ok: z.literal(true), version: z.string() });

@@ -1,4 +1,5 @@
 /** The HTTP contract, one file per area; import from `@/lib/schemas`. */
 export * from './core';
 export * from './photos';
+export * from './record';
 export * from './telemetry';

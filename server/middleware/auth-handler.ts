@@ -23,7 +23,7 @@ const preChecks: Record<string, z.ZodType> = {
  * Runs better-auth's fetch handler behind Express, with a body limit of our own, and rewrites
  * its error bodies (`{code, message}`) into the contract's `{error: {code, message}}` shape.
  */
-export function authHandler(auth: Auth, publicUrl: string): RequestHandler {
+export function authHandler(auth: Auth, publicUrl: string, onSignedOut: (sessionToken: string) => void): RequestHandler {
   return async (req, res) => {
     const body = req.method === 'GET' || req.method === 'HEAD' ? undefined : await readBody(req);
     const pathname = req.originalUrl.split('?')[0] ?? '';
@@ -43,8 +43,23 @@ export function authHandler(auth: Auth, publicUrl: string): RequestHandler {
     const response = await auth.handler(
       new Request(url, { method: req.method, headers, body: body && body.length > 0 ? new Uint8Array(body) : undefined }),
     );
+    if (pathname === '/api/auth/sign-out' && response.ok) {
+      const token = sessionTokenOf(req.headers.cookie);
+      if (token) onSignedOut(token);
+    }
     await send(res, response);
   };
+}
+
+/** The session token inside better-auth's signed session cookie (`token.signature`). */
+function sessionTokenOf(cookieHeader: string | undefined): string | undefined {
+  for (const part of (cookieHeader ?? '').split(';')) {
+    const [name, ...rest] = part.trim().split('=');
+    if (name === 'better-auth.session_token' || name === '__Secure-better-auth.session_token') {
+      return decodeURIComponent(rest.join('=')).split('.')[0];
+    }
+  }
+  return undefined;
 }
 
 async function readBody(req: ExpressRequest): Promise<Buffer> {

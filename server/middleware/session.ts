@@ -9,6 +9,8 @@ export type SessionUser = { id: string; name: string; email: string; siteRole: '
 declare module 'express-serve-static-core' {
   interface Request {
     user?: SessionUser;
+    /** The session's token, so that a live stream can close when this session ends. */
+    sessionToken?: string;
   }
 }
 
@@ -23,6 +25,7 @@ export function requireSession(auth: Auth): RequestHandler {
       email: result.user.email,
       siteRole: result.user.role === 'admin' ? 'admin' : 'user',
     };
+    req.sessionToken = result.session.token;
     next();
   };
 }

@@ -2,9 +2,21 @@ import { Router, type RequestHandler } from 'express';
 
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
-import { accessOf, byCampaign, requireCampaignRole } from '../middleware/campaign-access';
+import { accessOf, byCampaign, requireCampaignRole, type CampaignResolver } from '../middleware/campaign-access';
 import { requireSession, userOf } from '../middleware/session';
-import { getCampaign, listCampaigns, listDives, listMembers, listTags, me } from '../services/campaigns';
+import { getCampaign, listCampaigns, listMembers, listTags, me } from '../services/campaigns';
+import { listDives } from '../services/dives';
+import { nextFindNumber } from '../services/record';
+import {
+  createQuickMark,
+  createTag,
+  listQuickMarks,
+  quickMarkCampaign,
+  retireQuickMark,
+  tagCampaign,
+  updateQuickMark,
+  updateTag,
+} from '../services/vocabulary';
 
 export function campaignRoutes({ db, auth }: AppContext): Router {
   const r = Router();
@@ -36,6 +48,42 @@ export function campaignRoutes({ db, auth }: AppContext): Router {
 
   r.get('/campaigns/:campaignId/dives', ...member, (req, res) => {
     res.json(listDives(db, accessOf(req).campaignId));
+  });
+
+  const lead = (resolve: CampaignResolver, action: string): RequestHandler[] => [
+    signedIn,
+    requireCampaignRole(db, resolve, ['lead'], action),
+  ];
+  const byTag: CampaignResolver = (d, req) => tagCampaign(d, req.params.tagId as string);
+  const byQuickMark: CampaignResolver = (d, req) => quickMarkCampaign(d, req.params.quickMarkId as string);
+
+  r.post('/campaigns/:campaignId/tags', ...lead(byCampaign, 'change the tag vocabulary'), (req, res) => {
+    res.status(201).json(createTag(db, accessOf(req).campaignId, accessOf(req).userId, req.body));
+  });
+
+  r.patch('/tags/:tagId', ...lead(byTag, 'change the tag vocabulary'), (req, res) => {
+    res.json(updateTag(db, req.params.tagId as string, accessOf(req).userId, req.body));
+  });
+
+  r.get('/campaigns/:campaignId/quick-marks', ...member, (req, res) => {
+    res.json(listQuickMarks(db, accessOf(req).campaignId));
+  });
+
+  r.post('/campaigns/:campaignId/quick-marks', ...lead(byCampaign, 'define quick marks'), (req, res) => {
+    res.status(201).json(createQuickMark(db, accessOf(req).campaignId, req.body));
+  });
+
+  r.patch('/quick-marks/:quickMarkId', ...lead(byQuickMark, 'define quick marks'), (req, res) => {
+    res.json(updateQuickMark(db, req.params.quickMarkId as string, req.body));
+  });
+
+  r.delete('/quick-marks/:quickMarkId', ...lead(byQuickMark, 'define quick marks'), (req, res) => {
+    retireQuickMark(db, req.params.quickMarkId as string);
+    res.status(204).end();
+  });
+
+  r.get('/campaigns/:campaignId/finds/next-number', ...member, (req, res) => {
+    res.json({ findNumber: nextFindNumber(db, accessOf(req).campaignId) });
   });
 
   return r;

@@ -2,14 +2,11 @@ import { and, asc, count, eq, inArray } from 'drizzle-orm';
 
 import type { Db } from '../../db/client';
 import { campaigns, dives, memberships, observations, tags, user } from '../../db/schema';
-import type { Campaign, Dive, Me, Member, Tag } from '../../lib/schemas';
+import type { Campaign, Me, Member, Tag } from '../../lib/schemas';
 import type { AccessRole } from '../middleware/campaign-access';
 import type { SessionUser } from '../middleware/session';
 
 type CampaignRow = typeof campaigns.$inferSelect;
-type DiveRow = typeof dives.$inferSelect;
-
-const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
 export function me(db: Db, sessionUser: SessionUser): Me {
   const rows = db
@@ -111,52 +108,4 @@ export function listTags(db: Db, campaignId: string): Tag[] {
       }),
   );
   return rows.map((t) => ({ id: t.id, name: t.name, retired: t.retired, usage: usage.get(t.id) ?? 0 }));
-}
-
-export function toDive(row: DiveRow, observationCount: number): Dive {
-  return {
-    id: row.id,
-    campaignId: row.campaignId,
-    number: row.number,
-    objectives: row.objectives,
-    plannedMaxDepth: row.plannedMaxDepth,
-    plannedStartAt: iso(row.plannedStartAt),
-    phases: {
-      launch: iso(row.launchAt),
-      onBottom: iso(row.onBottomAt),
-      offBottom: iso(row.offBottomAt),
-      onDeck: iso(row.onDeckAt),
-    },
-    recording: { startAt: iso(row.recordingStartAt), frameRate: row.frameRate },
-    telemetryGapS: row.telemetryGapS,
-    observationCount,
-    version: row.version,
-    createdAt: row.createdAt.toISOString(),
-    updatedAt: row.updatedAt.toISOString(),
-  };
-}
-
-function observationCounts(db: Db, diveIds: string[]) {
-  if (diveIds.length === 0) return new Map<string, number>();
-  const rows = db
-    .select({ id: observations.diveId, n: count() })
-    .from(observations)
-    .where(and(inArray(observations.diveId, diveIds), eq(observations.retired, false)))
-    .groupBy(observations.diveId)
-    .all();
-  return new Map(rows.map((r) => [r.id, r.n]));
-}
-
-export function listDives(db: Db, campaignId: string): Dive[] {
-  const rows = db.select().from(dives).where(eq(dives.campaignId, campaignId)).orderBy(asc(dives.number)).all();
-  const counts = observationCounts(
-    db,
-    rows.map((r) => r.id),
-  );
-  return rows.map((r) => toDive(r, counts.get(r.id) ?? 0));
-}
-
-export function getDive(db: Db, diveId: string): Dive | undefined {
-  const row = db.select().from(dives).where(eq(dives.id, diveId)).get();
-  return row ? toDive(row, observationCounts(db, [row.id]).get(row.id) ?? 0) : undefined;
 }

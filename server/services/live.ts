@@ -33,9 +33,29 @@ export class LiveHub {
     return () => this.emitter.off(key, listener);
   }
 
-  /** Every event of every dive (for membership changes and tests). */
+  /** Every event of every dive (for tests and benchmarks). */
   subscribeAll(listener: (e: LiveEvent) => void): () => void {
     this.emitter.on('any', listener);
     return () => this.emitter.off('any', listener);
+  }
+
+  /** A session ended (signed out or revoked): its open streams close at once. */
+  endSession(token: string): void {
+    this.emitter.emit('session-ended', token);
+  }
+
+  /** Someone's role in a campaign changed or they were removed: their streams check again. */
+  membershipChanged(campaignId: string, userId: string): void {
+    this.emitter.emit('membership', { campaignId, userId });
+  }
+
+  onSessionEnded(listener: (token: string) => void): () => void {
+    this.emitter.on('session-ended', listener);
+    return () => this.emitter.off('session-ended', listener);
+  }
+
+  onMembershipChanged(listener: (change: { campaignId: string; userId: string }) => void): () => void {
+    this.emitter.on('membership', listener);
+    return () => this.emitter.off('membership', listener);
   }
 }

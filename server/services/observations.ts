@@ -1,22 +1,41 @@
-import { and, count, desc, eq, inArray, lt, or, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, gt, inArray, lt, or, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 
-import type { Db } from '../../db/client';
-import { campaigns, observations, observationTags, photos, tags, user } from '../../db/schema';
+import type { Db, Executor } from '../../db/client';
+import {
+  campaigns,
+  custodyEvents,
+  finds,
+  identifications,
+  observationRevisions,
+  observations,
+  observationTags,
+  photos,
+  tags,
+  user,
+} from '../../db/schema';
 import {
   observationCreateSchema,
   observationListQuerySchema,
+  observationUpdateSchema,
   type Observation,
   type ObservationDetail,
   type ObservationPage,
+  type Revision,
 } from '../../lib/schemas';
-import { ApiError } from '../errors';
+import { ApiError, conflict } from '../errors';
+import type { LiveHub } from './live';
 import { photosOf } from './photos';
 import { telemetryValuesAt } from './telemetry';
 
 type Row = typeof observations.$inferSelect;
 
-export function toObservation(row: Row, tagNames: string[], authorName: string, photoCount: number): Observation {
+export type Actor = { userId: string; role: string };
+
+export function toObservation(
+  row: Row,
+  extra: Pick<Observation, 'tags' | 'authorName' | 'photoCount' | 'identification' | 'findNumber'>,
+): Observation {
   return {
     id: row.id,
     diveId: row.diveId,
@@ -32,10 +51,8 @@ export function toObservation(row: Row, tagNames: string[], authorName: string, 
     positionSource: row.positionSource,
     temperature: row.temperature,
     temperatureSource: row.temperatureSource,
-    tags: tagNames,
-    photoCount,
+    ...extra,
     authorId: row.authorId,
-    authorName,
     version: row.version,
     retired: row.retired,
     createdAt: row.createdAt.toISOString(),
@@ -43,27 +60,36 @@ export function toObservation(row: Row, tagNames: string[], authorName: string, 
   };
 }
 
-/** Tags and author names for a batch of rows, in two queries rather than two per row. */
-function hydrate(db: Db, rows: Row[]): Observation[] {
+function namesOf(db: Executor, ids: (string | null)[]): Map<string, string> {
+  const wanted = [...new Set(ids.filter((i): i is string => !!i))];
+  if (wanted.length === 0) return new Map();
+  return new Map(
+    db
+      .select({ id: user.id, name: user.name })
+      .from(user)
+      .where(inArray(user.id, wanted))
+      .all()
+      .map((u) => [u.id, u.name]),
+  );
+}
+
+/** Tags, names, photo counts, identifications and find numbers for a batch of rows, a query each. */
+function hydrate(db: Executor, rows: Row[]): Observation[] {
   if (rows.length === 0) return [];
   const ids = rows.map((r) => r.id);
-  const tagRows = db
+  const tagsBy = new Map<string, string[]>();
+  for (const t of db
     .select({ observationId: observationTags.observationId, name: tags.name })
     .from(observationTags)
     .innerJoin(tags, eq(tags.id, observationTags.tagId))
     .where(inArray(observationTags.observationId, ids))
     .orderBy(tags.name)
-    .all();
-  const tagsBy = new Map<string, string[]>();
-  for (const t of tagRows) tagsBy.set(t.observationId, [...(tagsBy.get(t.observationId) ?? []), t.name]);
-  const authorIds = [...new Set(rows.map((r) => r.authorId))];
-  const names = new Map(
-    db
-      .select({ id: user.id, name: user.name })
-      .from(user)
-      .where(inArray(user.id, authorIds))
-      .all()
-      .map((u) => [u.id, u.name]),
+    .all()) {
+    tagsBy.set(t.observationId, [...(tagsBy.get(t.observationId) ?? []), t.name]);
+  }
+  const names = namesOf(
+    db,
+    rows.map((r) => r.authorId),
   );
   const photoCounts = new Map(
     db
@@ -74,30 +100,113 @@ function hydrate(db: Db, rows: Row[]): Observation[] {
       .all()
       .map((p) => [p.id, p.n]),
   );
-  return rows.map((r) => toObservation(r, tagsBy.get(r.id) ?? [], names.get(r.authorId) ?? 'Unknown', photoCounts.get(r.id) ?? 0));
+  const idents = new Map(
+    db
+      .select()
+      .from(identifications)
+      .where(inArray(identifications.observationId, ids))
+      .all()
+      .map((i) => [i.observationId, i]),
+  );
+  const findNumbers = new Map(
+    db
+      .select({ id: finds.observationId, n: finds.findNumber })
+      .from(finds)
+      .where(inArray(finds.observationId, ids))
+      .all()
+      .map((f) => [f.id, f.n]),
+  );
+  return rows.map((r) => {
+    const ident = idents.get(r.id);
+    return toObservation(r, {
+      tags: tagsBy.get(r.id) ?? [],
+      authorName: names.get(r.authorId) ?? 'Unknown',
+      photoCount: photoCounts.get(r.id) ?? 0,
+      identification: ident
+        ? { scientificName: ident.scientificName, qualifier: ident.qualifier, verificationStatus: ident.verificationStatus }
+        : null,
+      findNumber: findNumbers.get(r.id) ?? null,
+    });
+  });
 }
 
-export function getObservation(db: Db, id: string): Observation | undefined {
-  const row = db.select().from(observations).where(eq(observations.id, id)).get();
+export function getObservationRow(db: Executor, id: string): Row | undefined {
+  return db.select().from(observations).where(eq(observations.id, id)).get();
+}
+
+export function getObservation(db: Executor, id: string): Observation | undefined {
+  const row = getObservationRow(db, id);
   return row ? hydrate(db, [row])[0] : undefined;
 }
 
+export function observationsByIds(db: Executor, ids: string[]): Observation[] {
+  if (ids.length === 0) return [];
+  return hydrate(db, db.select().from(observations).where(inArray(observations.id, ids)).all());
+}
+
 /** One observation with everything that hangs off it. */
-export function getObservationDetail(db: Db, id: string): ObservationDetail | undefined {
+export function getObservationDetail(db: Executor, id: string): ObservationDetail | undefined {
   const observation = getObservation(db, id);
   if (!observation) return undefined;
-  return { ...observation, photos: photosOf(db, [id]).get(id) ?? [] };
+  const ident = db.select().from(identifications).where(eq(identifications.observationId, id)).get();
+  const find = db.select().from(finds).where(eq(finds.observationId, id)).get();
+  const custody = db.select().from(custodyEvents).where(eq(custodyEvents.observationId, id)).orderBy(asc(custodyEvents.since)).all();
+  const names = namesOf(db, [ident?.identifiedBy ?? null, ident?.verifiedBy ?? null, ...custody.map((c) => c.recordedBy)]);
+  return {
+    ...observation,
+    // Reads only; the same connection serves the transaction and the database.
+    photos: photosOf(db as Db, [id]).get(id) ?? [],
+    identificationDetail: ident
+      ? {
+          scientificName: ident.scientificName,
+          taxonRank: ident.taxonRank,
+          qualifier: ident.qualifier,
+          confidence: ident.confidence,
+          taxonId: ident.taxonId,
+          verificationStatus: ident.verificationStatus,
+          verificationNote: ident.verificationNote,
+          identifiedBy: ident.identifiedBy,
+          identifiedByName: names.get(ident.identifiedBy) ?? 'Unknown',
+          verifiedBy: ident.verifiedBy,
+          verifiedByName: ident.verifiedBy ? (names.get(ident.verifiedBy) ?? 'Unknown') : null,
+          verifiedAt: ident.verifiedAt ? ident.verifiedAt.toISOString() : null,
+          updatedAt: ident.updatedAt.toISOString(),
+        }
+      : null,
+    find: find
+      ? {
+          findNumber: find.findNumber,
+          objectType: find.objectType,
+          material: find.material,
+          condition: find.condition,
+          state: find.state,
+          updatedAt: find.updatedAt.toISOString(),
+        }
+      : null,
+    custody: custody.map((c) => ({
+      id: c.id,
+      holder: c.holder,
+      since: c.since.toISOString(),
+      location: c.location,
+      container: c.container,
+      note: c.note,
+      recordedBy: c.recordedBy,
+      recordedByName: names.get(c.recordedBy) ?? 'Unknown',
+      createdAt: c.createdAt.toISOString(),
+    })),
+  };
 }
+
+/* ---- lists ---- */
 
 const cursorSchema = z.object({ t: z.number().int(), id: z.string().min(1) });
+const offsetCursorSchema = z.object({ o: z.number().int().min(0) });
 
-function encodeCursor(row: Row): string {
-  return Buffer.from(JSON.stringify({ t: row.observedAt.getTime(), id: row.id })).toString('base64url');
-}
+const encode = (value: unknown) => Buffer.from(JSON.stringify(value)).toString('base64url');
 
-function decodeCursor(cursor: string) {
+function decode<S extends z.ZodType>(schema: S, cursor: string): z.output<S> {
   try {
-    return cursorSchema.parse(JSON.parse(Buffer.from(cursor, 'base64url').toString('utf8')));
+    return schema.parse(JSON.parse(Buffer.from(cursor, 'base64url').toString('utf8')));
   } catch {
     throw new ApiError(400, 'validation_failed', 'The cursor is not valid.', [
       { path: 'cursor', message: 'Use the nextCursor of an earlier page' },
@@ -105,10 +214,13 @@ function decodeCursor(cursor: string) {
   }
 }
 
-/** A dive's log, newest first, by keyset pagination on (observedAt, id) so pages never overlap. */
-export function listObservations(db: Db, diveId: string, rawQuery: unknown): ObservationPage {
+/**
+ * A dive's log. By time (the default) it is keyset-paginated on (observedAt, id), so pages never
+ * overlap while entries arrive; other sorts page by offset.
+ */
+export function listObservations(db: Db, diveId: string, rawQuery: unknown, options: { retired?: boolean } = {}): ObservationPage {
   const q = observationListQuerySchema.parse(rawQuery);
-  const conditions = [eq(observations.diveId, diveId), eq(observations.retired, false)];
+  const conditions: SQL[] = [eq(observations.diveId, diveId), eq(observations.retired, options.retired ?? false)];
   if (q.kind) conditions.push(eq(observations.kind, q.kind));
   if (q.author) conditions.push(eq(observations.authorId, q.author));
   if (q.tag) {
@@ -117,28 +229,67 @@ export function listObservations(db: Db, diveId: string, rawQuery: unknown): Obs
         where ot.observation_id = ${observations.id} and lower(t.name) = lower(${q.tag}))`,
     );
   }
-  if (q.cursor) {
-    const c = decodeCursor(q.cursor);
-    const at = new Date(c.t);
-    conditions.push(or(lt(observations.observedAt, at), and(eq(observations.observedAt, at), lt(observations.id, c.id)))!);
+  if (q.hasPhotos) {
+    const has = sql`exists (select 1 from ${photos} p where p.observation_id = ${observations.id} and p.retired = 0)`;
+    conditions.push(q.hasPhotos === 'true' ? has : sql`not ${has}`);
   }
+  if (q.verification) {
+    conditions.push(
+      sql`exists (select 1 from ${identifications} i where i.observation_id = ${observations.id} and i.verification_status = ${q.verification})`,
+    );
+  }
+  const ascending = (q.order ?? (q.sort === 'time' ? 'desc' : 'asc')) === 'asc';
+
+  if (q.sort === 'time') {
+    if (q.cursor) {
+      const c = decode(cursorSchema, q.cursor);
+      const at = new Date(c.t);
+      const before = ascending ? gt : lt;
+      conditions.push(or(before(observations.observedAt, at), and(eq(observations.observedAt, at), before(observations.id, c.id)))!);
+    }
+    const dir = ascending ? asc : desc;
+    const rows = db
+      .select()
+      .from(observations)
+      .where(and(...conditions))
+      .orderBy(dir(observations.observedAt), dir(observations.id))
+      .limit(q.limit + 1)
+      .all();
+    const page = rows.slice(0, q.limit);
+    const last = page[page.length - 1];
+    return {
+      items: hydrate(db, page),
+      nextCursor: rows.length > q.limit && last ? encode({ t: last.observedAt.getTime(), id: last.id }) : null,
+    };
+  }
+
+  const offset = q.cursor ? decode(offsetCursorSchema, q.cursor).o : 0;
+  const dir = ascending ? asc : desc;
+  const key =
+    q.sort === 'depth'
+      ? [sql`${observations.depth} is null`, dir(observations.depth)]
+      : q.sort === 'kind'
+        ? [dir(observations.kind)]
+        : [dir(sql`(select lower(name) from ${user} u where u.id = ${observations.authorId})`)];
   const rows = db
     .select()
     .from(observations)
     .where(and(...conditions))
-    .orderBy(desc(observations.observedAt), desc(observations.id))
+    .orderBy(...key, desc(observations.observedAt), desc(observations.id))
     .limit(q.limit + 1)
+    .offset(offset)
     .all();
   const page = rows.slice(0, q.limit);
-  const last = page[page.length - 1];
-  return { items: hydrate(db, page), nextCursor: rows.length > q.limit && last ? encodeCursor(last) : null };
+  return { items: hydrate(db, page), nextCursor: rows.length > q.limit ? encode({ o: offset + q.limit }) : null };
 }
+
+/* ---- writing ---- */
 
 /**
  * Finds the campaign's tags by name (case-insensitively), creating the missing ones when the
  * campaign allows free tags; otherwise an unknown tag is a field error.
  */
-function resolveTags(db: Db, campaignId: string, names: string[]): string[] {
+function resolveTags(db: Executor, campaignId: string, names: string[]): string[] {
   const wanted = [...new Map(names.map((n) => [n.toLowerCase(), n])).values()];
   if (wanted.length === 0) return [];
   const existing = db
@@ -163,24 +314,27 @@ function resolveTags(db: Db, campaignId: string, names: string[]): string[] {
         400,
         'validation_failed',
         'Some tags are not in the campaign vocabulary.',
-        missing.map((n) => ({
-          path: `tags.${names.indexOf(n)}`,
-          message: `"${n}" is not in this campaign's tag vocabulary`,
-        })),
+        missing.map((n) => ({ path: `tags.${names.indexOf(n)}`, message: `"${n}" is not in this campaign's tag vocabulary` })),
       );
     }
-    for (const name of missing) {
-      const created = db.insert(tags).values({ campaignId, name }).returning().get();
-      byLower.set(name.toLowerCase(), created);
-    }
+    for (const name of missing) byLower.set(name.toLowerCase(), db.insert(tags).values({ campaignId, name }).returning().get());
   }
   return wanted.map((n) => byLower.get(n.toLowerCase())!.id);
+}
+
+function setTags(db: Executor, observationId: string, campaignId: string, names: string[]) {
+  const tagIds = resolveTags(db, campaignId, names);
+  db.delete(observationTags).where(eq(observationTags.observationId, observationId)).run();
+  if (tagIds.length > 0)
+    db.insert(observationTags)
+      .values(tagIds.map((tagId) => ({ observationId, tagId })))
+      .run();
 }
 
 type Typed = { depth?: number | null; lat?: number | null; lon?: number | null; temperature?: number | null };
 
 /**
- * The depth, position and temperature an entry starts with: what the person typed is `manual`;
+ * The depth, position and temperature an entry takes: what the person typed is `manual`;
  * what they left empty comes from the telemetry log at that instant, when the log has a value.
  */
 export function stampValues(db: Db, diveId: string, at: Date, typed: Typed) {
@@ -207,8 +361,37 @@ export function stampValues(db: Db, diveId: string, at: Date, typed: Typed) {
   };
 }
 
+/** The entry as history keeps it: everything but photos and custody, which have their own records. */
+function snapshotOf(db: Executor, id: string): Record<string, unknown> {
+  const { photos: _photos, custody: _custody, ...rest } = getObservationDetail(db, id)!;
+  return rest;
+}
+
+function writeRevision(db: Executor, id: string, version: number, action: Revision['action'], actorId: string, at: Date) {
+  db.insert(observationRevisions)
+    .values({ observationId: id, version, action, snapshot: snapshotOf(db, id), editedBy: actorId, editedAt: at })
+    .run();
+}
+
+/**
+ * Bumps an entry's version and records the revision. Every change to an entry or its
+ * identification or find goes through here, inside the change's own transaction.
+ */
+export function recordChange(db: Executor, id: string, actorId: string, action: Revision['action'], at = new Date()): number {
+  const row = db
+    .update(observations)
+    .set({ version: sql`${observations.version} + 1`, updatedAt: at })
+    .where(eq(observations.id, id))
+    .returning({ version: observations.version })
+    .get();
+  if (!row) throw new ApiError(404, 'not_found', 'Not found');
+  writeRevision(db, id, row.version, action, actorId, at);
+  return row.version;
+}
+
 export function createObservation(
   db: Db,
+  live: LiveHub,
   target: { diveId: string; campaignId: string; authorId: string },
   body: unknown,
   now = new Date(),
@@ -216,8 +399,7 @@ export function createObservation(
   const input = observationCreateSchema.parse(body);
   const observedAt = input.observedAt ? new Date(input.observedAt) : now;
   const stamped = stampValues(db, target.diveId, observedAt, input);
-  const id = db.transaction((tx) => {
-    const tagIds = resolveTags(tx as unknown as Db, target.campaignId, input.tags);
+  const created = db.transaction((tx) => {
     const row = tx
       .insert(observations)
       .values({
@@ -234,12 +416,116 @@ export function createObservation(
       })
       .returning({ id: observations.id })
       .get();
-    if (tagIds.length > 0) {
-      tx.insert(observationTags)
-        .values(tagIds.map((tagId) => ({ observationId: row.id, tagId })))
-        .run();
-    }
-    return row.id;
+    setTags(tx, row.id, target.campaignId, input.tags);
+    writeRevision(tx, row.id, 1, 'created', target.authorId, now);
+    return getObservation(tx, row.id)!;
   });
-  return getObservation(db, id)!;
+  live.publish(target.campaignId, target.diveId, 'observation.created', created);
+  return created;
+}
+
+/** Only the author and the campaign's leads change or retire an entry. */
+export function assertMayEdit(row: Row, actor: Actor, what = 'edit this entry') {
+  if (actor.role !== 'lead' && row.authorId !== actor.userId) {
+    throw new ApiError(403, 'forbidden', `Only the author of this entry or a campaign lead may ${what}.`);
+  }
+}
+
+function assertCurrent(row: Row, version: number) {
+  if (row.retired) throw conflict('retired', 'This entry has been retired. A lead can restore it.');
+  if (row.version !== version) {
+    throw new ApiError(
+      409,
+      'stale_version',
+      `This entry was changed by someone else (it is at version ${row.version}, your edit started from version ${version}). Nothing was overwritten.`,
+    );
+  }
+}
+
+export function updateObservation(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown, now = new Date()): Observation {
+  const input = observationUpdateSchema.parse(body);
+  const updated = db.transaction((tx) => {
+    const row = getObservationRow(tx, id);
+    if (!row) throw new ApiError(404, 'not_found', 'Not found');
+    assertMayEdit(row, actor);
+    assertCurrent(row, input.version);
+    const observedAt = input.observedAt ? new Date(input.observedAt) : row.observedAt;
+    // A value left out keeps what was typed before; a telemetry value is looked up again.
+    const keep = (given: number | null | undefined, current: number | null, source: string | null) =>
+      given !== undefined ? given : source === 'manual' ? current : null;
+    // The telemetry lookup reads through the database's own connection, which this transaction is on.
+    const stamped = stampValues(db, row.diveId, observedAt, {
+      depth: keep(input.depth, row.depth, row.depthSource),
+      lat: keep(input.lat, row.lat, row.positionSource),
+      lon: keep(input.lon, row.lon, row.positionSource),
+      temperature: keep(input.temperature, row.temperature, row.temperatureSource),
+    });
+    tx.update(observations)
+      .set({
+        observedAt,
+        ...(input.kind ? { kind: input.kind } : {}),
+        ...(input.title !== undefined ? { title: input.title } : {}),
+        ...(input.note !== undefined ? { note: input.note } : {}),
+        ...stamped,
+      })
+      .where(eq(observations.id, id))
+      .run();
+    if (input.tags) setTags(tx, id, row.campaignId, input.tags);
+    recordChange(tx, id, actor.userId, 'updated', now);
+    return getObservation(tx, id)!;
+  });
+  live.publish(updated.campaignId, updated.diveId, 'observation.updated', updated);
+  return updated;
+}
+
+export function retireObservation(db: Db, live: LiveHub, id: string, actor: Actor, now = new Date()): Observation {
+  const retired = db.transaction((tx) => {
+    const row = getObservationRow(tx, id);
+    if (!row) throw new ApiError(404, 'not_found', 'Not found');
+    assertMayEdit(row, actor, 'retire this entry');
+    if (row.retired) return getObservation(tx, id)!;
+    tx.update(observations).set({ retired: true }).where(eq(observations.id, id)).run();
+    recordChange(tx, id, actor.userId, 'retired', now);
+    return getObservation(tx, id)!;
+  });
+  live.publish(retired.campaignId, retired.diveId, 'observation.retired', {
+    id: retired.id,
+    diveId: retired.diveId,
+    version: retired.version,
+  });
+  return retired;
+}
+
+export function restoreObservation(db: Db, live: LiveHub, id: string, actor: Actor, now = new Date()): Observation {
+  const restored = db.transaction((tx) => {
+    const row = getObservationRow(tx, id);
+    if (!row) throw new ApiError(404, 'not_found', 'Not found');
+    if (!row.retired) return getObservation(tx, id)!;
+    tx.update(observations).set({ retired: false }).where(eq(observations.id, id)).run();
+    recordChange(tx, id, actor.userId, 'restored', now);
+    return getObservation(tx, id)!;
+  });
+  live.publish(restored.campaignId, restored.diveId, 'observation.created', restored);
+  return restored;
+}
+
+export function listRevisions(db: Db, id: string): Revision[] {
+  const rows = db
+    .select()
+    .from(observationRevisions)
+    .where(eq(observationRevisions.observationId, id))
+    .orderBy(desc(observationRevisions.version))
+    .all();
+  const names = namesOf(
+    db,
+    rows.map((r) => r.editedBy),
+  );
+  return rows.map((r) => ({
+    version: r.version,
+    action: r.action,
+    editedBy: r.editedBy,
+    editedByName: names.get(r.editedBy) ?? 'Unknown',
+    editedAt: r.editedAt.toISOString(),
+    snapshot: r.snapshot as Record<string, unknown>,
+  }));
 }

@@ -21,6 +21,8 @@ export type TestServer = {
   /** A client with a session of its own, for tests that end or change sessions. */
   freshSignIn: (email: string, password?: string) => Promise<ReturnType<typeof request.agent>>;
   anonymous: () => ReturnType<typeof request.agent>;
+  /** A fresh session's cookie header, for raw HTTP clients (streams, uploads). */
+  sessionCookie: (email: string) => Promise<string>;
   close: () => Promise<void>;
 };
 
@@ -47,7 +49,7 @@ export async function startTestServer(options: { seed?: boolean; env?: Record<st
     UPLOADS_DIR: path.join(dir, 'uploads'),
     PUBLIC_URL: url,
     AUTH_SECRET: 'test-secret-that-is-long-enough-for-better-auth',
-    LOG_LEVEL: 'silent',
+    LOG_LEVEL: process.env.TEST_LOG_LEVEL ?? 'silent',
     WEB_DIR: webDir,
     ...options.env,
   });
@@ -69,6 +71,18 @@ export async function startTestServer(options: { seed?: boolean; env?: Record<st
     dir,
     anonymous: () => request.agent(url),
     freshSignIn,
+    sessionCookie: async (email) => {
+      const res = await fetch(`${url}/api/auth/sign-in/email`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', origin: url },
+        body: JSON.stringify({ email, password: DEMO_PASSWORD }),
+      });
+      if (res.status !== 200) throw new Error(`sign-in of ${email} failed: ${res.status}`);
+      return res.headers
+        .getSetCookie()
+        .map((c) => c.split(';')[0])
+        .join('; ');
+    },
     signIn: async (email) => {
       let agent = agents.get(email);
       if (!agent) {

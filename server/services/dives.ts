@@ -1,0 +1,152 @@
+import { and, asc, count, eq, inArray, sql } from 'drizzle-orm';
+
+import type { Db } from '../../db/client';
+import { dives, observations } from '../../db/schema';
+import { FRAME_RATES } from '../../lib/timecode';
+import { diveCreateSchema, diveUpdateSchema, phaseInputSchema, type Dive, type DivePhase } from '../../lib/schemas';
+import { ApiError, conflict } from '../errors';
+import type { LiveHub } from './live';
+
+type DiveRow = typeof dives.$inferSelect;
+
+const iso = (d: Date | null) => (d ? d.toISOString() : null);
+
+export function toDive(row: DiveRow, observationCount: number): Dive {
+  return {
+    id: row.id,
+    campaignId: row.campaignId,
+    number: row.number,
+    objectives: row.objectives,
+    plannedMaxDepth: row.plannedMaxDepth,
+    plannedStartAt: iso(row.plannedStartAt),
+    phases: {
+      launch: iso(row.launchAt),
+      onBottom: iso(row.onBottomAt),
+      offBottom: iso(row.offBottomAt),
+      onDeck: iso(row.onDeckAt),
+    },
+    recording: { startAt: iso(row.recordingStartAt), frameRate: row.frameRate },
+    telemetryGapS: row.telemetryGapS,
+    observationCount,
+    version: row.version,
+    createdAt: row.createdAt.toISOString(),
+    updatedAt: row.updatedAt.toISOString(),
+  };
+}
+
+function observationCounts(db: Db, diveIds: string[]) {
+  if (diveIds.length === 0) return new Map<string, number>();
+  const rows = db
+    .select({ id: observations.diveId, n: count() })
+    .from(observations)
+    .where(and(inArray(observations.diveId, diveIds), eq(observations.retired, false)))
+    .groupBy(observations.diveId)
+    .all();
+  return new Map(rows.map((r) => [r.id, r.n]));
+}
+
+export function listDives(db: Db, campaignId: string): Dive[] {
+  const rows = db.select().from(dives).where(eq(dives.campaignId, campaignId)).orderBy(asc(dives.number)).all();
+  const counts = observationCounts(
+    db,
+    rows.map((r) => r.id),
+  );
+  return rows.map((r) => toDive(r, counts.get(r.id) ?? 0));
+}
+
+export function getDive(db: Db, diveId: string): Dive | undefined {
+  const row = db.select().from(dives).where(eq(dives.id, diveId)).get();
+  return row ? toDive(row, observationCounts(db, [row.id]).get(row.id) ?? 0) : undefined;
+}
+
+export function createDive(db: Db, live: LiveHub, campaignId: string, body: unknown): Dive {
+  const input = diveCreateSchema.parse(body);
+  const clash = db
+    .select({ id: dives.id })
+    .from(dives)
+    .where(and(eq(dives.campaignId, campaignId), eq(dives.number, input.number)))
+    .get();
+  if (clash) throw conflict('duplicate_dive_number', `This campaign already has a dive ${input.number}.`);
+  const row = db
+    .insert(dives)
+    .values({
+      campaignId,
+      number: input.number,
+      objectives: input.objectives,
+      plannedMaxDepth: input.plannedMaxDepth ?? null,
+      plannedStartAt: input.plannedStartAt ? new Date(input.plannedStartAt) : null,
+    })
+    .returning()
+    .get();
+  const dive = toDive(row, 0);
+  live.publish(campaignId, dive.id, 'dive.updated', dive);
+  return dive;
+}
+
+export function updateDive(db: Db, live: LiveHub, diveId: string, body: unknown): Dive {
+  const input = diveUpdateSchema.parse(body);
+  if (input.frameRate != null && !(input.frameRate in FRAME_RATES)) {
+    throw new ApiError(400, 'validation_failed', 'Unknown frame rate.', [
+      { path: 'frameRate', message: `One of ${Object.keys(FRAME_RATES).join(', ')}` },
+    ]);
+  }
+  const date = (v: string | null | undefined) => (v === undefined ? undefined : v === null ? null : new Date(v));
+  const row = db
+    .update(dives)
+    .set({
+      ...(input.objectives !== undefined ? { objectives: input.objectives } : {}),
+      ...(input.plannedMaxDepth !== undefined ? { plannedMaxDepth: input.plannedMaxDepth } : {}),
+      ...(input.plannedStartAt !== undefined ? { plannedStartAt: date(input.plannedStartAt) } : {}),
+      ...(input.recordingStartAt !== undefined ? { recordingStartAt: date(input.recordingStartAt) } : {}),
+      ...(input.frameRate !== undefined ? { frameRate: input.frameRate } : {}),
+      ...(input.telemetryGapS !== undefined ? { telemetryGapS: input.telemetryGapS } : {}),
+      version: sql`${dives.version} + 1`,
+      updatedAt: new Date(),
+    })
+    .where(and(eq(dives.id, diveId), eq(dives.version, input.version)))
+    .returning()
+    .get();
+  if (!row) {
+    const current = db.select({ v: dives.version }).from(dives).where(eq(dives.id, diveId)).get();
+    if (!current) throw new ApiError(404, 'not_found', 'Not found');
+    throw conflict('stale_version', `This dive was changed by someone else (it is at version ${current.v}). Nothing was overwritten.`);
+  }
+  const dive = getDive(db, diveId)!;
+  live.publish(dive.campaignId, dive.id, 'dive.updated', dive);
+  return dive;
+}
+
+const phaseColumn: Record<DivePhase, 'launchAt' | 'onBottomAt' | 'offBottomAt' | 'onDeckAt'> = {
+  launch: 'launchAt',
+  'on-bottom': 'onBottomAt',
+  'off-bottom': 'offBottomAt',
+  'on-deck': 'onDeckAt',
+};
+const order: DivePhase[] = ['launch', 'on-bottom', 'off-bottom', 'on-deck'];
+
+/** Marks a dive phase (now, or at a given time). Phases must follow each other in time. */
+export function setPhase(db: Db, live: LiveHub, diveId: string, body: unknown, now = new Date()): Dive {
+  const input = phaseInputSchema.parse(body);
+  const at = input.at === null ? null : input.at ? new Date(input.at) : now;
+  const row = db.select().from(dives).where(eq(dives.id, diveId)).get();
+  if (!row) throw new ApiError(404, 'not_found', 'Not found');
+  if (at) {
+    const index = order.indexOf(input.phase);
+    for (const [i, phase] of order.entries()) {
+      const other = row[phaseColumn[phase]];
+      if (!other || i === index) continue;
+      if ((i < index && other > at) || (i > index && other < at)) {
+        throw new ApiError(400, 'validation_failed', 'Dive phases follow each other in time.', [
+          { path: 'at', message: `${input.phase} cannot be ${i < index ? 'before' : 'after'} ${phase} (${other.toISOString()})` },
+        ]);
+      }
+    }
+  }
+  db.update(dives)
+    .set({ [phaseColumn[input.phase]]: at, version: sql`${dives.version} + 1`, updatedAt: now })
+    .where(eq(dives.id, diveId))
+    .run();
+  const dive = getDive(db, diveId)!;
+  live.publish(dive.campaignId, dive.id, 'dive.updated', dive);
+  return dive;
+}

@@ -1,0 +1,206 @@
+import { and, eq, sql } from 'drizzle-orm';
+
+import type { Db, Executor } from '../../db/client';
+import { campaigns, custodyEvents, finds, identifications, observationTags, tags } from '../../db/schema';
+import {
+  custodyInputSchema,
+  findInputSchema,
+  identificationInputSchema,
+  verificationInputSchema,
+  type ObservationDetail,
+} from '../../lib/schemas';
+import { ApiError, conflict } from '../errors';
+import type { LiveHub } from './live';
+import { getObservation, getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
+
+function loadLive(db: Executor, id: string) {
+  const row = getObservationRow(db, id);
+  if (!row) throw new ApiError(404, 'not_found', 'Not found');
+  if (row.retired) throw conflict('retired', 'This entry has been retired. A lead can restore it.');
+  return row;
+}
+
+function announce(db: Db, live: LiveHub, id: string): ObservationDetail {
+  const observation = getObservation(db, id)!;
+  live.publish(observation.campaignId, observation.diveId, 'observation.updated', observation);
+  return getObservationDetail(db, id)!;
+}
+
+/**
+ * Proposes (or replaces) a biology entry's identification. Scientists and leads may propose one
+ * on any entry, others on their own; a new name starts unverified again.
+ */
+export function setIdentification(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
+  const input = identificationInputSchema.parse(body);
+  db.transaction((tx) => {
+    const row = loadLive(tx, id);
+    if (row.kind !== 'biology')
+      throw new ApiError(400, 'validation_failed', 'Only biology entries carry an identification.', [
+        { path: 'kind', message: 'Change the entry to biology first' },
+      ]);
+    if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
+      throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may propose an identification.');
+    }
+    const previous = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
+    const sameName = previous?.scientificName === input.scientificName && previous.qualifier === (input.qualifier ?? null);
+    const values = {
+      scientificName: input.scientificName,
+      taxonRank: input.taxonRank ?? null,
+      qualifier: input.qualifier ?? null,
+      confidence: input.confidence ?? null,
+      taxonId: input.taxonId ?? null,
+      identifiedBy: sameName && previous ? previous.identifiedBy : actor.userId,
+      ...(sameName && previous
+        ? {}
+        : { verificationStatus: 'unverified' as const, verifiedBy: null, verifiedAt: null, verificationNote: null }),
+      updatedAt: new Date(),
+    };
+    tx.insert(identifications)
+      .values({ observationId: id, ...values })
+      .onConflictDoUpdate({ target: identifications.observationId, set: values })
+      .run();
+    recordChange(tx, id, actor.userId, 'updated');
+  });
+  return announce(db, live, id);
+}
+
+/**
+ * Verifies or disputes an identification: a lead, or a scientist who neither proposed the name
+ * nor wrote the entry (nobody verifies their own identification).
+ */
+export function verifyIdentification(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
+  const input = verificationInputSchema.parse(body);
+  db.transaction((tx) => {
+    const row = loadLive(tx, id);
+    const ident = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
+    if (!ident) throw conflict('no_identification', 'There is no identification to verify yet.');
+    if (actor.role !== 'lead' && actor.role !== 'scientist') {
+      throw new ApiError(403, 'forbidden', 'Only scientists and leads verify identifications.');
+    }
+    if (actor.role === 'scientist' && (ident.identifiedBy === actor.userId || row.authorId === actor.userId)) {
+      throw new ApiError(403, 'forbidden', 'Another scientist or a lead must verify this: you proposed the name or wrote the entry.');
+    }
+    tx.update(identifications)
+      .set({ verificationStatus: input.status, verifiedBy: actor.userId, verifiedAt: new Date(), verificationNote: input.note ?? null })
+      .where(eq(identifications.observationId, id))
+      .run();
+    recordChange(tx, id, actor.userId, 'updated');
+  });
+  return announce(db, live, id);
+}
+
+/** Campaign initials and the two-digit year: "Varn Shoal 2026" → "VS26". */
+function campaignCode(name: string): string {
+  const year = /\b(\d{2})(\d{2})\b/.exec(name);
+  const letters = name
+    .replace(/\b\d{4}\b/, '')
+    .split(/\s+/)
+    .filter(Boolean)
+    .map((w) => w[0]!.toUpperCase())
+    .join('')
+    .slice(0, 4);
+  return `${letters || 'F'}${year ? year[2] : ''}`;
+}
+
+/** The next free find number: one more than the highest of the campaign's numbers that share the usual pattern. */
+export function nextFindNumber(db: Executor, campaignId: string): string {
+  const numbers = db.select({ n: finds.findNumber }).from(finds).where(eq(finds.campaignId, campaignId)).all();
+  const parsed = numbers
+    .map(({ n }) => /^(.*?)(\d+)$/.exec(n))
+    .filter((m): m is RegExpExecArray => !!m)
+    .map((m) => ({ prefix: m[1]!, digits: m[2]! }));
+  if (parsed.length === 0) {
+    const campaign = db.select({ name: campaigns.name }).from(campaigns).where(eq(campaigns.id, campaignId)).get();
+    return `${campaignCode(campaign?.name ?? '')}-001`;
+  }
+  const byPrefix = new Map<string, { count: number; max: number; width: number }>();
+  for (const p of parsed) {
+    const entry = byPrefix.get(p.prefix) ?? { count: 0, max: 0, width: p.digits.length };
+    byPrefix.set(p.prefix, {
+      count: entry.count + 1,
+      max: Math.max(entry.max, Number(p.digits)),
+      width: Math.max(entry.width, p.digits.length),
+    });
+  }
+  const [prefix, best] = [...byPrefix].sort((a, b) => b[1].count - a[1].count)[0]!;
+  const taken = new Set(numbers.map(({ n }) => n.toLowerCase()));
+  let next = best.max + 1;
+  while (taken.has(`${prefix}${String(next).padStart(best.width, '0')}`.toLowerCase())) next++;
+  return `${prefix}${String(next).padStart(best.width, '0')}`;
+}
+
+/** Records or corrects an archaeology entry's find; a number already used in the campaign is a 409. */
+export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
+  const input = findInputSchema.parse(body);
+  db.transaction((tx) => {
+    const row = loadLive(tx, id);
+    if (row.kind !== 'archaeology')
+      throw new ApiError(400, 'validation_failed', 'Only archaeology entries carry a find.', [
+        { path: 'kind', message: 'Change the entry to archaeology first' },
+      ]);
+    if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
+      throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may record a find.');
+    }
+    const clash = tx
+      .select({ id: finds.observationId })
+      .from(finds)
+      .where(and(eq(finds.campaignId, row.campaignId), sql`lower(${finds.findNumber}) = lower(${input.findNumber})`))
+      .get();
+    if (clash && clash.id !== id) {
+      throw conflict(
+        'duplicate_find_number',
+        `Find number ${input.findNumber} is already used in this campaign; the next free one is ${nextFindNumber(tx, row.campaignId)}.`,
+      );
+    }
+    const values = {
+      campaignId: row.campaignId,
+      findNumber: input.findNumber,
+      objectType: input.objectType ?? null,
+      material: input.material ?? null,
+      condition: input.condition ?? null,
+      state: input.state,
+      updatedAt: new Date(),
+    };
+    tx.insert(finds)
+      .values({ observationId: id, ...values })
+      .onConflictDoUpdate({ target: finds.observationId, set: values })
+      .run();
+    recordChange(tx, id, actor.userId, 'updated');
+  });
+  return announce(db, live, id);
+}
+
+/**
+ * Adds a step to the custody trail of a recovered find or a sample (an entry tagged "sample").
+ * The trail is append-only: a correction is a new step.
+ */
+export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
+  const input = custodyInputSchema.parse(body);
+  db.transaction((tx) => {
+    const row = loadLive(tx, id);
+    if (actor.role === 'guest' && row.authorId !== actor.userId)
+      throw new ApiError(403, 'forbidden', 'Guests record custody only on their own entries.');
+    const find = tx.select({ state: finds.state }).from(finds).where(eq(finds.observationId, id)).get();
+    const isSample = tx
+      .select({ n: sql<number>`count(*)` })
+      .from(observationTags)
+      .innerJoin(tags, eq(tags.id, observationTags.tagId))
+      .where(and(eq(observationTags.observationId, id), sql`lower(${tags.name}) = 'sample'`))
+      .get();
+    if (find?.state !== 'recovered' && !isSample?.n) {
+      throw conflict('not_in_custody', 'A custody trail is kept for recovered finds and for samples (entries tagged "sample").');
+    }
+    tx.insert(custodyEvents)
+      .values({
+        observationId: id,
+        holder: input.holder,
+        since: new Date(input.since),
+        location: input.location,
+        container: input.container ?? null,
+        note: input.note ?? null,
+        recordedBy: actor.userId,
+      })
+      .run();
+  });
+  return announce(db, live, id);
+}

@@ -1,0 +1,90 @@
+import { and, asc, eq, gt } from 'drizzle-orm';
+import type { RequestHandler } from 'express';
+
+import { liveEvents, session } from '../../db/schema';
+import type { AppContext } from '../context';
+import { accessOf, roleIn } from '../middleware/campaign-access';
+import { userOf } from '../middleware/session';
+import type { LiveEvent } from './live';
+
+/** More missed events than this and the reader is told to reload instead. */
+const REPLAY_LIMIT = 2000;
+/** A reader that stops reading is cut off before its buffer grows without bound. */
+const MAX_BUFFERED_BYTES = 4 * 1024 * 1024;
+
+const frame = (e: Pick<LiveEvent, 'id' | 'type' | 'payload'>) => `id: ${e.id}\nevent: ${e.type}\ndata: ${JSON.stringify(e.payload)}\n\n`;
+
+/**
+ * `GET /api/dives/:diveId/stream`: the dive's changes as Server-Sent Events. A reconnect with
+ * `Last-Event-ID` first gets every event it missed, from the database; then live ones. The
+ * stream closes when its session ends or its member loses access to the campaign.
+ */
+export function diveStream({ db, live, env }: AppContext): RequestHandler {
+  return (req, res) => {
+    const user = userOf(req);
+    const { campaignId } = accessOf(req);
+    const diveId = req.params.diveId as string;
+    const token = req.sessionToken;
+    const lastSeen = Number(req.get('last-event-id') ?? req.query.lastEventId ?? NaN);
+
+    res.status(200);
+    res.setHeader('Content-Type', 'text/event-stream; charset=utf-8');
+    res.setHeader('Cache-Control', 'no-cache, no-transform');
+    res.setHeader('X-Accel-Buffering', 'no');
+    res.flushHeaders();
+    req.socket.setNoDelay(true);
+    res.write('retry: 3000\n\n');
+
+    let closed = false;
+    const cleanups: (() => void)[] = [];
+    const close = () => {
+      if (closed) return;
+      closed = true;
+      for (const c of cleanups) c();
+      res.end();
+    };
+    const send = (chunk: string) => {
+      if (closed) return;
+      res.write(chunk);
+      if (res.writableLength > MAX_BUFFERED_BYTES) close();
+    };
+
+    if (Number.isInteger(lastSeen) && lastSeen >= 0) {
+      const missed = db
+        .select()
+        .from(liveEvents)
+        .where(and(eq(liveEvents.diveId, diveId), gt(liveEvents.id, lastSeen)))
+        .orderBy(asc(liveEvents.id))
+        .limit(REPLAY_LIMIT + 1)
+        .all();
+      if (missed.length > REPLAY_LIMIT) send(`event: resync\ndata: {}\n\n`);
+      else for (const e of missed) send(frame({ id: e.id, type: e.type as LiveEvent['type'], payload: e.payload }));
+    } else {
+      send(`event: ready\ndata: {}\n\n`);
+    }
+
+    const stillAllowed = () => {
+      if (!token) return false;
+      const s = db.select({ expiresAt: session.expiresAt }).from(session).where(eq(session.token, token)).get();
+      return !!s && s.expiresAt > new Date() && !!roleIn(db, campaignId, user);
+    };
+
+    cleanups.push(live.subscribe(diveId, (e) => send(frame(e))));
+    cleanups.push(
+      live.onSessionEnded((ended) => {
+        if (ended === token) close();
+      }),
+    );
+    cleanups.push(
+      live.onMembershipChanged((change) => {
+        if (change.userId === user.id && change.campaignId === campaignId && !stillAllowed()) close();
+      }),
+    );
+    const heartbeat = setInterval(() => {
+      if (!stillAllowed()) close();
+      else send(`: keep-alive ${Date.now()}\n\n`);
+    }, env.STREAM_HEARTBEAT_MS);
+    cleanups.push(() => clearInterval(heartbeat));
+    req.on('close', close);
+  };
+}

@@ -1,0 +1,133 @@
+import { and, asc, count, eq, ne, sql } from 'drizzle-orm';
+
+import type { Db, Executor } from '../../db/client';
+import { observations, observationTags, quickMarks, tags } from '../../db/schema';
+import { quickMarkInputSchema, tagCreateSchema, tagUpdateSchema, type QuickMark, type Tag } from '../../lib/schemas';
+import { ApiError, conflict } from '../errors';
+import { audit } from './audit';
+
+function tagByName(db: Db, campaignId: string, name: string) {
+  return db
+    .select()
+    .from(tags)
+    .where(and(eq(tags.campaignId, campaignId), sql`lower(${tags.name}) = lower(${name})`))
+    .get();
+}
+
+function usage(db: Executor, tagId: string): number {
+  return (
+    db
+      .select({ n: count() })
+      .from(observationTags)
+      .innerJoin(observations, eq(observations.id, observationTags.observationId))
+      .where(and(eq(observationTags.tagId, tagId), eq(observations.retired, false)))
+      .get()?.n ?? 0
+  );
+}
+
+const toTag = (db: Executor, t: typeof tags.$inferSelect): Tag => ({ id: t.id, name: t.name, retired: t.retired, usage: usage(db, t.id) });
+
+export function createTag(db: Db, campaignId: string, actorId: string, body: unknown): Tag {
+  const { name } = tagCreateSchema.parse(body);
+  const existing = tagByName(db, campaignId, name);
+  if (existing) throw conflict('duplicate_tag', `The vocabulary already has "${existing.name}".`);
+  const row = db.insert(tags).values({ campaignId, name }).returning().get();
+  audit(db, { campaignId, actorId, action: 'tag.created', target: row.id, detail: { name } });
+  return toTag(db, row);
+}
+
+/**
+ * Renames, retires or merges a tag. A merge moves every entry of this tag to the other one and
+ * retires this one, so nothing that was tagged loses its tag.
+ */
+export function updateTag(db: Db, tagId: string, actorId: string, body: unknown): Tag {
+  const input = tagUpdateSchema.parse(body);
+  return db.transaction((tx) => {
+    const tag = tx.select().from(tags).where(eq(tags.id, tagId)).get();
+    if (!tag) throw new ApiError(404, 'not_found', 'Not found');
+    if (input.mergeInto) {
+      const target = tx.select().from(tags).where(eq(tags.id, input.mergeInto)).get();
+      if (!target || target.campaignId !== tag.campaignId || target.id === tag.id) {
+        throw new ApiError(400, 'validation_failed', 'Merge into another tag of the same campaign.', [
+          { path: 'mergeInto', message: 'Unknown tag' },
+        ]);
+      }
+      tx.run(sql`insert or ignore into observation_tags (observation_id, tag_id)
+        select observation_id, ${target.id} from observation_tags where tag_id = ${tag.id}`);
+      tx.delete(observationTags).where(eq(observationTags.tagId, tag.id)).run();
+      tx.update(tags).set({ retired: true }).where(eq(tags.id, tag.id)).run();
+      audit(tx, {
+        campaignId: tag.campaignId,
+        actorId,
+        action: 'tag.merged',
+        target: tag.id,
+        detail: { from: tag.name, into: target.name },
+      });
+      return toTag(tx, tx.select().from(tags).where(eq(tags.id, target.id)).get()!);
+    }
+    if (input.name && input.name.toLowerCase() !== tag.name.toLowerCase()) {
+      const clash = tx
+        .select()
+        .from(tags)
+        .where(and(eq(tags.campaignId, tag.campaignId), ne(tags.id, tag.id), sql`lower(${tags.name}) = lower(${input.name})`))
+        .get();
+      if (clash) throw conflict('duplicate_tag', `"${clash.name}" already exists; merge into it instead.`);
+    }
+    tx.update(tags)
+      .set({ ...(input.name ? { name: input.name } : {}), ...(input.retired !== undefined ? { retired: input.retired } : {}) })
+      .where(eq(tags.id, tagId))
+      .run();
+    audit(tx, { campaignId: tag.campaignId, actorId, action: 'tag.updated', target: tag.id, detail: input });
+    return toTag(tx, tx.select().from(tags).where(eq(tags.id, tagId)).get()!);
+  });
+}
+
+const toQuickMark = (q: typeof quickMarks.$inferSelect): QuickMark => ({
+  id: q.id,
+  label: q.label,
+  kind: q.kind,
+  tags: q.tags,
+  position: q.position,
+});
+
+export function listQuickMarks(db: Db, campaignId: string): QuickMark[] {
+  return db
+    .select()
+    .from(quickMarks)
+    .where(and(eq(quickMarks.campaignId, campaignId), eq(quickMarks.retired, false)))
+    .orderBy(asc(quickMarks.position), asc(quickMarks.createdAt))
+    .all()
+    .map(toQuickMark);
+}
+
+export function createQuickMark(db: Db, campaignId: string, body: unknown): QuickMark {
+  const input = quickMarkInputSchema.parse(body);
+  const position = input.position ?? listQuickMarks(db, campaignId).length;
+  return toQuickMark(
+    db.insert(quickMarks).values({ campaignId, label: input.label, kind: input.kind, tags: input.tags, position }).returning().get(),
+  );
+}
+
+export function updateQuickMark(db: Db, id: string, body: unknown): QuickMark {
+  const input = quickMarkInputSchema.partial().parse(body);
+  const row = db
+    .update(quickMarks)
+    .set({ ...input })
+    .where(eq(quickMarks.id, id))
+    .returning()
+    .get();
+  if (!row) throw new ApiError(404, 'not_found', 'Not found');
+  return toQuickMark(row);
+}
+
+export function retireQuickMark(db: Db, id: string): void {
+  db.update(quickMarks).set({ retired: true }).where(eq(quickMarks.id, id)).run();
+}
+
+export function quickMarkCampaign(db: Db, id: string): string | undefined {
+  return db.select({ c: quickMarks.campaignId }).from(quickMarks).where(eq(quickMarks.id, id)).get()?.c;
+}
+
+export function tagCampaign(db: Db, id: string): string | undefined {
+  return db.select({ c: tags.campaignId }).from(tags).where(eq(tags.id, id)).get()?.c;
+}

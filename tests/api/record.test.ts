@@ -1,0 +1,376 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+import { observationDetailSchema, observationPageSchema, observationSchema, revisionSchema } from '@/lib/schemas';
+import { demoIds, emails } from '../helpers/demo';
+import { startTestServer, type TestServer } from '../helpers/test-server';
+
+let t: TestServer;
+let ids: ReturnType<typeof demoIds>;
+
+beforeAll(async () => {
+  t = await startTestServer({ env: { AUTH_RATE_LIMIT: '200' } });
+  ids = demoIds(t.ctx.db);
+});
+afterAll(() => t.close());
+
+async function logAs(email: string, body: Record<string, unknown>) {
+  const res = await (await t.signIn(email)).post(`/api/dives/${ids.dive2026}/observations`).send(body);
+  expect(res.status).toBe(201);
+  return observationSchema.parse(res.body);
+}
+
+const detail = async (id: string) =>
+  observationDetailSchema.parse((await (await t.signIn(emails.lead)).get(`/api/observations/${id}`)).body);
+
+describe('edits carry a version', () => {
+  it('applies an edit, bumps the version and keeps every earlier state', async () => {
+    const created = await logAs(emails.biologist, { kind: 'biology', title: 'Sponge at the sternpost', depth: 590, tags: ['sponge'] });
+    const bio = await t.signIn(emails.biologist);
+    const edit = await bio
+      .patch(`/api/observations/${created.id}`)
+      .send({ version: 1, title: 'Glass sponge at the sternpost', note: 'Vase-shaped.' });
+    expect(edit.status).toBe(200);
+    expect(edit.body).toMatchObject({
+      title: 'Glass sponge at the sternpost',
+      note: 'Vase-shaped.',
+      version: 2,
+      depth: 590,
+      depthSource: 'manual',
+      tags: ['sponge'],
+    });
+
+    const revisions = (await bio.get(`/api/observations/${created.id}/revisions`)).body.map((r: unknown) => revisionSchema.parse(r));
+    expect(revisions.map((r: { version: number; action: string }) => [r.version, r.action])).toEqual([
+      [2, 'updated'],
+      [1, 'created'],
+    ]);
+    expect(revisions[1].snapshot.title).toBe('Sponge at the sternpost');
+    expect(revisions[0].snapshot.title).toBe('Glass sponge at the sternpost');
+    expect(revisions[0].editedByName).toBe('Cleo Varga');
+    expect(Date.parse(revisions[0].editedAt)).not.toBeNaN();
+  });
+
+  it('refuses a stale version with 409 and overwrites nothing', async () => {
+    const created = await logAs(emails.biologist, { kind: 'biology', title: 'Anemone' });
+    const bio = await t.signIn(emails.biologist);
+    const lead = await t.signIn(emails.lead);
+    expect((await lead.patch(`/api/observations/${created.id}`).send({ version: 1, title: 'Anemone on an amphora neck' })).status).toBe(
+      200,
+    );
+    const stale = await bio.patch(`/api/observations/${created.id}`).send({ version: 1, title: 'Anemone (mine)' });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.code).toBe('stale_version');
+    const now = await detail(created.id);
+    expect(now.title).toBe('Anemone on an amphora neck');
+    expect(now.version).toBe(2);
+  });
+
+  it('lets only the author and leads edit; another scientist gets 403 and a reason', async () => {
+    const created = await logAs(emails.guest, { kind: 'biology', title: 'Brittle stars from the feed' });
+    const other = await (await t.signIn(emails.archaeologist)).patch(`/api/observations/${created.id}`).send({ version: 1, title: 'x' });
+    expect(other.status).toBe(403);
+    expect(other.body.error.message).toMatch(/author/);
+    const own = await (
+      await t.signIn(emails.guest)
+    )
+      .patch(`/api/observations/${created.id}`)
+      .send({ version: 1, title: 'Brittle stars, 10–20 per frame' });
+    expect(own.status).toBe(200);
+    const outsider = await (await t.signIn(emails.outsider)).patch(`/api/observations/${created.id}`).send({ version: 2, title: 'x' });
+    expect(outsider.status).toBe(404);
+    expect((await detail(created.id)).title).toBe('Brittle stars, 10–20 per frame');
+  });
+
+  it('refuses edits that smuggle fields or carry bad values, changing nothing', async () => {
+    const created = await logAs(emails.biologist, { kind: 'biology', title: 'Keep me' });
+    const bio = await t.signIn(emails.biologist);
+    for (const body of [
+      { title: 'x' },
+      { version: 1, authorId: ids.userId(emails.lead) },
+      { version: 1, retired: true },
+      { version: 1, kind: 'geology' },
+      { version: 1, observedAt: '2026-05-13 21:00' },
+      { version: 1, lat: 36.1 },
+    ]) {
+      const res = await bio.patch(`/api/observations/${created.id}`).send(body);
+      expect(res.status, JSON.stringify(body)).toBe(400);
+    }
+    const now = await detail(created.id);
+    expect(now).toMatchObject({ title: 'Keep me', version: 1, retired: false, authorId: ids.userId(emails.biologist) });
+  });
+
+  it('clears a typed depth back to no value, and changes the time', async () => {
+    const created = await logAs(emails.biologist, { kind: 'biology', title: 'Depth to clear', depth: 601 });
+    const res = await (
+      await t.signIn(emails.biologist)
+    )
+      .patch(`/api/observations/${created.id}`)
+      .send({ version: 1, depth: null, observedAt: '2026-05-13T21:00:00.000Z' });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ depth: null, depthSource: null, observedAt: '2026-05-13T21:00:00.000Z' });
+  });
+});
+
+describe('retiring', () => {
+  it('hides a retired entry from the log, keeps it, and lets a lead restore it', async () => {
+    const created = await logAs(emails.pilot, { kind: 'operations', title: 'Manipulator check' });
+    const pilot = await t.signIn(emails.pilot);
+    const inLog = async () =>
+      observationPageSchema
+        .parse((await pilot.get(`/api/dives/${ids.dive2026}/observations`).query({ limit: 200 })).body)
+        .items.some((o) => o.id === created.id);
+    expect(await inLog()).toBe(true);
+
+    expect((await (await t.signIn(emails.biologist)).delete(`/api/observations/${created.id}`)).status).toBe(403);
+    const retired = await pilot.delete(`/api/observations/${created.id}`);
+    expect(retired.status).toBe(200);
+    expect(retired.body.retired).toBe(true);
+    expect(await inLog()).toBe(false);
+    expect((await pilot.get(`/api/observations/${created.id}`)).body.retired).toBe(true);
+
+    const lead = await t.signIn(emails.lead);
+    const list = observationPageSchema.parse(
+      (await lead.get(`/api/dives/${ids.dive2026}/observations`).query({ retired: 'only', limit: 200 })).body,
+    );
+    expect(list.items.map((o) => o.id)).toContain(created.id);
+    expect((await pilot.get(`/api/dives/${ids.dive2026}/observations`).query({ retired: 'only' })).status).toBe(403);
+
+    expect((await pilot.post(`/api/observations/${created.id}/restore`)).status).toBe(403);
+    expect((await lead.post(`/api/observations/${created.id}/restore`)).status).toBe(200);
+    expect(await inLog()).toBe(true);
+    const actions = (await lead.get(`/api/observations/${created.id}/revisions`)).body.map((r: { action: string }) => r.action);
+    expect(actions).toEqual(['restored', 'retired', 'created']);
+  });
+
+  it('keeps retired entries in the database: nothing is hard-deleted', async () => {
+    const created = await logAs(emails.biologist, { kind: 'biology', title: 'Short-lived' });
+    await (await t.signIn(emails.biologist)).delete(`/api/observations/${created.id}`);
+    const row = t.ctx.db.$client.prepare('select retired from observations where id = ?').get(created.id) as { retired: number };
+    expect(row.retired).toBe(1);
+  });
+});
+
+describe('identifications', () => {
+  it('are proposed by scientists and verified by someone else', async () => {
+    const created = await logAs(emails.biologist, { kind: 'biology', title: 'Coral on the stern rail' });
+    const bio = await t.signIn(emails.biologist);
+    const proposed = await bio
+      .put(`/api/observations/${created.id}/identification`)
+      .send({
+        scientificName: 'Desmophyllum pertusum',
+        taxonRank: 'species',
+        qualifier: 'cf.',
+        confidence: 'medium',
+        taxonId: 'urn:lsid:marinespecies.org:taxname:1245747',
+      });
+    expect(proposed.status).toBe(200);
+    expect(proposed.body.identificationDetail).toMatchObject({
+      scientificName: 'Desmophyllum pertusum',
+      verificationStatus: 'unverified',
+      identifiedByName: 'Cleo Varga',
+    });
+    expect(proposed.body.identification).toEqual({
+      scientificName: 'Desmophyllum pertusum',
+      qualifier: 'cf.',
+      verificationStatus: 'unverified',
+    });
+
+    const self = await bio.post(`/api/observations/${created.id}/identification/verify`).send({ status: 'verified' });
+    expect(self.status).toBe(403);
+    const guest = await (
+      await t.signIn(emails.guest)
+    )
+      .post(`/api/observations/${created.id}/identification/verify`)
+      .send({ status: 'verified' });
+    expect(guest.status).toBe(403);
+    const pilot = await (
+      await t.signIn(emails.pilot)
+    )
+      .post(`/api/observations/${created.id}/identification/verify`)
+      .send({ status: 'verified' });
+    expect(pilot.status).toBe(403);
+
+    const other = await (
+      await t.signIn(emails.archaeologist)
+    )
+      .post(`/api/observations/${created.id}/identification/verify`)
+      .send({ status: 'verified', note: 'Polyps clear on the still.' });
+    expect(other.status).toBe(200);
+    expect(other.body.identificationDetail).toMatchObject({
+      verificationStatus: 'verified',
+      verifiedByName: 'Bram Ostrander',
+      verificationNote: 'Polyps clear on the still.',
+    });
+
+    const filtered = observationPageSchema.parse(
+      (await bio.get(`/api/dives/${ids.dive2026}/observations`).query({ verification: 'verified', limit: 200 })).body,
+    );
+    expect(filtered.items.map((o) => o.id)).toEqual([created.id]);
+
+    // A different name starts unverified again.
+    const renamed = await (
+      await t.signIn(emails.lead)
+    )
+      .put(`/api/observations/${created.id}/identification`)
+      .send({ scientificName: 'Madrepora oculata' });
+    expect(renamed.body.identificationDetail).toMatchObject({ verificationStatus: 'unverified', verifiedBy: null });
+  });
+
+  it('belong to biology entries only, and refuse a bad taxon identifier', async () => {
+    const arch = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Amphora' });
+    const res = await (
+      await t.signIn(emails.archaeologist)
+    )
+      .put(`/api/observations/${arch.id}/identification`)
+      .send({ scientificName: 'x' });
+    expect(res.status).toBe(400);
+    const bio = await logAs(emails.biologist, { kind: 'biology', title: 'Something' });
+    const bad = await (
+      await t.signIn(emails.biologist)
+    )
+      .put(`/api/observations/${bio.id}/identification`)
+      .send({ scientificName: 'Munida', taxonId: 'javascript:alert(1)' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.issues[0].path).toBe('taxonId');
+  });
+});
+
+describe('finds and their custody', () => {
+  it('numbers finds uniquely in the campaign and proposes the next free number', async () => {
+    const arch = await t.signIn(emails.archaeologist);
+    const next = (await arch.get(`/api/campaigns/${ids.campaign2026}/finds/next-number`)).body.findNumber;
+    expect(next).toBe('VS26-001');
+    const a = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Amphora with stopper' });
+    const first = await arch
+      .put(`/api/observations/${a.id}/find`)
+      .send({ findNumber: next, objectType: 'amphora', material: 'ceramic', condition: 'complete', state: 'in-situ' });
+    expect(first.status).toBe(200);
+    expect(first.body.find).toMatchObject({ findNumber: 'VS26-001', state: 'in-situ' });
+    expect((await arch.get(`/api/campaigns/${ids.campaign2026}/finds/next-number`)).body.findNumber).toBe('VS26-002');
+
+    const b = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Second amphora' });
+    const duplicate = await arch.put(`/api/observations/${b.id}/find`).send({ findNumber: 'vs26-001' });
+    expect(duplicate.status).toBe(409);
+    expect(duplicate.body.error.code).toBe('duplicate_find_number');
+    expect(duplicate.body.error.message).toContain('VS26-002');
+    expect((await detail(b.id)).find).toBeNull();
+  });
+
+  it('keeps a custody trail for recovered finds, not for ones left in situ', async () => {
+    const a = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Coarse ware bowl' });
+    const arch = await t.signIn(emails.archaeologist);
+    await arch.put(`/api/observations/${a.id}/find`).send({ findNumber: 'VS26-050', state: 'in-situ' });
+    const step = { holder: 'Bram Ostrander', since: '2026-05-16T23:10:00.000Z', location: 'Wet lab, tank 2', container: 'Bag 14' };
+    expect((await arch.post(`/api/observations/${a.id}/custody`).send(step)).status).toBe(409);
+    await arch.put(`/api/observations/${a.id}/find`).send({ findNumber: 'VS26-050', state: 'recovered' });
+    const added = await arch.post(`/api/observations/${a.id}/custody`).send(step);
+    expect(added.status).toBe(201);
+    const second = await (
+      await t.signIn(emails.lead)
+    )
+      .post(`/api/observations/${a.id}/custody`)
+      .send({ holder: 'Conservator ashore', since: '2026-05-19T09:00:00.000Z', location: 'Conservation lab' });
+    expect(second.status).toBe(201);
+    expect(second.body.custody.map((c: { holder: string }) => c.holder)).toEqual(['Bram Ostrander', 'Conservator ashore']);
+    expect((await arch.post(`/api/observations/${a.id}/custody`).send({ holder: '', since: 'yesterday', location: '' })).status).toBe(400);
+  });
+});
+
+describe('dives, phases and the vocabulary', () => {
+  it('lets pilots and leads plan dives and mark phases in order', async () => {
+    const pilot = await t.signIn(emails.pilot);
+    const planned = await pilot
+      .post(`/api/campaigns/${ids.campaign2026}/dives`)
+      .send({ number: 'VS-05', objectives: 'Bow mosaic', plannedMaxDepth: 640 });
+    expect(planned.status).toBe(201);
+    expect((await pilot.post(`/api/campaigns/${ids.campaign2026}/dives`).send({ number: 'VS-05' })).status).toBe(409);
+    expect(
+      (await (await t.signIn(emails.biologist)).post(`/api/campaigns/${ids.campaign2026}/dives`).send({ number: 'VS-06' })).status,
+    ).toBe(403);
+
+    const diveId = planned.body.id as string;
+    const launch = await pilot.post(`/api/dives/${diveId}/phases`).send({ phase: 'launch', at: '2026-05-17T18:00:00.000Z' });
+    expect(launch.status).toBe(200);
+    expect(launch.body.phases.launch).toBe('2026-05-17T18:00:00.000Z');
+    const early = await pilot.post(`/api/dives/${diveId}/phases`).send({ phase: 'on-bottom', at: '2026-05-17T17:00:00.000Z' });
+    expect(early.status).toBe(400);
+    expect((await (await t.signIn(emails.guest)).post(`/api/dives/${diveId}/phases`).send({ phase: 'on-deck' })).status).toBe(403);
+    const now = await pilot.post(`/api/dives/${diveId}/phases`).send({ phase: 'on-bottom' });
+    expect(Date.parse(now.body.phases.onBottom)).toBeGreaterThan(Date.parse('2026-05-17T18:00:00.000Z'));
+  });
+
+  it('edits a dive with a version; a stale one is a 409', async () => {
+    const pilot = await t.signIn(emails.pilot);
+    const dive = (await pilot.get(`/api/dives/${ids.dive2026}`)).body;
+    const ok = await pilot
+      .patch(`/api/dives/${ids.dive2026}`)
+      .send({ version: dive.version, recordingStartAt: '2026-05-13T17:35:00.000Z', frameRate: '29.97 DF' });
+    expect(ok.status).toBe(200);
+    expect(ok.body.recording).toEqual({ startAt: '2026-05-13T17:35:00.000Z', frameRate: '29.97 DF' });
+    expect((await pilot.patch(`/api/dives/${ids.dive2026}`).send({ version: dive.version, objectives: 'x' })).status).toBe(409);
+    expect((await pilot.patch(`/api/dives/${ids.dive2026}`).send({ version: ok.body.version, frameRate: '31' })).status).toBe(400);
+  });
+
+  it('lets the lead add, rename and merge tags without losing any tagging', async () => {
+    const lead = await t.signIn(emails.lead);
+    const added = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'bryozoan' });
+    expect(added.status).toBe(201);
+    expect((await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'Bryozoan' })).status).toBe(409);
+    expect((await (await t.signIn(emails.biologist)).post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'x' })).status).toBe(403);
+
+    const tagged = await logAs(emails.biologist, { kind: 'biology', title: 'Lace-like colony', tags: ['bryozoan'] });
+    const renamed = await lead.patch(`/api/tags/${added.body.id}`).send({ name: 'bryozoa' });
+    expect(renamed.body.name).toBe('bryozoa');
+    expect((await detail(tagged.id)).tags).toEqual(['bryozoa']);
+
+    const tagList = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[];
+    const coral = tagList.find((x) => x.name === 'coral')!;
+    const merged = await lead.patch(`/api/tags/${added.body.id}`).send({ mergeInto: coral.id });
+    expect(merged.status).toBe(200);
+    expect((await detail(tagged.id)).tags).toEqual(['coral']);
+    const after = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { name: string; retired: boolean }[];
+    expect(after.find((x) => x.name === 'bryozoa')?.retired).toBe(true);
+  });
+
+  it('keeps quick marks per campaign, defined by the lead', async () => {
+    const lead = await t.signIn(emails.lead);
+    const made = await lead
+      .post(`/api/campaigns/${ids.campaign2026}/quick-marks`)
+      .send({ label: 'Microbial mat', kind: 'biology', tags: ['microbial-mat'] });
+    expect(made.status).toBe(201);
+    expect(
+      (await (await t.signIn(emails.pilot)).post(`/api/campaigns/${ids.campaign2026}/quick-marks`).send({ label: 'x', kind: 'operations' }))
+        .status,
+    ).toBe(403);
+    const list = (await (await t.signIn(emails.guest)).get(`/api/campaigns/${ids.campaign2026}/quick-marks`)).body;
+    expect(list).toEqual([expect.objectContaining({ label: 'Microbial mat', kind: 'biology', tags: ['microbial-mat'] })]);
+    expect((await lead.delete(`/api/quick-marks/${made.body.id}`)).status).toBe(204);
+    expect((await lead.get(`/api/campaigns/${ids.campaign2026}/quick-marks`)).body).toEqual([]);
+  });
+});
+
+describe('sorting and filtering the log', () => {
+  it('sorts by depth, shallowest first, with unknown depths last', async () => {
+    const page = observationPageSchema.parse(
+      (await (await t.signIn(emails.lead)).get(`/api/dives/${ids.dive2026}/observations`).query({ sort: 'depth', limit: 200 })).body,
+    );
+    const depths = page.items.map((o) => o.depth);
+    const known = depths.filter((d): d is number => d !== null);
+    expect(known).toEqual([...known].sort((a, b) => a - b));
+    expect(depths.slice(known.length).every((d) => d === null)).toBe(true);
+  });
+
+  it('pages a non-time sort without repeating entries', async () => {
+    const lead = await t.signIn(emails.lead);
+    const seen: string[] = [];
+    let cursor: string | null = null;
+    do {
+      const page = observationPageSchema.parse(
+        (await lead.get(`/api/dives/${ids.dive2026}/observations`).query({ sort: 'author', limit: 6, ...(cursor ? { cursor } : {}) })).body,
+      );
+      seen.push(...page.items.map((o) => o.id));
+      cursor = page.nextCursor;
+    } while (cursor);
+    expect(new Set(seen).size).toBe(seen.length);
+  });
+});
