@@ -175,10 +175,13 @@ export const observations = sqliteTable(
       .references(() => user.id, { onDelete: 'restrict' }),
     version: integer('version').notNull().default(1),
     retired: integer('retired', { mode: 'boolean' }).notNull().default(false),
+    /** The sending device's own id for the entry, so a retried send never logs it twice. */
+    clientRef: text('client_ref'),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
   (t) => [
+    uniqueIndex('observation_client_ref_unique').on(t.authorId, t.clientRef),
     index('observation_dive_time_idx').on(t.diveId, t.observedAt),
     index('observation_campaign_idx').on(t.campaignId),
     index('observation_author_idx').on(t.authorId),

@@ -138,6 +138,11 @@ export const observationCreateSchema = z
     lon: lon.nullable().optional(),
     temperature: temperature.nullable().optional(),
     tags: z.array(tagName).max(20, 'At most 20 tags').default([]),
+    /** A random id the sending device gives the entry; sending it again returns the first entry. */
+    clientRef: z
+      .string()
+      .regex(/^[\w-]{8,64}$/)
+      .optional(),
   })
   .strict()
   .refine((o) => (o.lat == null) === (o.lon == null), {

@@ -36,8 +36,17 @@ export function observationRoutes({ db, auth, live }: AppContext): Router {
 
   r.post('/dives/:diveId/observations', ...diveLogger, (req, res) => {
     const { campaignId, userId } = accessOf(req);
-    const created = createObservation(db, live, { diveId: req.params.diveId as string, campaignId, authorId: userId }, req.body);
-    res.status(201).location(`/api/observations/${created.id}`).json(created);
+    const { observation, repeated } = createObservation(
+      db,
+      live,
+      { diveId: req.params.diveId as string, campaignId, authorId: userId },
+      req.body,
+    );
+    // A repeated send of the same entry answers 200 with the entry that was stored the first time.
+    res
+      .status(repeated ? 200 : 201)
+      .location(`/api/observations/${observation.id}`)
+      .json(observation);
   });
 
   r.get('/observations/:id', ...reader, (req, res) => {

@@ -395,8 +395,16 @@ export function createObservation(
   target: { diveId: string; campaignId: string; authorId: string },
   body: unknown,
   now = new Date(),
-): Observation {
+): { observation: Observation; repeated: boolean } {
   const input = observationCreateSchema.parse(body);
+  if (input.clientRef) {
+    const sent = db
+      .select({ id: observations.id })
+      .from(observations)
+      .where(and(eq(observations.authorId, target.authorId), eq(observations.clientRef, input.clientRef)))
+      .get();
+    if (sent) return { observation: getObservation(db, sent.id)!, repeated: true };
+  }
   const observedAt = input.observedAt ? new Date(input.observedAt) : now;
   const stamped = stampValues(db, target.diveId, observedAt, input);
   const created = db.transaction((tx) => {
@@ -411,6 +419,7 @@ export function createObservation(
         title: input.title,
         note: input.note,
         ...stamped,
+        clientRef: input.clientRef ?? null,
         createdAt: now,
         updatedAt: now,
       })
@@ -421,7 +430,7 @@ export function createObservation(
     return getObservation(tx, row.id)!;
   });
   live.publish(target.campaignId, target.diveId, 'observation.created', created);
-  return created;
+  return { observation: created, repeated: false };
 }
 
 /** Only the author and the campaign's leads change or retire an entry. */

@@ -101,13 +101,14 @@ describe('edits carry a version', () => {
 
   it('clears a typed depth back to no value, and changes the time', async () => {
     const created = await logAs(emails.biologist, { kind: 'biology', title: 'Depth to clear', depth: 601 });
+    // Hours before the dive's launch, where no telemetry log reaches.
     const res = await (
       await t.signIn(emails.biologist)
     )
       .patch(`/api/observations/${created.id}`)
-      .send({ version: 1, depth: null, observedAt: '2026-05-13T21:00:00.000Z' });
+      .send({ version: 1, depth: null, observedAt: '2026-05-13T03:00:00.000Z' });
     expect(res.status).toBe(200);
-    expect(res.body).toMatchObject({ depth: null, depthSource: null, observedAt: '2026-05-13T21:00:00.000Z' });
+    expect(res.body).toMatchObject({ depth: null, depthSource: null, observedAt: '2026-05-13T03:00:00.000Z' });
   });
 });
 
@@ -154,15 +155,13 @@ describe('identifications', () => {
   it('are proposed by scientists and verified by someone else', async () => {
     const created = await logAs(emails.biologist, { kind: 'biology', title: 'Coral on the stern rail' });
     const bio = await t.signIn(emails.biologist);
-    const proposed = await bio
-      .put(`/api/observations/${created.id}/identification`)
-      .send({
-        scientificName: 'Desmophyllum pertusum',
-        taxonRank: 'species',
-        qualifier: 'cf.',
-        confidence: 'medium',
-        taxonId: 'urn:lsid:marinespecies.org:taxname:1245747',
-      });
+    const proposed = await bio.put(`/api/observations/${created.id}/identification`).send({
+      scientificName: 'Desmophyllum pertusum',
+      taxonRank: 'species',
+      qualifier: 'cf.',
+      confidence: 'medium',
+      taxonId: 'urn:lsid:marinespecies.org:taxname:1245747',
+    });
     expect(proposed.status).toBe(200);
     expect(proposed.body.identificationDetail).toMatchObject({
       scientificName: 'Desmophyllum pertusum',
@@ -372,5 +371,23 @@ describe('sorting and filtering the log', () => {
       cursor = page.nextCursor;
     } while (cursor);
     expect(new Set(seen).size).toBe(seen.length);
+  });
+});
+
+describe('sending the same entry twice', () => {
+  it('stores it once when the device sends it again with the same clientRef', async () => {
+    const bio = await t.signIn(emails.biologist);
+    const body = { kind: 'biology', title: 'Sent over a dropping link', clientRef: 'device-7f3a9c21-0001' };
+    const first = await bio.post(`/api/dives/${ids.dive2026}/observations`).send(body);
+    const again = await bio.post(`/api/dives/${ids.dive2026}/observations`).send(body);
+    expect(first.status).toBe(201);
+    expect(again.status).toBe(200);
+    expect(again.body.id).toBe(first.body.id);
+    const n = t.ctx.db.$client.prepare("select count(*) from observations where title = 'Sent over a dropping link'").pluck().get();
+    expect(n).toBe(1);
+    // Another person's device may happen to use the same reference: that is a different entry.
+    const other = await (await t.signIn(emails.guest)).post(`/api/dives/${ids.dive2026}/observations`).send(body);
+    expect(other.status).toBe(201);
+    expect(other.body.id).not.toBe(first.body.id);
   });
 });
