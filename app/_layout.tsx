@@ -12,6 +12,7 @@ import PublicSans_700Bold from '@/assets/fonts/PublicSans_700Bold.ttf';
 import SpaceMono_400Regular from '@/assets/fonts/SpaceMono_400Regular.ttf';
 import SpaceMono_700Bold from '@/assets/fonts/SpaceMono_700Bold.ttf';
 import { LoadingState } from '@/components/ui/states';
+import { ToastProvider } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useMe } from '@/hooks/session';
 import { ThemeProvider, useTheme } from '@/hooks/theme';
@@ -64,7 +65,9 @@ export default function RootLayout() {
     <SafeAreaProvider>
       <QueryClientProvider client={queryClient}>
         <ThemeProvider>
-          <Gate />
+          <ToastProvider>
+            <Gate />
+          </ToastProvider>
         </ThemeProvider>
       </QueryClientProvider>
     </SafeAreaProvider>

@@ -8,7 +8,11 @@ import type { z } from 'zod';
 import { apiErrorSchema, type ApiErrorBody } from '@/lib/schemas';
 
 /** Same origin on the web; a native build points at the ship's server. */
-const base = Platform.OS === 'web' ? '' : (process.env.EXPO_PUBLIC_API_URL ?? '');
+const configuredBase: unknown = process.env.EXPO_PUBLIC_API_URL;
+const base = Platform.OS === 'web' || typeof configuredBase !== 'string' ? '' : configuredBase;
+
+/** The full address of an API path (for images, uploads and streams, which do not go through `request`). */
+export const apiUrl = (path: string) => `${base}${path}`;
 
 export type FieldIssue = NonNullable<ApiErrorBody['error']['issues']>[number];
 

@@ -62,3 +62,17 @@ export function parseUtcInput(text: string): string | null {
 export function toUtcInput(iso: string): string {
   return new Date(iso).toISOString().slice(0, 19).replace('T', ' ');
 }
+
+/**
+ * A name with its open-nomenclature qualifier where taxonomists write it (common practice):
+ * "cf." and "aff." before the epithet they doubt ("Munida cf. sarsi"), "sp." and "indet."
+ * after the genus or higher name ("Munida sp.").
+ */
+export function formatScientificName(name: string, qualifier: string | null | undefined): string {
+  const words = name.trim().split(/\s+/);
+  if (!qualifier) return words.join(' ');
+  if ((qualifier === 'cf.' || qualifier === 'aff.') && words.length > 1) {
+    return [...words.slice(0, -1), qualifier, words[words.length - 1]].join(' ');
+  }
+  return [...words, qualifier].join(' ');
+}

@@ -1,62 +1,132 @@
-import { useCallback } from 'react';
-import { ActivityIndicator, FlatList, StyleSheet, View } from 'react-native';
+import { useCallback, useRef } from 'react';
+import { ActivityIndicator, FlatList, Pressable, StyleSheet, View } from 'react-native';
 
 import { ObservationCard } from '@/components/observations/observation-card';
+import { PendingEntries } from '@/components/observations/pending-entries';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
-import { useDiveLog } from '@/hooks/observations';
+import { useDiveLog, type DiveLogFilters } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import type { Observation } from '@/lib/schemas';
-import { space } from '@/lib/tokens';
+import { radius, space } from '@/lib/tokens';
+import { LogTableHeader, LogTableRow } from './log-table';
 
 type Props = {
   diveId: string;
+  filters: DiveLogFilters;
+  onFiltersChange: (f: DiveLogFilters) => void;
+  view: 'cards' | 'table';
   selectedId?: string;
   onSelect: (o: Observation) => void;
+  /** The dive's live feed (held-back entries), and where the list is scrolled to. */
+  live: { held: Observation[]; showHeld: () => void };
+  onScrollOffset: (y: number) => void;
+  onRetryPending: () => void;
   header?: React.ReactElement;
 };
 
-/** The dive's running list of observations, newest first, loading older pages as it scrolls. */
-export function DiveLog({ diveId, selectedId, onSelect, header }: Props) {
+/** A reader this far down the list is reading: new entries wait behind the marker. */
+export const READING_OFFSET = 120;
+
+/**
+ * The dive's running list of observations, newest first, loading older pages as it scrolls and
+ * following the live stream. New entries never push the list down under the reader: while they
+ * are scrolled away from the top, a marker counts them instead.
+ */
+export function DiveLog({
+  diveId,
+  filters,
+  onFiltersChange,
+  view,
+  selectedId,
+  onSelect,
+  live,
+  onScrollOffset,
+  onRetryPending,
+  header,
+}: Props) {
   const { colors } = useTheme();
-  const log = useDiveLog(diveId);
+  const list = useRef<FlatList<Observation>>(null);
+  const log = useDiveLog(diveId, filters);
   const items = log.data?.pages.flatMap((p) => p.items) ?? [];
+
   const renderItem = useCallback(
-    ({ item }: { item: Observation }) => (
-      <ObservationCard observation={item} selected={item.id === selectedId} onPress={() => onSelect(item)} />
-    ),
-    [onSelect, selectedId],
+    ({ item }: { item: Observation }) =>
+      view === 'table' ? (
+        <LogTableRow observation={item} selected={item.id === selectedId} onPress={() => onSelect(item)} />
+      ) : (
+        <ObservationCard observation={item} selected={item.id === selectedId} onPress={() => onSelect(item)} />
+      ),
+    [onSelect, selectedId, view],
   );
 
-  let empty: React.ReactElement | null = null;
+  let empty: React.ReactElement;
   if (log.isPending) empty = <LoadingState label="Loading the dive log…" />;
   else if (log.isError) empty = <ErrorState error={log.error} onRetry={() => void log.refetch()} />;
+  else if (Object.values(filters).some((v) => v && v !== 'time' && v !== 'desc'))
+    empty = <EmptyState title="No entries match" body="Loosen the filters to see more of the log." />;
   else empty = <EmptyState title="No entries yet" body="Nothing has been logged on this dive. Log the first observation." />;
 
+  const showNew = () => {
+    live.showHeld();
+    list.current?.scrollToOffset({ offset: 0, animated: true });
+  };
+
   return (
-    <FlatList
-      testID="dive-log"
-      data={items}
-      keyExtractor={(o) => o.id}
-      renderItem={renderItem}
-      ListHeaderComponent={header}
-      ListEmptyComponent={empty}
-      ListFooterComponent={
-        log.isFetchingNextPage ? (
-          <ActivityIndicator color={colors.accent} />
-        ) : log.hasNextPage ? null : items.length > 0 ? (
-          <Text variant="caption" muted style={styles.end}>
-            Start of the dive log · {items.length} entries
-          </Text>
-        ) : null
-      }
-      onEndReached={() => {
-        if (log.hasNextPage && !log.isFetchingNextPage) void log.fetchNextPage();
-      }}
-      onEndReachedThreshold={0.5}
-      contentContainerStyle={styles.content}
-      ItemSeparatorComponent={Separator}
-    />
+    <View style={styles.fill}>
+      <FlatList
+        ref={list}
+        testID="dive-log"
+        data={items}
+        keyExtractor={(o) => o.id}
+        renderItem={renderItem}
+        ListHeaderComponent={
+          <View>
+            {header}
+            <PendingEntries diveId={diveId} onRetry={onRetryPending} />
+            {view === 'table' ? (
+              <LogTableHeader filters={filters} onSort={(sort, order) => onFiltersChange({ ...filters, sort, order })} />
+            ) : null}
+          </View>
+        }
+        ListEmptyComponent={empty}
+        ListFooterComponent={
+          log.isFetchingNextPage ? (
+            <ActivityIndicator color={colors.accent} />
+          ) : log.hasNextPage || items.length === 0 ? null : (
+            <Text variant="caption" muted style={styles.end}>
+              Start of the dive log · {items.length} entries
+            </Text>
+          )
+        }
+        onScroll={(e) => {
+          const y = e.nativeEvent.contentOffset.y;
+          onScrollOffset(y);
+          if (y <= READING_OFFSET && live.held.length > 0) live.showHeld();
+        }}
+        scrollEventThrottle={100}
+        onEndReached={() => {
+          if (log.hasNextPage && !log.isFetchingNextPage) void log.fetchNextPage();
+        }}
+        onEndReachedThreshold={0.5}
+        contentContainerStyle={view === 'table' ? styles.tableContent : styles.content}
+        ItemSeparatorComponent={view === 'table' ? null : Separator}
+      />
+      {live.held.length > 0 ? (
+        <View style={styles.markerWrap} pointerEvents="box-none">
+          <Pressable
+            testID="new-entries"
+            accessibilityRole="button"
+            onPress={showNew}
+            style={[styles.marker, { backgroundColor: colors.accent }]}
+          >
+            <Text variant="label" color={colors.accentText}>
+              ↑ {live.held.length} new {live.held.length === 1 ? 'entry' : 'entries'}
+            </Text>
+          </Pressable>
+        </View>
+      ) : null}
+    </View>
   );
 }
 
@@ -65,7 +135,11 @@ function Separator() {
 }
 
 const styles = StyleSheet.create({
-  content: { padding: space.lg, paddingBottom: 96, gap: 0 },
+  fill: { flex: 1 },
+  content: { padding: space.lg, paddingBottom: 96 },
+  tableContent: { paddingBottom: 96 },
   sep: { height: space.md },
   end: { textAlign: 'center', paddingVertical: space.lg },
+  markerWrap: { position: 'absolute', top: space.md, left: 0, right: 0, alignItems: 'center' },
+  marker: { borderRadius: radius.pill, paddingHorizontal: space.lg, paddingVertical: space.sm, elevation: 3 },
 });

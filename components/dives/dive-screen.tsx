@@ -1,35 +1,73 @@
 import { useRouter } from 'expo-router';
-import { Pressable, StyleSheet, View } from 'react-native';
+import { useRef, useState } from 'react';
+import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 
 import { ObservationDetail } from '@/components/observations/observation-detail';
+import { GalleryLink } from '@/components/photos/gallery-link';
 import { Button } from '@/components/ui/button';
 import { Icon } from '@/components/ui/icon';
 import { Screen, ScreenHeader } from '@/components/ui/screen';
+import { Segmented } from '@/components/ui/segmented';
 import { EmptyState, ErrorState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
 import { useCampaign } from '@/hooks/campaigns';
 import { useDive } from '@/hooks/dives';
+import { useKeyboardShortcuts } from '@/hooks/keyboard';
 import { useLayout } from '@/hooks/layout';
+import { useDiveLive } from '@/hooks/live';
+import { useDiveLog, type DiveLogFilters } from '@/hooks/observations';
+import { useOutboxFlush } from '@/hooks/outbox';
 import { useTheme } from '@/hooks/theme';
 import type { Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
-import { DiveLog } from './dive-log';
+import { DiveLog, READING_OFFSET } from './dive-log';
 import { diveStatus } from './dive-list';
 import { DivePhases } from './dive-phases';
+import { LiveStatusBadge } from './live-status';
+import { LogFilters } from './log-filters';
+import { PhaseControls } from './phase-controls';
+import { QuickMarkBar } from './quick-mark-bar';
 
-/** A dive: its phases and its log, with the selected entry beside the list on wide screens. */
+/** A dive: its phases and its live log, with the selected entry beside the list on wide screens. */
 export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: string }) {
   const router = useRouter();
   const { colors } = useTheme();
   const { splitView, navPlacement } = useLayout();
   const dive = useDive(diveId);
   const campaign = useCampaign(dive.data?.campaignId);
+  const [filters, setFilters] = useState<DiveLogFilters>({});
+  const [showFilters, setShowFilters] = useState(false);
+  const [view, setView] = useState<'cards' | 'table'>('cards');
+  const scrollOffset = useRef(0);
+  const live = useDiveLive(diveId, () => scrollOffset.current > READING_OFFSET);
+  const sendPending = useOutboxFlush();
+  const items = useDiveLog(diveId, filters).data?.pages.flatMap((p) => p.items) ?? [];
+  const role = campaign.data?.myRole;
 
   const open = (o: Observation) => {
     if (splitView) router.setParams({ entry: o.id });
     else router.push(`/observations/${o.id}`);
   };
   const newEntry = () => router.push(`/dives/${diveId}/new`);
+  const step = (by: number) => {
+    if (items.length === 0) return;
+    const at = items.findIndex((o) => o.id === entryId);
+    const next = items[Math.min(items.length - 1, Math.max(0, at < 0 ? 0 : at + by))];
+    if (next) router.setParams({ entry: next.id });
+  };
+  useKeyboardShortcuts(
+    {
+      n: newEntry,
+      j: () => step(1),
+      ArrowDown: () => step(1),
+      k: () => step(-1),
+      ArrowUp: () => step(-1),
+      e: () => entryId && router.push(`/observations/${entryId}/edit`),
+      Escape: () => router.setParams({ entry: undefined }),
+      f: () => setShowFilters((s) => !s),
+    },
+    splitView,
+  );
 
   if (dive.isError) {
     return (
@@ -43,15 +81,57 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const header = dive.data ? (
     <View style={styles.listHeader}>
       <DivePhases dive={dive.data} />
+      {role === 'lead' || role === 'pilot' ? <PhaseControls dive={dive.data} /> : null}
       {dive.data.objectives ? (
         <Text variant="caption" muted>
           {dive.data.objectives}
         </Text>
       ) : null}
+      {role && role !== 'admin' ? <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} /> : null}
+      <View style={styles.tools}>
+        <Button
+          label={showFilters ? 'Hide filters' : 'Filter'}
+          tone="ghost"
+          compact
+          onPress={() => setShowFilters((s) => !s)}
+          testID="toggle-filters"
+        />
+        {splitView ? (
+          <View style={styles.viewSwitch}>
+            <Segmented
+              label="View"
+              hideLabel
+              value={view}
+              onChange={setView}
+              options={[
+                { value: 'cards', label: 'Cards' },
+                { value: 'table', label: 'Table' },
+              ]}
+              testID="log-view"
+            />
+          </View>
+        ) : null}
+      </View>
+      {showFilters ? <LogFilters campaignId={dive.data.campaignId} filters={filters} onChange={setFilters} /> : null}
     </View>
   ) : undefined;
 
-  const log = <DiveLog diveId={diveId} selectedId={splitView ? entryId : undefined} onSelect={open} header={header} />;
+  const log = (
+    <DiveLog
+      diveId={diveId}
+      filters={filters}
+      onFiltersChange={setFilters}
+      view={splitView ? view : 'cards'}
+      selectedId={splitView ? entryId : undefined}
+      onSelect={open}
+      live={live}
+      onScrollOffset={(y) => {
+        scrollOffset.current = y;
+      }}
+      onRetryPending={() => void sendPending()}
+      header={header}
+    />
+  );
 
   return (
     <Screen>
@@ -61,6 +141,8 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
         back={dive.data ? `/campaigns/${dive.data.campaignId}` : '/'}
         right={
           <View style={styles.actions}>
+            <LiveStatusBadge status={live.status} />
+            <GalleryLink diveId={diveId} />
             <Button
               label="Summary"
               tone="secondary"
@@ -75,15 +157,16 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       {splitView ? (
         <View style={styles.split}>
           <View style={[styles.listPane, { borderRightColor: colors.border }]}>{log}</View>
-          <View style={styles.detailPane} testID="detail-pane">
+          <ScrollView style={styles.detailPane} testID="detail-pane" contentContainerStyle={styles.detailInner}>
             {entryId ? (
-              <View style={styles.detailInner}>
-                <ObservationDetail id={entryId} />
-              </View>
+              <ObservationDetail id={entryId} />
             ) : (
-              <EmptyState title="Select an entry" body="Its note, position and history show here." />
+              <EmptyState
+                title="Select an entry"
+                body="Its note, position, identification and history show here. Keys: N new entry · J / K next and previous · E edit · F filters · Esc close."
+              />
             )}
-          </View>
+          </ScrollView>
         </View>
       ) : (
         log
@@ -104,10 +187,12 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
 }
 
 const styles = StyleSheet.create({
-  listHeader: { gap: space.sm, marginBottom: space.md },
-  actions: { flexDirection: 'row', gap: space.sm, alignItems: 'center' },
+  listHeader: { gap: space.sm, marginBottom: space.md, padding: 0 },
+  tools: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: space.sm },
+  viewSwitch: { minWidth: 200 },
+  actions: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap', justifyContent: 'flex-end' },
   split: { flex: 1, flexDirection: 'row' },
-  listPane: { width: 460, borderRightWidth: StyleSheet.hairlineWidth },
+  listPane: { width: 520, borderRightWidth: StyleSheet.hairlineWidth },
   detailPane: { flex: 1 },
   detailInner: { padding: space.xl, maxWidth: 880 },
   fab: {

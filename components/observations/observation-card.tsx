@@ -3,7 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/hooks/theme';
-import { formatDepth, formatUtcTime } from '@/lib/format';
+import { formatDepth, formatScientificName, formatUtcTime } from '@/lib/format';
 import type { Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { KindBadge } from './kind-badge';
@@ -33,6 +33,30 @@ export function ObservationCard({ observation: o, onPress, selected }: Props) {
       <Text variant="title" numberOfLines={2} testID="observation-title">
         {o.title}
       </Text>
+      {o.identification || o.findNumber || o.photoCount > 0 ? (
+        <View style={styles.meta}>
+          {o.identification ? (
+            <Text
+              variant="caption"
+              style={styles.italic}
+              color={o.identification.verificationStatus === 'verified' ? colors.success : colors.text}
+            >
+              {formatScientificName(o.identification.scientificName, o.identification.qualifier)}
+              {o.identification.verificationStatus === 'verified'
+                ? ' ✓'
+                : o.identification.verificationStatus === 'disputed'
+                  ? ' (disputed)'
+                  : ''}
+            </Text>
+          ) : null}
+          {o.findNumber ? <Text variant="monoSmall">find {o.findNumber}</Text> : null}
+          {o.photoCount > 0 ? (
+            <Text variant="caption" muted>
+              {o.photoCount} photo{o.photoCount === 1 ? '' : 's'}
+            </Text>
+          ) : null}
+        </View>
+      ) : null}
       <View style={styles.meta}>
         <Text variant="caption" muted>
           {o.authorName}
@@ -51,4 +75,5 @@ const styles = StyleSheet.create({
   top: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
   flex: { flex: 1 },
   meta: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  italic: { fontStyle: 'italic' },
 });

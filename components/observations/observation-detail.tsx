@@ -1,18 +1,28 @@
+import { useRouter } from 'expo-router';
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
+import { ObservationPhotos } from '@/components/photos/observation-photos';
+import { Button } from '@/components/ui/button';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
+import { useToast } from '@/components/ui/toast';
+import { ApiError } from '@/hooks/api';
 import { useCampaign } from '@/hooks/campaigns';
-import { useObservation } from '@/hooks/observations';
+import { useObservation, useRestoreObservation, useRetireObservation } from '@/hooks/observations';
+import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { formatDepth, formatInZone, formatLatLon, formatTemperature, formatUtc } from '@/lib/format';
 import type { Observation, ObservationDetail as Detail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
+import { CustodyPanel, FindPanel } from './find-panel';
+import { IdentificationPanel } from './identification-panel';
 import { KindBadge } from './kind-badge';
-import { ObservationPhotos } from '@/components/photos/observation-photos';
 import { NoteView } from './note-view';
+import { RevisionHistory } from './revision-history';
 
-const sourceLabel = (s: Observation['depthSource']) => (s === 'telemetry' ? 'from telemetry' : s === 'manual' ? 'typed in' : 'no value');
+const sourceLabel = (s: Observation['depthSource']) =>
+  s === 'telemetry' ? 'from telemetry' : s === 'manual' ? 'typed in' : 'no telemetry';
 
 export function ObservationDetail({ id }: { id: string }) {
   const observation = useObservation(id);
@@ -24,6 +34,9 @@ export function ObservationDetail({ id }: { id: string }) {
 function ObservationBody({ observation: o }: { observation: Detail }) {
   const { colors } = useTheme();
   const campaign = useCampaign(o.campaignId).data;
+  const me = useMe().data;
+  const role = campaign?.myRole;
+  const mayEdit = role === 'lead' || (!!me && o.authorId === me.user.id && role !== 'admin');
   const facts: [string, string, string?][] = [
     ['Time (UTC)', formatUtc(o.observedAt, true)],
     ...(campaign && campaign.timeZone !== 'UTC'
@@ -35,6 +48,11 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
   ];
   return (
     <View style={styles.wrap} testID="observation-detail">
+      {o.retired ? (
+        <View style={[styles.banner, { backgroundColor: colors.dangerBg }]} testID="retired-banner">
+          <Text color={colors.danger}>This entry is retired: it is kept, but hidden from the dive log.</Text>
+        </View>
+      ) : null}
       <View style={styles.head}>
         <KindBadge kind={o.kind} />
         <Text variant="heading" testID="detail-title">
@@ -42,8 +60,10 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
         </Text>
         <Text variant="caption" muted>
           Logged by {o.authorName} · version {o.version}
+          {o.findNumber ? ` · find ${o.findNumber}` : ''}
         </Text>
       </View>
+      <EntryActions observation={o} mayEdit={mayEdit} isLead={role === 'lead'} />
       <View style={[styles.facts, { borderColor: colors.border, backgroundColor: colors.surface }]}>
         {facts.map(([label, value, source]) => (
           <View key={label} style={styles.fact}>
@@ -53,8 +73,8 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
             <Text variant="mono" testID={`fact-${label.split(' ')[0]!.toLowerCase()}`}>
               {value}
             </Text>
-            {source && value !== '—' ? (
-              <Text variant="caption" muted>
+            {source && label !== 'Time (UTC)' ? (
+              <Text variant="caption" muted testID={`source-${label.split(' ')[0]!.toLowerCase()}`}>
                 {source}
               </Text>
             ) : null}
@@ -73,7 +93,52 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
       <View style={[styles.note, { borderColor: colors.border, backgroundColor: colors.surface }]}>
         {o.note.trim() ? <NoteView markdown={o.note} testID="detail-note" /> : <Text muted>No note yet.</Text>}
       </View>
+      {o.kind === 'biology' ? <IdentificationPanel observation={o} myRole={role} myId={me?.user.id} /> : null}
+      {o.kind === 'archaeology' ? <FindPanel observation={o} myRole={role} myId={me?.user.id} /> : null}
+      <CustodyPanel observation={o} myRole={role} />
       <ObservationPhotos observation={o} />
+      <RevisionHistory id={o.id} version={o.version} />
+    </View>
+  );
+}
+
+/** Edit and retire for the author and leads; restore for leads; retiring by a lead can be undone at once. */
+function EntryActions({ observation: o, mayEdit, isLead }: { observation: Detail; mayEdit: boolean; isLead: boolean }) {
+  const router = useRouter();
+  const toast = useToast();
+  const retire = useRetireObservation(o.id);
+  const restore = useRestoreObservation(o.id);
+  const [confirming, setConfirming] = useState(false);
+  const fail = (err: unknown) => toast(err instanceof ApiError ? err.message : 'That did not work.', { tone: 'danger' });
+  const doRetire = () =>
+    retire.mutate(undefined, {
+      onSuccess: () => {
+        setConfirming(false);
+        if (isLead) toast('Entry retired', { action: { label: 'Undo', run: () => restore.mutate(undefined, { onError: fail }) } });
+        else toast('Entry retired. A lead can restore it.');
+      },
+      onError: fail,
+    });
+  if (o.retired) {
+    return isLead ? (
+      <View style={styles.actions}>
+        <Button label="Restore" busy={restore.isPending} onPress={() => restore.mutate(undefined, { onError: fail })} testID="restore" />
+      </View>
+    ) : null;
+  }
+  if (!mayEdit) return null;
+  return (
+    <View style={styles.actions}>
+      <Button label="Edit" tone="secondary" compact onPress={() => router.push(`/observations/${o.id}/edit`)} testID="edit" />
+      {confirming ? (
+        <>
+          <Text variant="caption">Retire it? It stays in the record{isLead ? '' : '; only a lead can bring it back'}.</Text>
+          <Button label="Retire" tone="danger" compact busy={retire.isPending} onPress={doRetire} testID="confirm-retire" />
+          <Button label="Keep" tone="ghost" compact onPress={() => setConfirming(false)} />
+        </>
+      ) : (
+        <Button label="Retire" tone="ghost" compact onPress={() => (isLead ? doRetire() : setConfirming(true))} testID="retire" />
+      )}
     </View>
   );
 }
@@ -81,6 +146,8 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
 const styles = StyleSheet.create({
   wrap: { gap: space.lg },
   head: { gap: space.sm, alignItems: 'flex-start' },
+  actions: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap' },
+  banner: { borderRadius: radius.md, padding: space.md },
   facts: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg, flexDirection: 'row', flexWrap: 'wrap', gap: space.lg },
   fact: { minWidth: 160, gap: 2 },
   tags: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },

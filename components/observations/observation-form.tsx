@@ -6,26 +6,38 @@ import { Chip } from '@/components/ui/chip';
 import { Field } from '@/components/ui/field';
 import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
+import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useCampaign, useCampaignTags } from '@/hooks/campaigns';
 import { useDraft } from '@/hooks/draft';
-import { useCreateObservation } from '@/hooks/observations';
+import { useLogEntry } from '@/hooks/outbox';
 import { useTheme } from '@/hooks/theme';
 import { parseUtcInput, toUtcInput } from '@/lib/format';
-import { observationCreateSchema, observationKinds, type Observation, type ObservationKind } from '@/lib/schemas';
+import { observationCreateSchema, observationKinds, type Observation, type ObservationCreate, type ObservationKind } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { kindLabels } from './kind-badge';
 import { NoteView } from './note-view';
 
-type Draft = { kind?: ObservationKind; title: string; time: string; depth: string; note: string; tags: string[] };
+export type Draft = { kind?: ObservationKind; title: string; time: string; depth: string; note: string; tags: string[] };
+export type FormErrors = Partial<Record<'kind' | 'title' | 'observedAt' | 'depth' | 'note' | 'tags' | 'form', string>>;
 
-const blank = (): Draft => ({ title: '', time: toUtcInput(new Date().toISOString()), depth: '', note: '', tags: [] });
+export const blankDraft = (): Draft => ({ title: '', time: toUtcInput(new Date().toISOString()), depth: '', note: '', tags: [] });
 
-type Errors = Partial<Record<'kind' | 'title' | 'observedAt' | 'depth' | 'note' | 'tags' | 'form', string>>;
+/** What the form shows for an existing entry; only a typed depth is editable as a number. */
+export function draftFromObservation(o: Observation): Draft {
+  return {
+    kind: o.kind,
+    title: o.title,
+    time: toUtcInput(o.observedAt).concat(o.observedAt.slice(19, 23) === '.000' ? '' : o.observedAt.slice(19, 23)),
+    depth: o.depthSource === 'manual' && o.depth != null ? String(o.depth) : '',
+    note: o.note,
+    tags: o.tags,
+  };
+}
 
-/** Turns the typed form into the create body, with the contract's own field messages. */
-function toPayload(d: Draft): { ok: true; body: ReturnType<typeof observationCreateSchema.parse> } | { ok: false; errors: Errors } {
-  const errors: Errors = {};
+/** Turns the typed form into a create body, with the contract's own field messages. */
+export function toPayload(d: Draft): { ok: true; body: ObservationCreate & { observedAt: string } } | { ok: false; errors: FormErrors } {
+  const errors: FormErrors = {};
   const observedAt = parseUtcInput(d.time);
   if (!observedAt) errors.observedAt = 'Type a UTC time like 2026-05-14 21:14:07';
   const depthText = d.depth.trim().replace(',', '.');
@@ -42,79 +54,50 @@ function toPayload(d: Draft): { ok: true; body: ReturnType<typeof observationCre
   });
   if (!parsed.success) {
     for (const issue of parsed.error.issues) {
-      const key = String(issue.path[0] ?? 'form') as keyof Errors;
+      const key = String(issue.path[0] ?? 'form') as keyof FormErrors;
       errors[key] ??= issue.message;
     }
   }
-  if (Object.keys(errors).length > 0 || !parsed.success) return { ok: false, errors };
-  return { ok: true, body: parsed.data };
+  if (Object.keys(errors).length > 0 || !parsed.success || !observedAt) return { ok: false, errors };
+  return { ok: true, body: { ...parsed.data, observedAt } };
 }
 
-type Props = { diveId: string; campaignId: string; onCreated: (o: Observation) => void };
+export function errorsFromServer(err: unknown): FormErrors {
+  const out: FormErrors = {};
+  if (err instanceof ApiError) for (const i of err.issues) out[(i.path.split('.')[0] ?? 'form') as keyof FormErrors] ??= i.message;
+  return out;
+}
 
-export function ObservationForm({ diveId, campaignId, onCreated }: Props) {
+type FieldsProps = {
+  campaignId: string;
+  value: Draft;
+  update: (patch: Partial<Draft>) => void;
+  errors: FormErrors;
+  onSubmit: () => void;
+};
+
+/** The fields of an entry, shared by logging a new one and editing one. */
+export function ObservationFields({ campaignId, value: d, update, errors, onSubmit }: FieldsProps) {
   const { colors } = useTheme();
-  const draft = useDraft<Draft>(`bathynote.draft.${diveId}`, blank);
-  const d = draft.value;
-  const [errors, setErrors] = useState<Errors>({});
   const [preview, setPreview] = useState(false);
   const [newTag, setNewTag] = useState('');
-  const create = useCreateObservation(diveId);
   const tags = useCampaignTags(campaignId).data ?? [];
   const campaign = useCampaign(campaignId).data;
-
-  const submit = () => {
-    const result = toPayload(d);
-    if (!result.ok) {
-      setErrors(result.errors);
-      return;
-    }
-    setErrors({});
-    create.mutate(result.body, {
-      onSuccess: (o) => {
-        draft.clear();
-        onCreated(o);
-      },
-      onError: (err) => {
-        if (err instanceof ApiError && err.issues.length > 0) {
-          const fromServer: Errors = {};
-          for (const i of err.issues) fromServer[(i.path.split('.')[0] ?? 'form') as keyof Errors] ??= i.message;
-          setErrors(fromServer);
-        }
-      },
-    });
-  };
-
-  const toggleTag = (name: string) => draft.update({ tags: d.tags.includes(name) ? d.tags.filter((t) => t !== name) : [...d.tags, name] });
+  const toggleTag = (name: string) => update({ tags: d.tags.includes(name) ? d.tags.filter((t) => t !== name) : [...d.tags, name] });
   const addFreeTag = () => {
     const name = newTag.trim();
-    if (name && !d.tags.includes(name)) draft.update({ tags: [...d.tags, name] });
+    if (name && !d.tags.includes(name)) update({ tags: [...d.tags, name] });
     setNewTag('');
   };
   const vocabulary = [...new Set([...tags.filter((t) => !t.retired).map((t) => t.name), ...d.tags])];
 
-  const sendError =
-    create.error instanceof ApiError && create.error.issues.length === 0
-      ? create.error.isNetwork
-        ? 'Not sent: no connection. Your entry is kept here; send it again when the link is back.'
-        : create.error.message
-      : undefined;
-
   return (
-    <View style={styles.form} testID="observation-form">
-      {draft.wasRestored ? (
-        <View style={[styles.notice, { backgroundColor: colors.surfaceAlt }]}>
-          <Text variant="caption" style={styles.flex}>
-            Your unsent draft was restored.
-          </Text>
-          <Button label="Discard draft" tone="ghost" compact onPress={draft.clear} testID="discard-draft" />
-        </View>
-      ) : null}
+    <>
       <Segmented
         label="Kind"
         testID="field-kind"
         value={d.kind}
-        onChange={(kind) => draft.update({ kind })}
+        onChange={(kind) => update({ kind })}
         options={observationKinds.map((k) => ({ value: k, label: kindLabels[k], color: colors.kind[k] }))}
         error={errors.kind}
       />
@@ -122,7 +105,7 @@ export function ObservationForm({ diveId, campaignId, onCreated }: Props) {
         label="Title"
         testID="field-title"
         value={d.title}
-        onChangeText={(title) => draft.update({ title })}
+        onChangeText={(title) => update({ title })}
         placeholder="What did you see?"
         error={errors.title}
         maxLength={200}
@@ -133,27 +116,22 @@ export function ObservationForm({ diveId, campaignId, onCreated }: Props) {
             label="Time (UTC)"
             testID="field-time"
             value={d.time}
-            onChangeText={(time) => draft.update({ time })}
+            onChangeText={(time) => update({ time })}
             mono
             error={errors.observedAt}
-            hint={campaign ? `Seconds count; the campaign shows ${campaign.timeZone} beside UTC.` : undefined}
+            hint={campaign ? `Seconds count; the entry also shows ${campaign.timeZone} time.` : undefined}
             autoCapitalize="none"
           />
         </View>
-        <View style={styles.nowButton}>
-          <Button
-            label="Now"
-            tone="secondary"
-            testID="time-now"
-            onPress={() => draft.update({ time: toUtcInput(new Date().toISOString()) })}
-          />
+        <View style={styles.buttonBeside}>
+          <Button label="Now" tone="secondary" testID="time-now" onPress={() => update({ time: toUtcInput(new Date().toISOString()) })} />
         </View>
       </View>
       <Field
         label="Depth (m)"
         testID="field-depth"
         value={d.depth}
-        onChangeText={(depth) => draft.update({ depth })}
+        onChangeText={(depth) => update({ depth })}
         inputMode="decimal"
         keyboardType="decimal-pad"
         mono
@@ -179,7 +157,7 @@ export function ObservationForm({ diveId, campaignId, onCreated }: Props) {
                 autoCapitalize="none"
               />
             </View>
-            <View style={styles.nowButton}>
+            <View style={styles.buttonBeside}>
               <Button label="Add" tone="secondary" onPress={addFreeTag} />
             </View>
           </View>
@@ -212,38 +190,96 @@ export function ObservationForm({ diveId, campaignId, onCreated }: Props) {
             label="Note"
             testID="field-note"
             value={d.note}
-            onChangeText={(note) => draft.update({ note })}
+            onChangeText={(note) => update({ note })}
             multiline
-            placeholder="*Scientific names* in italics, lists with -, **bold**…"
+            placeholder="*Scientific names* in italics, lists with -, **bold**…  (Ctrl+Enter saves)"
             error={errors.note}
             onKeyPress={
               Platform.OS === 'web'
                 ? (e) => {
                     const ev = e.nativeEvent as unknown as { key: string; ctrlKey?: boolean; metaKey?: boolean };
-                    if (ev.key === 'Enter' && (ev.ctrlKey || ev.metaKey)) submit();
+                    if (ev.key === 'Enter' && (ev.ctrlKey || ev.metaKey)) onSubmit();
                   }
                 : undefined
             }
           />
         )}
       </View>
-      {sendError ? (
+    </>
+  );
+}
+
+type NewProps = { diveId: string; campaignId: string; onCreated: (o: Observation | null) => void };
+
+/**
+ * Logging a new entry. The draft survives a reload; a send that cannot reach the server is kept
+ * on the device and sent later (shown as waiting in the dive log), so nothing typed is lost.
+ */
+export function NewObservationForm({ diveId, campaignId, onCreated }: NewProps) {
+  const { colors } = useTheme();
+  const toast = useToast();
+  const draft = useDraft<Draft>(`bathynote.draft.${diveId}`, blankDraft);
+  const [errors, setErrors] = useState<FormErrors>({});
+  const [sending, setSending] = useState(false);
+  const [failure, setFailure] = useState<string | null>(null);
+  const log = useLogEntry(diveId);
+
+  const submit = async () => {
+    if (sending) return;
+    const result = toPayload(draft.value);
+    if (!result.ok) {
+      setErrors(result.errors);
+      return;
+    }
+    setErrors({});
+    setFailure(null);
+    setSending(true);
+    try {
+      const sent = await log(result.body);
+      draft.clear();
+      if (sent.queued) toast('No link to the server: the entry is kept on this device and will be sent.', { tone: 'danger' });
+      onCreated(sent.queued ? null : sent.observation);
+    } catch (err) {
+      const fromServer = errorsFromServer(err);
+      setErrors(fromServer);
+      if (Object.keys(fromServer).length === 0) setFailure(err instanceof Error ? err.message : 'Could not save the entry.');
+    } finally {
+      setSending(false);
+    }
+  };
+
+  return (
+    <View style={styles.form} testID="observation-form">
+      {draft.wasRestored ? (
+        <View style={[styles.notice, { backgroundColor: colors.surfaceAlt }]}>
+          <Text variant="caption" style={styles.flex}>
+            Your unsent draft was restored.
+          </Text>
+          <Button label="Discard draft" tone="ghost" compact onPress={draft.clear} testID="discard-draft" />
+        </View>
+      ) : null}
+      <ObservationFields campaignId={campaignId} value={draft.value} update={draft.update} errors={errors} onSubmit={() => void submit()} />
+      {failure ? (
         <Text color={colors.danger} role="alert" testID="form-error">
-          {sendError}
+          {failure}
         </Text>
       ) : null}
-      <Button label={create.isPending ? 'Saving…' : 'Save entry'} testID="save-observation" busy={create.isPending} onPress={submit} />
+      <Button label={sending ? 'Saving…' : 'Save entry'} testID="save-observation" busy={sending} onPress={() => void submit()} />
     </View>
   );
 }
 
-const styles = StyleSheet.create({
+export const formStyles = StyleSheet.create({
   form: { gap: space.lg },
-  row: { flexDirection: 'row', alignItems: 'flex-end', gap: space.sm },
+  notice: { flexDirection: 'row', alignItems: 'center', borderRadius: radius.md, paddingHorizontal: space.md },
   flex: { flex: 1 },
-  nowButton: { paddingBottom: 22 },
+});
+
+const styles = StyleSheet.create({
+  ...formStyles,
+  row: { flexDirection: 'row', alignItems: 'flex-end', gap: space.sm },
+  buttonBeside: { paddingBottom: 22 },
   block: { gap: space.sm },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   preview: { borderWidth: 1, borderRadius: radius.md, padding: space.md, minHeight: 120 },
-  notice: { flexDirection: 'row', alignItems: 'center', borderRadius: radius.md, paddingHorizontal: space.md },
 });

@@ -1,6 +1,50 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+
+import { Text } from '@/components/ui/text';
+import { useCampaign } from '@/hooks/campaigns';
+import { useMe } from '@/hooks/session';
 import type { ObservationDetail } from '@/lib/schemas';
+import { space } from '@/lib/tokens';
+import { GalleryLink } from './gallery-link';
+import { PhotoStrip } from './photo-strip';
+import { PhotoUploader } from './photo-uploader';
+import { PhotoViewer } from './photo-viewer';
 
 /** The photos of one entry, and adding more (for its author and the lead). */
-export function ObservationPhotos(_props: { observation: ObservationDetail }) {
-  return null;
+export function ObservationPhotos({ observation }: { observation: ObservationDetail }) {
+  const me = useMe().data;
+  const campaign = useCampaign(observation.campaignId).data;
+  const [open, setOpen] = useState<number | null>(null);
+  const canEdit = !observation.retired && (me?.user.id === observation.authorId || campaign?.myRole === 'lead');
+  const count = observation.photos.length;
+
+  return (
+    <View style={styles.wrap} testID="observation-photos">
+      <View style={styles.head}>
+        <Text variant="title" role="heading" aria-level={2}>
+          Photos
+        </Text>
+        <Text variant="caption" muted testID="photo-count">
+          {count === 0 ? 'none yet' : count === 1 ? '1 photo' : `${count} photos`}
+        </Text>
+        <View style={styles.flex} />
+        <GalleryLink diveId={observation.diveId} label="All photos of the dive" testID="entry-gallery-link" />
+      </View>
+      {count > 0 ? <PhotoStrip observation={observation} canEdit={canEdit} onOpen={setOpen} /> : null}
+      {canEdit ? <PhotoUploader observation={observation} /> : null}
+      <PhotoViewer
+        photos={observation.photos.map((p) => ({ ...p, entryTitle: observation.title }))}
+        index={open}
+        onIndexChange={setOpen}
+        onClose={() => setOpen(null)}
+      />
+    </View>
+  );
 }
+
+const styles = StyleSheet.create({
+  wrap: { gap: space.md },
+  head: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+  flex: { flex: 1 },
+});

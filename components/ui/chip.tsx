@@ -16,6 +16,7 @@ export function Chip({ label, selected, onPress, color, testID }: Props) {
       disabled={!onPress}
       accessibilityRole={onPress ? 'checkbox' : 'text'}
       accessibilityState={onPress ? { checked: !!selected } : undefined}
+      aria-checked={onPress ? !!selected : undefined}
       style={[styles.chip, { borderColor: selected ? tint : colors.border, backgroundColor: selected ? tint : colors.surfaceAlt }]}
     >
       <Text variant="caption" color={selected ? colors.bg : colors.text}>

@@ -16,11 +16,11 @@ type Props<T extends string> = {
 };
 
 /** A row of mutually exclusive choices, each big enough for a thumb. */
-export function Segmented<T extends string>({ label, options, value, onChange, testID, error }: Props<T>) {
+export function Segmented<T extends string>({ label, options, value, onChange, testID, error, hideLabel }: Props<T>) {
   const { colors } = useTheme();
   return (
     <View style={styles.wrap}>
-      <Text variant="label">{label}</Text>
+      {hideLabel ? null : <Text variant="label">{label}</Text>}
       <View style={styles.row} role="radiogroup" aria-label={label} testID={testID}>
         {options.map((o) => {
           const selected = o.value === value;

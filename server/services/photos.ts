@@ -1,8 +1,22 @@
-import { and, asc, eq, inArray } from 'drizzle-orm';
+import { createHash } from 'node:crypto';
+
+import { and, asc, count, eq, inArray, max, sql } from 'drizzle-orm';
 
 import type { Db } from '../../db/client';
-import { photos } from '../../db/schema';
-import type { Photo } from '../../lib/schemas';
+import { campaigns, observations, observationTags, photos, tags, user } from '../../db/schema';
+import {
+  galleryQuerySchema,
+  photoUpdateSchema,
+  photoUploadFieldsSchema,
+  type GalleryPage,
+  type Photo,
+  type PhotoSize,
+  type PhotoUploadResult,
+} from '../../lib/schemas';
+import { ApiError, forbidden, notFound } from '../errors';
+import type { CampaignAccess } from '../middleware/campaign-access';
+import { processPhoto, type ProcessedPhoto } from './photo-processing';
+import { newPhotoKey, type PhotoStorage } from './photo-storage';
 
 type PhotoRow = typeof photos.$inferSelect;
 
@@ -39,4 +53,282 @@ export function photosOf(db: Db, observationIds: string[]): Map<string, Photo[]>
     .all();
   for (const r of rows) out.set(r.observationId, [...(out.get(r.observationId) ?? []), toPhoto(r)]);
   return out;
+}
+
+/* ---- who may change an entry's photos ---- */
+
+/**
+ * The entry's author and the campaign's lead may add, edit and retire its photos; any other
+ * member gets a 403 that says so. A retired entry's photos are hidden with it, so it answers 404.
+ */
+export function requirePhotoEditor(db: Db, access: CampaignAccess, observationId: string) {
+  const entry = db
+    .select({ id: observations.id, authorId: observations.authorId, retired: observations.retired, diveId: observations.diveId })
+    .from(observations)
+    .where(eq(observations.id, observationId))
+    .get();
+  if (!entry || entry.retired) throw notFound();
+  if (access.role !== 'lead' && entry.authorId !== access.userId) {
+    throw forbidden('Only the author of this entry and the campaign lead may change its photos.');
+  }
+  return entry;
+}
+
+/* ---- upload ---- */
+
+export type UploadedFile = { buffer: Buffer; originalname: string };
+
+const sha256 = (data: Buffer) => createHash('sha256').update(data).digest('hex');
+
+type Prepared = { sha: string; name: string; processed: ProcessedPhoto };
+
+/**
+ * Adds files to an entry. Every file is checked and re-encoded before anything is written; then
+ * the files are written (each one whole, under a generated key) and the rows inserted in one
+ * transaction. If anything fails on the way, the files already written are removed again, so a
+ * failed upload leaves neither a file nor a row. A file already on the entry is not stored twice.
+ */
+export async function uploadPhotos(
+  db: Db,
+  storage: PhotoStorage,
+  target: { observationId: string; campaignId: string; userId: string },
+  files: UploadedFile[],
+  rawFields: unknown,
+): Promise<PhotoUploadResult & { created: number }> {
+  if (files.length === 0) {
+    throw new ApiError(400, 'validation_failed', 'Attach at least one photo in the field "photo".', [
+      { path: 'photo', message: 'No file was sent' },
+    ]);
+  }
+  const fields = photoUploadFieldsSchema.parse(rawFields ?? {});
+  const campaign = db.select({ keep: campaigns.keepPhotoPositions }).from(campaigns).where(eq(campaigns.id, target.campaignId)).get();
+  const keepPositions = campaign?.keep ?? false;
+
+  const existing = db
+    .select()
+    .from(photos)
+    .where(and(eq(photos.observationId, target.observationId), eq(photos.retired, false)))
+    .all();
+  const bySha = new Map(existing.map((r) => [r.sha256, r]));
+
+  // One slot per file, in request order: an existing photo, or the index of a new one.
+  const slots: ({ existing: PhotoRow } | { fresh: number })[] = [];
+  const prepared: Prepared[] = [];
+  const freshBySha = new Map<string, number>();
+  for (const file of files) {
+    const sha = sha256(file.buffer);
+    const known = bySha.get(sha);
+    if (known) {
+      slots.push({ existing: known });
+      continue;
+    }
+    const again = freshBySha.get(sha);
+    if (again !== undefined) {
+      slots.push({ fresh: again });
+      continue;
+    }
+    const processed = await processPhoto(file.buffer, file.originalname, { keepPositions });
+    freshBySha.set(sha, prepared.length);
+    slots.push({ fresh: prepared.length });
+    prepared.push({ sha, name: file.originalname, processed });
+  }
+
+  const written: string[] = [];
+  const keyed = prepared.map((p) => ({
+    ...p,
+    keys: {
+      original: newPhotoKey('original', p.processed.original.ext),
+      display: newPhotoKey('display', p.processed.display.ext),
+      thumb: newPhotoKey('thumb', p.processed.thumb.ext),
+    },
+  }));
+  let inserted: PhotoRow[];
+  try {
+    for (const p of keyed) {
+      for (const size of ['original', 'display', 'thumb'] as const) {
+        await storage.put(p.keys[size], p.processed[size].data);
+        written.push(p.keys[size]);
+      }
+    }
+    inserted = db.transaction((tx) => {
+      const top = tx
+        .select({ n: max(photos.position) })
+        .from(photos)
+        .where(and(eq(photos.observationId, target.observationId), eq(photos.retired, false)))
+        .get()?.n;
+      let position = top === null || top === undefined ? 0 : top + 1;
+      const now = new Date();
+      return keyed.map((p) =>
+        tx
+          .insert(photos)
+          .values({
+            observationId: target.observationId,
+            campaignId: target.campaignId,
+            sha256: p.sha,
+            mime: p.processed.original.mime,
+            width: p.processed.width,
+            height: p.processed.height,
+            bytes: p.processed.original.data.length,
+            originalKey: p.keys.original,
+            displayKey: p.keys.display,
+            thumbKey: p.keys.thumb,
+            originalName: p.name.slice(0, 255),
+            caption: fields.caption || null,
+            credit: fields.credit || null,
+            capturedAt: p.processed.capturedAt,
+            lat: p.processed.lat,
+            lon: p.processed.lon,
+            position: position++,
+            uploadedBy: target.userId,
+            createdAt: now,
+          })
+          .returning()
+          .get(),
+      );
+    });
+  } catch (err) {
+    await Promise.all(written.map((key) => storage.delete(key).catch(() => undefined)));
+    throw err;
+  }
+
+  const answered = slots.map((s) => ('existing' in s ? s.existing : inserted[s.fresh]!));
+  const duplicates = [...new Set(slots.flatMap((s) => ('existing' in s ? [s.existing.id] : [])))];
+  return { photos: answered.map(toPhoto), duplicates, created: inserted.length };
+}
+
+/* ---- edit and retire ---- */
+
+export function photoRow(db: Db, photoId: string): PhotoRow | undefined {
+  return db.select().from(photos).where(eq(photos.id, photoId)).get();
+}
+
+/** A photo that is live and whose entry is live; anything else is "not found". */
+function livePhoto(db: Db, photoId: string): PhotoRow {
+  const row = db
+    .select({ photo: photos, entryRetired: observations.retired })
+    .from(photos)
+    .innerJoin(observations, eq(observations.id, photos.observationId))
+    .where(eq(photos.id, photoId))
+    .get();
+  if (!row || row.photo.retired || row.entryRetired) throw notFound();
+  return row.photo;
+}
+
+/** Caption, credit, or a new place in the entry's order (the others close up around it). */
+export function updatePhoto(db: Db, photoId: string, body: unknown): Photo {
+  const input = photoUpdateSchema.parse(body);
+  const row = livePhoto(db, photoId);
+  db.transaction((tx) => {
+    const text: Partial<PhotoRow> = {};
+    if (input.caption !== undefined) text.caption = input.caption || null;
+    if (input.credit !== undefined) text.credit = input.credit || null;
+    if (Object.keys(text).length > 0) tx.update(photos).set(text).where(eq(photos.id, photoId)).run();
+    if (input.position !== undefined) {
+      const order = tx
+        .select({ id: photos.id })
+        .from(photos)
+        .where(and(eq(photos.observationId, row.observationId), eq(photos.retired, false)))
+        .orderBy(asc(photos.position), asc(photos.createdAt))
+        .all()
+        .map((p) => p.id)
+        .filter((id) => id !== photoId);
+      order.splice(Math.min(input.position, order.length), 0, photoId);
+      order.forEach((id, position) => tx.update(photos).set({ position }).where(eq(photos.id, id)).run());
+    }
+  });
+  return toPhoto(photoRow(db, photoId)!);
+}
+
+/** Retires a photo: hidden everywhere, its files kept (nothing is hard-deleted). */
+export function retirePhoto(db: Db, photoId: string): PhotoRow {
+  const row = livePhoto(db, photoId);
+  db.update(photos).set({ retired: true }).where(eq(photos.id, photoId)).run();
+  return row;
+}
+
+/* ---- serving ---- */
+
+export type PhotoFile = { key: string; mime: string; ext: string; etag: string };
+
+/** Which stored file answers a size, or 404 when the photo or its entry is retired. */
+export function photoFile(db: Db, photoId: string, size: PhotoSize): PhotoFile {
+  const row = livePhoto(db, photoId);
+  const key = size === 'thumb' ? row.thumbKey : size === 'display' ? row.displayKey : row.originalKey;
+  const mime = size === 'original' ? row.mime : 'image/webp';
+  const ext = key.slice(key.lastIndexOf('.') + 1);
+  // Stored files never change under a key, so the key itself makes a strong validator.
+  const etag = `"${createHash('sha256').update(key).digest('base64url').slice(0, 27)}"`;
+  return { key, mime, ext, etag };
+}
+
+/* ---- the dive's gallery ---- */
+
+const decodeCursor = (cursor: string | undefined): number => {
+  if (cursor === undefined) return 0;
+  if (!/^\d{1,9}$/.test(cursor)) {
+    throw new ApiError(400, 'validation_failed', 'The cursor is not valid.', [
+      { path: 'cursor', message: 'Use the nextCursor of an earlier page' },
+    ]);
+  }
+  return Number(cursor);
+};
+
+/** A dive's photos in the order of its entries (oldest first), then each entry's own order. */
+export function galleryOf(db: Db, diveId: string, rawQuery: unknown): GalleryPage {
+  const q = galleryQuerySchema.parse(rawQuery);
+  const offset = decodeCursor(q.cursor);
+  const conditions = [eq(observations.diveId, diveId), eq(observations.retired, false), eq(photos.retired, false)];
+  if (q.kind) conditions.push(eq(observations.kind, q.kind));
+  if (q.tag) {
+    conditions.push(
+      sql`exists (select 1 from ${observationTags} ot join ${tags} t on t.id = ot.tag_id
+        where ot.observation_id = ${observations.id} and lower(t.name) = lower(${q.tag}))`,
+    );
+  }
+  const where = and(...conditions);
+  const total = db
+    .select({ n: count() })
+    .from(photos)
+    .innerJoin(observations, eq(observations.id, photos.observationId))
+    .where(where)
+    .get()!.n;
+  const rows = db
+    .select({ photo: photos, entry: observations, authorName: user.name })
+    .from(photos)
+    .innerJoin(observations, eq(observations.id, photos.observationId))
+    .innerJoin(user, eq(user.id, observations.authorId))
+    .where(where)
+    .orderBy(asc(observations.observedAt), asc(observations.id), asc(photos.position), asc(photos.createdAt))
+    .limit(q.limit)
+    .offset(offset)
+    .all();
+  const entryIds = [...new Set(rows.map((r) => r.entry.id))];
+  const tagRows =
+    entryIds.length === 0
+      ? []
+      : db
+          .select({ observationId: observationTags.observationId, name: tags.name })
+          .from(observationTags)
+          .innerJoin(tags, eq(tags.id, observationTags.tagId))
+          .where(inArray(observationTags.observationId, entryIds))
+          .orderBy(tags.name)
+          .all();
+  const tagsBy = new Map<string, string[]>();
+  for (const t of tagRows) tagsBy.set(t.observationId, [...(tagsBy.get(t.observationId) ?? []), t.name]);
+  const next = offset + rows.length;
+  return {
+    items: rows.map((r) => ({
+      ...toPhoto(r.photo),
+      observation: {
+        id: r.entry.id,
+        title: r.entry.title,
+        kind: r.entry.kind,
+        observedAt: r.entry.observedAt.toISOString(),
+        tags: tagsBy.get(r.entry.id) ?? [],
+        authorName: r.authorName,
+      },
+    })),
+    nextCursor: next < total ? String(next) : null,
+    total,
+  };
 }

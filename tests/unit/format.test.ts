@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 
-import { formatInZone, formatLatLon, formatUtc, formatUtcTime, parseUtcInput, toUtcInput } from '@/lib/format';
+import { formatInZone, formatLatLon, formatScientificName, formatUtc, formatUtcTime, parseUtcInput, toUtcInput } from '@/lib/format';
 
 // The suite runs under TZ=Pacific/Chatham (UTC+12:45 / +13:45): any local-time reading shows.
 describe('typed UTC times', () => {
@@ -39,5 +39,15 @@ describe('display', () => {
   it('writes hemispheres instead of signs', () => {
     expect(formatLatLon(36.145, -7.432)).toBe('36.14500° N, 7.43200° W');
     expect(formatLatLon(null, 1)).toBe('—');
+  });
+});
+
+describe('scientific names with qualifiers (open nomenclature, common practice)', () => {
+  it('puts cf. and aff. before the doubted epithet, sp. and indet. after the name', () => {
+    expect(formatScientificName('Munida sarsi', 'cf.')).toBe('Munida cf. sarsi');
+    expect(formatScientificName('Desmophyllum pertusum', 'aff.')).toBe('Desmophyllum aff. pertusum');
+    expect(formatScientificName('Munida', 'sp.')).toBe('Munida sp.');
+    expect(formatScientificName('Ophiuroidea', 'indet.')).toBe('Ophiuroidea indet.');
+    expect(formatScientificName('  Conger   conger ', null)).toBe('Conger conger');
   });
 });

@@ -1,6 +1,6 @@
 import { useLocalSearchParams, useRouter } from 'expo-router';
 
-import { ObservationForm } from '@/components/observations/observation-form';
+import { NewObservationForm } from '@/components/observations/observation-form';
 import { Screen, ScreenBody, ScreenHeader } from '@/components/ui/screen';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { useDive } from '@/hooks/dives';
@@ -18,10 +18,10 @@ export default function NewObservationScreen() {
         {dive.isPending ? <LoadingState /> : null}
         {dive.isError ? <ErrorState error={dive.error} onRetry={() => void dive.refetch()} /> : null}
         {dive.data ? (
-          <ObservationForm
+          <NewObservationForm
             diveId={diveId}
             campaignId={dive.data.campaignId}
-            onCreated={(o) => router.dismissTo(splitView ? `/dives/${diveId}?entry=${o.id}` : `/dives/${diveId}`)}
+            onCreated={(o) => router.dismissTo(splitView && o ? `/dives/${diveId}?entry=${o.id}` : `/dives/${diveId}`)}
           />
         ) : null}
       </ScreenBody>

@@ -1,0 +1,191 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+
+import { Button } from '@/components/ui/button';
+import { Chip } from '@/components/ui/chip';
+import { Field } from '@/components/ui/field';
+import { Segmented } from '@/components/ui/segmented';
+import { ErrorState, LoadingState } from '@/components/ui/states';
+import { Text } from '@/components/ui/text';
+import { ApiError } from '@/hooks/api';
+import {
+  useCampaign,
+  useCampaignTags,
+  useCreateQuickMark,
+  useCreateTag,
+  useQuickMarks,
+  useRetireQuickMark,
+  useUpdateTag,
+} from '@/hooks/campaigns';
+import { useTheme } from '@/hooks/theme';
+import { observationKinds, type ObservationKind, type Tag } from '@/lib/schemas';
+import { radius, space } from '@/lib/tokens';
+import { kindLabels } from '../observations/kind-badge';
+
+/** The lead's tools for the campaign's words: the tag vocabulary and the quick marks. */
+export function VocabularySettings({ campaignId }: { campaignId: string }) {
+  const campaign = useCampaign(campaignId);
+  if (campaign.isPending) return <LoadingState />;
+  if (campaign.isError) return <ErrorState error={campaign.error} />;
+  const isLead = campaign.data.myRole === 'lead';
+  return (
+    <View style={styles.wrap}>
+      {isLead ? null : <Text muted>Only a campaign lead changes the vocabulary and the quick marks.</Text>}
+      <QuickMarks campaignId={campaignId} editable={isLead} />
+      <Tags campaignId={campaignId} editable={isLead} />
+    </View>
+  );
+}
+
+function QuickMarks({ campaignId, editable }: { campaignId: string; editable: boolean }) {
+  const { colors } = useTheme();
+  const marks = useQuickMarks(campaignId).data ?? [];
+  const create = useCreateQuickMark(campaignId);
+  const retire = useRetireQuickMark(campaignId);
+  const [label, setLabel] = useState('');
+  const [kind, setKind] = useState<ObservationKind>('biology');
+  const [tags, setTags] = useState('');
+  return (
+    <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="quick-mark-settings">
+      <Text variant="title">Quick marks</Text>
+      <Text variant="caption" muted>
+        One tap in the dive log logs an entry now with this title, kind and tags; the author completes it later.
+      </Text>
+      <View style={styles.chips}>
+        {marks.length === 0 ? <Text muted>None yet.</Text> : null}
+        {marks.map((m) => (
+          <View key={m.id} style={styles.item}>
+            <Chip label={`${m.label}${m.tags.length ? ` · #${m.tags.join(' #')}` : ''}`} color={colors.kind[m.kind]} selected />
+            {editable ? <Button label="Remove" tone="ghost" compact onPress={() => retire.mutate(m.id)} /> : null}
+          </View>
+        ))}
+      </View>
+      {editable ? (
+        <View style={styles.form}>
+          <Field label="Label" testID="field-quick-mark-label" value={label} onChangeText={setLabel} placeholder="Microbial mat" />
+          <Segmented
+            label="Kind"
+            value={kind}
+            onChange={setKind}
+            options={observationKinds.map((k) => ({ value: k, label: kindLabels[k], color: colors.kind[k] }))}
+          />
+          <Field
+            label="Tags (comma separated)"
+            value={tags}
+            onChangeText={setTags}
+            autoCapitalize="none"
+            placeholder="microbial-mat, hull"
+          />
+          {create.error instanceof ApiError ? <Text color={colors.danger}>{create.error.message}</Text> : null}
+          <Button
+            label="Add quick mark"
+            testID="add-quick-mark"
+            busy={create.isPending}
+            disabled={!label.trim()}
+            onPress={() =>
+              create.mutate(
+                {
+                  label: label.trim(),
+                  kind,
+                  tags: tags
+                    .split(',')
+                    .map((t) => t.trim())
+                    .filter(Boolean),
+                },
+                {
+                  onSuccess: () => {
+                    setLabel('');
+                    setTags('');
+                  },
+                },
+              )
+            }
+          />
+        </View>
+      ) : null}
+    </View>
+  );
+}
+
+function Tags({ campaignId, editable }: { campaignId: string; editable: boolean }) {
+  const { colors } = useTheme();
+  const tags = useCampaignTags(campaignId).data ?? [];
+  const create = useCreateTag(campaignId);
+  const [name, setName] = useState('');
+  const [selected, setSelected] = useState<Tag | null>(null);
+  return (
+    <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="tag-settings">
+      <Text variant="title">Tag vocabulary</Text>
+      <View style={styles.chips}>
+        {tags.map((t) => (
+          <Chip
+            key={t.id}
+            label={`${t.name} (${t.usage})${t.retired ? ' · retired' : ''}`}
+            selected={selected?.id === t.id}
+            onPress={editable ? () => setSelected(selected?.id === t.id ? null : t) : undefined}
+            testID={`vocab-${t.name}`}
+          />
+        ))}
+      </View>
+      {editable && selected ? (
+        <TagEditor key={selected.id} tag={selected} tags={tags} campaignId={campaignId} onDone={() => setSelected(null)} />
+      ) : null}
+      {editable ? (
+        <View style={styles.form}>
+          <Field
+            label="New tag"
+            testID="field-vocab-new"
+            value={name}
+            onChangeText={setName}
+            autoCapitalize="none"
+            error={create.error instanceof ApiError ? create.error.message : undefined}
+          />
+          <Button
+            label="Add tag"
+            testID="add-tag"
+            busy={create.isPending}
+            disabled={!name.trim()}
+            onPress={() => create.mutate(name.trim(), { onSuccess: () => setName('') })}
+          />
+        </View>
+      ) : null}
+    </View>
+  );
+}
+
+function TagEditor({ tag, tags, campaignId, onDone }: { tag: Tag; tags: Tag[]; campaignId: string; onDone: () => void }) {
+  const { colors } = useTheme();
+  const update = useUpdateTag(campaignId);
+  const [name, setName] = useState(tag.name);
+  const [mergeInto, setMergeInto] = useState<string | null>(null);
+  const run = (input: { name?: string; retired?: boolean; mergeInto?: string }) =>
+    update.mutate({ id: tag.id, ...input }, { onSuccess: onDone });
+  return (
+    <View style={[styles.editor, { borderColor: colors.border }]}>
+      <Field label={`Rename “${tag.name}”`} value={name} onChangeText={setName} autoCapitalize="none" />
+      <View style={styles.chips}>
+        <Button label="Rename" compact disabled={!name.trim() || name === tag.name} onPress={() => run({ name: name.trim() })} />
+        <Button label={tag.retired ? 'Bring back' : 'Retire'} tone="secondary" compact onPress={() => run({ retired: !tag.retired })} />
+      </View>
+      <Text variant="label">Merge into another tag (its entries keep a tag)</Text>
+      <View style={styles.chips}>
+        {tags
+          .filter((t) => t.id !== tag.id && !t.retired)
+          .map((t) => (
+            <Chip key={t.id} label={t.name} selected={mergeInto === t.id} onPress={() => setMergeInto(t.id)} />
+          ))}
+      </View>
+      {mergeInto ? <Button label="Merge" tone="danger" compact onPress={() => run({ mergeInto })} /> : null}
+      {update.error instanceof ApiError ? <Text color={colors.danger}>{update.error.message}</Text> : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  wrap: { gap: space.lg },
+  box: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg, gap: space.md },
+  chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
+  item: { flexDirection: 'row', alignItems: 'center', gap: space.xs },
+  form: { gap: space.md },
+  editor: { borderTopWidth: StyleSheet.hairlineWidth, paddingTop: space.md, gap: space.sm },
+});

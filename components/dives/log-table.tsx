@@ -1,0 +1,94 @@
+import { Pressable, StyleSheet, View } from 'react-native';
+
+import { Text } from '@/components/ui/text';
+import type { DiveLogFilters } from '@/hooks/observations';
+import { useTheme } from '@/hooks/theme';
+import { formatDepth, formatUtcTime } from '@/lib/format';
+import type { Observation } from '@/lib/schemas';
+import { space } from '@/lib/tokens';
+import { kindLabels } from '../observations/kind-badge';
+
+type Sort = NonNullable<DiveLogFilters['sort']>;
+const columns: { key: string; label: string; sort?: Sort; flex: number; mono?: boolean }[] = [
+  { key: 'time', label: 'Time (UTC)', sort: 'time', flex: 1.1, mono: true },
+  { key: 'kind', label: 'Kind', sort: 'kind', flex: 1 },
+  { key: 'title', label: 'Title', flex: 3 },
+  { key: 'depth', label: 'Depth', sort: 'depth', flex: 0.9, mono: true },
+  { key: 'author', label: 'Author', sort: 'author', flex: 1.2 },
+];
+
+export function LogTableHeader({ filters, onSort }: { filters: DiveLogFilters; onSort: (sort: Sort, order: 'asc' | 'desc') => void }) {
+  const { colors } = useTheme();
+  const sort = filters.sort ?? 'time';
+  const order = filters.order ?? (sort === 'time' ? 'desc' : 'asc');
+  return (
+    <View style={[styles.row, styles.header, { borderBottomColor: colors.border }]} role="row">
+      {columns.map((c) => {
+        const active = c.sort === sort;
+        const label = `${c.label}${active ? (order === 'asc' ? ' ▲' : ' ▼') : ''}`;
+        return c.sort ? (
+          <Pressable
+            key={c.key}
+            role="columnheader"
+            aria-sort={active ? (order === 'asc' ? 'ascending' : 'descending') : 'none'}
+            style={{ flex: c.flex }}
+            testID={`sort-${c.sort}`}
+            onPress={() => onSort(c.sort!, active ? (order === 'asc' ? 'desc' : 'asc') : c.sort === 'time' ? 'desc' : 'asc')}
+          >
+            <Text variant="label" color={active ? colors.accent : colors.textMuted}>
+              {label}
+            </Text>
+          </Pressable>
+        ) : (
+          <View key={c.key} role="columnheader" style={{ flex: c.flex }}>
+            <Text variant="label" muted>
+              {c.label}
+            </Text>
+          </View>
+        );
+      })}
+    </View>
+  );
+}
+
+export function LogTableRow({ observation: o, selected, onPress }: { observation: Observation; selected: boolean; onPress: () => void }) {
+  const { colors } = useTheme();
+  return (
+    <Pressable
+      role="row"
+      testID={`observation-${o.id}`}
+      aria-selected={selected}
+      onPress={onPress}
+      style={[styles.row, { borderBottomColor: colors.border, backgroundColor: selected ? colors.surfaceAlt : 'transparent' }]}
+    >
+      <Text variant="monoSmall" style={{ flex: 1.1 }}>
+        {formatUtcTime(o.observedAt)}
+      </Text>
+      <Text variant="caption" color={colors.kind[o.kind]} style={{ flex: 1 }}>
+        {kindLabels[o.kind]}
+      </Text>
+      <Text numberOfLines={1} style={{ flex: 3 }}>
+        {o.title}
+        {o.photoCount > 0 ? ` · ${o.photoCount} photo${o.photoCount > 1 ? 's' : ''}` : ''}
+      </Text>
+      <Text variant="monoSmall" style={{ flex: 0.9 }}>
+        {formatDepth(o.depth)}
+      </Text>
+      <Text variant="caption" muted numberOfLines={1} style={{ flex: 1.2 }}>
+        {o.authorName}
+      </Text>
+    </Pressable>
+  );
+}
+
+const styles = StyleSheet.create({
+  row: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: space.sm,
+    paddingHorizontal: space.md,
+    minHeight: 40,
+    borderBottomWidth: StyleSheet.hairlineWidth,
+  },
+  header: { minHeight: 36 },
+});

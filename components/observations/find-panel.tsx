@@ -1,0 +1,198 @@
+import { useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import { Segmented } from '@/components/ui/segmented';
+import { Text } from '@/components/ui/text';
+import { ApiError } from '@/hooks/api';
+import { nextFindNumberQuery, useAddCustody, useSetFind } from '@/hooks/observations';
+import { useTheme } from '@/hooks/theme';
+import { formatUtc, parseUtcInput, toUtcInput } from '@/lib/format';
+import type { ObservationDetail } from '@/lib/schemas';
+import { radius, space } from '@/lib/tokens';
+
+type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
+
+/** The caution shown wherever a recovery is recorded. */
+export function RecoveryCaution() {
+  const { colors } = useTheme();
+  return (
+    <View style={[styles.caution, { borderColor: colors.warning }]} testID="recovery-caution" role="note">
+      <Text variant="caption" color={colors.warning}>
+        Recovering underwater cultural heritage needs a permit in most waters (and under the UNESCO 2001 Convention where it applies); this
+        notebook records, it does not authorise. Keep a recovered artefact wet and hand it to a conservator at once. Biological samples can
+        need permits too. Follow local law and licensed practice.
+      </Text>
+    </View>
+  );
+}
+
+/** An archaeology entry's find: its number in the campaign's register, and where it is now. */
+export function FindPanel({ observation: o, myRole, myId }: Props) {
+  const { colors } = useTheme();
+  const [editing, setEditing] = useState(false);
+  const mayEdit = myRole === 'lead' || myRole === 'scientist' || o.authorId === myId;
+  const find = o.find;
+  return (
+    <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="find">
+      <Text variant="label">Find</Text>
+      {find && !editing ? (
+        <>
+          <Text variant="title" testID="find-number">
+            {find.findNumber}
+          </Text>
+          <Text muted>
+            {[find.objectType, find.material, find.condition, find.state === 'recovered' ? 'recovered' : 'left in situ']
+              .filter(Boolean)
+              .join(' · ')}
+          </Text>
+          {mayEdit ? <Button label="Correct the find" tone="ghost" compact onPress={() => setEditing(true)} /> : null}
+        </>
+      ) : mayEdit ? (
+        <FindForm observation={o} onDone={() => setEditing(false)} />
+      ) : (
+        <Text muted>Not registered as a find.</Text>
+      )}
+    </View>
+  );
+}
+
+function FindForm({ observation: o, onDone }: { observation: ObservationDetail; onDone: () => void }) {
+  const { colors } = useTheme();
+  const current = o.find;
+  const proposal = useQuery({ ...nextFindNumberQuery(o.campaignId), enabled: !current });
+  const [number, setNumber] = useState(current?.findNumber ?? '');
+  const [objectType, setObjectType] = useState(current?.objectType ?? '');
+  const [material, setMaterial] = useState(current?.material ?? '');
+  const [condition, setCondition] = useState(current?.condition ?? '');
+  const [state, setState] = useState<'in-situ' | 'recovered'>(current?.state ?? 'in-situ');
+  const save = useSetFind(o.id);
+  const value = number || proposal.data?.findNumber || '';
+  const issue = (path: string) => (save.error instanceof ApiError ? save.error.issues.find((i) => i.path === path)?.message : undefined);
+  return (
+    <View style={styles.form}>
+      <Field
+        label="Find number"
+        testID="field-find-number"
+        value={value}
+        onChangeText={setNumber}
+        mono
+        autoCapitalize="characters"
+        hint={!current && proposal.data ? 'The next free number is proposed.' : undefined}
+        error={issue('findNumber')}
+      />
+      <Field label="Object type" value={objectType} onChangeText={setObjectType} placeholder="amphora, bowl, timber…" />
+      <Field label="Material" value={material} onChangeText={setMaterial} placeholder="ceramic, lead, wood…" />
+      <Field label="Condition" value={condition} onChangeText={setCondition} placeholder="complete, rim chipped…" />
+      <Segmented
+        label="State"
+        value={state}
+        onChange={setState}
+        options={[
+          { value: 'in-situ', label: 'In situ' },
+          { value: 'recovered', label: 'Recovered' },
+        ]}
+        testID="field-find-state"
+      />
+      {state === 'recovered' ? <RecoveryCaution /> : null}
+      {save.error instanceof ApiError && save.error.issues.length === 0 ? (
+        <Text color={colors.danger} role="alert" testID="find-error">
+          {save.error.message}
+        </Text>
+      ) : null}
+      <View style={styles.row}>
+        <Button
+          label="Save find"
+          testID="save-find"
+          busy={save.isPending}
+          onPress={() =>
+            save.mutate(
+              { findNumber: value, objectType: objectType || null, material: material || null, condition: condition || null, state },
+              { onSuccess: onDone },
+            )
+          }
+        />
+        {current ? <Button label="Cancel" tone="ghost" onPress={onDone} /> : null}
+      </View>
+    </View>
+  );
+}
+
+/** Who has held a recovered find or a sample, and where it is kept: append-only. */
+export function CustodyPanel({ observation: o, myRole }: { observation: ObservationDetail; myRole: string | undefined }) {
+  const { colors } = useTheme();
+  const [adding, setAdding] = useState(false);
+  const [holder, setHolder] = useState('');
+  const [since, setSince] = useState(() => toUtcInput(new Date().toISOString()));
+  const [location, setLocation] = useState('');
+  const [container, setContainer] = useState('');
+  const add = useAddCustody(o.id);
+  const inCustody = o.find?.state === 'recovered' || o.tags.some((t) => t.toLowerCase() === 'sample');
+  if (!inCustody) return null;
+  const sinceIso = parseUtcInput(since);
+  return (
+    <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="custody">
+      <Text variant="label">Custody trail</Text>
+      {o.custody.length === 0 ? <Text muted>Nobody has recorded holding it yet.</Text> : null}
+      {o.custody.map((c) => (
+        <View key={c.id} style={styles.step}>
+          <Text variant="monoSmall">{formatUtc(c.since)}</Text>
+          <Text>
+            {c.holder} · {c.location}
+            {c.container ? ` · ${c.container}` : ''}
+          </Text>
+          {c.note ? <Text muted>{c.note}</Text> : null}
+          <Text variant="caption" muted>
+            recorded by {c.recordedByName}
+          </Text>
+        </View>
+      ))}
+      {myRole && myRole !== 'admin' ? (
+        adding ? (
+          <View style={styles.form}>
+            <RecoveryCaution />
+            <Field label="Held by" testID="field-custody-holder" value={holder} onChangeText={setHolder} />
+            <Field
+              label="Since (UTC)"
+              value={since}
+              onChangeText={setSince}
+              mono
+              error={sinceIso ? undefined : 'Type a UTC time like 2026-05-16 23:10:00'}
+            />
+            <Field
+              label="Kept at"
+              testID="field-custody-location"
+              value={location}
+              onChangeText={setLocation}
+              placeholder="Wet lab, tank 2"
+            />
+            <Field label="Container or label" value={container} onChangeText={setContainer} placeholder="Bag 14" />
+            {add.error instanceof ApiError ? <Text color={colors.danger}>{add.error.message}</Text> : null}
+            <Button
+              label="Add to the trail"
+              testID="save-custody"
+              busy={add.isPending}
+              disabled={!sinceIso}
+              onPress={() =>
+                sinceIso &&
+                add.mutate({ holder, since: sinceIso, location, container: container || null }, { onSuccess: () => setAdding(false) })
+              }
+            />
+          </View>
+        ) : (
+          <Button label="Record a hand-over" tone="secondary" compact onPress={() => setAdding(true)} testID="add-custody" />
+        )
+      ) : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg, gap: space.sm },
+  row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' },
+  form: { gap: space.md },
+  step: { gap: 2, paddingVertical: space.xs },
+  caution: { borderLeftWidth: 3, paddingLeft: space.md, paddingVertical: space.xs },
+});

@@ -1,0 +1,179 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+
+import { Button } from '@/components/ui/button';
+import { ErrorState, LoadingState } from '@/components/ui/states';
+import { Text } from '@/components/ui/text';
+import { ApiError } from '@/hooks/api';
+import { useDraft } from '@/hooks/draft';
+import { useObservation, useUpdateObservation } from '@/hooks/observations';
+import { useTheme } from '@/hooks/theme';
+import type { ObservationDetail, ObservationUpdate } from '@/lib/schemas';
+import { radius, space } from '@/lib/tokens';
+import {
+  draftFromObservation,
+  errorsFromServer,
+  formStyles,
+  ObservationFields,
+  toPayload,
+  type Draft,
+  type FormErrors,
+} from './observation-form';
+
+type EditDraft = Draft & { baseVersion: number };
+
+const labels: Record<keyof Draft, string> = {
+  kind: 'Kind',
+  title: 'Title',
+  time: 'Time (UTC)',
+  depth: 'Depth (m)',
+  note: 'Note',
+  tags: 'Tags',
+};
+
+/** The fields where two versions of the form differ. */
+function differing(a: Draft, b: Draft): (keyof Draft)[] {
+  return (Object.keys(labels) as (keyof Draft)[]).filter((k) => JSON.stringify(a[k]) !== JSON.stringify(b[k]));
+}
+
+/** The edit body: only what changed against the version the edit started from. */
+function changes(draft: Draft, base: ObservationDetail, version: number): ObservationUpdate | FormErrors {
+  const result = toPayload(draft);
+  if (!result.ok) return result.errors;
+  const from = draftFromObservation(base);
+  const body: ObservationUpdate = { version };
+  const changed = differing(draft, from);
+  if (changed.includes('kind')) body.kind = result.body.kind;
+  if (changed.includes('title')) body.title = result.body.title;
+  if (changed.includes('time')) body.observedAt = result.body.observedAt;
+  if (changed.includes('depth')) body.depth = result.body.depth ?? null;
+  if (changed.includes('note')) body.note = result.body.note ?? '';
+  if (changed.includes('tags')) body.tags = result.body.tags ?? [];
+  return body;
+}
+
+export function ObservationEditor({ id, onDone }: { id: string; onDone: () => void }) {
+  const observation = useObservation(id);
+  if (observation.isPending) return <LoadingState label="Loading the entry…" />;
+  if (observation.isError) return <ErrorState error={observation.error} onRetry={() => void observation.refetch()} />;
+  return <Editor key={observation.data.id} current={observation.data} refetch={() => observation.refetch()} onDone={onDone} />;
+}
+
+/**
+ * Editing keeps the version it started from. If someone else saved in between, the server
+ * refuses with 409 and this shows both versions, field by field, to choose from: nothing is
+ * overwritten without the editor seeing what they would overwrite.
+ */
+function Editor({ current, refetch, onDone }: { current: ObservationDetail; refetch: () => Promise<unknown>; onDone: () => void }) {
+  const { colors } = useTheme();
+  const draft = useDraft<EditDraft>(`bathynote.edit.${current.id}`, () => ({
+    ...draftFromObservation(current),
+    baseVersion: current.version,
+  }));
+  const [errors, setErrors] = useState<FormErrors>({});
+  const save = useUpdateObservation(current.id);
+  const { baseVersion, ...value } = draft.value;
+
+  const submit = (version = baseVersion, base: ObservationDetail = current) => {
+    const body = changes(value, base, version);
+    if (!('version' in body)) {
+      setErrors(body);
+      return;
+    }
+    setErrors({});
+    save.mutate(body, {
+      onSuccess: () => {
+        draft.clear();
+        onDone();
+      },
+      onError: (err) => {
+        // A stale version: fetching the entry again brings the other person's version into view.
+        if (err instanceof ApiError && err.code === 'stale_version') void refetch();
+        else setErrors(errorsFromServer(err));
+      },
+    });
+  };
+
+  // The cached entry moves on when someone else saves (seen live or on a refused save).
+  const theirs = current.version !== baseVersion ? current : null;
+  const mine = value;
+  const theirDraft = theirs ? draftFromObservation(theirs) : null;
+  const clashes = theirDraft ? differing(mine, theirDraft) : [];
+
+  return (
+    <View style={formStyles.form} testID="observation-editor">
+      {draft.wasRestored && !theirs ? (
+        <View style={[formStyles.notice, { backgroundColor: colors.surfaceAlt }]}>
+          <Text variant="caption" style={formStyles.flex}>
+            Your unsaved changes were restored.
+          </Text>
+          <Button label="Discard changes" tone="ghost" compact onPress={draft.clear} />
+        </View>
+      ) : null}
+      {theirs && theirDraft ? (
+        <View
+          style={[styles.conflict, { borderColor: colors.warning, backgroundColor: colors.surface }]}
+          testID="edit-conflict"
+          role="alert"
+        >
+          <Text variant="title">Someone else changed this entry</Text>
+          <Text muted>
+            It is now at version {theirs.version}; your edit started from version {baseVersion}. Nothing has been overwritten. Choose what
+            to keep.
+          </Text>
+          {clashes.length === 0 ? <Text>Your changes and theirs agree.</Text> : null}
+          {clashes.map((k) => (
+            <View key={k} style={styles.clash} testID={`conflict-${k}`}>
+              <Text variant="label">{labels[k]}</Text>
+              <View style={styles.sides}>
+                <View style={[styles.side, { borderColor: colors.border }]}>
+                  <Text variant="caption" muted>
+                    Theirs
+                  </Text>
+                  <Text testID={`theirs-${k}`}>
+                    {Array.isArray(theirDraft[k]) ? (theirDraft[k] as string[]).join(', ') : String(theirDraft[k] ?? '') || '—'}
+                  </Text>
+                </View>
+                <View style={[styles.side, { borderColor: colors.accent }]}>
+                  <Text variant="caption" muted>
+                    Yours
+                  </Text>
+                  <Text testID={`mine-${k}`}>
+                    {Array.isArray(mine[k]) ? (mine[k] as string[]).join(', ') : String(mine[k] ?? '') || '—'}
+                  </Text>
+                </View>
+              </View>
+            </View>
+          ))}
+          <View style={styles.row}>
+            <Button label="Keep mine" testID="keep-mine" busy={save.isPending} onPress={() => submit(theirs.version, theirs)} />
+            <Button
+              label="Take theirs"
+              tone="secondary"
+              testID="take-theirs"
+              onPress={() => {
+                draft.clear();
+                onDone();
+              }}
+            />
+          </View>
+        </View>
+      ) : null}
+      <ObservationFields campaignId={current.campaignId} value={value} update={draft.update} errors={errors} onSubmit={() => submit()} />
+      {save.error instanceof ApiError && save.error.issues.length === 0 && save.error.code !== 'stale_version' ? (
+        <Text color={colors.danger} role="alert" testID="form-error">
+          {save.error.message}
+        </Text>
+      ) : null}
+      {theirs ? null : <Button label="Save changes" testID="save-observation" busy={save.isPending} onPress={() => submit()} />}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  conflict: { borderWidth: 2, borderRadius: radius.lg, padding: space.lg, gap: space.md },
+  clash: { gap: space.xs },
+  sides: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
+  side: { flex: 1, minWidth: 140, borderWidth: 1, borderRadius: radius.md, padding: space.sm, gap: 2 },
+  row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
+});

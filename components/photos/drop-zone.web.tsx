@@ -1,0 +1,51 @@
+import { useState, type DragEvent, type ReactNode } from 'react';
+
+import type { PickedFile } from '@/hooks/photo-upload';
+import { useTheme } from '@/hooks/theme';
+import { radius } from '@/lib/tokens';
+import { pickedFromFiles } from './pick-photos';
+
+const carriesFiles = (e: DragEvent) => Array.from(e.dataTransfer.types).includes('Files');
+
+/** Photos dragged in from the desktop land in the entry's upload queue. */
+export function DropZone({
+  children,
+  onFiles,
+  enabled,
+}: {
+  children: ReactNode;
+  onFiles: (files: PickedFile[]) => void;
+  enabled: boolean;
+}) {
+  const { colors } = useTheme();
+  const [over, setOver] = useState(false);
+  if (!enabled) return <>{children}</>;
+  return (
+    <div
+      data-testid="photo-drop-zone"
+      onDragOver={(e) => {
+        if (!carriesFiles(e)) return;
+        e.preventDefault();
+        e.dataTransfer.dropEffect = 'copy';
+        setOver(true);
+      }}
+      onDragLeave={() => setOver(false)}
+      onDrop={(e) => {
+        if (!carriesFiles(e)) return;
+        e.preventDefault();
+        setOver(false);
+        const files = pickedFromFiles(Array.from(e.dataTransfer.files));
+        if (files.length > 0) onFiles(files);
+      }}
+      style={{
+        borderRadius: radius.lg,
+        outline: over ? `2px dashed ${colors.accent}` : '2px dashed transparent',
+        outlineOffset: 4,
+        display: 'flex',
+        flexDirection: 'column',
+      }}
+    >
+      {children}
+    </div>
+  );
+}

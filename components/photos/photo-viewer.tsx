@@ -1,0 +1,164 @@
+import { useState } from 'react';
+import { Linking, Modal, StyleSheet, View } from 'react-native';
+
+import { Button } from '@/components/ui/button';
+import { Chip } from '@/components/ui/chip';
+import { Text } from '@/components/ui/text';
+import { useLayout } from '@/hooks/layout';
+import { photoUrl, useThumbnailsOnly } from '@/hooks/photos';
+import { formatUtc } from '@/lib/format';
+import type { Photo } from '@/lib/schemas';
+import { palettes, space } from '@/lib/tokens';
+import { PhotoImage } from './photo-image';
+import { useViewerKeys } from './viewer-keys';
+
+export type ViewerPhoto = Pick<Photo, 'id' | 'urls' | 'caption' | 'credit' | 'capturedAt' | 'width' | 'height'> & {
+  /** The entry the photo belongs to, shown under it in a gallery. */
+  entryTitle?: string;
+};
+
+type Props = {
+  photos: ViewerPhoto[];
+  index: number | null;
+  onIndexChange: (index: number) => void;
+  onClose: () => void;
+  /** How many there are in all, when more are still to load. */
+  total?: number;
+  /** Called on stepping past the last loaded photo. */
+  onNeedMore?: () => void;
+};
+
+// The viewer is always dark, whatever the theme: photos read best on black.
+const dark = palettes.dark;
+
+/** One photo at a time on a dark ground, stepping with buttons, or ← → and Esc on a keyboard. */
+export function PhotoViewer({ photos, index, onIndexChange, onClose, total, onNeedMore }: Props) {
+  const current = index === null ? undefined : photos[index];
+  const open = current !== undefined;
+  const count = Math.max(total ?? 0, photos.length);
+  const step = (by: number) => {
+    if (index === null) return;
+    const next = index + by;
+    if (next < 0) return;
+    if (next >= photos.length) {
+      onNeedMore?.();
+      return;
+    }
+    onIndexChange(next);
+  };
+  useViewerKeys({ onPrevious: () => step(-1), onNext: () => step(1), onClose }, open);
+
+  return (
+    <Modal visible={open} transparent animationType="none" onRequestClose={onClose}>
+      {current && index !== null ? <ViewerBody photo={current} position={index + 1} count={count} onStep={step} onClose={onClose} /> : null}
+    </Modal>
+  );
+}
+
+function ViewerBody({
+  photo,
+  position,
+  count,
+  onStep,
+  onClose,
+}: {
+  photo: ViewerPhoto;
+  position: number;
+  count: number;
+  onStep: (by: number) => void;
+  onClose: () => void;
+}) {
+  const { breakpoint } = useLayout();
+  const [thumbnailsOnly, setThumbnailsOnly] = useThumbnailsOnly();
+  const [asked, setAsked] = useState<ReadonlySet<string>>(new Set());
+  const showFull = !thumbnailsOnly || asked.has(photo.id);
+  const label = photo.caption ?? photo.entryTitle ?? 'Photo';
+
+  return (
+    <View style={styles.backdrop} testID="photo-viewer" role="dialog" aria-modal aria-label="Photo viewer">
+      <View style={styles.bar}>
+        <Text variant="mono" color={dark.text} testID="viewer-counter">
+          {position} / {count}
+        </Text>
+        <View style={styles.flex} />
+        <Chip
+          label="Thumbnails only"
+          selected={thumbnailsOnly}
+          onPress={() => setThumbnailsOnly(!thumbnailsOnly)}
+          testID="viewer-thumbnails-only"
+        />
+        <Button label="Close" tone="secondary" compact onPress={onClose} testID="viewer-close" />
+      </View>
+
+      <View style={styles.stage}>
+        <PhotoImage key={`${photo.id}-thumb`} uri={photoUrl(photo, 'thumb')} label={label} fit="contain" testID="viewer-thumb" />
+        {showFull ? (
+          <PhotoImage key={`${photo.id}-display`} uri={photoUrl(photo, 'display')} label={label} fit="contain" testID="viewer-display" />
+        ) : (
+          <View style={styles.loadFull}>
+            <Button
+              label="Load full image"
+              tone="secondary"
+              onPress={() => setAsked(new Set(asked).add(photo.id))}
+              testID="viewer-load-full"
+            />
+          </View>
+        )}
+      </View>
+
+      <View style={[styles.footer, breakpoint === 'phone' && styles.footerPhone]}>
+        <View style={styles.caption}>
+          {photo.entryTitle ? (
+            <Text variant="label" color={dark.text} numberOfLines={1}>
+              {photo.entryTitle}
+            </Text>
+          ) : null}
+          {photo.caption ? (
+            <Text color={dark.text} testID="viewer-caption">
+              {photo.caption}
+            </Text>
+          ) : null}
+          <Text variant="caption" color={dark.textMuted}>
+            {[
+              photo.capturedAt ? `Taken ${formatUtc(photo.capturedAt)}` : null,
+              photo.credit ? `© ${photo.credit}` : null,
+              `${photo.width} × ${photo.height} px`,
+            ]
+              .filter(Boolean)
+              .join(' · ')}
+          </Text>
+        </View>
+        <View style={styles.steps}>
+          <Button
+            label="‹ Previous"
+            tone="secondary"
+            compact
+            disabled={position <= 1}
+            onPress={() => onStep(-1)}
+            testID="viewer-previous"
+          />
+          <Button label="Next ›" tone="secondary" compact disabled={position >= count} onPress={() => onStep(1)} testID="viewer-next" />
+          <Button
+            label="Original"
+            tone="ghost"
+            compact
+            onPress={() => void Linking.openURL(photoUrl(photo, 'original'))}
+            testID="viewer-original"
+          />
+        </View>
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  backdrop: { flex: 1, backgroundColor: dark.bg },
+  bar: { flexDirection: 'row', alignItems: 'center', gap: space.md, padding: space.md },
+  flex: { flex: 1 },
+  stage: { flex: 1, margin: space.md, position: 'relative', overflow: 'hidden' },
+  loadFull: { ...StyleSheet.absoluteFill, alignItems: 'center', justifyContent: 'flex-end', paddingBottom: space.xl },
+  footer: { flexDirection: 'row', alignItems: 'center', gap: space.lg, padding: space.md, flexWrap: 'wrap' },
+  footerPhone: { flexDirection: 'column', alignItems: 'stretch' },
+  caption: { flex: 1, gap: 2, minWidth: 200 },
+  steps: { flexDirection: 'row', gap: space.sm, justifyContent: 'flex-end' },
+});

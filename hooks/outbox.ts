@@ -1,0 +1,139 @@
+/**
+ * Entries that could not be sent (no link, or the server did not answer) wait here, on this
+ * device, and are sent again until they get through. Each carries a `clientRef`, so an entry
+ * whose first send did arrive (but whose answer was lost) is not logged twice.
+ */
+import { useQueryClient } from '@tanstack/react-query';
+import { useCallback, useEffect, useSyncExternalStore } from 'react';
+
+import { observationSchema, type Observation, type ObservationCreate } from '@/lib/schemas';
+import { ApiError, request } from './api';
+import { mergeIntoDiveLogs } from './observations';
+import { storage } from './storage';
+
+export type PendingEntry = {
+  clientRef: string;
+  diveId: string;
+  body: ObservationCreate;
+  queuedAt: string;
+  attempts: number;
+  lastError: string | null;
+};
+
+const KEY = 'bathynote.outbox';
+const listeners = new Set<() => void>();
+let cache: PendingEntry[] | null = null;
+
+function read(): PendingEntry[] {
+  if (cache) return cache;
+  try {
+    const parsed: unknown = JSON.parse(storage.get(KEY) ?? '[]');
+    cache = Array.isArray(parsed) ? (parsed as PendingEntry[]) : [];
+  } catch {
+    cache = [];
+  }
+  return cache;
+}
+
+function write(next: PendingEntry[]) {
+  cache = next;
+  storage.set(KEY, JSON.stringify(next));
+  for (const l of listeners) l();
+}
+
+const subscribe = (l: () => void) => {
+  listeners.add(l);
+  return () => listeners.delete(l);
+};
+
+export function newClientRef(): string {
+  const c = globalThis.crypto;
+  return c?.randomUUID ? c.randomUUID() : `${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 12)}`;
+}
+
+/** Whether a failed send is worth trying again (as opposed to a refusal the person must fix). */
+const retryable = (err: unknown) => err instanceof ApiError && (err.isNetwork || err.status >= 500 || err.status === 429);
+
+function send(entry: Pick<PendingEntry, 'diveId' | 'body' | 'clientRef'>): Promise<Observation> {
+  return request(`/api/dives/${encodeURIComponent(entry.diveId)}/observations`, observationSchema, {
+    body: { ...entry.body, clientRef: entry.clientRef },
+  });
+}
+
+export function usePendingEntries(diveId?: string): PendingEntry[] {
+  const all = useSyncExternalStore(subscribe, read, read);
+  return diveId ? all.filter((p) => p.diveId === diveId) : all;
+}
+
+/**
+ * Logs an entry: sent at once when the link is up, otherwise kept in the outbox and sent later.
+ * Resolves with the stored entry, or with `{ queued: true }` when it waits in the outbox.
+ */
+export function useLogEntry(diveId: string) {
+  const qc = useQueryClient();
+  return useCallback(
+    async (body: ObservationCreate): Promise<{ queued: false; observation: Observation } | { queued: true }> => {
+      const entry = { clientRef: newClientRef(), diveId, body: { ...body, observedAt: body.observedAt ?? new Date().toISOString() } };
+      try {
+        const observation = await send(entry);
+        mergeIntoDiveLogs(qc, observation);
+        return { queued: false, observation };
+      } catch (err) {
+        if (!retryable(err)) throw err;
+        write([...read(), { ...entry, queuedAt: new Date().toISOString(), attempts: 1, lastError: (err as Error).message }]);
+        return { queued: true };
+      }
+    },
+    [diveId, qc],
+  );
+}
+
+export function discardPending(clientRef: string) {
+  write(read().filter((p) => p.clientRef !== clientRef));
+}
+
+let flushing = false;
+
+/** Sends whatever waits in the outbox, oldest first; keeps what still cannot be sent. */
+export function useOutboxFlush() {
+  const qc = useQueryClient();
+  return useCallback(async () => {
+    if (flushing) return;
+    flushing = true;
+    try {
+      for (const entry of read().filter((p) => p.attempts >= 0)) {
+        try {
+          const observation = await send(entry);
+          mergeIntoDiveLogs(qc, observation);
+          write(read().filter((p) => p.clientRef !== entry.clientRef));
+        } catch (err) {
+          const lastError = err instanceof Error ? err.message : 'Not sent';
+          if (!retryable(err)) {
+            // The server refused it for good (e.g. the dive is gone): keep it visible, stop retrying.
+            write(read().map((p) => (p.clientRef === entry.clientRef ? { ...p, attempts: -1, lastError } : p)));
+          } else {
+            write(read().map((p) => (p.clientRef === entry.clientRef ? { ...p, attempts: p.attempts + 1, lastError } : p)));
+            break;
+          }
+        }
+      }
+    } finally {
+      flushing = false;
+    }
+  }, [qc]);
+}
+
+/** Keeps trying the outbox while the app is open: on a timer and whenever the browser is back online. */
+export function useOutboxSender(intervalMs = 15_000) {
+  const flush = useOutboxFlush();
+  useEffect(() => {
+    const timer = setInterval(() => void flush(), intervalMs);
+    const online = () => void flush();
+    if (typeof window !== 'undefined') window.addEventListener('online', online);
+    void flush();
+    return () => {
+      clearInterval(timer);
+      if (typeof window !== 'undefined') window.removeEventListener('online', online);
+    };
+  }, [flush, intervalMs]);
+}

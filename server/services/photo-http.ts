@@ -1,0 +1,102 @@
+/** The HTTP side of photos: reading multipart uploads within limits, and sending stored files. */
+import type { Request, RequestHandler, Response } from 'express';
+import multer, { MulterError } from 'multer';
+
+import { photoLimits } from '../../lib/schemas';
+import { ApiError, notFound } from '../errors';
+import type { PhotoFile } from './photos';
+import type { PhotoStorage } from './photo-storage';
+
+const MB = 1024 * 1024;
+
+/**
+ * multer with every limit set: its defaults are unlimited. Memory storage is enough because each
+ * file is capped, and it means an upload cut off half way has written nothing anywhere.
+ */
+const parser = multer({
+  storage: multer.memoryStorage(),
+  limits: {
+    fileSize: photoLimits.maxBytes,
+    files: photoLimits.maxFiles,
+    fields: 4,
+    parts: photoLimits.maxFiles + 4,
+    fieldNameSize: 64,
+    fieldSize: 4096,
+    headerPairs: 20,
+  },
+}).array('photo', photoLimits.maxFiles);
+
+function translate(err: unknown): ApiError {
+  if (err instanceof MulterError) {
+    switch (err.code) {
+      case 'LIMIT_FILE_SIZE':
+        return new ApiError(413, 'too_large', `A photo may be at most ${photoLimits.maxBytes / MB} MB.`);
+      case 'LIMIT_FILE_COUNT':
+        return new ApiError(413, 'too_many_files', `Send at most ${photoLimits.maxFiles} photos at once.`);
+      case 'LIMIT_PART_COUNT':
+      case 'LIMIT_FIELD_COUNT':
+        return new ApiError(413, 'too_many_parts', 'The upload has too many parts.');
+      case 'LIMIT_FIELD_KEY':
+      case 'LIMIT_FIELD_VALUE':
+        return new ApiError(413, 'too_large', 'A text field of the upload is too long.');
+      case 'LIMIT_UNEXPECTED_FILE':
+        return new ApiError(400, 'validation_failed', 'Send photos in the field "photo".', [
+          { path: err.field ?? '(body)', message: 'Unexpected file field' },
+        ]);
+      default:
+        return new ApiError(400, 'bad_multipart', 'The upload could not be read.');
+    }
+  }
+  return new ApiError(400, 'bad_multipart', 'The upload could not be read; it may have been cut off.');
+}
+
+/** Parses `multipart/form-data`; every failure comes out in the contract's error shape. */
+export const readPhotoUpload: RequestHandler = (req, res, next) => {
+  if (!req.is('multipart/form-data')) {
+    next(
+      new ApiError(400, 'validation_failed', 'Send the photos as multipart/form-data in the field "photo".', [
+        { path: 'photo', message: 'No file was sent' },
+      ]),
+    );
+    return;
+  }
+  parser(req, res, (err?: unknown) => next(err ? translate(err) : undefined));
+};
+
+export function uploadedFiles(req: Request): { buffer: Buffer; originalname: string }[] {
+  return Array.isArray(req.files) ? req.files : [];
+}
+
+/**
+ * Sends one stored file: its real type, never sniffed, sandboxed if opened on its own, with a
+ * generated name, and cacheable by this browser only (revalidated with its ETag).
+ */
+export async function sendPhotoFile(req: Request, res: Response, storage: PhotoStorage, photoId: string, size: string, file: PhotoFile) {
+  res.setHeader('Content-Type', file.mime);
+  res.setHeader('X-Content-Type-Options', 'nosniff');
+  res.setHeader('Content-Security-Policy', "default-src 'none'; sandbox");
+  res.setHeader('Content-Disposition', `inline; filename="bathynote-photo-${photoId.replace(/[^a-zA-Z0-9-]/g, '')}-${size}.${file.ext}"`);
+  res.setHeader('Cache-Control', 'private, max-age=86400');
+  res.setHeader('Vary', 'Cookie');
+  res.setHeader('ETag', file.etag);
+  if (req.fresh) {
+    res.status(304).end();
+    return;
+  }
+  const stored = await storage.stream(file.key);
+  if (!stored) throw notFound('The file of this photo is missing.');
+  res.setHeader('Content-Length', String(stored.bytes));
+  if (req.method === 'HEAD') {
+    stored.body.destroy();
+    res.end();
+    return;
+  }
+  await new Promise<void>((resolve, reject) => {
+    stored.body.once('error', reject);
+    res.once('close', () => {
+      stored.body.destroy();
+      resolve();
+    });
+    stored.body.pipe(res);
+  });
+}

@@ -1,0 +1,180 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+
+import { openBrowser, viewports, type Browser } from '../helpers/chromium';
+import { startServerProcess, type ServerProcess } from '../helpers/server-process';
+
+let server: ServerProcess;
+
+beforeAll(async () => {
+  server = await startServerProcess();
+});
+afterAll(async () => {
+  await server?.stop();
+});
+
+async function signIn(page: Page, email: string) {
+  await page.goto(server.url);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill('bathynote-demo');
+  await page.getByTestId('sign-in-password').press('Enter');
+  await page.getByTestId('campaign-list').waitFor();
+}
+
+async function openDive(page: Page, number: string) {
+  await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+  await page.getByTestId(`dive-${number}`).click();
+  await page.getByTestId('live-status-live').waitFor();
+}
+
+async function logEntry(page: Page, title: string, time?: string) {
+  await page.getByTestId('new-observation').click();
+  await page.getByTestId('field-kind-biology').click();
+  await page.getByTestId('field-title').fill(title);
+  if (time) await page.getByTestId('field-time').fill(time);
+  await page.getByTestId('save-observation').click();
+  await page.getByTestId('dive-log').getByText(title).waitFor();
+}
+
+/** Scrolls the dive log like a reader's thumb would, away from the newest entries. */
+async function scrollLogDown(page: Page) {
+  await page.getByTestId('dive-log').first().hover();
+  for (let i = 0; i < 4; i++) await page.mouse.wheel(0, 600);
+  await page.waitForTimeout(300);
+}
+
+describe.each([
+  ['phone', viewports.phone],
+  ['wide', viewports.wide],
+] as const)('two people on one dive at %s size', (size, viewport) => {
+  let logger: Browser;
+  let reader: Browser;
+  beforeAll(async () => {
+    [logger, reader] = await Promise.all([openBrowser(viewport), openBrowser(viewport)]);
+    await Promise.all([signIn(logger.page, 'biologist@bathynote.test'), signIn(reader.page, 'guest@bathynote.test')]);
+    await Promise.all([openDive(logger.page, 'VS-04'), openDive(reader.page, 'VS-04')]);
+  });
+  afterAll(async () => {
+    await Promise.all([logger?.close(), reader?.close()]);
+  });
+
+  it('shows an entry to the other reader without a reload', async () => {
+    const title = `Squat lobster in the amphora mouth (${size})`;
+    await logEntry(logger.page, title);
+    await reader.page.getByTestId('dive-log').getByText(title).waitFor({ timeout: 5000 });
+    expect(logger.errors).toEqual([]);
+    expect(reader.errors).toEqual([]);
+  });
+
+  it('holds new entries behind a marker while the reader is scrolled down', async () => {
+    await scrollLogDown(reader.page);
+    const title = `Conger passing the stern (${size})`;
+    // Newer than everything in the log, so it belongs at the very top.
+    await logEntry(logger.page, title, '2026-12-31 23:59:00');
+    const marker = reader.page.getByTestId('new-entries');
+    await marker.waitFor({ timeout: 5000 });
+    expect(await marker.textContent()).toContain('1 new entry');
+    expect(await reader.page.getByTestId('dive-log').getByText(title).count()).toBe(0);
+    await marker.click();
+    await reader.page.getByTestId('dive-log').getByText(title).waitFor();
+    expect(await marker.count()).toBe(0);
+  });
+});
+
+describe('two people editing one entry', () => {
+  it('shows the second editor both versions, and keeps every state in the history', async () => {
+    const [author, lead] = await Promise.all([openBrowser(viewports.wide), openBrowser(viewports.wide)]);
+    try {
+      await Promise.all([signIn(author.page, 'biologist@bathynote.test'), signIn(lead.page, 'lead@bathynote.test')]);
+      await openDive(author.page, 'VS-01');
+      const title = 'Sponge on the sternpost';
+      await logEntry(author.page, title);
+      await author.page.getByTestId('dive-log').getByText(title).click();
+      await author.page.getByTestId('edit').click();
+      await author.page.getByTestId('observation-editor').waitFor();
+      const editUrl = author.page.url();
+      await author.page.getByTestId('field-title').fill('Glass sponge on the sternpost');
+
+      // Meanwhile the lead changes the same entry and saves first.
+      await lead.page.goto(editUrl);
+      await lead.page.getByTestId('observation-editor').waitFor();
+      await lead.page.getByTestId('field-title').fill('Vase sponge on the sternpost');
+      await lead.page.getByTestId('save-observation').click();
+      await lead.page.getByTestId('observation-detail').waitFor();
+
+      // The author sees the other save as it happens (live), before saving over it: both versions,
+      // field by field, and nothing overwritten.
+      const conflictPanel = author.page.getByTestId('edit-conflict');
+      await conflictPanel.waitFor();
+      expect(await author.page.getByTestId('save-observation').count()).toBe(0);
+      expect(await author.page.getByTestId('theirs-title').textContent()).toBe('Vase sponge on the sternpost');
+      expect(await author.page.getByTestId('mine-title').textContent()).toBe('Glass sponge on the sternpost');
+      await author.page.getByTestId('keep-mine').click();
+      await author.page.getByTestId('observation-detail').getByText('Glass sponge on the sternpost').waitFor();
+
+      await author.page.getByTestId('toggle-history').click();
+      await author.page.getByTestId('revision-3').waitFor();
+      expect(await author.page.getByTestId('revision-2').textContent()).toContain('Ada Lumen');
+      expect(await author.page.getByTestId('revision-1').textContent()).toContain('Logged');
+      expect(author.errors).toEqual([]);
+      expect(lead.errors).toEqual([]);
+    } finally {
+      await Promise.all([author.close(), lead.close()]);
+    }
+  });
+});
+
+describe('logging fast and over a failing link', () => {
+  it('logs with a quick mark the lead defined, in one tap', async () => {
+    const lead = await openBrowser(viewports.phone);
+    const bio = await openBrowser(viewports.phone);
+    try {
+      await signIn(lead.page, 'lead@bathynote.test');
+      await lead.page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+      await lead.page.getByTestId('campaign-settings').click();
+      await lead.page.getByTestId('field-quick-mark-label').fill('Rusticle drip');
+      await lead.page.getByTestId('add-quick-mark').click();
+      await lead.page.getByTestId('quick-mark-settings').getByText('Rusticle drip').waitFor();
+
+      await signIn(bio.page, 'biologist@bathynote.test');
+      await openDive(bio.page, 'VS-03');
+      await bio.page.getByTestId('quick-mark-Rusticle drip').click();
+      await bio.page.getByTestId('toast').getByText('Logged “Rusticle drip”').waitFor();
+      await bio.page.getByTestId('dive-log').locator('[data-testid^="observation-"]').getByText('Rusticle drip').waitFor();
+      expect(bio.errors).toEqual([]);
+    } finally {
+      await Promise.all([lead.close(), bio.close()]);
+    }
+  });
+
+  it('keeps an entry that could not be sent, shows it waiting, and sends it when the link is back', async () => {
+    const bio = await openBrowser(viewports.phone);
+    try {
+      await signIn(bio.page, 'biologist@bathynote.test');
+      await openDive(bio.page, 'VS-02');
+      // The satellite link drops: every new entry fails to reach the server.
+      await bio.page.route('**/api/dives/*/observations', (route) =>
+        route.request().method() === 'POST' ? route.abort('internetdisconnected') : route.continue(),
+      );
+      await bio.page.getByTestId('new-observation').click();
+      await bio.page.getByTestId('field-kind-biology').click();
+      await bio.page.getByTestId('field-title').fill('Sent over a dropping link');
+      await bio.page.getByTestId('save-observation').click();
+      const pending = bio.page.getByTestId('pending-entries');
+      await pending.getByText('Sent over a dropping link').waitFor();
+      await pending.getByText('Waiting to send').waitFor();
+
+      // It survives a reload: it is kept on the device.
+      await bio.page.reload();
+      await bio.page.getByTestId('pending-entries').getByText('Sent over a dropping link').waitFor();
+
+      await bio.page.unroute('**/api/dives/*/observations');
+      await bio.page.getByTestId('pending-retry').click();
+      await bio.page.getByTestId('dive-log').locator('[data-testid^="observation-"]').getByText('Sent over a dropping link').waitFor();
+      expect(await bio.page.getByTestId('pending-entries').count()).toBe(0);
+      expect(bio.errors).toEqual([]);
+    } finally {
+      await bio.close();
+    }
+  });
+});

@@ -1,0 +1,163 @@
+import path from 'node:path';
+
+import Database from 'better-sqlite3';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+import { jpegWithExif } from '../fixtures/photos/make';
+import { openBrowser, viewports, type Browser } from '../helpers/chromium';
+import { startServerProcess, type ServerProcess } from '../helpers/server-process';
+
+let server: ServerProcess;
+let entry: { id: string; diveId: string; title: string };
+
+beforeAll(async () => {
+  server = await startServerProcess();
+  const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
+  entry = db
+    .prepare(
+      `select o.id, o.dive_id as diveId, o.title from observations o
+       join user u on u.id = o.author_id join dives d on d.id = o.dive_id
+       where u.email = 'biologist@bathynote.test' and d.number = 'VS-02' and o.retired = 0
+       order by o.observed_at limit 1`,
+    )
+    .get() as typeof entry;
+  db.close();
+});
+afterAll(async () => {
+  await server?.stop();
+});
+
+async function signIn(page: Page, email: string) {
+  await page.goto(server.url);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill('bathynote-demo');
+  await page.getByTestId('sign-in-password').press('Enter');
+  await page.getByTestId('campaign-list').waitFor();
+}
+
+/** The image elements of a locator have all loaded real pixels. */
+async function imagesLoaded(page: Page, testId: string): Promise<number[]> {
+  return page
+    .getByTestId(testId)
+    .locator('img')
+    .evaluateAll((imgs) => imgs.map((i) => (i as HTMLImageElement).naturalWidth));
+}
+
+describe('photos on an entry', () => {
+  let browser: Browser;
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('lets the biologist attach frame grabs on a phone, watch them upload and find them in the dive gallery', async () => {
+    browser = await openBrowser(viewports.phone);
+    const { page } = browser;
+    await signIn(page, 'biologist@bathynote.test');
+    await page.goto(`${server.url}/observations/${entry.id}`);
+    const photos = page.getByTestId('observation-photos');
+    await photos.waitFor();
+    expect(await photos.getByTestId('photo-count').textContent()).toBe('none yet');
+
+    const grabs = await Promise.all([
+      jpegWithExif({ dateTimeOriginal: '2026:05:13 20:31:12', subSec: '400' }, { width: 1600, height: 900 }),
+      jpegWithExif({ dateTimeOriginal: '2026:05:13 20:31:40' }, { width: 1600, height: 900 }),
+    ]);
+    // The library picker opens the browser's file chooser, which the test answers.
+    const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.getByTestId('add-photos').click()]);
+    expect(chooser.isMultiple()).toBe(true);
+    await chooser.setFiles([
+      { name: 'grab-2031-12.jpg', mimeType: 'image/jpeg', buffer: grabs[0] },
+      { name: 'grab-2031-40.jpg', mimeType: 'image/jpeg', buffer: grabs[1] },
+    ]);
+
+    await expect.poll(() => page.getByTestId('upload-done').count(), { timeout: 30_000 }).toBe(2);
+    const progress = await page.getByTestId('upload-progress').evaluateAll((bars) => bars.map((b) => b.getAttribute('aria-valuenow')));
+    expect(progress).toEqual(['100', '100']);
+
+    const strip = page.getByTestId('photo-strip');
+    await expect.poll(() => strip.getByTestId('photo-thumb').count(), { timeout: 15_000 }).toBe(2);
+    await expect.poll(() => imagesLoaded(page, 'photo-strip')).toEqual([expect.any(Number), expect.any(Number)]);
+    await expect.poll(async () => (await imagesLoaded(page, 'photo-strip')).every((w) => w > 0 && w <= 320)).toBe(true);
+    expect(await photos.getByTestId('photo-count').textContent()).toBe('2 photos');
+    expect(await strip.getByText('Taken 2026-05-13 20:31:12Z').count()).toBe(1);
+
+    // The entry takes its time from the first photo.
+    await strip.getByTestId('photo-use-time').first().click();
+    await expect.poll(() => page.getByTestId('fact-time').textContent(), { timeout: 15_000 }).toBe('2026-05-13 20:31:12.400Z');
+
+    // A caption for the first photo.
+    await strip.getByTestId('photo-edit').first().click();
+    await page.getByTestId('photo-caption-field').fill('Iron-oxidising mat, frame grab');
+    await page.getByTestId('photo-save').click();
+    await strip.getByText('Iron-oxidising mat, frame grab').waitFor();
+
+    await page.getByTestId('entry-gallery-link').click();
+    const gallery = page.getByTestId('gallery');
+    await gallery.waitFor();
+    expect(new URL(page.url()).pathname).toBe(`/dives/${entry.diveId}/gallery`);
+    await expect.poll(() => gallery.locator('[data-testid^="gallery-photo-"]').count()).toBe(2);
+    expect(await page.getByTestId('gallery-total').textContent()).toBe('2 photos');
+
+    // Filters: no operations photo on this dive, both under biology.
+    await page.getByTestId('gallery-kind-operations').click();
+    await page.getByTestId('empty').getByText('No photos').waitFor();
+    await page.getByTestId('gallery-kind-biology').click();
+    await expect.poll(() => gallery.locator('[data-testid^="gallery-photo-"]').count()).toBe(2);
+    expect(browser.errors).toEqual([]);
+  });
+
+  it('steps through the gallery viewer with the keyboard on a wide screen, full images only when asked', async () => {
+    const wide = await openBrowser(viewports.wide);
+    try {
+      const { page } = wide;
+      await signIn(page, 'guest@bathynote.test');
+      await page.goto(`${server.url}/dives/${entry.diveId}/gallery`);
+      const tiles = page.getByTestId('gallery').locator('[data-testid^="gallery-photo-"]');
+      await expect.poll(() => tiles.count()).toBe(2);
+
+      await tiles.first().click();
+      const viewer = page.getByTestId('photo-viewer');
+      await viewer.waitFor();
+      expect(await viewer.getByTestId('viewer-counter').textContent()).toBe('1 / 2');
+      expect(await viewer.getByTestId('viewer-caption').textContent()).toBe('Iron-oxidising mat, frame grab');
+      await viewer.getByTestId('viewer-display').waitFor({ state: 'attached' });
+
+      await page.keyboard.press('ArrowRight');
+      await expect.poll(() => viewer.getByTestId('viewer-counter').textContent()).toBe('2 / 2');
+      await page.keyboard.press('ArrowRight');
+      expect(await viewer.getByTestId('viewer-counter').textContent()).toBe('2 / 2');
+      await page.keyboard.press('ArrowLeft');
+      await expect.poll(() => viewer.getByTestId('viewer-counter').textContent()).toBe('1 / 2');
+
+      // On a thin link: thumbnails only, until the reader asks for the full image.
+      await viewer.getByTestId('viewer-thumbnails-only').click();
+      await viewer.getByTestId('viewer-load-full').waitFor();
+      expect(await viewer.getByTestId('viewer-display').count()).toBe(0);
+      const thumbSrc = await viewer.getByTestId('viewer-thumb').getAttribute('src');
+      expect(thumbSrc).toMatch(/size=thumb$/);
+      await page.keyboard.press('ArrowRight');
+      await expect.poll(() => viewer.getByTestId('viewer-counter').textContent()).toBe('2 / 2');
+      expect(await viewer.getByTestId('viewer-display').count()).toBe(0);
+      await viewer.getByTestId('viewer-load-full').click();
+      await viewer.getByTestId('viewer-display').waitFor({ state: 'attached' });
+      expect(await viewer.getByTestId('viewer-display').getAttribute('src')).toMatch(/size=display$/);
+      await expect
+        .poll(() => viewer.getByTestId('viewer-display').evaluate((i) => (i as HTMLImageElement).naturalWidth))
+        .toBeGreaterThan(320);
+
+      await page.keyboard.press('Escape');
+      await viewer.waitFor({ state: 'detached' });
+
+      // The setting is kept on this device.
+      await page.reload();
+      await page.getByTestId('gallery').waitFor();
+      await page.getByTestId('gallery').locator('[data-testid^="gallery-photo-"]').first().click();
+      await page.getByTestId('photo-viewer').getByTestId('viewer-load-full').waitFor();
+      expect(await page.getByTestId('photo-viewer').getByTestId('viewer-display').count()).toBe(0);
+      expect(wide.errors).toEqual([]);
+    } finally {
+      await wide.close();
+    }
+  });
+});
