@@ -13,6 +13,8 @@ type Props<T extends string> = {
   onChange: (v: T) => void;
   testID?: string;
   error?: string;
+  /** The label is still read out to screen readers, but not shown. */
+  hideLabel?: boolean;
 };
 
 /** A row of mutually exclusive choices, each big enough for a thumb. */
