@@ -9,8 +9,8 @@ import path from 'node:path';
 
 const root = path.resolve(__dirname, '..');
 // WEB_DIR lets two checkouts or two test runs build side by side; the server reads the same variable.
-const webDir: string | undefined = process.env.WEB_DIR;
-const outDir = path.resolve(root, webDir ?? 'dist');
+const webDir: unknown = process.env.WEB_DIR;
+const outDir = path.resolve(root, typeof webDir === 'string' && webDir ? webDir : 'dist');
 const stampFile = path.join(outDir, '.bathynote-build');
 const inputs = [
   'app',
