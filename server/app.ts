@@ -10,6 +10,7 @@ import { campaignRoutes } from './routes/campaigns';
 import { diveRoutes } from './routes/dives';
 import { observationRoutes } from './routes/observations';
 import { photoRoutes } from './routes/photos';
+import { teamRoutes } from './routes/team';
 import { telemetryRoutes } from './routes/telemetry';
 import { webExport } from './services/web';
 
@@ -76,7 +77,7 @@ export function createApp(ctx: AppContext): Express {
   app.get('/api/health', (_req, res) => {
     res.json({ ok: true, version: ctx.version });
   });
-  app.use('/api', campaignRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
+  app.use('/api', campaignRoutes(ctx), teamRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
   app.use('/api', apiNotFound);
 
   app.use(...web.handlers);

@@ -1,6 +1,6 @@
 import { betterAuth } from 'better-auth';
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
-import { admin } from 'better-auth/plugins';
+import { admin, magicLink } from 'better-auth/plugins';
 
 import type { Db } from '../db/client';
 import * as schema from '../db/schema';
@@ -9,7 +9,63 @@ import type { Env } from './env';
 /** The header our own server sets from the socket (or the trusted proxy); clients cannot forge it. */
 export const CLIENT_IP_HEADER = 'x-bathynote-client-ip';
 
-export function createAuth(env: Env, db: Db) {
+/** How long an invitation's sign-in link works. */
+export const INVITATION_LINK_SECONDS = 72 * 60 * 60;
+
+/**
+ * Magic links are sent for invitations only. The invitation service registers the mail to send
+ * for an address just before it asks better-auth for a link; a link asked for any other address
+ * is never mailed, so nobody who was not invited can get in that way.
+ */
+export class MagicLinkPostbox {
+  private readonly expected = new Map<string, (url: string) => Promise<void>>();
+
+  async deliver(email: string, url: string): Promise<void> {
+    const send = this.expected.get(email.toLowerCase());
+    if (send) await send(url);
+  }
+
+  async expect<T>(email: string, send: (url: string) => Promise<void>, run: () => Promise<T>): Promise<T> {
+    const key = email.toLowerCase();
+    this.expected.set(key, send);
+    try {
+      return await run();
+    } finally {
+      this.expected.delete(key);
+    }
+  }
+}
+
+/**
+ * Sign-in attempts counted per client address and path, in fixed windows, kept with this server
+ * (better-auth's own memory store is shared by every instance in a process).
+ */
+export function windowCounter() {
+  const windows = new Map<string, { start: number; count: number }>();
+  let lastPrune = Date.now();
+  return {
+    consume(key: string, rule: { window: number; max: number }) {
+      const now = Date.now();
+      const span = rule.window * 1000;
+      if (now - lastPrune > 60_000) {
+        for (const [k, w] of windows) if (now - w.start > span && now - w.start > 600_000) windows.delete(k);
+        lastPrune = now;
+      }
+      const w = windows.get(key);
+      if (!w || now - w.start >= span) {
+        windows.set(key, { start: now, count: 1 });
+        return Promise.resolve({ allowed: true, retryAfter: null });
+      }
+      if (w.count < rule.max) {
+        w.count++;
+        return Promise.resolve({ allowed: true, retryAfter: null });
+      }
+      return Promise.resolve({ allowed: false, retryAfter: Math.ceil((w.start + span - now) / 1000) });
+    },
+  };
+}
+
+export function createAuth(env: Env, db: Db, postbox: MagicLinkPostbox) {
   const origin = new URL(env.PUBLIC_URL);
   return betterAuth({
     appName: 'Bathynote',
@@ -39,12 +95,14 @@ export function createAuth(env: Env, db: Db) {
     },
     rateLimit: {
       enabled: true,
+      customStorage: windowCounter(),
       window: 60,
       max: 300,
       customRules: {
         '/sign-in/*': { window: 60, max: env.AUTH_RATE_LIMIT },
         '/sign-up/*': { window: 60, max: env.AUTH_RATE_LIMIT },
         '/magic-link/*': { window: 60, max: env.AUTH_RATE_LIMIT },
+        '/change-password': { window: 60, max: env.AUTH_RATE_LIMIT },
       },
     },
     advanced: {
@@ -54,7 +112,16 @@ export function createAuth(env: Env, db: Db) {
       defaultCookieAttributes: { httpOnly: true, sameSite: 'lax' },
     },
     telemetry: { enabled: false },
-    plugins: [admin({ defaultRole: 'user', adminRoles: ['admin'] })],
+    plugins: [
+      admin({ defaultRole: 'user', adminRoles: ['admin'] }),
+      magicLink({
+        expiresIn: INVITATION_LINK_SECONDS,
+        // Only the hash of the token is kept; the link itself lives only in the mail.
+        storeToken: 'hashed',
+        allowedAttempts: 1,
+        sendMagicLink: ({ email, url }) => postbox.deliver(email, url),
+      }),
+    ],
   });
 }
 

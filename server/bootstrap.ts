@@ -2,11 +2,12 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 
 import { migrateDatabase, openDatabase } from '../db/client';
-import { createAuth } from './auth';
+import { createAuth, MagicLinkPostbox } from './auth';
 import type { AppContext } from './context';
 import type { Env } from './env';
 import { LiveHub } from './services/live';
 import { createLogger } from './services/logger';
+import { createMailer } from './services/mail';
 
 const packageVersion = (): string => {
   const pkg = JSON.parse(readFileSync(path.join(__dirname, '..', 'package.json'), 'utf8')) as { version: string };
@@ -14,8 +15,19 @@ const packageVersion = (): string => {
 };
 
 /** Opens and migrates the database and builds the services a request needs. */
-export function createContext(env: Env): AppContext {
+export async function createContext(env: Env): Promise<AppContext> {
   const db = openDatabase(env.DATABASE_PATH);
   migrateDatabase(db);
-  return { env, db, auth: createAuth(env, db), log: createLogger(env.LOG_LEVEL), live: new LiveHub(db), version: packageVersion() };
+  const log = createLogger(env.LOG_LEVEL);
+  const postbox = new MagicLinkPostbox();
+  return {
+    env,
+    db,
+    auth: createAuth(env, db, postbox),
+    log,
+    live: new LiveHub(db),
+    mailer: await createMailer(db, log, env.SMTP_URL),
+    postbox,
+    version: packageVersion(),
+  };
 }

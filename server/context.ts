@@ -1,8 +1,9 @@
 import type { Db } from '../db/client';
-import type { Auth } from './auth';
+import type { Auth, MagicLinkPostbox } from './auth';
 import type { Env } from './env';
 import type { LiveHub } from './services/live';
 import type { Logger } from './services/logger';
+import type { Mailer } from './services/mail';
 
 /** Everything a request handler may need, built once at start (or per test). */
 export type AppContext = {
@@ -11,5 +12,7 @@ export type AppContext = {
   auth: Auth;
   log: Logger;
   live: LiveHub;
+  mailer: Mailer;
+  postbox: MagicLinkPostbox;
   version: string;
 };

@@ -7,7 +7,7 @@ import { loadEnv } from './env';
 
 async function main() {
   const env = loadEnv();
-  const ctx = createContext(env);
+  const ctx = await createContext(env);
   if (env.BATHYNOTE_DEMO) {
     const { seeded, observations } = await seedDemo(ctx.db);
     if (seeded) ctx.log.info('seeded the demo campaigns', { observations });
@@ -18,6 +18,7 @@ async function main() {
       '',
       `  Bathynote ${ctx.version} is running at ${env.PUBLIC_URL}`,
       `  database: ${env.DATABASE_PATH}   uploads: ${env.UPLOADS_DIR}`,
+      `  mail: ${ctx.mailer.catching ? 'caught by the built-in mail catcher (site administrators read it under Admin → Outbox)' : 'sent through SMTP_URL'}`,
     ];
     if (env.BATHYNOTE_DEMO) {
       lines.push('', `  Demo sign-ins (password "${DEMO_PASSWORD}" for all):`);
@@ -29,8 +30,10 @@ async function main() {
   const shutdown = (signal: string) => {
     ctx.log.info('shutting down', { signal });
     server.close(() => {
-      ctx.db.$client.close();
-      process.exit(0);
+      void ctx.mailer.close().finally(() => {
+        ctx.db.$client.close();
+        process.exit(0);
+      });
     });
     server.closeAllConnections();
     // Connections that will not close are cut after five seconds.

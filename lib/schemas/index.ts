@@ -2,4 +2,5 @@
 export * from './core';
 export * from './photos';
 export * from './record';
+export * from './team';
 export * from './telemetry';

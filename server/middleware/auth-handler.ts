@@ -15,6 +15,12 @@ const signInSchema = z.object({
   callbackURL: z.string().max(2048).optional(),
 });
 
+/**
+ * Paths of better-auth's that stay closed to the outside: sign-in links are made by the server for
+ * invitations only, never on request, and accounts are made by invitation or by the administrator.
+ */
+const closedPaths = new Set(['/api/auth/sign-in/magic-link', '/api/auth/sign-up/email']);
+
 const preChecks: Record<string, z.ZodType> = {
   '/api/auth/sign-in/email': signInSchema,
 };
@@ -27,6 +33,9 @@ export function authHandler(auth: Auth, publicUrl: string, onSignedOut: (session
   return async (req, res) => {
     const body = req.method === 'GET' || req.method === 'HEAD' ? undefined : await readBody(req);
     const pathname = req.originalUrl.split('?')[0] ?? '';
+    if (closedPaths.has(pathname)) {
+      throw new ApiError(404, 'not_found', 'People join a campaign by the invitation their lead sends.');
+    }
     const check = preChecks[pathname];
     if (check && req.method === 'POST') {
       const parsed = check.safeParse(body ? safeJson(body.toString('utf8')) : undefined);

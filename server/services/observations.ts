@@ -452,11 +452,11 @@ function assertCurrent(row: Row, version: number) {
 }
 
 export function updateObservation(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown, now = new Date()): Observation {
-  const input = observationUpdateSchema.parse(body);
   const updated = db.transaction((tx) => {
     const row = getObservationRow(tx, id);
     if (!row) throw new ApiError(404, 'not_found', 'Not found');
     assertMayEdit(row, actor);
+    const input = observationUpdateSchema.parse(body);
     assertCurrent(row, input.version);
     const observedAt = input.observedAt ? new Date(input.observedAt) : row.observedAt;
     // A value left out keeps what was typed before; a telemetry value is looked up again.

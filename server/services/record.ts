@@ -31,16 +31,16 @@ function announce(db: Db, live: LiveHub, id: string): ObservationDetail {
  * on any entry, others on their own; a new name starts unverified again.
  */
 export function setIdentification(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
-  const input = identificationInputSchema.parse(body);
   db.transaction((tx) => {
     const row = loadLive(tx, id);
+    if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
+      throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may propose an identification.');
+    }
+    const input = identificationInputSchema.parse(body);
     if (row.kind !== 'biology')
       throw new ApiError(400, 'validation_failed', 'Only biology entries carry an identification.', [
         { path: 'kind', message: 'Change the entry to biology first' },
       ]);
-    if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
-      throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may propose an identification.');
-    }
     const previous = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
     const sameName = previous?.scientificName === input.scientificName && previous.qualifier === (input.qualifier ?? null);
     const values = {
@@ -69,17 +69,17 @@ export function setIdentification(db: Db, live: LiveHub, id: string, actor: Acto
  * nor wrote the entry (nobody verifies their own identification).
  */
 export function verifyIdentification(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
-  const input = verificationInputSchema.parse(body);
   db.transaction((tx) => {
     const row = loadLive(tx, id);
-    const ident = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
-    if (!ident) throw conflict('no_identification', 'There is no identification to verify yet.');
     if (actor.role !== 'lead' && actor.role !== 'scientist') {
       throw new ApiError(403, 'forbidden', 'Only scientists and leads verify identifications.');
     }
-    if (actor.role === 'scientist' && (ident.identifiedBy === actor.userId || row.authorId === actor.userId)) {
+    const ident = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
+    if (actor.role === 'scientist' && (ident?.identifiedBy === actor.userId || row.authorId === actor.userId)) {
       throw new ApiError(403, 'forbidden', 'Another scientist or a lead must verify this: you proposed the name or wrote the entry.');
     }
+    const input = verificationInputSchema.parse(body);
+    if (!ident) throw conflict('no_identification', 'There is no identification to verify yet.');
     tx.update(identifications)
       .set({ verificationStatus: input.status, verifiedBy: actor.userId, verifiedAt: new Date(), verificationNote: input.note ?? null })
       .where(eq(identifications.observationId, id))
@@ -131,16 +131,16 @@ export function nextFindNumber(db: Executor, campaignId: string): string {
 
 /** Records or corrects an archaeology entry's find; a number already used in the campaign is a 409. */
 export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
-  const input = findInputSchema.parse(body);
   db.transaction((tx) => {
     const row = loadLive(tx, id);
+    if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
+      throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may record a find.');
+    }
+    const input = findInputSchema.parse(body);
     if (row.kind !== 'archaeology')
       throw new ApiError(400, 'validation_failed', 'Only archaeology entries carry a find.', [
         { path: 'kind', message: 'Change the entry to archaeology first' },
       ]);
-    if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
-      throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may record a find.');
-    }
     const clash = tx
       .select({ id: finds.observationId })
       .from(finds)
@@ -175,11 +175,11 @@ export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: u
  * The trail is append-only: a correction is a new step.
  */
 export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
-  const input = custodyInputSchema.parse(body);
   db.transaction((tx) => {
     const row = loadLive(tx, id);
     if (actor.role === 'guest' && row.authorId !== actor.userId)
       throw new ApiError(403, 'forbidden', 'Guests record custody only on their own entries.');
+    const input = custodyInputSchema.parse(body);
     const find = tx.select({ state: finds.state }).from(finds).where(eq(finds.observationId, id)).get();
     const isSample = tx
       .select({ n: sql<number>`count(*)` })

@@ -53,7 +53,7 @@ export async function startTestServer(options: { seed?: boolean; env?: Record<st
     WEB_DIR: webDir,
     ...options.env,
   });
-  const ctx = createContext(env);
+  const ctx = await createContext(env);
   if (options.seed !== false) await seedDemo(ctx.db);
   server.on('request', createApp(ctx));
 
@@ -98,6 +98,7 @@ export async function startTestServer(options: { seed?: boolean; env?: Record<st
       await new Promise((r) => setTimeout(r, 200));
       server.closeAllConnections();
       await closed;
+      await ctx.mailer.close();
       ctx.db.$client.close();
       rmSync(dir, { recursive: true, force: true });
     },
