@@ -7,6 +7,7 @@ import { count } from 'drizzle-orm';
 
 import type { CampaignRole, ObservationKind } from '../lib/schemas';
 import type { Db } from './client';
+import { seedTelemetry } from './seed-telemetry';
 import * as s from './schema';
 
 export const DEMO_PASSWORD = 'bathynote-demo';
@@ -377,6 +378,15 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
           const template = order[i % order.length]!;
           const minute = (bottomMin * (i + 0.5)) / plan.entries + rand() * 4;
           const observedAt = new Date(onBottom.getTime() + minute * 60_000 + Math.round(rand() * 59_000) + Math.round(rand() * 999));
+          const depth = Math.round((plan.bottom - 25 + rand() * 30) * 10) / 10;
+          const lat = values.datumLat + (rand() - 0.5) * 0.0008;
+          const lon = values.datumLon + (rand() - 0.5) * 0.001;
+          const temperature = Math.round((10.6 + rand() * 0.6) * 100) / 100;
+          // A few entries per dive carry values typed in; the others are stamped from the demo log.
+          const typed =
+            i % 4 === 1 && i < 10
+              ? ({ depth, depthSource: 'manual', lat, lon, positionSource: 'manual', temperature, temperatureSource: 'manual' } as const)
+              : {};
           const obs = tx
             .insert(s.observations)
             .values({
@@ -387,13 +397,7 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
               kind: template.kind,
               title: template.title,
               note: template.note,
-              depth: Math.round((plan.bottom - 25 + rand() * 30) * 10) / 10,
-              depthSource: 'manual',
-              lat: values.datumLat + (rand() - 0.5) * 0.0008,
-              lon: values.datumLon + (rand() - 0.5) * 0.001,
-              positionSource: 'manual',
-              temperature: Math.round((10.6 + rand() * 0.6) * 100) / 100,
-              temperatureSource: 'manual',
+              ...typed,
               createdAt: new Date(observedAt.getTime() + 20_000),
               updatedAt: new Date(observedAt.getTime() + 20_000),
             })
@@ -454,5 +458,6 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
       plans2024,
     );
   });
+  seedTelemetry(db);
   return { seeded: true, observations: total };
 }

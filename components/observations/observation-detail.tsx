@@ -3,12 +3,14 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { ObservationPhotos } from '@/components/photos/observation-photos';
+import { TimecodeLabel } from '@/components/telemetry/timecode-label';
 import { Button } from '@/components/ui/button';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
 import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useCampaign } from '@/hooks/campaigns';
+import { useDive } from '@/hooks/dives';
 import { useObservation, useRestoreObservation, useRetireObservation } from '@/hooks/observations';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
@@ -34,6 +36,7 @@ export function ObservationDetail({ id }: { id: string }) {
 function ObservationBody({ observation: o }: { observation: Detail }) {
   const { colors } = useTheme();
   const campaign = useCampaign(o.campaignId).data;
+  const dive = useDive(o.diveId).data;
   const me = useMe().data;
   const role = campaign?.myRole;
   const mayEdit = role === 'lead' || (!!me && o.authorId === me.user.id && role !== 'admin');
@@ -62,6 +65,7 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
           Logged by {o.authorName} · version {o.version}
           {o.findNumber ? ` · find ${o.findNumber}` : ''}
         </Text>
+        {dive ? <TimecodeLabel dive={dive} observedAt={o.observedAt} /> : null}
       </View>
       <EntryActions observation={o} mayEdit={mayEdit} isLead={role === 'lead'} />
       <View style={[styles.facts, { borderColor: colors.border, backgroundColor: colors.surface }]}>

@@ -6,6 +6,7 @@ import { FRAME_RATES } from '../../lib/timecode';
 import { diveCreateSchema, diveUpdateSchema, phaseInputSchema, type Dive, type DivePhase } from '../../lib/schemas';
 import { ApiError, conflict } from '../errors';
 import type { LiveHub } from './live';
+import { restampDive } from './telemetry-stamp';
 
 type DiveRow = typeof dives.$inferSelect;
 
@@ -111,6 +112,8 @@ export function updateDive(db: Db, live: LiveHub, diveId: string, body: unknown)
     if (!current) throw new ApiError(404, 'not_found', 'Not found');
     throw conflict('stale_version', `This dive was changed by someone else (it is at version ${current.v}). Nothing was overwritten.`);
   }
+  // A new gap threshold changes which entries fall in a gap of the log.
+  if (input.telemetryGapS !== undefined) restampDive(db, live, diveId);
   const dive = getDive(db, diveId)!;
   live.publish(dive.campaignId, dive.id, 'dive.updated', dive);
   return dive;

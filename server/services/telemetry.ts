@@ -1,11 +1,424 @@
+import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+
 import type { Db } from '../../db/client';
+import { campaigns, dives, finds, observations, observationTags, tags, telemetryImports, user } from '../../db/schema';
+import { diveStats } from '../../lib/dive-stats';
+import { lttbIndices } from '../../lib/downsample';
+import { toLocalEN, type LatLon } from '../../lib/geodesy';
+import { buildTelemetrySeries, sampleAt, type TelemetryRow, type TelemetrySeries } from '../../lib/interpolate';
+import {
+  telemetryAtQuerySchema,
+  telemetryQuerySchema,
+  type DiveSummary,
+  type NoTelemetryReason,
+  type TelemetryAt,
+  type TelemetryImportSummary,
+  type TelemetrySamples,
+  type TelemetrySpan,
+} from '../../lib/schemas';
+import { notFound } from '../errors';
+import { cachedLog, logOf, STORED_CHANNELS } from './telemetry-series';
 
 export type TelemetryValues = { depth: number | null; lat: number | null; lon: number | null; temperature: number | null };
+
+const iso = (ms: number) => new Date(ms).toISOString();
+
+export function spanOf(firstMs: number | null, lastMs: number | null): TelemetrySpan | null {
+  return firstMs === null || lastMs === null ? null : { firstAt: iso(firstMs), lastAt: iso(lastMs) };
+}
+
+type DiveFacts = {
+  campaignId: string;
+  gapMs: number;
+  datum: LatLon;
+  phases: Record<'launch' | 'onBottom' | 'offBottom' | 'onDeck', number | null>;
+};
+
+/** What the telemetry views need to know about a dive and its campaign. */
+export function diveFacts(db: Db, diveId: string): DiveFacts {
+  const row = db
+    .select({ dive: dives, datumLat: campaigns.datumLat, datumLon: campaigns.datumLon })
+    .from(dives)
+    .innerJoin(campaigns, eq(campaigns.id, dives.campaignId))
+    .where(eq(dives.id, diveId))
+    .get();
+  if (!row) throw notFound();
+  const ms = (d: Date | null) => (d ? d.getTime() : null);
+  return {
+    campaignId: row.dive.campaignId,
+    gapMs: row.dive.telemetryGapS * 1000,
+    datum: { lat: row.datumLat, lon: row.datumLon },
+    phases: {
+      launch: ms(row.dive.launchAt),
+      onBottom: ms(row.dive.onBottomAt),
+      offBottom: ms(row.dive.offBottomAt),
+      onDeck: ms(row.dive.onDeckAt),
+    },
+  };
+}
+
+type WindowQueries = {
+  rows: (diveId: string, from: number, to: number) => TelemetryRow[];
+  gap: (diveId: string) => number | undefined;
+  bounds: (diveId: string) => { first: number | null; last: number | null };
+};
+
+const windowStatements = new WeakMap<Db, WindowQueries>();
+
+function windowQueries(db: Db) {
+  let q = windowStatements.get(db);
+  if (!q) {
+    const rows = db.$client.prepare(
+      `select t, ${STORED_CHANNELS.join(', ')} from telemetry_samples where dive_id = ? and t between ? and ? order by t`,
+    );
+    const gap = db.$client.prepare('select telemetry_gap_s from dives where id = ?').pluck();
+    const bounds = db.$client.prepare('select min(t) as first, max(t) as last from telemetry_samples where dive_id = ?');
+    q = {
+      rows: (diveId, from, to) => rows.all(diveId, from, to) as TelemetryRow[],
+      gap: (diveId) => gap.get(diveId) as number | undefined,
+      bounds: (diveId) => bounds.get(diveId) as { first: number | null; last: number | null },
+    };
+    windowStatements.set(db, q);
+  }
+  return q;
+}
+
+/**
+ * The series around one instant: every pair of samples close enough to be interpolated across
+ * lies within one gap length of it, so reading that window answers exactly as the whole log would.
+ */
+function seriesAround(db: Db, diveId: string, atMs: number, gapMs: number): TelemetrySeries {
+  const cached = cachedLog(db, diveId);
+  if (cached) return cached.series;
+  return buildTelemetrySeries(windowQueries(db).rows(diveId, atMs - gapMs, atMs + gapMs));
+}
 
 /**
  * Depth, position and temperature interpolated from the dive's telemetry log at an instant, or
  * null when the dive has no telemetry there (no log, or the nearest samples are too far apart).
  */
-export function telemetryValuesAt(_db: Db, _diveId: string, _atMs: number): TelemetryValues | null {
-  return null;
+export function telemetryValuesAt(db: Db, diveId: string, atMs: number): TelemetryValues | null {
+  const gapS = windowQueries(db).gap(diveId);
+  if (gapS === undefined || !Number.isFinite(atMs)) return null;
+  const gapMs = gapS * 1000;
+  const fix = sampleAt(seriesAround(db, diveId, atMs, gapMs), atMs, { maxGapMs: gapMs });
+  if (fix.depth === null && fix.lat === null && fix.temperature === null) return null;
+  return { depth: fix.depth, lat: fix.lat, lon: fix.lon, temperature: fix.temperature };
+}
+
+/** `GET /api/dives/:diveId/at`: the log's values at an instant, or why there are none. */
+export function telemetryAt(db: Db, diveId: string, rawQuery: unknown): TelemetryAt {
+  const { t } = telemetryAtQuerySchema.parse(rawQuery);
+  const atMs = new Date(t).getTime();
+  const values = telemetryValuesAt(db, diveId, atMs);
+  let noTelemetry: NoTelemetryReason | null = null;
+  if (!values) {
+    const { first, last } = windowQueries(db).bounds(diveId);
+    if (first === null || last === null) noTelemetry = 'empty-series';
+    else if (atMs < first) noTelemetry = 'before-first-sample';
+    else if (atMs > last) noTelemetry = 'after-last-sample';
+    else noTelemetry = 'gap';
+  }
+  return {
+    t: iso(atMs),
+    depth: values?.depth ?? null,
+    lat: values?.lat ?? null,
+    lon: values?.lon ?? null,
+    temperature: values?.temperature ?? null,
+    noTelemetry,
+  };
+}
+
+/** Stretches of more than `gapMs` without any sample, earliest first. */
+function gapsIn(times: Float64Array, gapMs: number, limit: number): { from: string; to: string }[] {
+  const out: { from: string; to: string }[] = [];
+  for (let i = 1; i < times.length && out.length < limit; i++) {
+    const a = times[i - 1] as number;
+    const b = times[i] as number;
+    if (b - a > gapMs) out.push({ from: iso(a), to: iso(b) });
+  }
+  return out;
+}
+
+/** Indices 0..n−1 spread evenly, at most `k` of them, first and last included. */
+function evenIndices(n: number, k: number): number[] {
+  if (n <= k) return Array.from({ length: n }, (_, i) => i);
+  return Array.from({ length: k }, (_, i) => Math.round((i * (n - 1)) / (k - 1)));
+}
+
+export function importHistory(db: Db, diveId: string): TelemetryImportSummary[] {
+  return db
+    .select({ imp: telemetryImports, name: user.name })
+    .from(telemetryImports)
+    .innerJoin(user, eq(user.id, telemetryImports.importedBy))
+    .where(eq(telemetryImports.diveId, diveId))
+    .orderBy(desc(telemetryImports.importedAt))
+    .limit(50)
+    .all()
+    .map(({ imp, name }) => ({
+      id: imp.id,
+      fileName: imp.fileName,
+      mode: imp.mode,
+      rowsTaken: imp.rowsTaken,
+      rowsRejected: imp.rowsRejected,
+      span: spanOf(imp.firstAt?.getTime() ?? null, imp.lastAt?.getTime() ?? null),
+      importedBy: imp.importedBy,
+      importedByName: name,
+      importedAt: imp.importedAt.toISOString(),
+    }));
+}
+
+/** `GET /api/dives/:diveId/telemetry`: the log thinned for the depth profile and the site plan. */
+export function telemetrySamples(db: Db, diveId: string, rawQuery: unknown): TelemetrySamples {
+  const { points: wanted } = telemetryQuerySchema.parse(rawQuery);
+  const facts = diveFacts(db, diveId);
+  const { series, times } = logOf(db, diveId);
+  const { depth, temperature } = series.scalars;
+  const maxGapMs = facts.gapMs;
+
+  // The profile follows depth; a log without depth still draws its temperature over time.
+  const base = depth.t.length > 0 ? depth : temperature;
+  const picked = base.t.length >= 3 ? lttbIndices(base.t, base.v, wanted) : Array.from({ length: base.t.length }, (_, i) => i);
+  const points = picked.map((i) => {
+    const t = base.t[i] as number;
+    const fix = sampleAt(series, t, { maxGapMs });
+    return { t: iso(t), depth: fix.depth, temperature: fix.temperature };
+  });
+
+  const pos = series.position;
+  const track = evenIndices(pos.t.length, wanted).map((i) => {
+    const lat = pos.lat[i] as number;
+    const lon = pos.lon[i] as number;
+    const en = toLocalEN(facts.datum, { lat, lon });
+    return { t: iso(pos.t[i] as number), lat, lon, east: en.eastM, north: en.northM };
+  });
+
+  return {
+    diveId,
+    sampleCount: times.length,
+    span: spanOf(series.firstMs, series.lastMs),
+    gapS: maxGapMs / 1000,
+    channels: {
+      depth: depth.t.length,
+      position: pos.t.length,
+      temperature: temperature.t.length,
+      pressure: series.scalars.pressure.t.length,
+      heading: series.scalars.heading.t.length,
+      altitude: series.scalars.altitude.t.length,
+      salinity: series.scalars.salinity.t.length,
+    },
+    points,
+    track,
+    gaps: gapsIn(times, maxGapMs, 200),
+    imports: importHistory(db, diveId),
+  };
+}
+
+/** `GET /api/dives/:diveId/summary`: the dive's statistics and its entries on the site plan. */
+export function diveSummary(db: Db, diveId: string): DiveSummary {
+  const facts = diveFacts(db, diveId);
+  const { series } = logOf(db, diveId);
+  const rows = db
+    .select({
+      id: observations.id,
+      kind: observations.kind,
+      title: observations.title,
+      observedAt: observations.observedAt,
+      depth: observations.depth,
+      depthSource: observations.depthSource,
+      lat: observations.lat,
+      lon: observations.lon,
+    })
+    .from(observations)
+    .where(and(eq(observations.diveId, diveId), eq(observations.retired, false)))
+    .orderBy(asc(observations.observedAt), asc(observations.id))
+    .all();
+  const ids = rows.map((r) => r.id);
+  const tagsBy = new Map<string, string[]>();
+  const findBy = new Map<string, string>();
+  if (ids.length > 0) {
+    for (const t of db
+      .select({ id: observationTags.observationId, name: tags.name })
+      .from(observationTags)
+      .innerJoin(tags, eq(tags.id, observationTags.tagId))
+      .where(inArray(observationTags.observationId, ids))
+      .all()) {
+      tagsBy.set(t.id, [...(tagsBy.get(t.id) ?? []), t.name]);
+    }
+    for (const f of db
+      .select({ id: finds.observationId, number: finds.findNumber })
+      .from(finds)
+      .where(inArray(finds.observationId, ids))
+      .all()) {
+      findBy.set(f.id, f.number);
+    }
+  }
+
+  const stats = diveStats(
+    facts.phases,
+    series,
+    rows.map((r) => ({ kind: r.kind, tags: tagsBy.get(r.id) ?? [] })),
+    { maxGapMs: facts.gapMs },
+  );
+  const placed = rows.map((r) => {
+    const en = r.lat != null && r.lon != null ? toLocalEN(facts.datum, { lat: r.lat, lon: r.lon }) : null;
+    return {
+      id: r.id,
+      kind: r.kind,
+      title: r.title,
+      observedAt: r.observedAt.toISOString(),
+      depth: r.depth,
+      depthSource: r.depthSource,
+      east: en?.eastM ?? null,
+      north: en?.northM ?? null,
+      findNumber: findBy.get(r.id) ?? null,
+    };
+  });
+  const typedDepths = rows.map((r) => r.depth).filter((d): d is number => d != null);
+  const maxDepth = stats.maxDepthM ?? (typedDepths.length > 0 ? Math.max(...typedDepths) : null);
+
+  return {
+    diveId,
+    maxDepth,
+    maxDepthSource: stats.maxDepthM !== null ? 'telemetry' : maxDepth !== null ? 'observations' : null,
+    stats,
+    span: spanOf(series.firstMs, series.lastMs),
+    datum: facts.datum,
+    observations: placed,
+    finds: placed.flatMap((p) =>
+      p.findNumber !== null ? [{ observationId: p.id, findNumber: p.findNumber, east: p.east, north: p.north }] : [],
+    ),
+  };
+}
+
+/** An entry as stamping reads it: id, time (ms), retired, depth, position and temperature with their sources, rowid. */
+type StampRow = [
+  id: string,
+  t: number,
+  retired: number,
+  depth: number | null,
+  depthSource: string | null,
+  lat: number | null,
+  lon: number | null,
+  positionSource: string | null,
+  temperature: number | null,
+  temperatureSource: string | null,
+  rowid: number,
+];
+
+/** Entries written per UPDATE while stamping. */
+const STAMP_BATCH = 100;
+const STAMP_COLUMNS = ['depth', 'depth_source', 'lat', 'lon', 'position_source', 'temperature', 'temperature_source'] as const;
+
+type StampQueries = { rows: (diveId: string) => StampRow[]; update: (rows: number, values: unknown[]) => void };
+const stampStatements = new WeakMap<Db, StampQueries>();
+
+function stampQueries(db: Db): StampQueries {
+  let q = stampStatements.get(db);
+  if (!q) {
+    const rows = db.$client
+      .prepare(
+        `select id, observed_at, retired, depth, depth_source, lat, lon, position_source, temperature, temperature_source, rowid
+         from observations where dive_id = ?`,
+      )
+      .raw();
+    const updates = new Map<number, ReturnType<Db['$client']['prepare']>>();
+    const updateOf = (n: number) => {
+      let stmt = updates.get(n);
+      if (!stmt) {
+        const tuple = `(${Array(STAMP_COLUMNS.length + 1)
+          .fill('?')
+          .join(', ')})`;
+        stmt = db.$client.prepare(
+          `with v(rid, ${STAMP_COLUMNS.join(', ')}) as (values ${Array(n).fill(tuple).join(', ')})
+           update observations set ${STAMP_COLUMNS.map((c) => `${c} = v.${c}`).join(', ')} from v where observations.rowid = v.rid`,
+        );
+        updates.set(n, stmt);
+      }
+      return stmt;
+    };
+    q = { rows: (diveId) => rows.all(diveId) as StampRow[], update: (n, values) => void updateOf(n).run(values) };
+    stampStatements.set(db, q);
+  }
+  return q;
+}
+
+const NO_SAMPLES = { t: new Float64Array(0), v: new Float64Array(0) };
+
+/** The series with only the channels an entry takes: lookups skip the others. */
+function stampingView(series: TelemetrySeries): TelemetrySeries {
+  return {
+    ...series,
+    scalars: { ...series.scalars, heading: NO_SAMPLES, altitude: NO_SAMPLES, salinity: NO_SAMPLES, pressure: NO_SAMPLES },
+  };
+}
+
+export type StampResult = {
+  /** Entries whose values changed, with whether they are retired (retired ones are not announced). */
+  changed: { id: string; retired: boolean }[];
+  /** Live entries that take something from the log but find nothing there (a gap, or outside the log). */
+  noTelemetry: number;
+};
+
+/**
+ * Gives every entry of a dive the log's depth, position and temperature at its time, except the
+ * values a person typed (`manual`); where the log has nothing, the value becomes null with no
+ * source rather than a guess. Neither `version` nor `updatedAt` changes: this is not an edit.
+ * Runs inside the caller's transaction.
+ */
+export function stampDiveObservations(db: Db, diveId: string, series: TelemetrySeries, maxGapMs: number): StampResult {
+  const q = stampQueries(db);
+  const view = stampingView(series);
+  const options = { maxGapMs };
+  const result: StampResult = { changed: [], noTelemetry: 0 };
+  const width = STAMP_COLUMNS.length + 1;
+  const batch: unknown[] = new Array(STAMP_BATCH * width);
+  let filled = 0;
+  const flush = () => {
+    if (filled === 0) return;
+    q.update(filled, filled === STAMP_BATCH ? batch : batch.slice(0, filled * width));
+    filled = 0;
+  };
+  for (const row of q.rows(diveId)) {
+    const [id, t, retired, depth, depthSource, lat, lon, positionSource, temperature, temperatureSource, rowid] = row;
+    const keepDepth = depthSource === 'manual';
+    const keepPosition = positionSource === 'manual';
+    const keepTemperature = temperatureSource === 'manual';
+    if (keepDepth && keepPosition && keepTemperature) continue;
+    const fix = sampleAt(view, t, options);
+    const hasPosition = fix.lat !== null && fix.lon !== null;
+    if (!retired && fix.depth === null && !hasPosition && fix.temperature === null) result.noTelemetry++;
+    const nDepth = keepDepth ? depth : fix.depth;
+    const nDepthSource = keepDepth ? 'manual' : fix.depth !== null ? 'telemetry' : null;
+    const nLat = keepPosition ? lat : hasPosition ? fix.lat : null;
+    const nLon = keepPosition ? lon : hasPosition ? fix.lon : null;
+    const nPositionSource = keepPosition ? 'manual' : hasPosition ? 'telemetry' : null;
+    const nTemperature = keepTemperature ? temperature : fix.temperature;
+    const nTemperatureSource = keepTemperature ? 'manual' : fix.temperature !== null ? 'telemetry' : null;
+    if (
+      nDepth === depth &&
+      nDepthSource === depthSource &&
+      nLat === lat &&
+      nLon === lon &&
+      nPositionSource === positionSource &&
+      nTemperature === temperature &&
+      nTemperatureSource === temperatureSource
+    ) {
+      continue;
+    }
+    let o = filled * width;
+    batch[o++] = rowid;
+    batch[o++] = nDepth;
+    batch[o++] = nDepthSource;
+    batch[o++] = nLat;
+    batch[o++] = nLon;
+    batch[o++] = nPositionSource;
+    batch[o++] = nTemperature;
+    batch[o] = nTemperatureSource;
+    filled++;
+    result.changed.push({ id, retired: retired === 1 });
+    if (filled === STAMP_BATCH) flush();
+  }
+  flush();
+  return result;
 }

@@ -3,10 +3,14 @@
  * them asserts a time (machines differ), the targets are printed beside the figures.
  */
 import { benchLogWrites } from './log-writes';
+import { benchTelemetryImport } from './telemetry-import';
 
 async function main() {
   const only = process.argv[2];
-  const benches: [string, () => Promise<void>][] = [['log-writes', benchLogWrites]];
+  const benches: [string, () => Promise<void>][] = [
+    ['log-writes', benchLogWrites],
+    ['telemetry-import', benchTelemetryImport],
+  ];
   for (const [name, run] of benches) {
     if (only && only !== name) continue;
     process.stdout.write(`\n== ${name} ==\n`);

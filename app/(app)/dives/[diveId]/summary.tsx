@@ -1,5 +1,6 @@
 import { useLocalSearchParams } from 'expo-router';
 
+import { DiveSummaryView } from '@/components/telemetry/dive-summary';
 import { Screen, ScreenBody, ScreenHeader } from '@/components/ui/screen';
 import { useDive } from '@/hooks/dives';
 
@@ -9,7 +10,9 @@ export default function DiveSummaryScreen() {
   return (
     <Screen>
       <ScreenHeader title={dive.data ? `Dive ${dive.data.number} · summary` : 'Dive summary'} back={`/dives/${diveId}`} />
-      <ScreenBody>{null}</ScreenBody>
+      <ScreenBody>
+        <DiveSummaryView diveId={diveId} />
+      </ScreenBody>
     </Screen>
   );
 }

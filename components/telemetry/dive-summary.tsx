@@ -1,0 +1,115 @@
+import { StyleSheet, View } from 'react-native';
+
+import { Card } from '@/components/ui/card';
+import { ErrorState, LoadingState } from '@/components/ui/states';
+import { Text } from '@/components/ui/text';
+import { useCampaign } from '@/hooks/campaigns';
+import { useDive } from '@/hooks/dives';
+import { useLayout } from '@/hooks/layout';
+import { useDiveSummary, useTelemetry } from '@/hooks/telemetry';
+import { useTheme } from '@/hooks/theme';
+import { formatUtc } from '@/lib/format';
+import type { TelemetrySamples } from '@/lib/schemas';
+import { radius, space } from '@/lib/tokens';
+import { DepthProfile } from './depth-profile';
+import { DiveStatsGrid } from './dive-stats';
+import { SitePlan } from './site-plan';
+import { TelemetryImport } from './telemetry-import';
+
+/**
+ * A dive after the fact: its depth profile and site plan (side by side on wide screens), its
+ * statistics, and for the lead and the pilot the import of the vehicle's log.
+ */
+export function DiveSummaryView({ diveId }: { diveId: string }) {
+  const { colors } = useTheme();
+  const { splitView } = useLayout();
+  const dive = useDive(diveId);
+  const campaign = useCampaign(dive.data?.campaignId);
+  const samples = useTelemetry(diveId);
+  const summary = useDiveSummary(diveId);
+
+  const failed = dive.error ?? samples.error ?? summary.error;
+  if (failed) {
+    return (
+      <ErrorState
+        error={failed}
+        onRetry={() => {
+          void dive.refetch();
+          void samples.refetch();
+          void summary.refetch();
+        }}
+      />
+    );
+  }
+  if (!dive.data || !samples.data || !summary.data) return <LoadingState label="Loading the dive’s log…" />;
+
+  const role = campaign.data?.myRole;
+  const mayImport = role === 'lead' || role === 'pilot';
+  const hasLog = samples.data.sampleCount > 0;
+  const plotHeight = splitView ? 320 : 260;
+
+  return (
+    <View style={styles.wrap} testID="dive-summary-view">
+      <Text variant="caption" muted testID="navigation-caution">
+        Bathynote is not a navigation or vehicle-control system: never steer the vehicle or judge a dive’s safety from these plots.
+      </Text>
+      {hasLog ? (
+        <View style={[styles.plots, splitView && styles.plotsSide]}>
+          <Card style={splitView ? styles.half : undefined} testID="profile-card">
+            <Text variant="label">Depth profile</Text>
+            <DepthProfile dive={dive.data} samples={samples.data} summary={summary.data} height={plotHeight} />
+          </Card>
+          <Card style={splitView ? styles.half : undefined} testID="plan-card">
+            <Text variant="label">Site plan</Text>
+            <SitePlan dive={dive.data} samples={samples.data} summary={summary.data} height={splitView ? plotHeight : 300} />
+          </Card>
+        </View>
+      ) : (
+        <View style={[styles.empty, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="telemetry-empty">
+          <Text variant="title">No telemetry yet — the pilot uploads the vehicle’s log after the dive.</Text>
+          <Text muted>Until then, entries keep the depth and position typed into them, and the plots stay empty.</Text>
+        </View>
+      )}
+      <Card testID="stats-card">
+        <Text variant="label">Statistics</Text>
+        <DiveStatsGrid stats={summary.data.stats} maxDepth={summary.data.maxDepth} />
+        {summary.data.maxDepthSource === 'observations' ? (
+          <Text variant="caption" muted>
+            Maximum depth from the entries’ depths: the dive has no depth in its log.
+          </Text>
+        ) : null}
+      </Card>
+      {mayImport ? (
+        <Card testID="import-card">
+          <TelemetryImport diveId={diveId} hasLog={hasLog} />
+        </Card>
+      ) : null}
+      <ImportHistory imports={samples.data.imports} />
+    </View>
+  );
+}
+
+function ImportHistory({ imports }: { imports: TelemetrySamples['imports'] }) {
+  if (imports.length === 0) return null;
+  return (
+    <View style={styles.history} testID="import-history">
+      <Text variant="label">Log imports</Text>
+      {imports.slice(0, 10).map((i) => (
+        <Text key={i.id} variant="caption" muted>
+          {formatUtc(i.importedAt)} · {i.importedByName} · {i.fileName ?? 'log'} · {i.mode === 'replace' ? 'replaced' : 'added'} ·{' '}
+          {i.rowsTaken.toLocaleString('en')} rows taken
+          {i.rowsRejected > 0 ? `, ${i.rowsRejected.toLocaleString('en')} rejected` : ''}
+        </Text>
+      ))}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  wrap: { gap: space.lg },
+  plots: { gap: space.lg },
+  plotsSide: { flexDirection: 'row', alignItems: 'flex-start' },
+  half: { flex: 1, flexBasis: 0, minWidth: 0 },
+  empty: { borderWidth: 1, borderRadius: radius.lg, padding: space.xl, gap: space.sm },
+  history: { gap: space.xs },
+});

@@ -1,0 +1,478 @@
+/**
+ * Importing a vehicle telemetry log: the CSV is parsed as a stream (comma, semicolon or tab; BOM;
+ * CRLF), every row checked, and the rows taken written in one transaction together with the
+ * re-stamped entries and the import's record, so an import is never half done.
+ */
+import { randomUUID } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { open } from 'node:fs/promises';
+import { Writable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
+
+import { Parser, type CsvError, type Options as CsvOptions } from 'csv-parse';
+import { ZodError } from 'zod';
+
+import type { Db } from '../../db/client';
+import { telemetryImports } from '../../db/schema';
+import { upperBound, type TelemetryRow } from '../../lib/interpolate';
+import {
+  telemetryImportFieldsSchema,
+  telemetryMappingSchema,
+  type TelemetryImportReport,
+  type TelemetryMapping,
+  type TelemetryRejection,
+} from '../../lib/schemas';
+import { parseRow, recogniseHeaders, type ColumnMapping, type HeaderRecognition, type TelemetryChannel } from '../../lib/telemetry-columns';
+import { ApiError } from '../errors';
+import type { LiveHub } from './live';
+import { diveFacts, spanOf, stampDiveObservations } from './telemetry';
+import {
+  ColumnBuilder,
+  countSamples,
+  loadColumns,
+  loadedLog,
+  mergeColumns,
+  rememberLog,
+  STORED_CHANNELS,
+  type TelemetryColumns,
+} from './telemetry-series';
+import { announceStamped } from './telemetry-stamp';
+
+/** Rejected rows listed one by one in the report; the count beyond it is still exact. */
+export const REJECTED_LIST_LIMIT = 200;
+/** Rows per INSERT statement: ten values a row stays far below SQLite's limit on parameters. */
+const INSERT_BATCH = 200;
+const HEAD_BYTES = 64 * 1024;
+
+export type ImportRequest = {
+  diveId: string;
+  userId: string;
+  filePath: string;
+  fileName: string | null;
+  /** The multipart text fields, unparsed. */
+  fields: unknown;
+};
+
+type Delimiter = TelemetryImportReport['delimiter'];
+const DELIMITERS: Record<Delimiter, string> = { comma: ',', semicolon: ';', tab: '\t' };
+
+const fileIssue = (code: string, message: string, detail: string) => new ApiError(400, code, message, [{ path: 'file', message: detail }]);
+
+function parseMapping(text: string | undefined): TelemetryMapping {
+  if (text === undefined || text.trim() === '') return {};
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch {
+    throw new ApiError(400, 'validation_failed', 'The column mapping is not valid JSON.', [
+      { path: 'mapping', message: 'Give the mapping as JSON, e.g. {"Zeit": "time", "Tiefe": "depth"}' },
+    ]);
+  }
+  const parsed = telemetryMappingSchema.safeParse(json);
+  if (!parsed.success) {
+    throw new ZodError(parsed.error.issues.map((i) => ({ ...i, path: ['mapping', ...i.path] })));
+  }
+  return parsed.data;
+}
+
+/** The first lines of the file, decoded, with what they tell about its text encoding. */
+async function readHead(filePath: string): Promise<{ bytes: number; text: string; encoding: 'utf8' | 'latin1' }> {
+  const handle = await open(filePath, 'r');
+  try {
+    const buffer = Buffer.alloc(HEAD_BYTES);
+    const { bytesRead } = await handle.read(buffer, 0, HEAD_BYTES, 0);
+    const head = buffer.subarray(0, bytesRead);
+    try {
+      // `stream: true` lets a character cut by the end of the sample pass.
+      const text = new TextDecoder('utf-8', { fatal: true }).decode(head, { stream: true });
+      return { bytes: bytesRead, text, encoding: 'utf8' };
+    } catch {
+      return { bytes: bytesRead, text: head.toString('latin1'), encoding: 'latin1' };
+    }
+  } finally {
+    await handle.close();
+  }
+}
+
+/** Counts a character outside double quotes. */
+function countOutsideQuotes(line: string, char: string): number {
+  let n = 0;
+  let quoted = false;
+  for (const c of line) {
+    if (c === '"') quoted = !quoted;
+    else if (c === char && !quoted) n++;
+  }
+  return n;
+}
+
+/** The delimiter of a log, from its header line: whichever of comma, semicolon and tab it holds most of. */
+function detectDelimiter(lines: string[]): Delimiter {
+  const header = lines[0] ?? '';
+  let best: Delimiter = 'comma';
+  let bestCount = 0;
+  for (const [name, char] of Object.entries(DELIMITERS) as [Delimiter, string][]) {
+    const n = countOutsideQuotes(header, char);
+    if (n > bestCount) {
+      best = name;
+      bestCount = n;
+    }
+  }
+  return best;
+}
+
+/**
+ * Whether a semicolon log writes decimals with a comma: its first data rows show numbers like
+ * "598,4" and none like "598.4". Only semicolon files can, since a comma there is no delimiter.
+ */
+function detectDecimalComma(lines: string[]): boolean {
+  let comma = 0;
+  let point = 0;
+  for (const line of lines.slice(1, 21)) {
+    for (const cell of line.split(';')) {
+      const c = cell.trim().replace(/^"|"$/g, '');
+      if (/^[+-]?\d+,\d+$/.test(c)) comma++;
+      else if (/^[+-]?\d+\.\d+$/.test(c)) point++;
+    }
+  }
+  return comma > 0 && point === 0;
+}
+
+/** A csv-parse stream that hands on each record as it is parsed, together with the line it ends on. */
+class LogParser extends Parser {
+  constructor(
+    options: CsvOptions,
+    private readonly onRecord: (record: string[], line: number) => void,
+  ) {
+    super(options);
+  }
+
+  // csv-parse's per-record info objects cost more than the parsing itself on a long log, while
+  // its running line count is exact at the moment a record is pushed.
+  override push(chunk: unknown): boolean {
+    if (chunk === null) return super.push(null);
+    if (!this.destroyed) this.onRecord(chunk as string[], this.info.lines);
+    return true;
+  }
+}
+
+type ParseOutcome = {
+  columns: TelemetryColumns;
+  recognition: HeaderRecognition;
+  headers: string[];
+  rowsRejected: number;
+  rejected: TelemetryRejection[];
+};
+
+type ParseSettings = {
+  delimiter: Delimiter;
+  encoding: 'utf8' | 'latin1';
+  decimalComma: boolean;
+  gpsTime: boolean | undefined;
+  pressure: 'sea' | 'absolute';
+  latitudeDeg: number;
+  mapping: TelemetryMapping;
+  /** Times already stored (append), ascending. */
+  existing: Float64Array | null;
+};
+
+const isoOf = (ms: number) => new Date(ms).toISOString();
+
+function hasValue(sample: TelemetryRow): boolean {
+  for (const c of STORED_CHANNELS) if (sample[c] != null) return true;
+  return false;
+}
+
+async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcome & { gpsTime: boolean }> {
+  const builder = new ColumnBuilder();
+  const rejected: TelemetryRejection[] = [];
+  let rowsRejected = 0;
+  let headers: string[] | null = null;
+  let recognition: HeaderRecognition | null = null;
+  let mapping: ColumnMapping = {};
+  let gpsTime = s.gpsTime ?? false;
+  let lastT = Number.NEGATIVE_INFINITY;
+  let lastLine = 0;
+
+  const reject = (line: number, code: string, channel: TelemetryChannel | null, reason: string) => {
+    rowsRejected++;
+    if (rejected.length < REJECTED_LIST_LIMIT) rejected.push({ line, code, channel, reason });
+  };
+
+  const parser: LogParser = new LogParser(
+    {
+      delimiter: DELIMITERS[s.delimiter],
+      encoding: s.encoding,
+      bom: true,
+      relax_column_count: true,
+      skip_empty_lines: true,
+      comment: '#',
+      comment_no_infix: true,
+      skip_records_with_error: true,
+      max_record_size: 64 * 1024,
+      on_skip: (err: CsvError | undefined) => {
+        const line = (err as { lines?: number } | undefined)?.lines ?? lastLine + 1;
+        reject(line, 'bad-csv', null, `not valid CSV: ${err?.message ?? 'unreadable record'}`);
+      },
+    },
+    (record, line) => {
+      if (!headers) {
+        headers = record;
+        recognition = recogniseHeaders(record, s.mapping);
+        if (recognition.missingTime) {
+          parser.destroy(
+            new ApiError(400, 'no_time_column', 'The log has no time column, so none of its rows can be placed in time.', [
+              {
+                path: 'file',
+                message: `Columns found: ${record.map((h) => `"${h.replace(/^\uFEFF/, '')}"`).join(', ')}. Name one "time" (ISO 8601 UTC or epoch seconds or ms), or map it with the mapping option.`,
+              },
+            ]),
+          );
+          return;
+        }
+        mapping = recognition.mapping;
+        if (s.gpsTime === undefined && recognition.timeScale === 'gps') gpsTime = true;
+        return;
+      }
+      if (record.length !== headers.length) {
+        reject(line, 'field-count', null, `the row has ${record.length} fields where the header has ${headers.length}`);
+        return;
+      }
+      const result = parseRow(record, mapping, {
+        latitudeDeg: s.latitudeDeg,
+        pressure: s.pressure,
+        gpsTime,
+        decimalComma: s.decimalComma,
+      });
+      if (!result.ok) {
+        reject(line, result.code, result.channel, result.reason);
+        return;
+      }
+      const sample = result.sample;
+      if (!hasValue(sample)) {
+        reject(line, 'no-values', null, 'the row has a time but no values');
+        return;
+      }
+      if (sample.t === lastT) {
+        reject(line, 'duplicate-time', 'time', `the time ${isoOf(sample.t)} repeats line ${lastLine}`);
+        return;
+      }
+      if (sample.t < lastT) {
+        reject(line, 'time-backwards', 'time', `the time ${isoOf(sample.t)} is earlier than line ${lastLine} (${isoOf(lastT)})`);
+        return;
+      }
+      if (s.existing) {
+        const i = upperBound(s.existing, sample.t) - 1;
+        if (i >= 0 && s.existing[i] === sample.t) {
+          reject(line, 'already-stored', 'time', `the dive's log already has a sample at ${isoOf(sample.t)}`);
+          return;
+        }
+      }
+      builder.push(sample);
+      lastT = sample.t;
+      lastLine = line;
+    },
+  );
+
+  const sink = new Writable({ objectMode: true, write: (_chunk, _enc, done) => done() });
+  await pipeline(createReadStream(filePath, { highWaterMark: 1024 * 1024 }), parser, sink);
+
+  if (!headers || !recognition) {
+    throw fileIssue('empty_log', 'The log holds no header and no rows.', 'The first line must name the columns, e.g. time,depth_m,lat,lon');
+  }
+  return { columns: builder.finish(), recognition, headers, rowsRejected, rejected, gpsTime };
+}
+
+function warningsOf(r: HeaderRecognition, extra: string[]): string[] {
+  const out: string[] = [];
+  if (r.unknown.length > 0) {
+    out.push(`Columns not read: ${r.unknown.map((h) => `"${h}"`).join(', ')}. If one holds a channel, name it with the mapping option.`);
+  }
+  for (const u of r.unsupportedUnits)
+    out.push(`"${u.header}" is in ${u.unit}, which is not read; give ${u.channel} in the units of the log format.`);
+  for (const d of r.duplicates) out.push(`"${d.header}" is a second ${d.channel} column; only the first is read.`);
+  if (r.mapping.depth === undefined && r.mapping.pressure === undefined)
+    out.push('The log has no depth or pressure column, so entries get no depth from it.');
+  if (r.mapping.lat === undefined || r.mapping.lon === undefined)
+    out.push('The log has no latitude and longitude columns, so entries get no position from it.');
+  return [...out, ...extra];
+}
+
+const locks = new Map<string, Promise<unknown>>();
+
+/** Runs imports of the same dive one after another, so an append always sees the log before it. */
+async function oneAtATime<T>(diveId: string, work: () => Promise<T>): Promise<T> {
+  const before = locks.get(diveId) ?? Promise.resolve();
+  const mine = before.then(work, work);
+  const tail = mine.catch(() => undefined);
+  locks.set(diveId, tail);
+  try {
+    return await mine;
+  } finally {
+    if (locks.get(diveId) === tail) locks.delete(diveId);
+  }
+}
+
+const insertStatements = new WeakMap<Db, Map<number, (values: unknown[]) => void>>();
+
+/** A prepared INSERT of `rows` samples at once. */
+function insertOf(db: Db, rows: number): (values: unknown[]) => void {
+  let byRows = insertStatements.get(db);
+  if (!byRows) insertStatements.set(db, (byRows = new Map<number, (values: unknown[]) => void>()));
+  let run = byRows.get(rows);
+  if (!run) {
+    const tuple = `(?, ?, ${STORED_CHANNELS.map(() => '?').join(', ')})`;
+    const stmt = db.$client.prepare(
+      `insert into telemetry_samples (dive_id, t, ${STORED_CHANNELS.join(', ')}) values ${Array(rows).fill(tuple).join(', ')}`,
+    );
+    run = (values) => void stmt.run(values);
+    byRows.set(rows, run);
+  }
+  return run;
+}
+
+/** Writes samples in batches, reusing one array of parameters for every batch. */
+function insertColumns(db: Db, diveId: string, cols: TelemetryColumns): void {
+  const width = 2 + STORED_CHANNELS.length;
+  const full = insertOf(db, INSERT_BATCH);
+  const values: unknown[] = new Array(INSERT_BATCH * width);
+  for (let start = 0; start < cols.length; start += INSERT_BATCH) {
+    const rows = Math.min(INSERT_BATCH, cols.length - start);
+    const batch = rows === INSERT_BATCH ? values : new Array(rows * width);
+    for (let k = 0; k < rows; k++) {
+      const i = start + k;
+      let o = k * width;
+      batch[o++] = diveId;
+      batch[o++] = cols.t[i];
+      for (const c of STORED_CHANNELS) {
+        const v = cols[c][i] as number;
+        batch[o++] = Number.isNaN(v) ? null : v;
+      }
+    }
+    (rows === INSERT_BATCH ? full : insertOf(db, rows))(batch);
+  }
+}
+
+/**
+ * Imports one log file into a dive: replaces its log or adds to it, re-stamps its entries from
+ * the result, records the import and announces the entries that changed.
+ */
+export async function importTelemetryLog(db: Db, live: LiveHub, req: ImportRequest): Promise<TelemetryImportReport> {
+  const fields = telemetryImportFieldsSchema.parse(req.fields ?? {});
+  const mapping = parseMapping(fields.mapping);
+  const head = await readHead(req.filePath);
+  if (head.bytes === 0) throw fileIssue('empty_file', 'The file is empty.', 'Choose the vehicle log; this file has no content');
+  const lines = head.text
+    .replace(/^\uFEFF/, '')
+    .split(/\r\n|\n|\r/)
+    .filter((l) => l.trim() !== '' && !l.startsWith('#'));
+  const delimiter = detectDelimiter(lines);
+  const decimalComma = fields.decimal === 'comma' || (fields.decimal === 'auto' && delimiter === 'semicolon' && detectDecimalComma(lines));
+  if (decimalComma && delimiter === 'comma') {
+    throw new ApiError(400, 'validation_failed', 'A comma-separated log cannot use the comma as its decimal mark.', [
+      { path: 'decimal', message: 'Use "point", or save the log with semicolons' },
+    ]);
+  }
+
+  return oneAtATime(req.diveId, async () => {
+    const facts = diveFacts(db, req.diveId);
+    const existing = fields.mode === 'append' ? loadColumns(db, req.diveId) : null;
+    const parsed = await parseLog(req.filePath, {
+      delimiter,
+      encoding: head.encoding,
+      decimalComma,
+      gpsTime: fields.gpsTime,
+      pressure: fields.pressure,
+      latitudeDeg: facts.datum.lat,
+      mapping,
+      existing: existing?.t ?? null,
+    });
+    const { columns, recognition } = parsed;
+    const rowsTaken = columns.length;
+    if (rowsTaken === 0) {
+      if (parsed.rowsRejected === 0) {
+        throw fileIssue('no_rows', 'The log has a header but no rows.', 'Export the log again with its data rows');
+      }
+      throw new ApiError(
+        400,
+        'no_rows_taken',
+        `None of the log's ${parsed.rowsRejected} rows could be taken; the dive's log is unchanged.`,
+        parsed.rejected.slice(0, 20).map((r) => ({ path: `file.line.${r.line}`, message: r.reason, code: r.code })),
+      );
+    }
+
+    const firstMs = columns.t[0] as number;
+    const lastMs = columns.t[rowsTaken - 1] as number;
+    const extra: string[] = [];
+    if (head.encoding === 'latin1') extra.push('The file is not UTF-8; it was read as Latin-1 (ISO 8859-1).');
+    if (fields.gpsTime === false && recognition.timeScale === 'gps') {
+      extra.push('The time column is labelled GPS, but the import was told the clock runs on UTC; times were read as UTC.');
+    }
+    const { launch, onDeck } = facts.phases;
+    if (launch !== null && onDeck !== null && (lastMs < launch || firstMs > onDeck)) {
+      extra.push(
+        `The log (${isoOf(firstMs)} to ${isoOf(lastMs)}) does not overlap the dive (launch ${isoOf(launch)} to on deck ${isoOf(onDeck)}); check the dive and the log's clock.`,
+      );
+    }
+
+    const merged = existing ? mergeColumns(existing, columns) : columns;
+    const log = loadedLog(merged);
+    const importId = randomUUID();
+    const importedAt = new Date();
+    const samplesBefore = existing ? existing.length : countSamples(db, req.diveId);
+    const report: TelemetryImportReport = {
+      importId,
+      diveId: req.diveId,
+      fileName: req.fileName,
+      mode: fields.mode,
+      rowsTaken,
+      rowsRejected: parsed.rowsRejected,
+      rejected: parsed.rejected,
+      rejectedListLimit: REJECTED_LIST_LIMIT,
+      span: spanOf(firstMs, lastMs),
+      columns: {
+        recognised: (Object.entries(recognition.mapping) as [TelemetryChannel, number][])
+          .sort((a, b) => a[1] - b[1])
+          .map(([channel, index]) => ({ header: (parsed.headers[index] ?? '').replace(/^\uFEFF/, ''), channel })),
+        unknown: recognition.unknown,
+        unsupportedUnits: recognition.unsupportedUnits,
+        duplicates: recognition.duplicates,
+      },
+      delimiter,
+      decimal: decimalComma ? 'comma' : 'point',
+      timeScale: parsed.gpsTime ? 'gps' : 'utc',
+      pressure: fields.pressure,
+      depthFrom: recognition.mapping.depth !== undefined ? 'depth' : recognition.mapping.pressure !== undefined ? 'pressure' : null,
+      samplesBefore,
+      samplesAfter: merged.length,
+      stamped: { updated: 0, noTelemetry: 0 },
+      warnings: warningsOf(recognition, extra),
+      importedAt: importedAt.toISOString(),
+    };
+
+    const stamped = db.transaction(() => {
+      if (fields.mode === 'replace') db.$client.prepare('delete from telemetry_samples where dive_id = ?').run(req.diveId);
+      insertColumns(db, req.diveId, columns);
+      const result = stampDiveObservations(db, req.diveId, log.series, facts.gapMs);
+      report.stamped = { updated: result.changed.length, noTelemetry: result.noTelemetry };
+      db.insert(telemetryImports)
+        .values({
+          id: importId,
+          diveId: req.diveId,
+          fileName: req.fileName,
+          mode: fields.mode,
+          rowsTaken,
+          rowsRejected: parsed.rowsRejected,
+          firstAt: new Date(firstMs),
+          lastAt: new Date(lastMs),
+          report,
+          importedBy: req.userId,
+          importedAt,
+        })
+        .run();
+      return result;
+    });
+    rememberLog(db, req.diveId, log);
+    announceStamped(db, live, facts.campaignId, req.diveId, stamped.changed);
+    return report;
+  });
+}

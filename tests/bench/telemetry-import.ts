@@ -1,0 +1,133 @@
+import { openAsBlob, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+
+import Database from 'better-sqlite3';
+
+import { diveFacts, stampDiveObservations } from '@/server/services/telemetry';
+import { announceStamped } from '@/server/services/telemetry-stamp';
+import { logOf } from '@/server/services/telemetry-series';
+import { writeVehicleLog } from '../fixtures/telemetry/logs';
+import { demoIds, emails } from '../helpers/demo';
+import { startTestServer } from '../helpers/test-server';
+
+const MB = 2 ** 20;
+
+/** Process CPU time (user and system) in ms; beside wall time it shows what a busy machine adds. */
+const cpuMs = (u: NodeJS.CpuUsage) => (u.user + u.system) / 1000;
+
+/** Peak resident memory while `work` runs, sampled every 10 ms. */
+async function withPeakRss<T>(work: () => Promise<T>): Promise<{ result: T; peak: number; before: number }> {
+  const before = process.memoryUsage().rss;
+  let peak = before;
+  const timer = setInterval(() => {
+    peak = Math.max(peak, process.memoryUsage().rss);
+  }, 10);
+  try {
+    const result = await work();
+    peak = Math.max(peak, process.memoryUsage().rss);
+    return { result, peak, before };
+  } finally {
+    clearInterval(timer);
+  }
+}
+
+/** The same rows as the log file, written by a bare better-sqlite3 loop: the floor an import can reach. */
+function bareInsert(dbFile: string, diveId: string, rows: number, start: number): number {
+  const db = new Database(dbFile);
+  db.pragma('journal_mode = WAL');
+  db.pragma('synchronous = FULL');
+  // The table as the app has it (same columns and primary key), without the dive it belongs to.
+  db.exec(`create table telemetry_samples (dive_id text not null, t integer not null, depth real, pressure real, lat real,
+    lon real, heading real, altitude real, temperature real, salinity real, primary key (dive_id, t))`);
+  const insert = db.prepare(
+    'insert into telemetry_samples (dive_id, t, depth, pressure, lat, lon, heading, altitude, temperature, salinity) values (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
+  );
+  const began = performance.now();
+  db.transaction(() => {
+    for (let i = 0; i < rows; i++) {
+      const m = i / 600;
+      const depth = Math.min(600, m * 22) + 3 * Math.sin(m / 7);
+      insert.run(diveId, start + i * 100, depth, depth * 1.0063, 36.145, -7.432, (m * 7) % 360, 2.5, 10.8, 35.7);
+    }
+  })();
+  const ms = performance.now() - began;
+  db.close();
+  return ms;
+}
+
+/**
+ * A ten-hour log at 10 Hz (360,000 rows) imported through the real HTTP endpoint, beside a bare
+ * insert loop of the same rows; then 10,000 entries stamped from that log.
+ */
+export async function benchTelemetryImport(): Promise<void> {
+  const dir = mkdtempSync(path.join(tmpdir(), 'bathynote-bench-telemetry-'));
+  const t = await startTestServer({ env: { AUTH_RATE_LIMIT: '1000', API_RATE_LIMIT: '1000000' } });
+  try {
+    const ids = demoIds(t.ctx.db);
+    const dive = ids.dive2026;
+    const facts = diveFacts(t.ctx.db, dive);
+    const start = facts.phases.launch ?? Date.UTC(2026, 4, 13, 17, 40);
+    const file = path.join(dir, 'skerry-10h-10hz.csv');
+    const rows = await writeVehicleLog(file, start, 10, 10);
+    const cookie = await t.sessionCookie(emails.pilot);
+
+    const blob = await openAsBlob(file, { type: 'text/csv' });
+    const {
+      result: imported,
+      peak,
+      before,
+    } = await withPeakRss(async () => {
+      const body = new FormData();
+      body.set('mode', 'replace');
+      body.set('file', blob, 'skerry-10h-10hz.csv');
+      const began = performance.now();
+      const cpu = process.cpuUsage();
+      const res = await fetch(`${t.url}/api/dives/${dive}/telemetry`, { method: 'POST', headers: { cookie, origin: t.url }, body });
+      const report = (await res.json()) as { rowsTaken?: number; rowsRejected?: number; stamped?: { updated: number } };
+      return { ms: performance.now() - began, cpuMs: cpuMs(process.cpuUsage(cpu)), status: res.status, report };
+    });
+
+    const bareMs = bareInsert(path.join(dir, 'bare.db'), dive, rows, start);
+
+    // 10,000 entries spread over the log, none with typed values, stamped in one go.
+    const db = t.ctx.db;
+    const authorId = ids.userId(emails.biologist);
+    const insert = db.$client.prepare(
+      "insert into observations (id, dive_id, campaign_id, observed_at, kind, title, author_id, created_at, updated_at) values (?, ?, ?, ?, 'biology', 'Bench entry', ?, ?, ?)",
+    );
+    db.$client.transaction(() => {
+      for (let i = 0; i < 10_000; i++) {
+        const at = start + Math.round((i * 10 * 3600_000) / 10_000);
+        insert.run(crypto.randomUUID(), dive, ids.campaign2026, at, authorId, at, at);
+      }
+    })();
+    const { series } = logOf(db, dive);
+    let began = performance.now();
+    const stampCpu = process.cpuUsage();
+    const stamped = db.transaction(() => stampDiveObservations(db, dive, series, facts.gapMs));
+    const stampMs = performance.now() - began;
+    const stampCpuMs = cpuMs(process.cpuUsage(stampCpu));
+    began = performance.now();
+    announceStamped(db, t.ctx.live, ids.campaign2026, dive, stamped.changed);
+    const announceMs = performance.now() - began;
+
+    const mb = (bytes: number) => `${(bytes / MB).toFixed(0)} MB`;
+    process.stdout.write(
+      [
+        `import of a ${rows.toLocaleString('en')}-row log (10 h at 10 Hz) through POST /api/dives/:diveId/telemetry`,
+        `  status       ${imported.status}   rows taken ${imported.report.rowsTaken}   rejected ${imported.report.rowsRejected}`,
+        `  time         ${(imported.ms / 1000).toFixed(2)} s   (target <= 5 s; CPU ${(imported.cpuMs / 1000).toFixed(2)} s, server and client together)`,
+        `  peak memory  rss ${mb(peak)}   (target <= 300 MB; ${mb(before)} before the upload, so ${mb(peak - before)} for the import; server and client in one process)`,
+        `  bare insert  ${(bareMs / 1000).toFixed(2)} s for the same rows (better-sqlite3 loop, one transaction)   import/bare ${(imported.ms / bareMs).toFixed(1)}x`,
+        `stamping 10,000 entries from that log`,
+        `  stamp        ${stampMs.toFixed(0)} ms for ${stamped.changed.length} changed entries   (target <= 100 ms; CPU ${stampCpuMs.toFixed(0)} ms)`,
+        `  announce     ${announceMs.toFixed(0)} ms to publish their observation.updated events`,
+        '',
+      ].join('\n'),
+    );
+  } finally {
+    await t.close();
+    rmSync(dir, { recursive: true, force: true });
+  }
+}

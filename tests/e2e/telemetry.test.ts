@@ -1,0 +1,175 @@
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+
+import Database from 'better-sqlite3';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+
+import { openBrowser, viewports, type Browser } from '../helpers/chromium';
+import { startServerProcess, type ServerProcess } from '../helpers/server-process';
+import { csv, iso } from '../fixtures/telemetry/logs';
+
+let server: ServerProcess;
+let dir: string;
+let diveId: string;
+let logFile: string;
+let rowsInLog: number;
+
+/** A log of demo dive VS-02 every 5 s from before launch to after on deck, with two broken rows. */
+function writeDiveLog(phases: { launch: number; onBottom: number; offBottom: number; onDeck: number }): void {
+  const rows: string[][] = [];
+  for (let t = phases.launch - 120_000; t <= phases.onDeck + 120_000; t += 5000) {
+    const depth =
+      t < phases.launch || t > phases.onDeck
+        ? 0
+        : t < phases.onBottom
+          ? (598 * (t - phases.launch)) / (phases.onBottom - phases.launch)
+          : t <= phases.offBottom
+            ? 598 + 3 * Math.sin(t / 600_000)
+            : (598 * (phases.onDeck - t)) / (phases.onDeck - phases.offBottom);
+    const m = (t - phases.launch) / 60_000;
+    rows.push([
+      iso(t),
+      depth.toFixed(2),
+      (36.145 + 0.0003 * Math.sin(m / 20)).toFixed(7),
+      (-7.432 + 0.0004 * Math.cos(m / 15)).toFixed(7),
+      (10.8 + 6 * Math.exp(-depth / 110)).toFixed(3),
+    ]);
+  }
+  rowsInLog = rows.length;
+  rows.splice(3, 0, [iso(phases.launch - 100_000), 'deep', '36.145', '-7.432', '17.1']);
+  rows.splice(8, 0, ['not a time', '0', '36.145', '-7.432', '17.1']);
+  writeFileSync(logFile, csv(['time', 'depth_m', 'lat', 'lon', 'temperature_c'], rows));
+}
+
+beforeAll(async () => {
+  server = await startServerProcess();
+  dir = mkdtempSync(path.join(tmpdir(), 'bathynote-e2e-log-'));
+  logFile = path.join(dir, 'skerry-vs-02-nav.csv');
+  const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
+  const dive = db.prepare("select id, launch_at, on_bottom_at, off_bottom_at, on_deck_at from dives where number = 'VS-02'").get() as {
+    id: string;
+    launch_at: number;
+    on_bottom_at: number;
+    off_bottom_at: number;
+    on_deck_at: number;
+  };
+  db.close();
+  diveId = dive.id;
+  writeDiveLog({ launch: dive.launch_at, onBottom: dive.on_bottom_at, offBottom: dive.off_bottom_at, onDeck: dive.on_deck_at });
+});
+afterAll(async () => {
+  await server?.stop();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+async function signIn(page: Page, email: string) {
+  await page.goto(server.url);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill('bathynote-demo');
+  await page.getByTestId('sign-in-password').press('Enter');
+  await page.getByTestId('campaign-list').waitFor();
+}
+
+describe('the dive summary at phone size', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await openBrowser(viewports.phone);
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('lets the pilot import the vehicle log, read the report, and open an entry from the depth profile', async () => {
+    const { page } = browser;
+    await signIn(page, 'pilot@bathynote.test');
+    await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+    await page.getByTestId('dive-VS-02').click();
+    await page.getByTestId('dive-summary').click();
+    await page.getByTestId('depth-profile-svg').waitFor();
+    await page.getByTestId('navigation-caution').waitFor();
+
+    await page.getByTestId('telemetry-file').setInputFiles(logFile);
+    await page.getByTestId('telemetry-columns').getByText('time → time').waitFor();
+    expect(await page.getByTestId('telemetry-file-name').textContent()).toContain('skerry-vs-02-nav.csv');
+    await page.getByTestId('telemetry-upload').click();
+
+    const report = page.getByTestId('telemetry-report');
+    await report.waitFor({ timeout: 60_000 });
+    expect(await report.getByTestId('report-taken').textContent()).toBe(rowsInLog.toLocaleString('en'));
+    expect(await report.getByTestId('report-rejected').textContent()).toBe('2');
+    const rejections = await report.getByTestId('report-rejections').textContent();
+    expect(rejections).toContain('Line 5: depth "deep" is not a number');
+    expect(rejections).toContain('Line 10:');
+    expect(await report.getByTestId('report-span').textContent()).toMatch(/^Covers 2026-05-13 /);
+
+    const markers = page.getByTestId('depth-profile').locator('[data-testid^="profile-marker-"]');
+    await expect.poll(() => markers.count()).toBeGreaterThan(10);
+    // Where entries crowd, a marker's neighbour can cover it: tap the first one a finger can reach.
+    let marker = markers.first();
+    for (let i = 0; i < (await markers.count()); i++) {
+      const reachable = await markers
+        .nth(i)
+        .click({ trial: true, timeout: 1000 })
+        .then(() => true)
+        .catch(() => false);
+      if (reachable) {
+        marker = markers.nth(i);
+        break;
+      }
+    }
+    const id = ((await marker.getAttribute('data-testid')) ?? '').replace('profile-marker-', '');
+    await marker.click();
+    await page.getByTestId('observation-detail').waitFor();
+    expect(new URL(page.url()).pathname).toBe(`/observations/${id}`);
+    expect(await page.getByTestId('fact-depth').textContent()).toMatch(/^\d+\.\d m$/);
+    expect(browser.errors).toEqual([]);
+  });
+});
+
+describe('the dive summary on a wide screen', () => {
+  it('shows the depth profile and the site plan side by side, and the statistics', async () => {
+    const browser = await openBrowser(viewports.wide);
+    try {
+      const { page } = browser;
+      await signIn(page, 'lead@bathynote.test');
+      await page.goto(`${server.url}/dives/${diveId}/summary`);
+      const profile = page.getByTestId('depth-profile-svg');
+      const plan = page.getByTestId('site-plan-svg');
+      await profile.waitFor();
+      await plan.waitFor();
+      await page.getByTestId('dive-stats').waitFor();
+      const a = (await profile.boundingBox())!;
+      const b = (await plan.boundingBox())!;
+      expect(a.x + a.width).toBeLessThanOrEqual(b.x + 1);
+      expect(Math.abs(a.y - b.y)).toBeLessThan(40);
+      expect(b.width).toBeGreaterThan(300);
+
+      expect(await page.getByTestId('stat-max-depth').textContent()).toMatch(/^\d{3}\.\d m$/);
+      expect(await page.getByTestId('stat-bottom').textContent()).toMatch(/^\d+ h \d{2} min$/);
+      expect(await page.getByTestId('scale-bar').textContent()).toMatch(/^\d+ m$/);
+      await page.getByTestId('north-arrow').waitFor();
+      expect(await page.getByTestId('site-plan').locator('[data-testid^="plan-marker-"]').count()).toBeGreaterThan(5);
+      expect(await page.getByTestId('depth-profile').locator('[data-testid^="profile-marker-"]').count()).toBeGreaterThan(5);
+      expect(browser.errors).toEqual([]);
+    } finally {
+      await browser.close();
+    }
+  });
+
+  it('shows a guest the plots without the import', async () => {
+    const browser = await openBrowser(viewports.wide);
+    try {
+      const { page } = browser;
+      await signIn(page, 'guest@bathynote.test');
+      await page.goto(`${server.url}/dives/${diveId}/summary`);
+      await page.getByTestId('depth-profile-svg').waitFor();
+      await page.getByTestId('import-history').waitFor();
+      expect(await page.getByTestId('telemetry-import').count()).toBe(0);
+      expect(browser.errors).toEqual([]);
+    } finally {
+      await browser.close();
+    }
+  });
+});
