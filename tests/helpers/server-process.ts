@@ -20,13 +20,19 @@ export async function freePort(): Promise<number> {
   });
 }
 
-/** The real server as a user starts it (`server/index.ts`), on a free port with a fresh database. */
-export async function startServerProcess(env: Record<string, string> = {}): Promise<ServerProcess> {
-  const dir = mkdtempSync(path.join(tmpdir(), 'bathynote-e2e-'));
+/**
+ * The real server as a user starts it (`server/index.ts`), on a free port with a fresh database;
+ * or another entry script, or an existing data folder (to restart on the same database).
+ */
+export async function startServerProcess(
+  env: Record<string, string> = {},
+  options: { script?: string; dir?: string; keepDir?: boolean } = {},
+): Promise<ServerProcess> {
+  const dir = options.dir ?? mkdtempSync(path.join(tmpdir(), 'bathynote-e2e-'));
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   let log = '';
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  const child = spawn(process.execPath, ['--import', 'tsx', options.script ?? 'server/index.ts'], {
     cwd: root,
     env: {
       ...process.env,
@@ -66,7 +72,7 @@ export async function startServerProcess(env: Record<string, string> = {}): Prom
         child.kill('SIGTERM');
         await exited;
       }
-      rmSync(dir, { recursive: true, force: true });
+      if (!options.keepDir) rmSync(dir, { recursive: true, force: true });
     },
   };
 }

@@ -1,0 +1,261 @@
+/**
+ * Every API route against every kind of caller. "ok" means the caller got past authorisation:
+ * any answer but 401, 403 and 404 (most requests here carry empty bodies on purpose, so an allowed
+ * caller gets a 400 and nothing changes). A route the app serves without a row here fails.
+ */
+import sharp from 'sharp';
+import type { Express } from 'express';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+import { createApp } from '@/server/app';
+import { demoIds, emails } from '../helpers/demo';
+import { openSse } from '../helpers/sse';
+import { startTestServer, type TestServer } from '../helpers/test-server';
+
+type Actor = 'admin' | 'lead' | 'scientist' | 'pilot' | 'guest' | 'other' | 'anonymous';
+type Expect = 'ok' | 401 | 403 | 404 | 303;
+const actors: Actor[] = ['admin', 'lead', 'scientist', 'pilot', 'guest', 'other', 'anonymous'];
+
+/** The caller of each kind: "scientist" is the biologist, who wrote the entries used below. */
+const emailOf: Record<Exclude<Actor, 'anonymous'>, string> = {
+  admin: emails.admin,
+  lead: emails.lead,
+  scientist: emails.biologist,
+  pilot: emails.pilot,
+  guest: emails.guest,
+  other: emails.outsider, // made a member of the 2024 campaign only, below
+};
+
+let t: TestServer;
+let ids: ReturnType<typeof demoIds>;
+const f = {} as Record<'observation' | 'photo' | 'invitation' | 'quickMark' | 'tag' | 'spareMember', string>;
+
+let shade = 0;
+/** A small PNG, a different one each time (the same file twice on one entry is kept once). */
+async function png(): Promise<Buffer> {
+  shade++;
+  return sharp({ create: { width: 8, height: 8, channels: 3, background: { r: shade % 256, g: 80, b: 120 } } })
+    .png()
+    .toBuffer();
+}
+
+async function freshObservation(): Promise<string> {
+  const res = await (
+    await t.signIn(emails.biologist)
+  )
+    .post(`/api/dives/${ids.dive2026}/observations`)
+    .send({ kind: 'biology', title: 'Access fixture' });
+  return res.body.id as string;
+}
+
+async function freshPhoto(observationId: string): Promise<string> {
+  const res = await (
+    await t.signIn(emails.biologist)
+  )
+    .post(`/api/observations/${observationId}/photos`)
+    .attach('photo', await png(), { filename: 'frame.png', contentType: 'image/png' });
+  expect(res.status).toBe(201);
+  return res.body.photos[0].id as string;
+}
+
+beforeAll(async () => {
+  t = await startTestServer({ env: { AUTH_RATE_LIMIT: '500' } });
+  ids = demoIds(t.ctx.db);
+  t.ctx.db.$client
+    .prepare('insert into memberships (campaign_id, user_id, role, created_at) values (?, ?, ?, ?)')
+    .run(ids.campaign2024, ids.userId(emails.outsider), 'scientist', Date.now());
+  f.observation = await freshObservation();
+  f.photo = await freshPhoto(f.observation);
+  const lead = await t.signIn(emails.lead);
+  f.invitation = (
+    await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email: 'access-fixture@bathynote.test', role: 'guest' })
+  ).body.id;
+  f.quickMark = (await lead.post(`/api/campaigns/${ids.campaign2026}/quick-marks`).send({ label: 'Fixture', kind: 'biology' })).body.id;
+  f.tag = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body[0].id;
+  f.spareMember = ids.userId(emails.archaeologist);
+});
+afterAll(() => t.close());
+
+const R = (admin: Expect, lead: Expect, scientist: Expect, pilot: Expect, guest: Expect, other: Expect, anonymous: Expect) => ({
+  admin,
+  lead,
+  scientist,
+  pilot,
+  guest,
+  other,
+  anonymous,
+});
+const readers = R('ok', 'ok', 'ok', 'ok', 'ok', 404, 401);
+const leadOnly = R(403, 'ok', 403, 403, 403, 404, 401);
+const leadAndPilot = R(403, 'ok', 403, 'ok', 403, 404, 401);
+const members = R(403, 'ok', 'ok', 'ok', 'ok', 404, 401);
+const authorAndLead = R(403, 'ok', 'ok', 403, 403, 404, 401);
+const signedIn = R('ok', 'ok', 'ok', 'ok', 'ok', 'ok', 401);
+const siteAdmin = R('ok', 403, 403, 403, 403, 403, 401);
+
+type Row = {
+  expect: Record<Actor, Expect>;
+  path: () => string | Promise<string>;
+  body?: unknown;
+  /** Requests that change something get a fresh target for each allowed caller. */
+  fresh?: boolean;
+};
+
+const c = () => ids.campaign2026;
+const d = () => ids.dive2026;
+
+const table: Record<string, Row> = {
+  'GET /api/health': { expect: R('ok', 'ok', 'ok', 'ok', 'ok', 'ok', 'ok'), path: () => '/api/health' },
+  'GET /api/me': { expect: signedIn, path: () => '/api/me' },
+  'GET /api/campaigns': { expect: signedIn, path: () => '/api/campaigns' },
+  'POST /api/campaigns': { expect: siteAdmin, path: () => '/api/campaigns', body: {} },
+  'GET /api/campaigns/:campaignId': { expect: readers, path: () => `/api/campaigns/${c()}` },
+  'PATCH /api/campaigns/:campaignId': { expect: leadOnly, path: () => `/api/campaigns/${c()}`, body: { datumLat: 'x' } },
+  'GET /api/campaigns/:campaignId/members': { expect: readers, path: () => `/api/campaigns/${c()}/members` },
+  'PATCH /api/campaigns/:campaignId/members/:userId': {
+    expect: leadOnly,
+    path: () => `/api/campaigns/${c()}/members/${f.spareMember}`,
+    body: { role: 'owner' },
+  },
+  'DELETE /api/campaigns/:campaignId/members/:userId': {
+    expect: leadOnly,
+    fresh: true,
+    path: () => {
+      const id = crypto.randomUUID();
+      t.ctx.db.$client
+        .prepare("insert into user (id, name, email, email_verified, created_at, updated_at, role) values (?, 'Spare', ?, 1, ?, ?, 'user')")
+        .run(id, `${id}@bathynote.test`, Date.now(), Date.now());
+      t.ctx.db.$client
+        .prepare("insert into memberships (campaign_id, user_id, role, created_at) values (?, ?, 'guest', ?)")
+        .run(c(), id, Date.now());
+      return `/api/campaigns/${c()}/members/${id}`;
+    },
+  },
+  'GET /api/campaigns/:campaignId/invitations': { expect: leadOnly, path: () => `/api/campaigns/${c()}/invitations` },
+  'POST /api/campaigns/:campaignId/invitations': { expect: leadOnly, path: () => `/api/campaigns/${c()}/invitations`, body: {} },
+  'POST /api/invitations/:invitationId/resend': { expect: leadOnly, path: () => `/api/invitations/${f.invitation}/resend` },
+  'DELETE /api/invitations/:invitationId': { expect: leadOnly, path: () => `/api/invitations/${f.invitation}` },
+  'GET /api/invitations/:invitationId/accept': {
+    expect: R(303, 303, 303, 303, 303, 303, 303),
+    path: () => `/api/invitations/${f.invitation}/accept`,
+  },
+  'GET /api/campaigns/:campaignId/tags': { expect: readers, path: () => `/api/campaigns/${c()}/tags` },
+  'POST /api/campaigns/:campaignId/tags': { expect: leadOnly, path: () => `/api/campaigns/${c()}/tags`, body: {} },
+  'PATCH /api/tags/:tagId': { expect: leadOnly, path: () => `/api/tags/${f.tag}`, body: {} },
+  'GET /api/campaigns/:campaignId/quick-marks': { expect: readers, path: () => `/api/campaigns/${c()}/quick-marks` },
+  'POST /api/campaigns/:campaignId/quick-marks': { expect: leadOnly, path: () => `/api/campaigns/${c()}/quick-marks`, body: {} },
+  'PATCH /api/quick-marks/:quickMarkId': { expect: leadOnly, path: () => `/api/quick-marks/${f.quickMark}`, body: { kind: 'geology' } },
+  'DELETE /api/quick-marks/:quickMarkId': { expect: leadOnly, path: () => `/api/quick-marks/${f.quickMark}` },
+  'GET /api/campaigns/:campaignId/finds/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/finds/next-number` },
+  'GET /api/campaigns/:campaignId/dives': { expect: readers, path: () => `/api/campaigns/${c()}/dives` },
+  'POST /api/campaigns/:campaignId/dives': { expect: leadAndPilot, path: () => `/api/campaigns/${c()}/dives`, body: {} },
+  'GET /api/dives/:diveId': { expect: readers, path: () => `/api/dives/${d()}` },
+  'PATCH /api/dives/:diveId': { expect: leadAndPilot, path: () => `/api/dives/${d()}`, body: {} },
+  'POST /api/dives/:diveId/phases': { expect: leadAndPilot, path: () => `/api/dives/${d()}/phases`, body: {} },
+  'GET /api/dives/:diveId/stream': { expect: readers, path: () => `/api/dives/${d()}/stream` },
+  'GET /api/dives/:diveId/observations': { expect: readers, path: () => `/api/dives/${d()}/observations` },
+  'POST /api/dives/:diveId/observations': { expect: members, path: () => `/api/dives/${d()}/observations`, body: {} },
+  'GET /api/dives/:diveId/photos': { expect: readers, path: () => `/api/dives/${d()}/photos` },
+  'POST /api/dives/:diveId/telemetry': { expect: leadAndPilot, path: () => `/api/dives/${d()}/telemetry`, body: {} },
+  'GET /api/dives/:diveId/telemetry': { expect: readers, path: () => `/api/dives/${d()}/telemetry` },
+  'GET /api/dives/:diveId/at': { expect: readers, path: () => `/api/dives/${d()}/at?t=2026-05-13T20:00:00.000Z` },
+  'GET /api/dives/:diveId/summary': { expect: readers, path: () => `/api/dives/${d()}/summary` },
+  'GET /api/observations/:id': { expect: readers, path: () => `/api/observations/${f.observation}` },
+  'PATCH /api/observations/:id': { expect: authorAndLead, path: () => `/api/observations/${f.observation}`, body: {} },
+  'DELETE /api/observations/:id': {
+    expect: authorAndLead,
+    fresh: true,
+    path: () => freshObservation().then((id) => `/api/observations/${id}`),
+  },
+  'POST /api/observations/:id/restore': { expect: leadOnly, path: () => `/api/observations/${f.observation}/restore` },
+  'GET /api/observations/:id/revisions': { expect: readers, path: () => `/api/observations/${f.observation}/revisions` },
+  'PUT /api/observations/:id/identification': {
+    expect: R(403, 'ok', 'ok', 403, 403, 404, 401),
+    path: () => `/api/observations/${f.observation}/identification`,
+    body: {},
+  },
+  // The biologist wrote the entry, so she may not verify its identification herself.
+  'POST /api/observations/:id/identification/verify': {
+    expect: R(403, 'ok', 403, 403, 403, 404, 401),
+    path: () => `/api/observations/${f.observation}/identification/verify`,
+    body: {},
+  },
+  'PUT /api/observations/:id/find': {
+    expect: R(403, 'ok', 'ok', 403, 403, 404, 401),
+    path: () => `/api/observations/${f.observation}/find`,
+    body: {},
+  },
+  'POST /api/observations/:id/custody': {
+    expect: R(403, 'ok', 'ok', 'ok', 403, 404, 401),
+    path: () => `/api/observations/${f.observation}/custody`,
+    body: {},
+  },
+  'POST /api/observations/:id/photos': { expect: authorAndLead, path: () => `/api/observations/${f.observation}/photos`, body: {} },
+  'GET /api/photos/:photoId': { expect: readers, path: () => `/api/photos/${f.photo}?size=thumb` },
+  'PATCH /api/photos/:photoId': { expect: authorAndLead, path: () => `/api/photos/${f.photo}`, body: { position: -5 } },
+  'DELETE /api/photos/:photoId': {
+    expect: authorAndLead,
+    fresh: true,
+    path: () => freshPhoto(f.observation).then((id) => `/api/photos/${id}`),
+  },
+  'GET /api/dev/outbox': { expect: siteAdmin, path: () => '/api/dev/outbox' },
+};
+
+function servedRoutes(app: Express): string[] {
+  const out: string[] = [];
+  const stack = (app as unknown as { router: { stack: Layer[] } }).router.stack;
+  type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] } };
+  const visit = (layers: Layer[], prefix: string) => {
+    for (const layer of layers) {
+      if (layer.route) {
+        for (const m of Object.keys(layer.route.methods)) {
+          if (m !== '_all') out.push(`${m.toUpperCase()} ${layer.route.path.startsWith('/api') ? '' : prefix}${layer.route.path}`);
+        }
+      } else if (layer.handle?.stack) visit(layer.handle.stack, '/api');
+    }
+  };
+  visit(stack, '');
+  return out.sort();
+}
+
+async function call(actor: Actor, method: string, path: string, body: unknown): Promise<number> {
+  if (path.endsWith('/stream')) {
+    const headers: Record<string, string> = actor === 'anonymous' ? {} : { cookie: await t.sessionCookie(emailOf[actor]) };
+    const stream = openSse(`${t.url}${path}`, headers);
+    const status = await stream.status;
+    stream.close();
+    return status;
+  }
+  const agent = actor === 'anonymous' ? t.anonymous() : await t.signIn(emailOf[actor]);
+  const req = agent[method.toLowerCase() as 'get' | 'post' | 'patch' | 'put' | 'delete'](path).redirects(0);
+  const res = body === undefined ? await req : await req.send(body as object);
+  return res.status;
+}
+
+describe('access to every route', () => {
+  it('has a row for every route the app serves', () => {
+    // better-auth's own routes are covered by the sign-in and team tests.
+    const served = [...new Set(servedRoutes(createApp(t.ctx)).filter((r) => !r.endsWith(' /api/auth/*splat')))];
+    expect(served.filter((r) => !(r in table))).toEqual([]);
+    expect(Object.keys(table).filter((r) => !served.includes(r))).toEqual([]);
+  });
+
+  for (const [route, row] of Object.entries(table)) {
+    it(`${route}`, async () => {
+      const [method] = route.split(' ') as [string];
+      const got: Record<string, number> = {};
+      // Callers who are refused go first, so that a change made by an allowed one cannot hide a refusal.
+      const ordered = [...actors].sort((a, b) => Number(row.expect[a] === 'ok') - Number(row.expect[b] === 'ok'));
+      let shared: string | undefined;
+      for (const actor of ordered) {
+        const path = row.fresh || !shared ? await row.path() : shared;
+        shared ??= path;
+        got[actor] = await call(actor, method, path, row.body);
+      }
+      const seen = Object.fromEntries(
+        actors.map((a) => [a, row.expect[a] === 'ok' ? (![401, 403, 404].includes(got[a]!) ? 'ok' : got[a]) : got[a]]),
+      );
+      expect(seen).toEqual(row.expect);
+    });
+  }
+});
