@@ -61,6 +61,16 @@ type Template = {
   title: string;
   note: string;
   tags: string[];
+  /** A proposed name, and who verified it (if anyone). */
+  identification?: {
+    name: string;
+    rank: 'species' | 'genus' | 'family' | 'class';
+    qualifier?: 'cf.' | 'aff.' | 'sp.' | 'indet.';
+    verifiedBy?: PersonKey;
+    status?: 'verified' | 'disputed';
+  };
+  /** A registered find, and for a recovered one who has held it. */
+  find?: { objectType: string; material: string; condition: string; state: 'in-situ' | 'recovered' };
 };
 
 const biology: Template[] = [
@@ -82,6 +92,7 @@ const biology: Template[] = [
     kind: 'biology',
     by: 'biologist',
     title: 'Cold-water coral colony on the stern rail',
+    identification: { name: 'Desmophyllum pertusum', rank: 'species', verifiedBy: 'lead', status: 'verified' },
     note: 'Live colony of *Desmophyllum pertusum*, white polyps extended, roughly 60 × 40 cm, growing\nfrom the stern rail towards the current. Dead framework beneath.',
     tags: ['coral', 'stern'],
   },
@@ -96,6 +107,7 @@ const biology: Template[] = [
     kind: 'biology',
     by: 'biologist',
     title: 'Squat lobster in an amphora mouth',
+    identification: { name: 'Munida', rank: 'genus', qualifier: 'sp.' },
     note: '*Munida* sp. sheltering in the mouth of an amphora in the cargo mound; retreated when the\nlights came close.',
     tags: ['crustacean', 'amphora'],
   },
@@ -103,6 +115,7 @@ const biology: Template[] = [
     kind: 'biology',
     by: 'biologist',
     title: 'Conger under the hull timbers',
+    identification: { name: 'Conger conger', rank: 'species', qualifier: 'cf.', verifiedBy: 'lead', status: 'disputed' },
     note: 'Large conger eel (est. 1.5 m) in the gap between two hull timbers, head out, facing the\ncurrent. Seen again on the way back along the starboard side.',
     tags: ['fish', 'timber'],
   },
@@ -110,6 +123,7 @@ const biology: Template[] = [
     kind: 'biology',
     by: 'guest',
     title: 'Brittle stars on the sediment apron',
+    identification: { name: 'Ophiuroidea', rank: 'class', qualifier: 'indet.' },
     note: 'Dense brittle stars on the sediment around the cargo mound — from the feed it looks like\n10–20 per frame. Worth a count on the mosaic.',
     tags: ['echinoderm', 'sediment'],
   },
@@ -124,6 +138,7 @@ const biology: Template[] = [
     kind: 'biology',
     by: 'biologist',
     title: 'Grenadier passing the bow',
+    identification: { name: 'Macrouridae', rank: 'family', qualifier: 'indet.' },
     note: 'Macrourid swimming slowly head-down past the bow, ~40 cm. Out of frame after 6 s.',
     tags: ['fish'],
   },
@@ -141,6 +156,7 @@ const archaeology: Template[] = [
     kind: 'archaeology',
     by: 'archaeologist',
     title: 'Amphora with both handles, in situ',
+    find: { objectType: 'amphora', material: 'ceramic', condition: 'complete, both handles', state: 'in-situ' },
     note: 'Complete amphora lying on its side at the edge of the cargo mound, both handles intact,\nmouth to the north-east. **Left in situ.**',
     tags: ['amphora', 'cargo'],
   },
@@ -148,6 +164,7 @@ const archaeology: Template[] = [
     kind: 'archaeology',
     by: 'archaeologist',
     title: 'Stack of coarse ware bowls',
+    find: { objectType: 'bowl stack', material: 'coarse ware', condition: 'rims chipped', state: 'in-situ' },
     note: 'At least six coarse ware bowls nested in a stack, partly buried, amidships. Rims chipped,\nno glaze visible.',
     tags: ['coarse-ware', 'cargo'],
   },
@@ -162,6 +179,7 @@ const archaeology: Template[] = [
     kind: 'archaeology',
     by: 'archaeologist',
     title: 'Lead sheathing fragment',
+    find: { objectType: 'hull sheathing', material: 'lead', condition: 'folded, nail holes', state: 'recovered' },
     note: 'Folded sheet of lead sheathing, ~30 cm, with nail holes, lying off the starboard quarter.',
     tags: ['hull'],
   },
@@ -234,6 +252,15 @@ const operations: Template[] = [
     note: 'Acoustic positioning dropped out for ~60 s near the stern; positions in that window are\ninterpolated.',
     tags: ['equipment'],
   },
+];
+
+const quickMarks: { label: string; kind: ObservationKind; tags: string[] }[] = [
+  { label: 'Microbial mat', kind: 'biology', tags: ['microbial-mat'] },
+  { label: 'Coral', kind: 'biology', tags: ['coral'] },
+  { label: 'Fish', kind: 'biology', tags: ['fish'] },
+  { label: 'Amphora', kind: 'archaeology', tags: ['amphora', 'cargo'] },
+  { label: 'Sample taken', kind: 'biology', tags: ['sample'] },
+  { label: 'Position fix lost', kind: 'operations', tags: ['equipment'] },
 ];
 
 const vocabulary2026 = [
@@ -340,8 +367,20 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
         .run();
     }
 
-    const makeCampaign = (values: typeof s.campaigns.$inferInsert, members: [PersonKey, CampaignRole][], plans: DivePlan[]) => {
+    const makeCampaign = (
+      values: typeof s.campaigns.$inferInsert,
+      members: [PersonKey, CampaignRole][],
+      plans: DivePlan[],
+      findPrefix: string,
+    ) => {
       const campaign = tx.insert(s.campaigns).values(values).returning().get();
+      let findCount = 0;
+      quickMarks.forEach((q, position) =>
+        tx
+          .insert(s.quickMarks)
+          .values({ campaignId: campaign.id, ...q, position })
+          .run(),
+      );
       for (const [key, role] of members) tx.insert(s.memberships).values({ campaignId: campaign.id, userId: ids[key], role }).run();
       const tagIds = new Map<string, string>();
       for (const name of vocabulary2026) {
@@ -407,6 +446,71 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
             const tagId = tagIds.get(tag);
             if (tagId) tx.insert(s.observationTags).values({ observationId: obs.id, tagId }).run();
           }
+          tx.insert(s.observationRevisions)
+            .values({
+              observationId: obs.id,
+              version: 1,
+              action: 'created',
+              snapshot: { title: obs.title, kind: obs.kind, note: obs.note, observedAt: obs.observedAt.toISOString(), tags: template.tags },
+              editedBy: obs.authorId,
+              editedAt: obs.createdAt,
+            })
+            .run();
+          const ident = template.identification;
+          if (ident) {
+            const verified = ident.verifiedBy && ident.status;
+            tx.insert(s.identifications)
+              .values({
+                observationId: obs.id,
+                scientificName: ident.name,
+                taxonRank: ident.rank,
+                qualifier: ident.qualifier ?? null,
+                confidence: ident.qualifier ? 'medium' : 'high',
+                identifiedBy: ids[template.by],
+                verificationStatus: verified ? ident.status : 'unverified',
+                verifiedBy: verified ? ids[ident.verifiedBy!] : null,
+                verifiedAt: verified ? new Date(observedAt.getTime() + 86_400_000) : null,
+                verificationNote:
+                  ident.status === 'disputed' ? 'Tail shape on the still fits a cusk-eel better; check the next dive.' : null,
+                updatedAt: obs.createdAt,
+              })
+              .run();
+          }
+          if (template.find) {
+            findCount++;
+            tx.insert(s.finds)
+              .values({
+                observationId: obs.id,
+                campaignId: campaign.id,
+                findNumber: `${findPrefix}-${String(findCount).padStart(3, '0')}`,
+                ...template.find,
+              })
+              .run();
+            if (template.find.state === 'recovered') {
+              const aboard = new Date(onDeck.getTime() + 15 * 60_000);
+              tx.insert(s.custodyEvents)
+                .values([
+                  {
+                    observationId: obs.id,
+                    holder: 'Bram Ostrander',
+                    since: aboard,
+                    location: 'Wet lab, tank 2 (fresh sea water)',
+                    container: `Tray ${findCount}`,
+                    recordedBy: ids.archaeologist,
+                  },
+                  {
+                    observationId: obs.id,
+                    holder: 'Ship conservator',
+                    since: new Date(aboard.getTime() + 2 * 3600_000),
+                    location: 'Conservation store, wet',
+                    container: `Sealed bag ${findPrefix}-${findCount}`,
+                    note: 'Kept wet; desalination to start ashore.',
+                    recordedBy: ids.archaeologist,
+                  },
+                ])
+                .run();
+            }
+          }
           total++;
         }
       }
@@ -434,6 +538,7 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
         ['guest', 'guest'],
       ],
       plans2026,
+      'VS26',
     );
     makeCampaign(
       {
@@ -456,6 +561,7 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
         ['pilot', 'pilot'],
       ],
       plans2024,
+      'VS24',
     );
   });
   seedTelemetry(db);
