@@ -44,6 +44,8 @@ function Gate() {
         <Stack.Protected guard={!signedIn}>
           <Stack.Screen name="(auth)" />
         </Stack.Protected>
+        {/* An invitation link can fail for someone signed in or not, so neither guard holds it. */}
+        <Stack.Screen name="invitation-problem" />
         <Stack.Screen name="+not-found" />
       </Stack>
     </>

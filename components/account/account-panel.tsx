@@ -1,9 +1,15 @@
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
+import { Chip } from '@/components/ui/chip';
+import { Field } from '@/components/ui/field';
 import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
+import { useToast } from '@/components/ui/toast';
+import { ApiError } from '@/hooks/api';
 import { useMe, useSignOut } from '@/hooks/session';
+import { useChangePassword, useRevokeOtherSessions } from '@/hooks/team';
 import { useTheme, type ThemePreference } from '@/hooks/theme';
 import { radius, space } from '@/lib/tokens';
 
@@ -33,6 +39,8 @@ export function AccountPanel() {
           { value: 'light', label: 'Light' },
         ]}
       />
+      {me ? <ChangePassword /> : null}
+      {me ? <OtherSessions /> : null}
       <Button label="Sign out" tone="secondary" testID="sign-out" busy={signOut.isPending} onPress={() => signOut.mutate()} />
       <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]}>
         <Text variant="label">Cautions</Text>
@@ -50,7 +58,144 @@ export function AccountPanel() {
   );
 }
 
+const PASSWORD_MIN = 8;
+const PASSWORD_MAX = 128;
+
+type PasswordErrors = Partial<Record<'current' | 'next' | 'repeat' | 'form', string>>;
+
+/** What the sign-in service said, placed at the field it is about. */
+function passwordErrors(err: unknown): PasswordErrors {
+  if (!err) return {};
+  if (!(err instanceof ApiError)) return { form: 'The password was not changed. Try again.' };
+  if (err.code === 'invalid_password') return { current: 'That is not your current password.' };
+  if (err.code === 'password_too_short' || err.code === 'password_too_long') {
+    return { next: `A password has ${PASSWORD_MIN} to ${PASSWORD_MAX} characters.` };
+  }
+  if (err.status === 429) return { form: 'Too many attempts. Wait a minute before trying again.' };
+  return { form: err.message };
+}
+
+function ChangePassword() {
+  const { colors } = useTheme();
+  const toast = useToast();
+  const change = useChangePassword();
+  const [open, setOpen] = useState(false);
+  const [current, setCurrent] = useState('');
+  const [next, setNext] = useState('');
+  const [repeat, setRepeat] = useState('');
+  const [signOutOthers, setSignOutOthers] = useState(true);
+  const [local, setLocal] = useState<PasswordErrors>({});
+  const errors = { ...passwordErrors(change.error), ...local };
+
+  const close = () => {
+    setOpen(false);
+    setCurrent('');
+    setNext('');
+    setRepeat('');
+    setLocal({});
+    change.reset();
+  };
+  const submit = () => {
+    const bad: PasswordErrors = {};
+    if (!current) bad.current = 'Enter your current password.';
+    if (next.length < PASSWORD_MIN || next.length > PASSWORD_MAX)
+      bad.next = `A password has ${PASSWORD_MIN} to ${PASSWORD_MAX} characters.`;
+    else if (repeat !== next) bad.repeat = 'The two new passwords are not the same.';
+    setLocal(bad);
+    if (Object.keys(bad).length > 0 || change.isPending) return;
+    change.mutate(
+      { currentPassword: current, newPassword: next, revokeOtherSessions: signOutOthers },
+      {
+        onSuccess: () => {
+          toast(signOutOthers ? 'Password changed; your other sessions are signed out.' : 'Password changed.');
+          close();
+        },
+      },
+    );
+  };
+
+  if (!open) {
+    return <Button label="Change password" tone="secondary" testID="change-password" onPress={() => setOpen(true)} />;
+  }
+  return (
+    <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="change-password-form">
+      <Text variant="label">Change password</Text>
+      <Field
+        label="Current password"
+        testID="password-current"
+        value={current}
+        onChangeText={setCurrent}
+        secureTextEntry
+        autoComplete="current-password"
+        error={errors.current}
+      />
+      <Field
+        label="New password"
+        testID="password-new"
+        value={next}
+        onChangeText={setNext}
+        secureTextEntry
+        autoComplete="new-password"
+        hint={`${PASSWORD_MIN} to ${PASSWORD_MAX} characters`}
+        error={errors.next}
+      />
+      <Field
+        label="Repeat the new password"
+        testID="password-repeat"
+        value={repeat}
+        onChangeText={setRepeat}
+        secureTextEntry
+        autoComplete="new-password"
+        error={errors.repeat}
+        onSubmitEditing={submit}
+      />
+      <View style={styles.row}>
+        <Chip
+          label="Sign out my other sessions"
+          selected={signOutOthers}
+          onPress={() => setSignOutOthers(!signOutOthers)}
+          testID="password-sign-out-others"
+        />
+      </View>
+      {errors.form ? (
+        <Text color={colors.danger} role="alert" testID="password-error">
+          {errors.form}
+        </Text>
+      ) : null}
+      <View style={styles.row}>
+        <Button label="Save new password" testID="password-save" busy={change.isPending} onPress={submit} />
+        <Button label="Cancel" tone="secondary" onPress={close} />
+      </View>
+    </View>
+  );
+}
+
+/** Ends every session but this one: a phone left in the control room, a laptop ashore. */
+function OtherSessions() {
+  const { colors } = useTheme();
+  const toast = useToast();
+  const revoke = useRevokeOtherSessions();
+  return (
+    <View style={styles.gapSm}>
+      <Button
+        label="Sign out everywhere else"
+        tone="secondary"
+        testID="sign-out-others"
+        busy={revoke.isPending}
+        onPress={() => revoke.mutate(undefined, { onSuccess: () => toast('Signed out on every other device; this one stays signed in.') })}
+      />
+      {revoke.error ? (
+        <Text color={colors.danger} role="alert">
+          {revoke.error instanceof ApiError ? revoke.error.message : 'Not done. Try again.'}
+        </Text>
+      ) : null}
+    </View>
+  );
+}
+
 const styles = StyleSheet.create({
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
+  gapSm: { gap: space.sm },
   wrap: { gap: space.lg },
   box: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg, gap: space.sm },
 });

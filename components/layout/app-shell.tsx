@@ -10,17 +10,34 @@ import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { space } from '@/lib/tokens';
 
-type NavItem = { href: string; label: string; icon: IconName; match: (path: string) => boolean };
+type NavItem = { id: string; href: string; label: string; icon: (color: string) => ReactNode; match: (path: string) => boolean };
 
-const items: NavItem[] = [
-  {
-    href: '/',
-    label: 'Campaigns',
-    icon: 'campaigns',
-    match: (p) => p === '/' || p.startsWith('/campaigns') || p.startsWith('/dives') || p.startsWith('/observations'),
-  },
-  { href: '/account', label: 'Account', icon: 'account', match: (p) => p.startsWith('/account') },
-];
+const glyph = (name: IconName) => (color: string) => <Icon name={name} color={color} />;
+
+const campaignsItem: NavItem = {
+  id: 'campaigns',
+  href: '/',
+  label: 'Campaigns',
+  icon: glyph('campaigns'),
+  match: (p) => p === '/' || p.startsWith('/campaigns') || p.startsWith('/dives') || p.startsWith('/observations'),
+};
+
+const accountItem: NavItem = {
+  id: 'account',
+  href: '/account',
+  label: 'Account',
+  icon: glyph('account'),
+  match: (p) => p.startsWith('/account'),
+};
+
+/** Shown to the site administrator only. */
+const adminItem: NavItem = {
+  id: 'admin',
+  href: '/admin',
+  label: 'Admin',
+  icon: glyph('admin'),
+  match: (p) => p.startsWith('/admin'),
+};
 
 /** The frame around every signed-in screen: navigation at the bottom on phones, at the side elsewhere. */
 export function AppShell({ children }: { children: ReactNode }) {
@@ -30,13 +47,14 @@ export function AppShell({ children }: { children: ReactNode }) {
   const path = usePathname();
   const me = useMe().data;
 
-  const links = items.map((item) => {
+  const shown = me?.siteRole === 'admin' ? [campaignsItem, adminItem, accountItem] : [campaignsItem, accountItem];
+  const links = shown.map((item) => {
     const active = item.match(path);
     const tint = active ? colors.accent : colors.textMuted;
     return (
       <Link key={item.href} href={item.href} asChild>
         <Pressable
-          testID={`nav-${item.icon}`}
+          testID={`nav-${item.id}`}
           accessibilityRole="link"
           aria-current={active ? 'page' : undefined}
           // Link's slot merges styles itself and cannot take an array.
@@ -46,7 +64,7 @@ export function AppShell({ children }: { children: ReactNode }) {
               : StyleSheet.flatten([styles.sideItem, active ? { backgroundColor: colors.surfaceAlt } : null])
           }
         >
-          <Icon name={item.icon} color={tint} />
+          {item.icon(tint)}
           <Text variant={navPlacement === 'bottom' ? 'caption' : 'label'} color={active ? colors.text : colors.textMuted}>
             {item.label}
           </Text>

@@ -1,6 +1,6 @@
 import Svg, { Circle, Path } from 'react-native-svg';
 
-export type IconName = 'campaigns' | 'account' | 'plus' | 'dive' | 'search';
+export type IconName = 'campaigns' | 'account' | 'plus' | 'dive' | 'search' | 'admin';
 
 /** Our own small line icons, drawn on a 24-unit grid. */
 export function Icon({ name, color, size = 22 }: { name: IconName; color: string; size?: number }) {
@@ -21,6 +21,7 @@ export function Icon({ name, color, size = 22 }: { name: IconName; color: string
         </>
       ) : null}
       {name === 'plus' ? <Path d="M12 5v14M5 12h14" {...common} /> : null}
+      {name === 'admin' ? <Path d="M12 3l8 3v6c0 4.5-3.4 7.8-8 9-4.6-1.2-8-4.5-8-9V6l8-3z M9 12l2 2 4-4" {...common} /> : null}
       {name === 'dive' ? <Path d="M4 4c2 6 4 10 8 12s6 2 8 4M12 16v4" {...common} /> : null}
       {name === 'search' ? (
         <>

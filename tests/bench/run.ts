@@ -2,6 +2,7 @@
  * `npm run bench`: the speed and memory figures. Each benchmark prints its numbers; none of
  * them asserts a time (machines differ), the targets are printed beside the figures.
  */
+import { benchLiveLoad } from './live-load';
 import { benchLogWrites } from './log-writes';
 import { benchTelemetryImport } from './telemetry-import';
 
@@ -9,6 +10,7 @@ async function main() {
   const only = process.argv[2];
   const benches: [string, () => Promise<void>][] = [
     ['log-writes', benchLogWrites],
+    ['live-load', benchLiveLoad],
     ['telemetry-import', benchTelemetryImport],
   ];
   for (const [name, run] of benches) {

@@ -1,0 +1,37 @@
+import { StyleSheet, View } from 'react-native';
+
+import { Button } from '@/components/ui/button';
+import { Text } from '@/components/ui/text';
+import { useTheme } from '@/hooks/theme';
+import type { Campaign } from '@/lib/schemas';
+import { radius, space } from '@/lib/tokens';
+import { roleDescriptions, roleWithArticle } from './roles';
+
+/** Shown once on arrival from an invitation link: where you are now and what you may do. */
+export function WelcomeNotice({ campaign, onDismiss }: { campaign: Campaign; onDismiss: () => void }) {
+  const { colors } = useTheme();
+  if (campaign.myRole === 'admin') return null;
+  return (
+    <View role="status" testID="welcome-notice" style={[styles.box, { borderColor: colors.success, backgroundColor: colors.surface }]}>
+      <View style={styles.text}>
+        <Text variant="title">{`You joined ${campaign.name} as ${roleWithArticle[campaign.myRole]}.`}</Text>
+        <Text muted>{roleDescriptions[campaign.myRole]}</Text>
+      </View>
+      <Button label="Got it" tone="secondary" compact testID="welcome-dismiss" onPress={onDismiss} />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: {
+    borderWidth: 1,
+    borderLeftWidth: 4,
+    borderRadius: radius.lg,
+    padding: space.lg,
+    gap: space.md,
+    flexDirection: 'row',
+    flexWrap: 'wrap',
+    alignItems: 'center',
+  },
+  text: { flex: 1, minWidth: 220, gap: space.xs },
+});

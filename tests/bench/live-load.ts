@@ -1,0 +1,147 @@
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+
+import autocannon from 'autocannon';
+import { hashPassword } from 'better-auth/crypto';
+import Database from 'better-sqlite3';
+
+import { openSse, type SseClient } from '../helpers/sse';
+import { startServerProcess } from '../helpers/server-process';
+
+const WRITERS = 20;
+const READERS = 200;
+const STEADY_S = 40;
+const BURST_S = 20;
+
+function percentile(values: number[], p: number): number {
+  if (values.length === 0) return NaN;
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!;
+}
+
+/** Peak and current resident memory of a process, from /proc (Linux). */
+function memoryOf(pid: number): { rssMb: number; peakMb: number } {
+  const status = readFileSync(`/proc/${pid}/status`, 'utf8');
+  const kb = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+)`).exec(status)?.[1] ?? NaN);
+  return { rssMb: kb('VmRSS') / 1024, peakMb: kb('VmHWM') / 1024 };
+}
+
+async function signIn(url: string, email: string, password: string): Promise<string> {
+  const res = await fetch(`${url}/api/auth/sign-in/email`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', origin: url },
+    body: JSON.stringify({ email, password }),
+  });
+  if (res.status !== 200) throw new Error(`sign-in ${email}: ${res.status}`);
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
+}
+
+/**
+ * 20 people log one dive (one entry each per 5 s, then a burst at ten times that) while 200
+ * readers ashore follow its live stream. The server runs in its own process, as in production.
+ */
+export async function benchLiveLoad(): Promise<void> {
+  const server = await startServerProcess({ LOG_LEVEL: 'silent', AUTH_RATE_LIMIT: '10000', API_RATE_LIMIT: '10000000' });
+  const readers: SseClient[] = [];
+  try {
+    const db = new Database(path.join(server.dir, 'bathynote.db'));
+    const campaignId = (db.prepare("select id from campaigns where name = 'Varn Shoal 2026'").get() as { id: string }).id;
+    const diveId = (db.prepare("select id from dives where number = 'VS-04'").get() as { id: string }).id;
+    const password = 'bench-writer-password';
+    const hash = await hashPassword(password);
+    const now = Date.now();
+    const insertUser = db.prepare("insert into user (id, name, email, email_verified, created_at, updated_at, role) values (?, ?, ?, 1, ?, ?, 'user')");
+    const insertAccount = db.prepare("insert into account (id, account_id, provider_id, user_id, password, created_at, updated_at) values (?, ?, 'credential', ?, ?, ?, ?)");
+    const insertMember = db.prepare("insert into memberships (campaign_id, user_id, role, created_at) values (?, ?, 'scientist', ?)");
+    const writerEmails: string[] = [];
+    for (let i = 0; i < WRITERS; i++) {
+      const id = crypto.randomUUID();
+      const email = `writer${i}@bathynote.test`;
+      insertUser.run(id, `Writer ${i}`, email, now, now);
+      insertAccount.run(crypto.randomUUID(), id, id, hash, now, now);
+      insertMember.run(campaignId, id, now);
+      writerEmails.push(email);
+    }
+    const firstEvent = (db.prepare('select coalesce(max(id), 0) as id from live_events').get() as { id: number }).id;
+
+    const writerCookies = await Promise.all(writerEmails.map((e) => signIn(server.url, e, password)));
+    const readerCookies = await Promise.all(
+      ['guest', 'lead', 'pilot', 'archaeologist', 'biologist'].map((who) => signIn(server.url, `${who}@bathynote.test`, 'bathynote-demo')),
+    );
+    const delays: number[] = [];
+    let received = 0;
+    for (let i = 0; i < READERS; i++) {
+      const reader = openSse(`${server.url}/api/dives/${diveId}/stream`, { cookie: readerCookies[i % readerCookies.length]! });
+      readers.push(reader);
+    }
+    await Promise.all(readers.map((r) => r.next((e) => e.event === 'ready', 30_000)));
+    // Each reader notes how long after its creation on the server an entry reached it.
+    const tally = setInterval(() => {
+      for (const r of readers) {
+        while (r.events.length > 0) {
+          const e = r.events.shift()!;
+          if (e.event !== 'observation.created') continue;
+          received++;
+          delays.push(Date.now() - Date.parse((JSON.parse(e.data) as { createdAt: string }).createdAt));
+        }
+      }
+    }, 5);
+
+    let peakMb = 0;
+    const sampler = setInterval(() => {
+      peakMb = Math.max(peakMb, memoryOf(server.child.pid!).rssMb);
+    }, 250);
+
+    let n = 0;
+    const phase = (rate: number, seconds: number) =>
+      autocannon({
+        url: `${server.url}/api/dives/${diveId}/observations`,
+        method: 'POST',
+        connections: WRITERS,
+        overallRate: rate,
+        duration: seconds,
+        headers: { 'content-type': 'application/json' },
+        setupClient: (client) => {
+          const index = n++ % WRITERS;
+          client.setHeaders({ 'content-type': 'application/json', cookie: writerCookies[index]! });
+        },
+        requests: [
+          {
+            setupRequest: (req) => ({
+              ...req,
+              body: JSON.stringify({ kind: 'biology', title: `Load entry ${Math.random().toString(36).slice(2, 8)}`, tags: ['coral'], note: 'Polyps *extended*.' }),
+            }),
+          },
+        ],
+      });
+    const steady = await phase(WRITERS / 5, STEADY_S);
+    const burst = await phase((WRITERS / 5) * 10, BURST_S);
+    await new Promise((r) => setTimeout(r, 2000));
+    clearInterval(sampler);
+    clearInterval(tally);
+
+    const sent = (db.prepare("select count(*) as n from live_events where id > ? and dive_id = ? and type = 'observation.created'").get(firstEvent, diveId) as { n: number }).n;
+    db.close();
+    const memory = memoryOf(server.child.pid!);
+    const expected = sent * READERS;
+    const line = (name: string, r: autocannon.Result) =>
+      `  ${name.padEnd(7)} ${(r.requests.total / r.duration).toFixed(1).padStart(6)} req/s   write p50 ${r.latency.p50} ms   p99 ${r.latency.p99} ms   max ${r.latency.max} ms   non-2xx ${r.non2xx}   errors ${r.errors + r.timeouts}`;
+    process.stdout.write(
+      [
+        `${WRITERS} writers (one entry each per 5 s for ${STEADY_S} s, then 10× for ${BURST_S} s), ${READERS} live readers, server in its own process`,
+        line('steady', steady),
+        line('burst', burst),
+        `  stream  delay p50 ${percentile(delays, 50)} ms   p99 ${percentile(delays, 99)} ms   max ${Math.max(...delays)} ms   (target p99 <= 250 ms; write target p99 <= 50 ms)`,
+        `  events  ${sent} entries published, ${received} of ${expected} deliveries received (${expected - received} lost)`,
+        `  memory  server rss ${memory.rssMb.toFixed(0)} MB now, peak ${Math.max(peakMb, memory.peakMb).toFixed(0)} MB`,
+        '',
+      ].join('\n'),
+    );
+  } finally {
+    for (const r of readers) r.close();
+    await server.stop();
+  }
+}
