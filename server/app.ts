@@ -6,6 +6,7 @@ import { CLIENT_IP_HEADER } from './auth';
 import type { AppContext } from './context';
 import { authHandler } from './middleware/auth-handler';
 import { apiNotFound, errorHandler } from './middleware/errors';
+import { serverTiming } from './middleware/timing';
 import { campaignRoutes } from './routes/campaigns';
 import { diveRoutes } from './routes/dives';
 import { observationRoutes } from './routes/observations';
@@ -52,6 +53,7 @@ export function createApp(ctx: AppContext): Express {
 
   // better-auth reads the client address from this header only; set it from the socket (or the
   // configured proxy) so that a forged X-Forwarded-For cannot dodge the sign-in rate limit.
+  app.use('/api', serverTiming);
   app.use('/api/auth', (req, _res, next) => {
     req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
     next();

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import type { Auth } from '../auth';
 import { ApiError } from '../errors';
 import { zodIssues } from './errors';
+import { sessionCacheFor, sessionCookieOf } from './session';
 
 const MAX_AUTH_BODY = 64 * 1024;
 
@@ -53,23 +54,19 @@ export function authHandler(auth: Auth, publicUrl: string, onSignedOut: (session
       new Request(url, { method: req.method, headers, body: body && body.length > 0 ? new Uint8Array(body) : undefined }),
     );
     if (pathname === '/api/auth/sign-out' && response.ok) {
-      const token = sessionTokenOf(req.headers.cookie);
-      if (token) onSignedOut(token);
+      const token = sessionCookieOf(req.headers.cookie)?.split('.')[0];
+      if (token) {
+        sessionCacheFor(auth).forgetToken(token);
+        onSignedOut(token);
+      }
+    } else if (req.method !== 'GET' && pathname !== '/api/auth/sign-in/email' && response.ok) {
+      // Bans, password changes and revoked sessions all come through here: check every session again.
+      sessionCacheFor(auth).clear();
     }
     await send(res, response);
   };
 }
 
-/** The session token inside better-auth's signed session cookie (`token.signature`). */
-function sessionTokenOf(cookieHeader: string | undefined): string | undefined {
-  for (const part of (cookieHeader ?? '').split(';')) {
-    const [name, ...rest] = part.trim().split('=');
-    if (name === 'better-auth.session_token' || name === '__Secure-better-auth.session_token') {
-      return decodeURIComponent(rest.join('=')).split('.')[0];
-    }
-  }
-  return undefined;
-}
 
 async function readBody(req: ExpressRequest): Promise<Buffer> {
   const chunks: Buffer[] = [];

@@ -1,8 +1,8 @@
-import { and, eq } from 'drizzle-orm';
+import { eq } from 'drizzle-orm';
 import type { Request, RequestHandler } from 'express';
 
 import type { Db } from '../../db/client';
-import { campaigns, dives, memberships, observations } from '../../db/schema';
+import { campaigns, dives, observations } from '../../db/schema';
 import type { CampaignRole } from '../../lib/schemas';
 import { forbidden, notFound } from '../errors';
 import { userOf } from './session';
@@ -39,13 +39,17 @@ export const byObservation: CampaignResolver = (db, req) => {
   return id ? db.select({ c: observations.campaignId }).from(observations).where(eq(observations.id, id)).get()?.c : undefined;
 };
 
+const roleStatements = new WeakMap<Db, { get(campaignId: string, userId: string): unknown }>();
+
+/** The caller's role in a campaign; asked on every request, so a prepared statement. */
 export function roleIn(db: Db, campaignId: string, user: { id: string; siteRole: string }): AccessRole | undefined {
-  const row = db
-    .select({ role: memberships.role })
-    .from(memberships)
-    .where(and(eq(memberships.campaignId, campaignId), eq(memberships.userId, user.id)))
-    .get();
-  if (row) return row.role;
+  let statement = roleStatements.get(db);
+  if (!statement) {
+    statement = db.$client.prepare('select role from memberships where campaign_id = ? and user_id = ?').pluck();
+    roleStatements.set(db, statement);
+  }
+  const role = statement.get(campaignId, user.id) as CampaignRole | undefined;
+  if (role) return role;
   return user.siteRole === 'admin' ? 'admin' : undefined;
 }
 

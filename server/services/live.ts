@@ -1,11 +1,22 @@
 import { EventEmitter } from 'node:events';
 
-import type { Db } from '../../db/client';
+import type { Db, Executor } from '../../db/client';
 import { liveEvents } from '../../db/schema';
 
 export type LiveEventType = 'observation.created' | 'observation.updated' | 'observation.retired' | 'dive.updated';
 
-export type LiveEvent = { id: number; campaignId: string; diveId: string; type: LiveEventType; payload: unknown; at: Date };
+export type LiveEvent = {
+  id: number;
+  campaignId: string;
+  diveId: string;
+  type: LiveEventType;
+  payload: unknown;
+  at: Date;
+  /** The event as one Server-Sent Events frame, written once however many readers there are. */
+  frame: string;
+};
+
+export const sseFrame = (id: number, type: string, payload: unknown) => `id: ${id}\nevent: ${type}\ndata: ${JSON.stringify(payload)}\n\n`;
 
 /**
  * The dive's live feed. Every change is written to `live_events` (so a reader who reconnects
@@ -20,11 +31,24 @@ export class LiveHub {
   }
 
   publish(campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at = new Date()): LiveEvent {
-    const row = this.db.insert(liveEvents).values({ campaignId, diveId, type, payload, at }).returning({ id: liveEvents.id }).get();
-    const event: LiveEvent = { id: row.id, campaignId, diveId, type, payload, at };
-    this.emitter.emit(`dive:${diveId}`, event);
-    this.emitter.emit('any', event);
+    const event = this.stage(this.db, campaignId, diveId, type, payload, at);
+    this.emit(event);
     return event;
+  }
+
+  /**
+   * Records an event inside the caller's transaction, so the change and its event are one commit
+   * (one disk flush). The caller hands it to `emit` once that transaction has committed, so no
+   * reader ever hears of a change that did not happen.
+   */
+  stage(db: Executor, campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at = new Date()): LiveEvent {
+    const row = db.insert(liveEvents).values({ campaignId, diveId, type, payload, at }).returning({ id: liveEvents.id }).get();
+    return { id: row.id, campaignId, diveId, type, payload, at, frame: sseFrame(row.id, type, payload) };
+  }
+
+  emit(event: LiveEvent): void {
+    this.emitter.emit(`dive:${event.diveId}`, event);
+    this.emitter.emit('any', event);
   }
 
   subscribe(diveId: string, listener: (e: LiveEvent) => void): () => void {

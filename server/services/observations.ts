@@ -144,9 +144,9 @@ export function observationsByIds(db: Executor, ids: string[]): Observation[] {
   return hydrate(db, db.select().from(observations).where(inArray(observations.id, ids)).all());
 }
 
-/** One observation with everything that hangs off it. */
-export function getObservationDetail(db: Executor, id: string): ObservationDetail | undefined {
-  const observation = getObservation(db, id);
+/** One observation with everything that hangs off it (reusing the observation when the caller has it). */
+export function getObservationDetail(db: Executor, id: string, known?: Observation): ObservationDetail | undefined {
+  const observation = known ?? getObservation(db, id);
   if (!observation) return undefined;
   const ident = db.select().from(identifications).where(eq(identifications.observationId, id)).get();
   const find = db.select().from(finds).where(eq(finds.observationId, id)).get();
@@ -362,22 +362,22 @@ export function stampValues(db: Db, diveId: string, at: Date, typed: Typed) {
 }
 
 /** The entry as history keeps it: everything but photos and custody, which have their own records. */
-function snapshotOf(db: Executor, id: string): Record<string, unknown> {
-  const { photos: _photos, custody: _custody, ...rest } = getObservationDetail(db, id)!;
+function snapshotOf(db: Executor, observation: Observation): Record<string, unknown> {
+  const detail = getObservationDetail(db, observation.id, observation)!;
+  const { photos: _photos, custody: _custody, ...rest } = detail;
   return rest;
 }
 
-function writeRevision(db: Executor, id: string, version: number, action: Revision['action'], actorId: string, at: Date) {
-  db.insert(observationRevisions)
-    .values({ observationId: id, version, action, snapshot: snapshotOf(db, id), editedBy: actorId, editedAt: at })
-    .run();
+function writeRevision(db: Executor, snapshot: Record<string, unknown> & { id: string }, version: number, action: Revision['action'], actorId: string, at: Date) {
+  db.insert(observationRevisions).values({ observationId: snapshot.id, version, action, snapshot, editedBy: actorId, editedAt: at }).run();
 }
 
 /**
  * Bumps an entry's version and records the revision. Every change to an entry or its
- * identification or find goes through here, inside the change's own transaction.
+ * identification or find goes through here, inside the change's own transaction; it answers the
+ * entry as it now stands.
  */
-export function recordChange(db: Executor, id: string, actorId: string, action: Revision['action'], at = new Date()): number {
+export function recordChange(db: Executor, id: string, actorId: string, action: Revision['action'], at = new Date()): Observation {
   const row = db
     .update(observations)
     .set({ version: sql`${observations.version} + 1`, updatedAt: at })
@@ -385,8 +385,9 @@ export function recordChange(db: Executor, id: string, actorId: string, action: 
     .returning({ version: observations.version })
     .get();
   if (!row) throw new ApiError(404, 'not_found', 'Not found');
-  writeRevision(db, id, row.version, action, actorId, at);
-  return row.version;
+  const observation = getObservation(db, id)!;
+  writeRevision(db, { ...snapshotOf(db, observation), id }, row.version, action, actorId, at);
+  return observation;
 }
 
 export function createObservation(
@@ -426,11 +427,13 @@ export function createObservation(
       .returning({ id: observations.id })
       .get();
     setTags(tx, row.id, target.campaignId, input.tags);
-    writeRevision(tx, row.id, 1, 'created', target.authorId, now);
-    return getObservation(tx, row.id)!;
+    const observation = getObservation(tx, row.id)!;
+    // A new entry has no identification, find, photos or custody yet.
+    writeRevision(tx, { ...observation, identificationDetail: null, find: null }, 1, 'created', target.authorId, now);
+    return { observation, event: live.stage(tx, target.campaignId, target.diveId, 'observation.created', observation, now) };
   });
-  live.publish(target.campaignId, target.diveId, 'observation.created', created);
-  return { observation: created, repeated: false };
+  live.emit(created.event);
+  return { observation: created.observation, repeated: false };
 }
 
 /** Only the author and the campaign's leads change or retire an entry. */
@@ -480,8 +483,7 @@ export function updateObservation(db: Db, live: LiveHub, id: string, actor: Acto
       .where(eq(observations.id, id))
       .run();
     if (input.tags) setTags(tx, id, row.campaignId, input.tags);
-    recordChange(tx, id, actor.userId, 'updated', now);
-    return getObservation(tx, id)!;
+    return recordChange(tx, id, actor.userId, 'updated', now);
   });
   live.publish(updated.campaignId, updated.diveId, 'observation.updated', updated);
   return updated;
@@ -494,8 +496,7 @@ export function retireObservation(db: Db, live: LiveHub, id: string, actor: Acto
     assertMayEdit(row, actor, 'retire this entry');
     if (row.retired) return getObservation(tx, id)!;
     tx.update(observations).set({ retired: true }).where(eq(observations.id, id)).run();
-    recordChange(tx, id, actor.userId, 'retired', now);
-    return getObservation(tx, id)!;
+    return recordChange(tx, id, actor.userId, 'retired', now);
   });
   live.publish(retired.campaignId, retired.diveId, 'observation.retired', {
     id: retired.id,
@@ -511,8 +512,7 @@ export function restoreObservation(db: Db, live: LiveHub, id: string, actor: Act
     if (!row) throw new ApiError(404, 'not_found', 'Not found');
     if (!row.retired) return getObservation(tx, id)!;
     tx.update(observations).set({ retired: false }).where(eq(observations.id, id)).run();
-    recordChange(tx, id, actor.userId, 'restored', now);
-    return getObservation(tx, id)!;
+    return recordChange(tx, id, actor.userId, 'restored', now);
   });
   live.publish(restored.campaignId, restored.diveId, 'observation.created', restored);
   return restored;

@@ -11,7 +11,7 @@ import {
 } from '../../lib/schemas';
 import { ApiError, conflict } from '../errors';
 import type { LiveHub } from './live';
-import { getObservation, getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
+import { getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
 
 function loadLive(db: Executor, id: string) {
   const row = getObservationRow(db, id);
@@ -21,9 +21,10 @@ function loadLive(db: Executor, id: string) {
 }
 
 function announce(db: Db, live: LiveHub, id: string): ObservationDetail {
-  const observation = getObservation(db, id)!;
+  const detail = getObservationDetail(db, id)!;
+  const { photos: _photos, identificationDetail: _identification, find: _find, custody: _custody, ...observation } = detail;
   live.publish(observation.campaignId, observation.diveId, 'observation.updated', observation);
-  return getObservationDetail(db, id)!;
+  return detail;
 }
 
 /**

@@ -5,14 +5,13 @@ import { liveEvents, session } from '../../db/schema';
 import type { AppContext } from '../context';
 import { accessOf, roleIn } from '../middleware/campaign-access';
 import { userOf } from '../middleware/session';
-import type { LiveEvent } from './live';
+import { sseFrame } from './live';
 
 /** More missed events than this and the reader is told to reload instead. */
 const REPLAY_LIMIT = 2000;
 /** A reader that stops reading is cut off before its buffer grows without bound. */
 const MAX_BUFFERED_BYTES = 4 * 1024 * 1024;
 
-const frame = (e: Pick<LiveEvent, 'id' | 'type' | 'payload'>) => `id: ${e.id}\nevent: ${e.type}\ndata: ${JSON.stringify(e.payload)}\n\n`;
 
 /**
  * `GET /api/dives/:diveId/stream`: the dive's changes as Server-Sent Events. A reconnect with
@@ -58,7 +57,7 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
         .limit(REPLAY_LIMIT + 1)
         .all();
       if (missed.length > REPLAY_LIMIT) send(`event: resync\ndata: {}\n\n`);
-      else for (const e of missed) send(frame({ id: e.id, type: e.type as LiveEvent['type'], payload: e.payload }));
+      else for (const e of missed) send(sseFrame(e.id, e.type, e.payload));
     } else {
       send(`event: ready\ndata: {}\n\n`);
     }
@@ -69,7 +68,7 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
       return !!s && s.expiresAt > new Date() && !!roleIn(db, campaignId, user);
     };
 
-    cleanups.push(live.subscribe(diveId, (e) => send(frame(e))));
+    cleanups.push(live.subscribe(diveId, (e) => send(e.frame)));
     cleanups.push(
       live.onSessionEnded((ended) => {
         if (ended === token) close();

@@ -384,3 +384,10 @@ describe('logging an observation', () => {
     expect(row).toEqual([]);
   });
 });
+
+describe('timing', () => {
+  it('tells how long the server took, apart from the link', async () => {
+    const res = await (await t.signIn(emails.biologist)).get(`/api/dives/${ids.dive2026}/observations`);
+    expect(res.headers['server-timing']).toMatch(/^app;dur=\d+(\.\d)?$/);
+  });
+});

@@ -32,7 +32,7 @@ export async function startServerProcess(
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   let log = '';
-  const child = spawn(process.execPath, ['--import', 'tsx', options.script ?? 'server/index.ts'], {
+  const child = spawn(process.execPath, [...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []), '--import', 'tsx', options.script ?? 'server/index.ts'], {
     cwd: root,
     env: {
       ...process.env,
