@@ -169,6 +169,52 @@ describe('a good log', () => {
     expect(stored().map((s) => s.depth)).toEqual([10, 11, 12]);
   });
 
+  it('reads a log the same whether or not it has quoted fields (line splitting or the full CSV parser)', async () => {
+    const lines = [
+      '# exported by the vehicle, comment lines and blank lines count as lines',
+      'time,depth_m,note',
+      '2026-05-13T18:00:00Z,10,start',
+      '',
+      '2026-05-13T18:00:01Z,abc,x',
+      '# a comment in the middle',
+      '2026-05-13T18:00:02Z,12',
+      '2026-05-13T18:00:03Z,13,end',
+    ];
+    const plain = await imported(Buffer.from(`\uFEFF${lines.join('\r\n')}\r\n`, 'utf8'));
+    const stripVolatile = (r: typeof plain) => ({ ...r, importId: '', importedAt: '', samplesBefore: 0, stamped: null });
+    // A quoted note holding the delimiter and a line end: only a CSV parser reads it as one field.
+    const quotedLines = [...lines.slice(0, 2), '2026-05-13T18:00:00Z,10,"start, with a comma"', ...lines.slice(3)];
+    quotedLines.splice(quotedLines.length - 1, 1, '2026-05-13T18:00:03Z,13,"end"');
+    const quoted = await imported(Buffer.from(`\uFEFF${quotedLines.join('\r\n')}\r\n`, 'utf8'));
+    expect(stripVolatile(quoted)).toEqual(stripVolatile(plain));
+    expect(plain.rowsTaken).toBe(2);
+    expect(plain.rejected.map((r) => [r.line, r.code])).toEqual([
+      [5, 'bad-number'],
+      [7, 'field-count'],
+    ]);
+    expect(stored().map((s) => s.depth)).toEqual([10, 13]);
+
+    // A field quoted across a line end is one record ending on the later line.
+    const multiline = await imported(Buffer.from('time,depth_m,note\n2026-05-13T18:00:00Z,10,"two\nlines"\n2026-05-13T18:00:01Z,11,x\n'));
+    expect(multiline).toMatchObject({ rowsTaken: 2, rowsRejected: 0 });
+  });
+
+  it('rejects an unquoted line longer than 64 KiB, and refuses a log whose quoted field runs past it', async () => {
+    const long = 'x'.repeat(70 * 1024);
+    const log = (note: string) =>
+      Buffer.from(`time,depth_m,note\n2026-05-13T18:00:00Z,10,a\n2026-05-13T18:00:01Z,11,${note}\n2026-05-13T18:00:02Z,12,b\n`);
+    const report = await imported(log(long));
+    expect(report.rowsTaken).toBe(2);
+    expect(report.rejected.map((r) => [r.line, r.code])).toEqual([[3, 'bad-csv']]);
+
+    // A quote never closed swallows the rest of the file; the import stops rather than take half.
+    const before = stored();
+    const res = await upload(log(`"${long}`));
+    expect(res.status).toBe(400);
+    expect(res.body.error).toMatchObject({ code: 'record_too_long', message: expect.stringMatching(/Line 3 .*nothing was imported/) });
+    expect(stored()).toEqual(before);
+  });
+
   describe('depth from pressure', () => {
     const setDatumLat = (lat: number) => t.ctx.db.update(campaigns).set({ datumLat: lat }).where(eq(campaigns.id, ids.campaign2026)).run();
 
