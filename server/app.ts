@@ -6,6 +6,7 @@ import { CLIENT_IP_HEADER } from './auth';
 import type { AppContext } from './context';
 import { authHandler } from './middleware/auth-handler';
 import { apiNotFound, errorHandler } from './middleware/errors';
+import { sameOrigin } from './middleware/same-origin';
 import { serverTiming } from './middleware/timing';
 import { campaignRoutes } from './routes/campaigns';
 import { diveRoutes } from './routes/dives';
@@ -63,6 +64,7 @@ export function createApp(ctx: AppContext): Express {
     authHandler(auth, env.PUBLIC_URL, (token) => ctx.live.endSession(token)),
   );
 
+  app.use('/api', sameOrigin(env.PUBLIC_URL));
   app.use('/api', express.json({ limit: '256kb' }));
   app.use(
     '/api',

@@ -1,5 +1,8 @@
+import { createHash, randomBytes } from 'node:crypto';
+
 import { betterAuth } from 'better-auth';
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
+import { APIError } from 'better-auth/api';
 import { admin, magicLink } from 'better-auth/plugins';
 
 import type { Db } from '../db/client';
@@ -16,24 +19,46 @@ export const INVITATION_LINK_SECONDS = 72 * 60 * 60;
  * Magic links are sent for invitations only. The invitation service registers the mail to send
  * for an address just before it asks better-auth for a link; a link asked for any other address
  * is never mailed, so nobody who was not invited can get in that way.
+ *
+ * Each link's token starts with its invitation's id, and the stored key keeps that id in the clear
+ * beside the hash of the whole token, so that resending or revoking an invitation can delete its
+ * earlier link (`forgetInvitationLinks`) while links of the same address to other campaigns stay.
  */
 export class MagicLinkPostbox {
-  private readonly expected = new Map<string, (url: string) => Promise<void>>();
+  private readonly expected = new Map<string, { linkKey: string; send: (url: string) => Promise<void> }>();
 
   async deliver(email: string, url: string): Promise<void> {
-    const send = this.expected.get(email.toLowerCase());
-    if (send) await send(url);
+    const entry = this.expected.get(email.toLowerCase());
+    if (entry) await entry.send(url);
   }
 
-  async expect<T>(email: string, send: (url: string) => Promise<void>, run: () => Promise<T>): Promise<T> {
+  /** A fresh token for a link to `email`, prefixed with the key its invitation registered. */
+  tokenFor(email: string): string {
+    const key = this.expected.get(email.toLowerCase())?.linkKey ?? 'none';
+    return `${key}.${randomBytes(32).toString('base64url')}`;
+  }
+
+  async expect<T>(email: string, linkKey: string, send: (url: string) => Promise<void>, run: () => Promise<T>): Promise<T> {
     const key = email.toLowerCase();
-    this.expected.set(key, send);
+    this.expected.set(key, { linkKey, send });
     try {
       return await run();
     } finally {
       this.expected.delete(key);
     }
   }
+}
+
+/** What is stored of a link's token: its invitation key and the SHA-256 of the whole token. */
+export function storedLinkKey(token: string): string {
+  const dot = token.indexOf('.');
+  const key = dot > 0 ? token.slice(0, dot).replace(/[^A-Za-z0-9-]/g, '') : 'none';
+  return `${key}:${createHash('sha256').update(token).digest('base64url')}`;
+}
+
+/** Deletes every sign-in link made for an invitation, so an older mail's link stops working. */
+export function forgetInvitationLinks(db: Db, invitationId: string): void {
+  db.$client.prepare("delete from verification where identifier like 'magic-link:' || ? || ':%'").run(invitationId);
 }
 
 /**
@@ -112,13 +137,29 @@ export function createAuth(env: Env, db: Db, postbox: MagicLinkPostbox) {
       defaultCookieAttributes: { httpOnly: true, sameSite: 'lax' },
     },
     telemetry: { enabled: false },
+    databaseHooks: {
+      user: {
+        create: {
+          // A link makes an account only while its invitation is open (links are deleted on revoke
+          // and resend; this holds even if one were left behind).
+          before: (candidate, ctx) => {
+            if (ctx?.path !== '/magic-link/verify') return Promise.resolve();
+            const open = db.$client
+              .prepare("select 1 from invitations where email = lower(?) and status = 'pending' and expires_at > ?")
+              .get(candidate.email, Date.now());
+            if (!open) throw new APIError('FORBIDDEN', { code: 'INVITATION_CLOSED', message: 'No open invitation for this address.' });
+            return Promise.resolve();
+          },
+        },
+      },
+    },
     plugins: [
       admin({ defaultRole: 'user', adminRoles: ['admin'] }),
       magicLink({
         expiresIn: INVITATION_LINK_SECONDS,
         // Only the hash of the token is kept; the link itself lives only in the mail.
-        storeToken: 'hashed',
-        allowedAttempts: 1,
+        generateToken: (email) => postbox.tokenFor(email),
+        storeToken: { type: 'custom-hasher', hash: (token) => Promise.resolve(storedLinkKey(token)) },
         sendMagicLink: ({ email, url }) => postbox.deliver(email, url),
       }),
     ],
@@ -128,7 +169,7 @@ export function createAuth(env: Env, db: Db, postbox: MagicLinkPostbox) {
 export type Auth = ReturnType<typeof createAuth>;
 
 /** The page may be opened as localhost or 127.0.0.1 at the same port; both are this server. */
-function trustedOriginsFor(origin: URL): string[] {
+export function trustedOriginsFor(origin: URL): string[] {
   const origins = new Set([origin.origin]);
   if (origin.hostname === '127.0.0.1' || origin.hostname === 'localhost') {
     for (const host of ['127.0.0.1', 'localhost']) {

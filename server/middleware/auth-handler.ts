@@ -67,7 +67,6 @@ export function authHandler(auth: Auth, publicUrl: string, onSignedOut: (session
   };
 }
 
-
 async function readBody(req: ExpressRequest): Promise<Buffer> {
   const chunks: Buffer[] = [];
   let size = 0;
@@ -98,6 +97,17 @@ async function send(res: ExpressResponse, response: Response) {
       });
       return;
     }
+  }
+  if (response.status >= 400 && !(response.headers.get('content-type') ?? '').includes('json')) {
+    // better-auth answers an unknown path with an empty page; the API answers in its own shape.
+    res.removeHeader('content-type');
+    res.json({
+      error:
+        response.status === 404
+          ? { code: 'not_found', message: 'There is no such API route.' }
+          : { code: 'auth_error', message: text.trim() === '' ? 'Sign-in failed.' : text.slice(0, 200) },
+    });
+    return;
   }
   res.send(text);
 }

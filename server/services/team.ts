@@ -9,7 +9,7 @@ import {
   type CampaignRole,
   type Invitation,
 } from '../../lib/schemas';
-import { INVITATION_LINK_SECONDS } from '../auth';
+import { forgetInvitationLinks, INVITATION_LINK_SECONDS } from '../auth';
 import type { AppContext } from '../context';
 import { ApiError, conflict } from '../errors';
 import { audit } from './audit';
@@ -66,8 +66,11 @@ async function sendInvitation(ctx: AppContext, row: InvitationRow, inviter: Acto
   const campaign = ctx.db.select({ name: campaigns.name }).from(campaigns).where(eq(campaigns.id, row.campaignId)).get();
   const base = ctx.env.PUBLIC_URL;
   const callbackURL = `${base}/api/invitations/${row.id}/accept`;
+  // A resend replaces the earlier link: only the newest mail's link works.
+  forgetInvitationLinks(ctx.db, row.id);
   await ctx.postbox.expect(
     row.email,
+    row.id,
     async (url) => {
       const mail = renderMail('invitation', `${inviter.name} invites you to ${campaign?.name ?? 'a campaign'} in Bathynote`, {
         greeting: name ? ` ${name}` : '',
@@ -150,7 +153,10 @@ export function revokeInvitation(ctx: AppContext, id: string, actorId: string): 
   const row = invitationById(ctx, id);
   if (!row) throw new ApiError(404, 'not_found', 'Not found');
   if (row.status === 'accepted') throw conflict('invitation_accepted', 'This invitation was already accepted; remove the member instead.');
-  ctx.db.update(invitations).set({ status: 'revoked' }).where(eq(invitations.id, id)).run();
+  ctx.db.transaction(() => {
+    ctx.db.update(invitations).set({ status: 'revoked' }).where(eq(invitations.id, id)).run();
+    forgetInvitationLinks(ctx.db, id);
+  });
   audit(ctx.db, { campaignId: row.campaignId, actorId, action: 'invitation.revoked', target: id });
   return listInvitations(ctx, row.campaignId).find((i) => i.id === id)!;
 }

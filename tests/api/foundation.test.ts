@@ -28,10 +28,12 @@ describe('health and the error shape', () => {
 
   it('answers an unknown API route with a JSON 404, never the web page', async () => {
     for (const agent of [t.anonymous(), await t.signIn(emails.biologist)]) {
-      const res = await agent.get('/api/no-such-thing');
-      expect(res.status).toBe(404);
-      expect(res.headers['content-type']).toMatch(/json/);
-      expect(res.body.error.code).toBe('not_found');
+      for (const path of ['/api/no-such-thing', '/api/auth/no-such-thing']) {
+        const res = await agent.get(path);
+        expect(res.status, path).toBe(404);
+        expect(res.headers['content-type'], path).toMatch(/json/);
+        expect(res.body.error.code, path).toBe('not_found');
+      }
     }
   });
 
@@ -116,6 +118,30 @@ describe('sign-in', () => {
       .set('Origin', 'https://evil.example')
       .send({ email: emails.guest, password: 'bathynote-demo' });
     expect(res.status).toBe(403);
+  });
+
+  it('refuses a change posted from another site to any API route, and nothing is stored', async () => {
+    const agent = await t.signIn(emails.biologist);
+    const path = `/api/dives/${ids.dive2026}/observations`;
+    const count = async () => observationPageSchema.parse((await agent.get(`${path}?limit=200`)).body).items.length;
+    const before = await count();
+    const body = { kind: 'biology', title: 'Posted from elsewhere' };
+    // Another port of the same host still gets the SameSite=Lax cookie; its Origin gives it away.
+    for (const origin of ['https://evil.example', 'http://localhost:1']) {
+      const res = await agent.post(path).set('Origin', origin).send(body);
+      expect(res.status, origin).toBe(403);
+      expect(res.body.error.code).toBe('foreign_origin');
+    }
+    const noOrigin = await agent.post(path).set('Sec-Fetch-Site', 'same-site').send(body);
+    expect(noOrigin.status).toBe(403);
+    expect(await count()).toBe(before);
+
+    const here = await agent.post(path).set('Origin', t.url).send({ ...body, title: 'Posted here' });
+    const hereToo = await agent.post(path).set('Sec-Fetch-Site', 'same-origin').send({ ...body, title: 'Posted here too' });
+    expect([here.status, hereToo.status]).toEqual([201, 201]);
+    expect((await agent.get(path).set('Origin', 'https://evil.example')).status).toBe(200);
+    // Leave the dive as the other tests know it.
+    for (const res of [here, hereToo]) expect((await agent.delete(`/api/observations/${res.body.id}`).set('Origin', t.url)).status).toBe(200);
   });
 
   it('signs out: the old cookie then gets 401', async () => {

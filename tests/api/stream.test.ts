@@ -107,26 +107,6 @@ describe('the live dive log', () => {
     expect(await again.status).toBe(401);
   });
 
-  it('closes the stream of a member removed from the campaign', async () => {
-    const cookie = await t.sessionCookie(emails.pilot);
-    const reader = openSse(streamUrl(), { cookie });
-    await reader.next((e) => e.event === 'ready');
-    const pilotId = ids.userId(emails.pilot);
-    const membership = t.ctx.db.$client
-      .prepare('select * from memberships where campaign_id = ? and user_id = ?')
-      .get(ids.campaign2026, pilotId) as Record<string, unknown>;
-    t.ctx.db.$client.prepare('delete from memberships where campaign_id = ? and user_id = ?').run(ids.campaign2026, pilotId);
-    try {
-      t.ctx.live.membershipChanged(ids.campaign2026, pilotId);
-      await reader.ended;
-      expect(await openSse(streamUrl(), { cookie }).status).toBe(404);
-    } finally {
-      t.ctx.db.$client
-        .prepare('insert into memberships (campaign_id, user_id, role, created_at) values (?, ?, ?, ?)')
-        .run(membership.campaign_id, membership.user_id, membership.role, membership.created_at);
-    }
-  });
-
   it('notices a session revoked elsewhere at the next heartbeat', async () => {
     const cookie = await t.sessionCookie(emails.guest);
     const reader = openSse(streamUrl(), { cookie });
@@ -134,5 +114,27 @@ describe('the live dive log', () => {
     const token = decodeURIComponent(cookie.split('=')[1]!).split('.')[0];
     t.ctx.db.$client.prepare('delete from session where token = ?').run(token);
     await reader.ended;
+  });
+});
+
+describe('a member removed while following a dive', () => {
+  // The longest heartbeat allowed, far beyond the test's length: only the removal itself can close the stream.
+  let quiet: TestServer;
+  beforeAll(async () => {
+    quiet = await startTestServer({ env: { STREAM_HEARTBEAT_MS: '25000' } });
+  });
+  afterAll(() => quiet.close());
+
+  it('has their stream closed by the lead removing them, and cannot open it again', async () => {
+    const qids = demoIds(quiet.ctx.db);
+    const url = `${quiet.url}/api/dives/${qids.dive2026}/stream`;
+    const cookie = await quiet.sessionCookie(emails.pilot);
+    const reader = openSse(url, { cookie });
+    await reader.next((e) => e.event === 'ready');
+    const lead = await quiet.signIn(emails.lead);
+    const removed = await lead.delete(`/api/campaigns/${qids.campaign2026}/members/${qids.userId(emails.pilot)}`).set('Origin', quiet.url);
+    expect(removed.status).toBe(200);
+    await reader.ended;
+    expect(await openSse(url, { cookie }).status).toBe(404);
   });
 });

@@ -134,7 +134,45 @@ describe('inviting a guest scientist', () => {
     const link = linkIn((await mailTo('revoked@bathynote.test')).text);
     expect((await lead.delete(`/api/invitations/${res.body.id}`)).body.status).toBe('revoked');
     const hop = await follow(link);
-    expect(hop.last.location).toBe('/invitation-problem?reason=revoked');
+    expect(new URL(hop.last.location!, t.url).pathname).toBe('/invitation-problem');
+    expect(hop.cookie).toBe('');
+    expect(t.ctx.db.$client.prepare("select count(*) from user where email = 'revoked@bathynote.test'").pluck().get()).toBe(0);
+  });
+
+  it('makes an earlier link stop working when an invitation is resent, leaving other invitations’ links alone', async () => {
+    const lead = await t.signIn(emails.lead);
+    const email = 'resent@bathynote.test';
+    const first = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' });
+    const other = await lead.post(`/api/campaigns/${ids.campaign2024}/invitations`).send({ email, role: 'scientist' });
+    expect([first.status, other.status]).toEqual([201, 201]);
+    const mails = () => outbox().then((all) => all.filter((m) => m.to.includes(email)));
+    const [otherMail, firstMail] = await mails();
+    expect((await lead.post(`/api/invitations/${first.body.id}/resend`)).status).toBe(200);
+    const resentMail = (await mails())[0]!;
+
+    const old = await follow(linkIn(firstMail!.text));
+    expect(new URL(old.last.location!, t.url).pathname).toBe('/invitation-problem');
+    expect(old.cookie).toBe('');
+    expect(t.ctx.db.$client.prepare('select count(*) from user where email = ?').pluck().get(email)).toBe(0);
+
+    const fresh = await follow(linkIn(resentMail.text));
+    expect(fresh.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
+    const joined = await follow(linkIn(otherMail!.text));
+    expect(joined.last.location).toBe(`/campaigns/${ids.campaign2024}?welcome=1`);
+  });
+
+  it('makes no account from a link whose invitation closed, even if the link were left behind', async () => {
+    const lead = await t.signIn(emails.lead);
+    const email = 'left-behind@bathynote.test';
+    const res = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' });
+    const link = linkIn((await mailTo(email)).text);
+    // Close the invitation behind the service's back, leaving its link in place.
+    t.ctx.db.$client.prepare("update invitations set status = 'revoked' where id = ?").run(res.body.id);
+    const hop = await follow(link);
+    const landed = new URL(hop.last.location!, t.url);
+    expect([landed.pathname, landed.searchParams.get('error')]).toEqual(['/invitation-problem', 'INVITATION_CLOSED']);
+    expect(hop.cookie).toBe('');
+    expect(t.ctx.db.$client.prepare('select count(*) from user where email = ?').pluck().get(email)).toBe(0);
   });
 
   it.each([
