@@ -204,3 +204,23 @@ export function instantFromTimecode(label: string, recordingStartMs: number, rat
   const offsetMs = (frames.value * r.den * 1000) / r.num;
   return { ok: true, value: Math.ceil(recordingStartMs + offsetMs) };
 }
+
+/** Whether a name is one of the {@link FRAME_RATES} presets. */
+export const isFrameRateName = (name: string): name is FrameRateName => Object.prototype.hasOwnProperty.call(FRAME_RATES, name);
+
+/**
+ * The instant (ISO 8601 UTC) a typed time code names on a recording that started at `startAt`
+ * with the preset `frameRate`, or a message saying why it names none.
+ */
+export function instantOfRecordingTimecode(
+  recording: { startAt: string | null; frameRate: string | null },
+  label: string,
+): { ok: true; iso: string } | { ok: false; message: string } {
+  const { startAt, frameRate } = recording;
+  const start = startAt ? Date.parse(startAt) : Number.NaN;
+  if (!frameRate || !isFrameRateName(frameRate) || !Number.isFinite(start)) {
+    return { ok: false, message: 'Set the recording start and frame rate on the dive first.' };
+  }
+  const result = instantFromTimecode(label.trim(), start, FRAME_RATES[frameRate]);
+  return result.ok ? { ok: true, iso: new Date(result.value).toISOString() } : { ok: false, message: result.message };
+}

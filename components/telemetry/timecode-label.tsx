@@ -1,13 +1,11 @@
 import { Text } from '@/components/ui/text';
 import type { Dive } from '@/lib/schemas';
-import { FRAME_RATES, timecodeAt, type FrameRateName } from '@/lib/timecode';
-
-const isFrameRate = (name: string): name is FrameRateName => Object.prototype.hasOwnProperty.call(FRAME_RATES, name);
+import { FRAME_RATES, isFrameRateName, timecodeAt, type FrameRateName } from '@/lib/timecode';
 
 /** The video time code of the frame on screen at an instant, once the dive's recording clock is set. */
 export function timecodeOf(dive: Pick<Dive, 'recording'>, observedAt: string): { label: string | null; rate: FrameRateName } | null {
   const { startAt, frameRate } = dive.recording;
-  if (!startAt || !frameRate || !isFrameRate(frameRate)) return null;
+  if (!startAt || !frameRate || !isFrameRateName(frameRate)) return null;
   const at = Date.parse(observedAt);
   const start = Date.parse(startAt);
   if (!Number.isFinite(at) || !Number.isFinite(start)) return null;

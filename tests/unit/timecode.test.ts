@@ -4,6 +4,7 @@ import {
   FRAME_RATES,
   framesToTimecode,
   instantFromTimecode,
+  instantOfRecordingTimecode,
   timecodeAt,
   timecodeToFrames,
   type FrameRate,
@@ -225,6 +226,19 @@ describe('wall clock ↔ time code', () => {
     expect(instantFromTimecode('00:10:00;00', START, DF2997)).toEqual({ ok: true, value: START + 600_000 });
     // 25 frames at 25 fps = exactly 1 s (computed by hand)
     expect(instantFromTimecode('00:00:01:00', START, FRAME_RATES['25'])).toEqual({ ok: true, value: START + 1000 });
+  });
+
+  it('reads a typed time code against a dive recording, or says why it cannot', () => {
+    const startAt = new Date(START).toISOString();
+    // Same arithmetic as above: 01:00:00;00 at 29.97 drop-frame is 3 599 997 ms in (computed by hand).
+    expect(instantOfRecordingTimecode({ startAt, frameRate: '29.97 DF' }, ' 01:00:00;00 ')).toEqual({
+      ok: true,
+      iso: new Date(START + 3_599_997).toISOString(),
+    });
+    expect(instantOfRecordingTimecode({ startAt: null, frameRate: '25' }, '00:00:01:00')).toMatchObject({ ok: false, message: /recording start/ });
+    expect(instantOfRecordingTimecode({ startAt, frameRate: '48' }, '00:00:01:00')).toMatchObject({ ok: false });
+    // 00:01:00;00 does not exist at 29.97 drop-frame: frames 0 and 1 of minute 1 are skipped (SMPTE ST 12-1).
+    expect(instantOfRecordingTimecode({ startAt, frameRate: '29.97 DF' }, '00:01:00;00')).toMatchObject({ ok: false });
   });
 
   it('passes on label errors', () => {
