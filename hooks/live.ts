@@ -65,7 +65,8 @@ export function useDiveLive(diveId: string | undefined, holdNew: () => boolean) 
       setHeld((h) => h.map((x) => (x.id === o.id ? o : x)));
       if (inCache(qc, o) || !hold.current()) mergeIntoDiveLogs(qc, o);
       void qc.invalidateQueries({ queryKey: observationKeys.detail(o.id) });
-      // Photo counts change with uploads: an open gallery of the dive looks again.
+      // The entry's photos may be what changed (added, captioned, moved, retired): the detail above
+      // fetches them again, and so does an open gallery of the dive.
       void qc.invalidateQueries({ queryKey: photoKeys.galleries(o.diveId) });
     });
     on('observation.retired', (data) => {

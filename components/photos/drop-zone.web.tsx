@@ -20,16 +20,24 @@ export function DropZone({
   const { colors } = useTheme();
   const [over, setOver] = useState(false);
   if (!enabled) return <>{children}</>;
+  // Both dragenter and dragover must be cancelled for the zone to count as a drop target
+  // (HTML drag-and-drop model); otherwise a browser may send the drop to the page instead.
+  const accept = (e: DragEvent) => {
+    if (!carriesFiles(e)) return;
+    e.preventDefault();
+    e.dataTransfer.dropEffect = 'copy';
+    setOver(true);
+  };
   return (
     <div
       data-testid="photo-drop-zone"
-      onDragOver={(e) => {
-        if (!carriesFiles(e)) return;
-        e.preventDefault();
-        e.dataTransfer.dropEffect = 'copy';
-        setOver(true);
+      onDragEnter={accept}
+      onDragOver={accept}
+      onDragLeave={(e) => {
+        // Moving onto a button or text inside the zone is not leaving it.
+        if (e.relatedTarget instanceof Node && e.currentTarget.contains(e.relatedTarget)) return;
+        setOver(false);
       }}
-      onDragLeave={() => setOver(false)}
       onDrop={(e) => {
         if (!carriesFiles(e)) return;
         e.preventDefault();

@@ -23,7 +23,9 @@ export function photoRoutes({ db, auth, env, live }: AppContext): Router {
   const signedIn = requireSession(auth);
   const photoMember: RequestHandler[] = [signedIn, requireCampaignRole(db, byPhoto)];
 
-  // Tell the dive's readers that an entry's photos changed, so counts and strips refresh.
+  // Tell the dive's readers that an entry's photos changed (added, captioned, moved, retired), so
+  // counts, strips and galleries refresh. Called once the change is committed. It lives here
+  // rather than in the photo service because observations.ts already imports that service.
   const announce = (observationId: string) => {
     const observation = getObservation(db, observationId);
     if (observation) live.publish(observation.campaignId, observation.diveId, 'observation.updated', observation);
@@ -60,7 +62,9 @@ export function photoRoutes({ db, auth, env, live }: AppContext): Router {
   });
 
   r.patch('/photos/:photoId', ...photoMember, mayEditPhoto, (req, res) => {
-    res.json(updatePhoto(db, req.params.photoId as string, req.body));
+    const photo = updatePhoto(db, req.params.photoId as string, req.body);
+    announce(photo.observationId);
+    res.json(photo);
   });
 
   r.delete('/photos/:photoId', ...photoMember, mayEditPhoto, (req, res) => {

@@ -9,7 +9,7 @@ import type { Response } from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { campaigns, observations, photos } from '@/db/schema';
-import { galleryPageSchema, observationDetailSchema, photoUploadResultSchema, type Photo } from '@/lib/schemas';
+import { galleryPageSchema, observationDetailSchema, observationSchema, photoUploadResultSchema, type Photo } from '@/lib/schemas';
 import type { LiveEvent } from '@/server/services/live';
 import { listFiles } from '@/server/services/photo-storage';
 import {
@@ -26,6 +26,7 @@ import {
   webp,
 } from '../fixtures/photos/make';
 import { demoIds, emails } from '../helpers/demo';
+import { openSse } from '../helpers/sse';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
@@ -617,6 +618,53 @@ describe('live updates', () => {
     expect(event).toBeDefined();
     expect(event!.diveId).toBe(ids.dive2026);
     expect((event!.payload as { photoCount: number }).photoCount).toBe(1);
+  });
+
+  it('tells a member watching the dive’s stream of an upload, a caption edit, a move and a removal', async () => {
+    const agent = await t.signIn(emails.biologist);
+    const entry = await newEntry();
+    const reader = openSse(`${t.url}/api/dives/${ids.dive2026}/stream`, { cookie: await t.sessionCookie(emails.guest) });
+    try {
+      expect(await reader.status).toBe(200);
+      await reader.next((e) => e.event === 'ready', 15_000);
+      // Each change must bring an event of its own: one about this entry, later than the last one seen.
+      let last = 0;
+      const nextAbout = async () => {
+        const after = last;
+        const e = await reader.next((x) => x.event === 'observation.updated' && Number(x.id) > after && x.data.includes(entry), 15_000);
+        last = Number(e.id);
+        return observationSchema.parse(JSON.parse(e.data));
+      };
+
+      const res = await upload(agent, entry, [
+        { data: await tinyJpeg('#676767'), name: 'seen-live-1.jpg' },
+        { data: await tinyJpeg('#686868'), name: 'seen-live-2.jpg' },
+      ]);
+      expect(res.status).toBe(201);
+      const [first, second] = (res.body.photos as Photo[]).map((p) => p.id);
+      expect(await nextAbout()).toMatchObject({ id: entry, diveId: ids.dive2026, photoCount: 2 });
+
+      expect((await agent.patch(`/api/photos/${first}`).send({ caption: 'Sponge, seen live' })).status).toBe(200);
+      expect(await nextAbout()).toMatchObject({ id: entry, photoCount: 2 });
+
+      expect((await agent.patch(`/api/photos/${second}`).send({ position: 0 })).status).toBe(200);
+      expect(await nextAbout()).toMatchObject({ id: entry, photoCount: 2 });
+
+      expect((await agent.delete(`/api/photos/${first}`)).status).toBe(204);
+      expect(await nextAbout()).toMatchObject({ id: entry, photoCount: 1 });
+
+      // A refused edit changes nothing, so it announces nothing (the hub publishes before the answer).
+      const published: LiveEvent[] = [];
+      const stop = t.ctx.live.subscribeAll((e) => published.push(e));
+      try {
+        expect((await agent.patch(`/api/photos/${second}`).send({})).status).toBe(400);
+      } finally {
+        stop();
+      }
+      expect(published).toEqual([]);
+    } finally {
+      reader.close();
+    }
   });
 });
 

@@ -10,19 +10,23 @@ import { startServerProcess, type ServerProcess } from '../helpers/server-proces
 
 let server: ServerProcess;
 let entry: { id: string; diveId: string; title: string };
+/** Another of the biologist's entries on the same dive, for the photos dropped in on a wide screen. */
+let dropTarget: { id: string; diveId: string; title: string };
 
 beforeAll(async () => {
   server = await startServerProcess();
   const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
-  entry = db
+  const entries = db
     .prepare(
       `select o.id, o.dive_id as diveId, o.title from observations o
        join user u on u.id = o.author_id join dives d on d.id = o.dive_id
        where u.email = 'biologist@bathynote.test' and d.number = 'VS-02' and o.retired = 0
-       order by o.observed_at limit 1`,
+       order by o.observed_at limit 2`,
     )
-    .get() as typeof entry;
+    .all() as (typeof entry)[];
   db.close();
+  expect(entries).toHaveLength(2);
+  [entry, dropTarget] = entries as [typeof entry, typeof entry];
 });
 afterAll(async () => {
   await server?.stop();
@@ -35,6 +39,35 @@ async function signIn(page: Page, email: string) {
   await page.getByTestId('sign-in-password').press('Enter');
   await page.getByTestId('campaign-list').waitFor();
 }
+
+/**
+ * Drags files over an element the way a browser does when they come from the desktop: one
+ * DataTransfer carrying real File objects, through dragenter and dragover; `drop` lets them go.
+ */
+async function dragFilesOver(page: Page, testId: string, files: { name: string; mimeType: string; buffer: Buffer }[]) {
+  const dataTransfer = await page.evaluateHandle(
+    (list) => {
+      const dt = new DataTransfer();
+      for (const f of list) {
+        const bytes = Uint8Array.from(atob(f.base64), (c) => c.charCodeAt(0));
+        dt.items.add(new File([bytes], f.name, { type: f.mimeType }));
+      }
+      return dt;
+    },
+    files.map((f) => ({ name: f.name, mimeType: f.mimeType, base64: f.buffer.toString('base64') })),
+  );
+  const zone = page.getByTestId(testId);
+  await zone.dispatchEvent('dragenter', { dataTransfer });
+  await zone.dispatchEvent('dragover', { dataTransfer });
+  return {
+    drop: async () => {
+      await zone.dispatchEvent('drop', { dataTransfer });
+      await dataTransfer.dispose();
+    },
+  };
+}
+
+const TRANSPARENT = 'rgba(0, 0, 0, 0)';
 
 /** The image elements of a locator have all loaded real pixels. */
 async function imagesLoaded(page: Page, testId: string): Promise<number[]> {
@@ -158,6 +191,67 @@ describe('photos on an entry', () => {
       expect(wide.errors).toEqual([]);
     } finally {
       await wide.close();
+    }
+  });
+
+  it('takes a photo dropped on the entry on a wide screen, and shows it and its caption live to a guest watching the dive', async () => {
+    const author = await openBrowser(viewports.wide);
+    const guest = await openBrowser(viewports.wide);
+    try {
+      const divePage = `${server.url}/dives/${dropTarget.diveId}?entry=${dropTarget.id}`;
+      await signIn(guest.page, 'guest@bathynote.test');
+      await guest.page.goto(divePage);
+      const seen = guest.page.getByTestId('detail-pane').getByTestId('observation-photos');
+      await seen.waitFor();
+      expect(await seen.getByTestId('photo-count').textContent()).toBe('none yet');
+      // Only the author and the lead may add photos: the guest gets no place to drop them.
+      expect(await guest.page.getByTestId('photo-drop-zone').count()).toBe(0);
+      await guest.page.getByTestId('live-status-live').waitFor({ timeout: 30_000 });
+
+      const { page } = author;
+      await signIn(page, 'biologist@bathynote.test');
+      await page.goto(divePage);
+      const photos = page.getByTestId('detail-pane').getByTestId('observation-photos');
+      await photos.waitFor();
+      await photos.getByText('Or drop photos here.', { exact: false }).waitFor();
+      const grab = await jpegWithExif({ dateTimeOriginal: '2026:05:13 21:02:05' }, { width: 1600, height: 900 });
+      const zone = page.getByTestId('photo-drop-zone');
+      const outline = () => zone.evaluate((el) => getComputedStyle(el).outlineColor);
+      expect(await outline()).toBe(TRANSPARENT);
+      const drag = await dragFilesOver(page, 'photo-drop-zone', [{ name: 'dropped-grab-2102.jpg', mimeType: 'image/jpeg', buffer: grab }]);
+      // The zone shows that it takes the files while they are over it.
+      await expect.poll(outline).not.toBe(TRANSPARENT);
+      await drag.drop();
+      await expect.poll(outline).toBe(TRANSPARENT);
+
+      await expect.poll(() => page.getByTestId('upload-done').count(), { timeout: 30_000 }).toBe(1);
+      const strip = photos.getByTestId('photo-strip');
+      await expect.poll(() => strip.getByTestId('photo-thumb').count(), { timeout: 15_000 }).toBe(1);
+      await expect
+        .poll(async () => (await imagesLoaded(page, 'photo-strip')).every((w) => w > 0 && w <= 320), { timeout: 15_000 })
+        .toBe(true);
+      expect(await photos.getByTestId('photo-count').textContent()).toBe('1 photo');
+      expect(await strip.getByText('Taken 2026-05-13 21:02:05Z').count()).toBe(1);
+
+      // The guest sees it arrive without reloading: in the entry beside the log, and on its card.
+      await expect.poll(() => seen.getByTestId('photo-count').textContent(), { timeout: 30_000 }).toBe('1 photo');
+      await expect.poll(() => seen.getByTestId('photo-thumb').count(), { timeout: 15_000 }).toBe(1);
+      await expect
+        .poll(async () => (await imagesLoaded(guest.page, 'photo-strip')).every((w) => w > 0 && w <= 320), { timeout: 15_000 })
+        .toBe(true);
+      await guest.page.getByTestId(`observation-${dropTarget.id}`).getByText('1 photo').waitFor({ timeout: 15_000 });
+
+      // A caption written by the author reaches the guest the same way.
+      await strip.getByTestId('photo-edit').click();
+      await page.getByTestId('photo-caption-field').fill('Bacterial mat beside the sternpost, dropped in');
+      await page.getByTestId('photo-save').click();
+      await strip.getByText('Bacterial mat beside the sternpost, dropped in').waitFor();
+      await seen.getByText('Bacterial mat beside the sternpost, dropped in').waitFor({ timeout: 30_000 });
+
+      expect(author.errors).toEqual([]);
+      expect(guest.errors).toEqual([]);
+    } finally {
+      await Promise.all([author.close(), guest.close()]);
     }
   });
 });
