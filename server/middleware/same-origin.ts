@@ -17,7 +17,8 @@ export function sameOrigin(publicUrl: string): RequestHandler {
     if (SAFE_METHODS.has(req.method)) return next();
     const origin = req.get('origin');
     const fetchSite = req.get('sec-fetch-site');
-    const foreign = origin !== undefined ? !trusted.has(origin) : fetchSite !== undefined && fetchSite !== 'same-origin' && fetchSite !== 'none';
+    const foreign =
+      origin !== undefined ? !trusted.has(origin) : fetchSite !== undefined && fetchSite !== 'same-origin' && fetchSite !== 'none';
     if (!foreign) return next();
     res.status(403).json({
       error: {

@@ -136,12 +136,19 @@ describe('sign-in', () => {
     expect(noOrigin.status).toBe(403);
     expect(await count()).toBe(before);
 
-    const here = await agent.post(path).set('Origin', t.url).send({ ...body, title: 'Posted here' });
-    const hereToo = await agent.post(path).set('Sec-Fetch-Site', 'same-origin').send({ ...body, title: 'Posted here too' });
+    const here = await agent
+      .post(path)
+      .set('Origin', t.url)
+      .send({ ...body, title: 'Posted here' });
+    const hereToo = await agent
+      .post(path)
+      .set('Sec-Fetch-Site', 'same-origin')
+      .send({ ...body, title: 'Posted here too' });
     expect([here.status, hereToo.status]).toEqual([201, 201]);
     expect((await agent.get(path).set('Origin', 'https://evil.example')).status).toBe(200);
     // Leave the dive as the other tests know it.
-    for (const res of [here, hereToo]) expect((await agent.delete(`/api/observations/${res.body.id}`).set('Origin', t.url)).status).toBe(200);
+    for (const res of [here, hereToo])
+      expect((await agent.delete(`/api/observations/${res.body.id}`).set('Origin', t.url)).status).toBe(200);
   });
 
   it('signs out: the old cookie then gets 401', async () => {
