@@ -21,8 +21,9 @@ import {
   type ObservationCreate,
   type ObservationPage,
   type ObservationUpdate,
+  type VerificationInput,
 } from '@/lib/schemas';
-import { request } from './api';
+import { ApiError, request } from './api';
 import { campaignKeys } from './campaigns';
 import { diveKeys } from './dives';
 
@@ -185,12 +186,15 @@ function useDetailMutation<I>(id: string, path: string, method: 'PUT' | 'POST') 
       qc.setQueryData(observationKeys.detail(id), detail);
       settle(qc, detail);
     },
+    onError: (err) => {
+      // Refused as stale: fetching the entry again brings the other person's version into view.
+      if (err instanceof ApiError && err.code === 'stale_version') void qc.invalidateQueries({ queryKey: observationKeys.detail(id) });
+    },
   });
 }
 
 export const useSetIdentification = (id: string) => useDetailMutation<IdentificationInput>(id, 'identification', 'PUT');
-export const useVerifyIdentification = (id: string) =>
-  useDetailMutation<{ status: 'verified' | 'disputed'; note?: string }>(id, 'identification/verify', 'POST');
+export const useVerifyIdentification = (id: string) => useDetailMutation<VerificationInput>(id, 'identification/verify', 'POST');
 export const useSetFind = (id: string) => useDetailMutation<FindInput>(id, 'find', 'PUT');
 export const useAddCustody = (id: string) =>
   useDetailMutation<{ holder: string; since: string; location: string; container?: string | null; note?: string | null }>(

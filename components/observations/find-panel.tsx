@@ -12,6 +12,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatUtc, parseUtcInput, toUtcInput } from '@/lib/format';
 import type { ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
+import { RecordConflict } from './record-conflict';
 
 type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
 
@@ -33,6 +34,8 @@ export function RecoveryCaution() {
 export function FindPanel({ observation: o, myRole, myId }: Props) {
   const { colors } = useTheme();
   const [editing, setEditing] = useState(false);
+  // A new key starts the form afresh when its typing is thrown away for someone else's version.
+  const [formKey, setFormKey] = useState(0);
   const mayEdit = myRole === 'lead' || myRole === 'scientist' || o.authorId === myId;
   const find = o.find;
   return (
@@ -51,7 +54,15 @@ export function FindPanel({ observation: o, myRole, myId }: Props) {
           {mayEdit ? <Button label="Correct the find" tone="ghost" compact onPress={() => setEditing(true)} /> : null}
         </>
       ) : mayEdit ? (
-        <FindForm observation={o} onDone={() => setEditing(false)} />
+        <FindForm
+          key={formKey}
+          observation={o}
+          onDone={() => setEditing(false)}
+          onDiscard={() => {
+            setEditing(false);
+            setFormKey((k) => k + 1);
+          }}
+        />
       ) : (
         <Text muted>Not registered as a find.</Text>
       )}
@@ -59,9 +70,20 @@ export function FindPanel({ observation: o, myRole, myId }: Props) {
   );
 }
 
-function FindForm({ observation: o, onDone }: { observation: ObservationDetail; onDone: () => void }) {
+const stateLabel = { 'in-situ': 'in situ', recovered: 'recovered' } as const;
+
+/**
+ * Recording a find keeps the entry's version the form opened at. If someone else saved the entry
+ * in between, the server refuses with 409 and this shows their find beside the one typed here:
+ * "Keep mine" saves it over theirs knowingly, "Use theirs" drops the typing.
+ */
+function FindForm({ observation: o, onDone, onDiscard }: { observation: ObservationDetail; onDone: () => void; onDiscard: () => void }) {
   const { colors } = useTheme();
   const current = o.find;
+  // The version this typing answers: the one the form opened at, then the one a "Keep mine" chose.
+  const [baseVersion, setBaseVersion] = useState(o.version);
+  // The version a refused save started from; the panel shows once the entry has been fetched again.
+  const [refusedFrom, setRefusedFrom] = useState<number | null>(null);
   const proposal = useQuery({ ...nextFindNumberQuery(o.campaignId), enabled: !current });
   const [number, setNumber] = useState(current?.findNumber ?? '');
   const [objectType, setObjectType] = useState(current?.objectType ?? '');
@@ -71,8 +93,40 @@ function FindForm({ observation: o, onDone }: { observation: ObservationDetail; 
   const save = useSetFind(o.id);
   const value = number || proposal.data?.findNumber || '';
   const issue = (path: string) => (save.error instanceof ApiError ? save.error.issues.find((i) => i.path === path)?.message : undefined);
+  const send = (version: number) => {
+    setBaseVersion(version);
+    save.mutate(
+      { version, findNumber: value, objectType: objectType || null, material: material || null, condition: condition || null, state },
+      {
+        onSuccess: onDone,
+        onError: (err) => setRefusedFrom(err instanceof ApiError && err.code === 'stale_version' ? version : null),
+      },
+    );
+  };
+  const theirs = refusedFrom !== null && o.version !== refusedFrom ? o : null;
+  const tf = theirs?.find;
   return (
     <View style={styles.form}>
+      {theirs ? (
+        <RecordConflict
+          what="find"
+          testID="find-conflict"
+          theirVersion={theirs.version}
+          baseVersion={refusedFrom ?? baseVersion}
+          busy={save.isPending}
+          onKeepMine={() => send(theirs.version)}
+          onTakeTheirs={onDiscard}
+          fields={[
+            { key: 'findNumber', label: 'Find number', theirs: tf?.findNumber ?? 'not registered', mine: value.trim() },
+            { key: 'objectType', label: 'Object type', theirs: tf?.objectType ?? '', mine: objectType.trim() },
+            { key: 'material', label: 'Material', theirs: tf?.material ?? '', mine: material.trim() },
+            { key: 'condition', label: 'Condition', theirs: tf?.condition ?? '', mine: condition.trim() },
+            { key: 'state', label: 'State', theirs: tf ? stateLabel[tf.state] : '', mine: stateLabel[state] },
+          ]}
+        />
+      ) : refusedFrom !== null ? (
+        <Text muted>Someone else changed this entry; fetching their version…</Text>
+      ) : null}
       <Field
         label="Find number"
         testID="field-find-number"
@@ -97,25 +151,17 @@ function FindForm({ observation: o, onDone }: { observation: ObservationDetail; 
         testID="field-find-state"
       />
       {state === 'recovered' ? <RecoveryCaution /> : null}
-      {save.error instanceof ApiError && save.error.issues.length === 0 ? (
+      {save.error instanceof ApiError && save.error.issues.length === 0 && save.error.code !== 'stale_version' ? (
         <Text color={colors.danger} role="alert" testID="find-error">
           {save.error.message}
         </Text>
       ) : null}
-      <View style={styles.row}>
-        <Button
-          label="Save find"
-          testID="save-find"
-          busy={save.isPending}
-          onPress={() =>
-            save.mutate(
-              { findNumber: value, objectType: objectType || null, material: material || null, condition: condition || null, state },
-              { onSuccess: onDone },
-            )
-          }
-        />
-        {current ? <Button label="Cancel" tone="ghost" onPress={onDone} /> : null}
-      </View>
+      {refusedFrom === null ? (
+        <View style={styles.row}>
+          <Button label="Save find" testID="save-find" busy={save.isPending} onPress={() => send(baseVersion)} />
+          {current ? <Button label="Cancel" tone="ghost" onPress={onDone} /> : null}
+        </View>
+      ) : null}
     </View>
   );
 }

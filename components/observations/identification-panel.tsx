@@ -11,6 +11,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatScientificName, formatUtc } from '@/lib/format';
 import { identificationConfidences, identificationQualifiers, taxonRanks, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
+import { RecordConflict } from './record-conflict';
 
 type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
 
@@ -21,9 +22,14 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
   const { colors } = useTheme();
   const ident = o.identificationDetail;
   const [editing, setEditing] = useState(false);
+  // A new key starts the form afresh when its typing is thrown away for someone else's version.
+  const [formKey, setFormKey] = useState(0);
   const verify = useVerifyIdentification(o.id);
   const mayPropose = myRole === 'lead' || myRole === 'scientist' || o.authorId === myId;
-  const mayVerify = !!ident && (myRole === 'lead' || (myRole === 'scientist' && ident.identifiedBy !== myId && o.authorId !== myId));
+  // Nobody verifies a name they proposed or an entry they wrote, leads included (as the server rules).
+  const mayVerify = !!ident && (myRole === 'lead' || myRole === 'scientist') && ident.identifiedBy !== myId && o.authorId !== myId;
+  // The version on screen goes with the verdict: a name changed meanwhile is not verified blind.
+  const judge = (status: 'verified' | 'disputed') => verify.mutate({ version: o.version, status });
   const tint = ident
     ? { unverified: colors.warning, verified: colors.success, disputed: colors.danger }[ident.verificationStatus]
     : colors.textMuted;
@@ -54,25 +60,33 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
           <View style={styles.row}>
             {mayVerify ? (
               <>
-                <Button
-                  label="Verify"
-                  compact
-                  busy={verify.isPending}
-                  onPress={() => verify.mutate({ status: 'verified' })}
-                  testID="verify"
-                />
-                <Button label="Dispute" tone="secondary" compact onPress={() => verify.mutate({ status: 'disputed' })} testID="dispute" />
+                <Button label="Verify" compact busy={verify.isPending} onPress={() => judge('verified')} testID="verify" />
+                <Button label="Dispute" tone="secondary" compact onPress={() => judge('disputed')} testID="dispute" />
               </>
             ) : null}
             {mayPropose ? (
               <Button label="Change name" tone="ghost" compact onPress={() => setEditing(true)} testID="edit-identification" />
             ) : null}
           </View>
-          {verify.error instanceof ApiError ? <Text color={colors.danger}>{verify.error.message}</Text> : null}
+          {verify.error instanceof ApiError ? (
+            <Text color={colors.danger} role="alert" testID="verify-error">
+              {verify.error.code === 'stale_version'
+                ? 'Someone else changed this entry while you were looking, so nothing was recorded. Check the identification shown now and verify or dispute it again.'
+                : verify.error.message}
+            </Text>
+          ) : null}
         </>
       ) : mayPropose ? (
         editing || !ident ? (
-          <IdentificationForm observation={o} onDone={() => setEditing(false)} />
+          <IdentificationForm
+            key={formKey}
+            observation={o}
+            onDone={() => setEditing(false)}
+            onDiscard={() => {
+              setEditing(false);
+              setFormKey((k) => k + 1);
+            }}
+          />
         ) : null
       ) : (
         <Text muted>No identification yet.</Text>
@@ -81,9 +95,20 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
   );
 }
 
-function IdentificationForm({ observation: o, onDone }: { observation: ObservationDetail; onDone: () => void }) {
+type FormProps = { observation: ObservationDetail; onDone: () => void; onDiscard: () => void };
+
+/**
+ * Proposing a name keeps the entry's version the form opened at. If someone else saved the entry
+ * in between, the server refuses with 409 and this shows their identification beside the one
+ * typed here: "Keep mine" saves it over theirs knowingly, "Use theirs" drops the typing.
+ */
+function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
   const { colors } = useTheme();
   const current = o.identificationDetail;
+  // The version this typing answers: the one the form opened at, then the one a "Keep mine" chose.
+  const [baseVersion, setBaseVersion] = useState(o.version);
+  // The version a refused save started from; the panel shows once the entry has been fetched again.
+  const [refusedFrom, setRefusedFrom] = useState<number | null>(null);
   const [name, setName] = useState(current?.scientificName ?? '');
   const [rank, setRank] = useState<(typeof taxonRanks)[number] | undefined>(current?.taxonRank ?? undefined);
   const [qualifier, setQualifier] = useState<(typeof identificationQualifiers)[number] | 'none'>(current?.qualifier ?? 'none');
@@ -91,8 +116,59 @@ function IdentificationForm({ observation: o, onDone }: { observation: Observati
   const [taxonId, setTaxonId] = useState(current?.taxonId ?? '');
   const save = useSetIdentification(o.id);
   const issue = (path: string) => (save.error instanceof ApiError ? save.error.issues.find((i) => i.path === path)?.message : undefined);
+  const send = (version: number) => {
+    setBaseVersion(version);
+    save.mutate(
+      {
+        version,
+        scientificName: name,
+        taxonRank: rank ?? null,
+        qualifier: qualifier === 'none' ? null : qualifier,
+        confidence: confidence ?? null,
+        taxonId: taxonId.trim() || null,
+      },
+      {
+        onSuccess: onDone,
+        onError: (err) => setRefusedFrom(err instanceof ApiError && err.code === 'stale_version' ? version : null),
+      },
+    );
+  };
+  const theirs = refusedFrom !== null && o.version !== refusedFrom ? o : null;
+  const ti = theirs?.identificationDetail;
+  const mineName = formatScientificName(name, qualifier === 'none' ? null : qualifier);
+  const keepsVerdict = !!ti && ti.scientificName === name.trim() && ti.qualifier === (qualifier === 'none' ? null : qualifier);
   return (
     <View style={styles.form}>
+      {theirs ? (
+        <RecordConflict
+          what="identification"
+          testID="identification-conflict"
+          theirVersion={theirs.version}
+          baseVersion={refusedFrom ?? baseVersion}
+          busy={save.isPending}
+          onKeepMine={() => send(theirs.version)}
+          onTakeTheirs={onDiscard}
+          fields={[
+            {
+              key: 'name',
+              label: 'Scientific name',
+              theirs: ti ? formatScientificName(ti.scientificName, ti.qualifier) : 'no identification',
+              mine: mineName,
+            },
+            { key: 'rank', label: 'Rank', theirs: ti?.taxonRank ?? '', mine: rank ?? '' },
+            { key: 'confidence', label: 'Confidence', theirs: ti?.confidence ?? '', mine: confidence ?? '' },
+            { key: 'taxonId', label: 'Taxon identifier', theirs: ti?.taxonId ?? '', mine: taxonId.trim() },
+            {
+              key: 'verification',
+              label: 'Verification',
+              theirs: ti ? statusLabel[ti.verificationStatus] : '',
+              mine: ti && keepsVerdict ? statusLabel[ti.verificationStatus] : statusLabel.unverified,
+            },
+          ]}
+        />
+      ) : refusedFrom !== null ? (
+        <Text muted>Someone else changed this entry; fetching their version…</Text>
+      ) : null}
       <Field
         label="Scientific name"
         testID="field-scientific-name"
@@ -124,27 +200,15 @@ function IdentificationForm({ observation: o, onDone }: { observation: Observati
         autoCapitalize="none"
         error={issue('taxonId')}
       />
-      {save.error instanceof ApiError && save.error.issues.length === 0 ? <Text color={colors.danger}>{save.error.message}</Text> : null}
-      <View style={styles.row}>
-        <Button
-          label="Save identification"
-          testID="save-identification"
-          busy={save.isPending}
-          onPress={() =>
-            save.mutate(
-              {
-                scientificName: name,
-                taxonRank: rank ?? null,
-                qualifier: qualifier === 'none' ? null : qualifier,
-                confidence: confidence ?? null,
-                taxonId: taxonId.trim() || null,
-              },
-              { onSuccess: onDone },
-            )
-          }
-        />
-        {current ? <Button label="Cancel" tone="ghost" onPress={onDone} /> : null}
-      </View>
+      {save.error instanceof ApiError && save.error.issues.length === 0 && save.error.code !== 'stale_version' ? (
+        <Text color={colors.danger}>{save.error.message}</Text>
+      ) : null}
+      {refusedFrom === null ? (
+        <View style={styles.row}>
+          <Button label="Save identification" testID="save-identification" busy={save.isPending} onPress={() => send(baseVersion)} />
+          {current ? <Button label="Cancel" tone="ghost" onPress={onDone} /> : null}
+        </View>
+      ) : null}
     </View>
   );
 }

@@ -7,6 +7,11 @@ import { z } from 'zod';
 
 const instant = z.iso.datetime({ offset: true, message: 'Expected an ISO 8601 time with a zone, e.g. 2026-05-14T21:14:07.250Z' });
 const text = (max: number) => z.string().trim().max(max);
+/**
+ * The entry's `version` the writer was looking at (the same one `PATCH` carries): a stale one is
+ * a 409 `stale_version` and nothing is overwritten.
+ */
+const version = z.number().int().min(1);
 
 /** Darwin Core taxonRank values the form offers (TDWG recommended vocabulary, lower case). */
 export const taxonRanks = ['kingdom', 'phylum', 'class', 'order', 'family', 'genus', 'species', 'subspecies'] as const;
@@ -18,6 +23,7 @@ export type VerificationStatus = (typeof verificationStatuses)[number];
 
 export const identificationInputSchema = z
   .object({
+    version,
     scientificName: text(200).min(1, 'Give the name, e.g. Desmophyllum pertusum or Munida'),
     taxonRank: z.enum(taxonRanks).nullable().optional(),
     qualifier: z.enum(identificationQualifiers).nullable().optional(),
@@ -30,12 +36,15 @@ export const identificationInputSchema = z
   .strict();
 export type IdentificationInput = z.input<typeof identificationInputSchema>;
 
+/** `version` makes sure the name being verified is the one the verifier saw. */
 export const verificationInputSchema = z
   .object({
+    version,
     status: z.enum(['verified', 'disputed']),
     note: text(2000).optional(),
   })
   .strict();
+export type VerificationInput = z.input<typeof verificationInputSchema>;
 
 export const identificationSchema = z.object({
   scientificName: z.string(),
@@ -58,6 +67,7 @@ export const findStates = ['in-situ', 'recovered'] as const;
 
 export const findInputSchema = z
   .object({
+    version,
     findNumber: text(40)
       .min(1, 'A find number is needed')
       .regex(/^[\w./-]+$/, 'Letters, digits and . / - _ only'),

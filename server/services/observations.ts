@@ -3,6 +3,7 @@ import { z } from 'zod';
 
 import type { Db, Executor } from '../../db/client';
 import {
+  auditLog,
   campaigns,
   custodyEvents,
   finds,
@@ -286,10 +287,54 @@ export function listObservations(db: Db, diveId: string, rawQuery: unknown, opti
 /* ---- writing ---- */
 
 /**
- * Finds the campaign's tags by name (case-insensitively), creating the missing ones when the
- * campaign allows free tags; otherwise an unknown tag is a field error.
+ * The tag a merged tag went into, following later merges, when it is still in use; null for a
+ * tag that was only retired. A merge is known from the audit trail (the tags table keeps no
+ * link); the latest merge or retirement of the tag decides.
  */
-function resolveTags(db: Executor, campaignId: string, names: string[]): string[] {
+function replacementOf(db: Executor, campaignId: string, tagId: string): { name: string } | null {
+  let current = tagId;
+  for (let hop = 0; hop < 5; hop++) {
+    const last = db
+      .select({ action: auditLog.action, detail: auditLog.detail })
+      .from(auditLog)
+      .where(
+        and(
+          eq(auditLog.target, current),
+          or(
+            eq(auditLog.action, 'tag.merged'),
+            and(eq(auditLog.action, 'tag.updated'), sql`json_extract(${auditLog.detail}, '$.retired') is not null`),
+          ),
+        ),
+      )
+      .orderBy(desc(auditLog.id))
+      .limit(1)
+      .get();
+    if (last?.action !== 'tag.merged') return null;
+    const detail = (last.detail ?? {}) as { into?: unknown; intoId?: unknown };
+    const target =
+      typeof detail.intoId === 'string'
+        ? db.select().from(tags).where(eq(tags.id, detail.intoId)).get()
+        : typeof detail.into === 'string'
+          ? db
+              .select()
+              .from(tags)
+              .where(and(eq(tags.campaignId, campaignId), sql`lower(${tags.name}) = lower(${detail.into})`))
+              .get()
+          : undefined;
+    if (!target) return null;
+    if (!target.retired) return { name: target.name };
+    current = target.id;
+  }
+  return null;
+}
+
+/**
+ * Finds the campaign's tags by name (case-insensitively), creating the missing ones when the
+ * campaign allows free tags; otherwise an unknown tag is a field error. A retired tag is a field
+ * error too (naming its replacement when it was merged), unless the entry already carries it:
+ * retiring a tag leaves the entries that had it alone.
+ */
+function resolveTags(db: Executor, campaignId: string, names: string[], kept: ReadonlySet<string> = new Set()): string[] {
   const wanted = [...new Map(names.map((n) => [n.toLowerCase(), n])).values()];
   if (wanted.length === 0) return [];
   const existing = db
@@ -306,6 +351,24 @@ function resolveTags(db: Executor, campaignId: string, names: string[]): string[
     )
     .all();
   const byLower = new Map(existing.map((t) => [t.name.toLowerCase(), t]));
+  const retired = existing.filter((t) => t.retired && !kept.has(t.id));
+  if (retired.length > 0) {
+    throw new ApiError(
+      400,
+      'validation_failed',
+      'Some tags have been retired from the campaign vocabulary.',
+      retired.map((t) => {
+        const given = wanted.find((n) => n.toLowerCase() === t.name.toLowerCase())!;
+        const replacement = replacementOf(db, campaignId, t.id);
+        return {
+          path: `tags.${names.indexOf(given)}`,
+          message: replacement
+            ? `"${t.name}" has been retired: it was merged into "${replacement.name}"; use that instead`
+            : `"${t.name}" has been retired from this campaign's tag vocabulary`,
+        };
+      }),
+    );
+  }
   const missing = wanted.filter((n) => !byLower.has(n.toLowerCase()));
   if (missing.length > 0) {
     const campaign = db.select({ allow: campaigns.allowFreeTags }).from(campaigns).where(eq(campaigns.id, campaignId)).get();
@@ -323,7 +386,8 @@ function resolveTags(db: Executor, campaignId: string, names: string[]): string[
 }
 
 function setTags(db: Executor, observationId: string, campaignId: string, names: string[]) {
-  const tagIds = resolveTags(db, campaignId, names);
+  const had = db.select({ id: observationTags.tagId }).from(observationTags).where(eq(observationTags.observationId, observationId)).all();
+  const tagIds = resolveTags(db, campaignId, names, new Set(had.map((t) => t.id)));
   db.delete(observationTags).where(eq(observationTags.observationId, observationId)).run();
   if (tagIds.length > 0)
     db.insert(observationTags)
@@ -443,7 +507,11 @@ export function assertMayEdit(row: Row, actor: Actor, what = 'edit this entry') 
   }
 }
 
-function assertCurrent(row: Row, version: number) {
+/**
+ * Refuses a write that started from an older state of the entry: every write that bumps the
+ * version (edits, identifications, verifications, finds) carries the version its writer saw.
+ */
+export function assertCurrent(row: Row, version: number) {
   if (row.retired) throw conflict('retired', 'This entry has been retired. A lead can restore it.');
   if (row.version !== version) {
     throw new ApiError(

@@ -11,7 +11,7 @@ import {
 } from '../../lib/schemas';
 import { ApiError, conflict } from '../errors';
 import type { LiveHub } from './live';
-import { getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
+import { assertCurrent, getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
 
 function loadLive(db: Executor, id: string) {
   const row = getObservationRow(db, id);
@@ -29,7 +29,8 @@ function announce(db: Db, live: LiveHub, id: string): ObservationDetail {
 
 /**
  * Proposes (or replaces) a biology entry's identification. Scientists and leads may propose one
- * on any entry, others on their own; a new name starts unverified again.
+ * on any entry, others on their own; a new name starts unverified again. The body carries the
+ * entry's version, so two people naming the same entry at once cannot overwrite each other.
  */
 export function setIdentification(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
   db.transaction((tx) => {
@@ -38,6 +39,7 @@ export function setIdentification(db: Db, live: LiveHub, id: string, actor: Acto
       throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may propose an identification.');
     }
     const input = identificationInputSchema.parse(body);
+    assertCurrent(row, input.version);
     if (row.kind !== 'biology')
       throw new ApiError(400, 'validation_failed', 'Only biology entries carry an identification.', [
         { path: 'kind', message: 'Change the entry to biology first' },
@@ -66,8 +68,10 @@ export function setIdentification(db: Db, live: LiveHub, id: string, actor: Acto
 }
 
 /**
- * Verifies or disputes an identification: a lead, or a scientist who neither proposed the name
- * nor wrote the entry (nobody verifies their own identification).
+ * Verifies or disputes an identification: a lead or a scientist, and never the person who
+ * proposed the name or wrote the entry, whatever their role (PRODUCT.md: scientists verify
+ * "others'" identifications; the issue: "a lead or a scientist other than the author"). The body
+ * carries the entry's version, so a name changed since the verifier looked is not verified.
  */
 export function verifyIdentification(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
   db.transaction((tx) => {
@@ -76,10 +80,11 @@ export function verifyIdentification(db: Db, live: LiveHub, id: string, actor: A
       throw new ApiError(403, 'forbidden', 'Only scientists and leads verify identifications.');
     }
     const ident = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
-    if (actor.role === 'scientist' && (ident?.identifiedBy === actor.userId || row.authorId === actor.userId)) {
+    if (ident?.identifiedBy === actor.userId || row.authorId === actor.userId) {
       throw new ApiError(403, 'forbidden', 'Another scientist or a lead must verify this: you proposed the name or wrote the entry.');
     }
     const input = verificationInputSchema.parse(body);
+    assertCurrent(row, input.version);
     if (!ident) throw conflict('no_identification', 'There is no identification to verify yet.');
     tx.update(identifications)
       .set({ verificationStatus: input.status, verifiedBy: actor.userId, verifiedAt: new Date(), verificationNote: input.note ?? null })
@@ -130,7 +135,10 @@ export function nextFindNumber(db: Executor, campaignId: string): string {
   return `${prefix}${String(next).padStart(best.width, '0')}`;
 }
 
-/** Records or corrects an archaeology entry's find; a number already used in the campaign is a 409. */
+/**
+ * Records or corrects an archaeology entry's find; a number already used in the campaign is a
+ * 409, and so is a stale version (the body carries the entry's version, as an edit does).
+ */
 export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
   db.transaction((tx) => {
     const row = loadLive(tx, id);
@@ -138,6 +146,7 @@ export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: u
       throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may record a find.');
     }
     const input = findInputSchema.parse(body);
+    assertCurrent(row, input.version);
     if (row.kind !== 'archaeology')
       throw new ApiError(400, 'validation_failed', 'Only archaeology entries carry a find.', [
         { path: 'kind', message: 'Change the entry to archaeology first' },
@@ -173,7 +182,8 @@ export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: u
 
 /**
  * Adds a step to the custody trail of a recovered find or a sample (an entry tagged "sample").
- * The trail is append-only: a correction is a new step.
+ * The trail is append-only: a correction is a new step. It takes no version: a step overwrites
+ * nothing and leaves the entry's version alone, so two hand-overs recorded at once both stay.
  */
 export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
   db.transaction((tx) => {

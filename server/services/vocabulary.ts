@@ -61,7 +61,7 @@ export function updateTag(db: Db, tagId: string, actorId: string, body: unknown)
         actorId,
         action: 'tag.merged',
         target: tag.id,
-        detail: { from: tag.name, into: target.name },
+        detail: { from: tag.name, into: target.name, intoId: target.id },
       });
       return toTag(tx, tx.select().from(tags).where(eq(tags.id, target.id)).get()!);
     }

@@ -156,6 +156,7 @@ describe('identifications', () => {
     const created = await logAs(emails.biologist, { kind: 'biology', title: 'Coral on the stern rail' });
     const bio = await t.signIn(emails.biologist);
     const proposed = await bio.put(`/api/observations/${created.id}/identification`).send({
+      version: 1,
       scientificName: 'Desmophyllum pertusum',
       taxonRank: 'species',
       qualifier: 'cf.',
@@ -163,6 +164,7 @@ describe('identifications', () => {
       taxonId: 'urn:lsid:marinespecies.org:taxname:1245747',
     });
     expect(proposed.status).toBe(200);
+    expect(proposed.body.version).toBe(2);
     expect(proposed.body.identificationDetail).toMatchObject({
       scientificName: 'Desmophyllum pertusum',
       verificationStatus: 'unverified',
@@ -174,26 +176,26 @@ describe('identifications', () => {
       verificationStatus: 'unverified',
     });
 
-    const self = await bio.post(`/api/observations/${created.id}/identification/verify`).send({ status: 'verified' });
+    const self = await bio.post(`/api/observations/${created.id}/identification/verify`).send({ version: 2, status: 'verified' });
     expect(self.status).toBe(403);
     const guest = await (
       await t.signIn(emails.guest)
     )
       .post(`/api/observations/${created.id}/identification/verify`)
-      .send({ status: 'verified' });
+      .send({ version: 2, status: 'verified' });
     expect(guest.status).toBe(403);
     const pilot = await (
       await t.signIn(emails.pilot)
     )
       .post(`/api/observations/${created.id}/identification/verify`)
-      .send({ status: 'verified' });
+      .send({ version: 2, status: 'verified' });
     expect(pilot.status).toBe(403);
 
     const other = await (
       await t.signIn(emails.archaeologist)
     )
       .post(`/api/observations/${created.id}/identification/verify`)
-      .send({ status: 'verified', note: 'Polyps clear on the still.' });
+      .send({ version: 2, status: 'verified', note: 'Polyps clear on the still.' });
     expect(other.status).toBe(200);
     expect(other.body.identificationDetail).toMatchObject({
       verificationStatus: 'verified',
@@ -212,7 +214,7 @@ describe('identifications', () => {
       await t.signIn(emails.lead)
     )
       .put(`/api/observations/${created.id}/identification`)
-      .send({ scientificName: 'Madrepora oculata' });
+      .send({ version: 3, scientificName: 'Madrepora oculata' });
     expect(renamed.body.identificationDetail).toMatchObject({ verificationStatus: 'unverified', verifiedBy: null });
   });
 
@@ -222,14 +224,14 @@ describe('identifications', () => {
       await t.signIn(emails.archaeologist)
     )
       .put(`/api/observations/${arch.id}/identification`)
-      .send({ scientificName: 'x' });
+      .send({ version: 1, scientificName: 'x' });
     expect(res.status).toBe(400);
     const bio = await logAs(emails.biologist, { kind: 'biology', title: 'Something' });
     const bad = await (
       await t.signIn(emails.biologist)
     )
       .put(`/api/observations/${bio.id}/identification`)
-      .send({ scientificName: 'Munida', taxonId: 'javascript:alert(1)' });
+      .send({ version: 1, scientificName: 'Munida', taxonId: 'javascript:alert(1)' });
     expect(bad.status).toBe(400);
     expect(bad.body.error.issues[0].path).toBe('taxonId');
   });
@@ -247,13 +249,13 @@ describe('finds and their custody', () => {
     const a = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Amphora with stopper' });
     const first = await arch
       .put(`/api/observations/${a.id}/find`)
-      .send({ findNumber: next, objectType: 'amphora', material: 'ceramic', condition: 'complete', state: 'in-situ' });
+      .send({ version: 1, findNumber: next, objectType: 'amphora', material: 'ceramic', condition: 'complete', state: 'in-situ' });
     expect(first.status).toBe(200);
     expect(first.body.find).toMatchObject({ findNumber: next, state: 'in-situ' });
     expect((await arch.get(`/api/campaigns/${ids.campaign2026}/finds/next-number`)).body.findNumber).toBe(expected(highest + 2));
 
     const b = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Second amphora' });
-    const duplicate = await arch.put(`/api/observations/${b.id}/find`).send({ findNumber: next.toLowerCase() });
+    const duplicate = await arch.put(`/api/observations/${b.id}/find`).send({ version: 1, findNumber: next.toLowerCase() });
     expect(duplicate.status).toBe(409);
     expect(duplicate.body.error.code).toBe('duplicate_find_number');
     expect(duplicate.body.error.message).toContain(expected(highest + 2));
@@ -263,10 +265,14 @@ describe('finds and their custody', () => {
   it('keeps a custody trail for recovered finds, not for ones left in situ', async () => {
     const a = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Coarse ware bowl' });
     const arch = await t.signIn(emails.archaeologist);
-    await arch.put(`/api/observations/${a.id}/find`).send({ findNumber: 'VS26-050', state: 'in-situ' });
+    expect((await arch.put(`/api/observations/${a.id}/find`).send({ version: 1, findNumber: 'VS26-050', state: 'in-situ' })).status).toBe(
+      200,
+    );
     const step = { holder: 'Bram Ostrander', since: '2026-05-16T23:10:00.000Z', location: 'Wet lab, tank 2', container: 'Bag 14' };
     expect((await arch.post(`/api/observations/${a.id}/custody`).send(step)).status).toBe(409);
-    await arch.put(`/api/observations/${a.id}/find`).send({ findNumber: 'VS26-050', state: 'recovered' });
+    expect((await arch.put(`/api/observations/${a.id}/find`).send({ version: 2, findNumber: 'VS26-050', state: 'recovered' })).status).toBe(
+      200,
+    );
     const added = await arch.post(`/api/observations/${a.id}/custody`).send(step);
     expect(added.status).toBe(201);
     const second = await (
@@ -277,6 +283,205 @@ describe('finds and their custody', () => {
     expect(second.status).toBe(201);
     expect(second.body.custody.map((c: { holder: string }) => c.holder)).toEqual(['Bram Ostrander', 'Conservator ashore']);
     expect((await arch.post(`/api/observations/${a.id}/custody`).send({ holder: '', since: 'yesterday', location: '' })).status).toBe(400);
+  });
+});
+
+const revisionCount = (id: string) =>
+  t.ctx.db.$client.prepare('select count(*) from observation_revisions where observation_id = ?').pluck().get(id) as number;
+
+describe('identifications and finds carry the version too', () => {
+  it('refuses an identification from a stale version with 409 and keeps the first writer’s name', async () => {
+    const created = await logAs(emails.biologist, { kind: 'biology', title: 'Fish in the bow section' });
+    const lead = await t.signIn(emails.lead);
+    const bio = await t.signIn(emails.biologist);
+    const first = await lead.put(`/api/observations/${created.id}/identification`).send({ version: 1, scientificName: 'Conger conger' });
+    expect(first.status).toBe(200);
+    expect(first.body.version).toBe(2);
+
+    // The biologist's form opened at version 1 too.
+    const stale = await bio
+      .put(`/api/observations/${created.id}/identification`)
+      .send({ version: 1, scientificName: 'Phycis blennoides', confidence: 'low' });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error).toMatchObject({ code: 'stale_version' });
+    expect(stale.body.error.message).toMatch(/version 2/);
+    const now = await detail(created.id);
+    expect(now.version).toBe(2);
+    expect(now.identificationDetail).toMatchObject({ scientificName: 'Conger conger', confidence: null, identifiedByName: 'Ada Lumen' });
+    expect(revisionCount(created.id)).toBe(2);
+
+    // Having seen version 2, the biologist may replace it knowingly.
+    const fresh = await bio.put(`/api/observations/${created.id}/identification`).send({ version: 2, scientificName: 'Phycis blennoides' });
+    expect(fresh.status).toBe(200);
+    expect(fresh.body.version).toBe(3);
+    expect(fresh.body.identificationDetail.scientificName).toBe('Phycis blennoides');
+    expect(revisionCount(created.id)).toBe(3);
+  });
+
+  it('refuses a find from a stale version with 409 and keeps the first writer’s find', async () => {
+    const created = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Lead sheathing fragment' });
+    const arch = await t.signIn(emails.archaeologist);
+    const lead = await t.signIn(emails.lead);
+    const first = await arch
+      .put(`/api/observations/${created.id}/find`)
+      .send({ version: 1, findNumber: 'VS26-071', material: 'lead', state: 'in-situ' });
+    expect(first.status).toBe(200);
+    expect(first.body.version).toBe(2);
+
+    const stale = await lead
+      .put(`/api/observations/${created.id}/find`)
+      .send({ version: 1, findNumber: 'VS26-072', material: 'copper', state: 'recovered' });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.code).toBe('stale_version');
+    const now = await detail(created.id);
+    expect(now.version).toBe(2);
+    expect(now.find).toMatchObject({ findNumber: 'VS26-071', material: 'lead', state: 'in-situ' });
+    expect(revisionCount(created.id)).toBe(2);
+
+    const fresh = await lead
+      .put(`/api/observations/${created.id}/find`)
+      .send({ version: 2, findNumber: 'VS26-071', material: 'lead', condition: 'folded', state: 'in-situ' });
+    expect(fresh.status).toBe(200);
+    expect(fresh.body.version).toBe(3);
+    expect(fresh.body.find).toMatchObject({ condition: 'folded' });
+  });
+
+  it('shares one version with the entry’s edits, and refuses a body without one', async () => {
+    const created = await logAs(emails.biologist, { kind: 'biology', title: 'Shrimp on the windlass' });
+    const bio = await t.signIn(emails.biologist);
+    expect((await bio.patch(`/api/observations/${created.id}`).send({ version: 1, note: 'Red, ~3 cm.' })).status).toBe(200);
+    const afterEdit = await bio.put(`/api/observations/${created.id}/identification`).send({ version: 1, scientificName: 'Plesionika' });
+    expect(afterEdit.status).toBe(409);
+    const missing = await bio.put(`/api/observations/${created.id}/identification`).send({ scientificName: 'Plesionika' });
+    expect(missing.status).toBe(400);
+    expect(missing.body.error.issues.map((i: { path: string }) => i.path)).toContain('version');
+    const arch = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Sounding lead' });
+    const noVersion = await (
+      await t.signIn(emails.archaeologist)
+    )
+      .put(`/api/observations/${arch.id}/find`)
+      .send({ findNumber: 'VS26-073' });
+    expect(noVersion.status).toBe(400);
+    expect((await detail(arch.id)).find).toBeNull();
+    // A stale identification PUT does not stop the entry's own edits from the current version.
+    const named = await bio.put(`/api/observations/${created.id}/identification`).send({ version: 2, scientificName: 'Plesionika' });
+    expect(named.body.version).toBe(3);
+    expect((await bio.patch(`/api/observations/${created.id}`).send({ version: 2, title: 'x' })).status).toBe(409);
+    expect((await detail(created.id)).title).toBe('Shrimp on the windlass');
+  });
+});
+
+describe('who verifies an identification', () => {
+  it('refuses a verification of a name changed since the verifier looked', async () => {
+    const created = await logAs(emails.guest, { kind: 'biology', title: 'Eel from the feed' });
+    const bio = await t.signIn(emails.biologist);
+    expect(
+      (await bio.put(`/api/observations/${created.id}/identification`).send({ version: 1, scientificName: 'Conger conger' })).body.version,
+    ).toBe(2);
+    // The lead looks at version 2; meanwhile the biologist changes her mind.
+    expect(
+      (await bio.put(`/api/observations/${created.id}/identification`).send({ version: 2, scientificName: 'Synaphobranchus kaupii' }))
+        .status,
+    ).toBe(200);
+    const lead = await t.signIn(emails.lead);
+    const stale = await lead.post(`/api/observations/${created.id}/identification/verify`).send({ version: 2, status: 'verified' });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.code).toBe('stale_version');
+    expect((await detail(created.id)).identificationDetail).toMatchObject({
+      scientificName: 'Synaphobranchus kaupii',
+      verificationStatus: 'unverified',
+      verifiedBy: null,
+    });
+    const fresh = await lead.post(`/api/observations/${created.id}/identification/verify`).send({ version: 3, status: 'verified' });
+    expect(fresh.status).toBe(200);
+    expect(fresh.body).toMatchObject({
+      version: 4,
+      identificationDetail: { verificationStatus: 'verified', verifiedByName: 'Ada Lumen' },
+    });
+  });
+
+  it('lets nobody verify a name they proposed or an entry they wrote, leads included', async () => {
+    const lead = await t.signIn(emails.lead);
+    // The lead names a scientist's entry: she may not verify her own name; another scientist may.
+    const a = await logAs(emails.archaeologist, { kind: 'biology', title: 'Sea urchin on a timber' });
+    await lead.put(`/api/observations/${a.id}/identification`).send({ version: 1, scientificName: 'Cidaris cidaris' });
+    const own = await lead.post(`/api/observations/${a.id}/identification/verify`).send({ version: 2, status: 'verified' });
+    expect(own.status).toBe(403);
+    expect(own.body.error.message).toMatch(/proposed the name or wrote the entry/);
+    const author = await (
+      await t.signIn(emails.archaeologist)
+    )
+      .post(`/api/observations/${a.id}/identification/verify`)
+      .send({ version: 2, status: 'verified' });
+    expect(author.status).toBe(403);
+    const other = await (
+      await t.signIn(emails.biologist)
+    )
+      .post(`/api/observations/${a.id}/identification/verify`)
+      .send({ version: 2, status: 'disputed' });
+    expect(other.status).toBe(200);
+    expect(other.body.identificationDetail).toMatchObject({ verificationStatus: 'disputed', verifiedByName: 'Cleo Varga' });
+
+    // The lead's own entry, named by a scientist: not the lead either.
+    const b = await logAs(emails.lead, { kind: 'biology', title: 'Starfish on the ballast' });
+    await (
+      await t.signIn(emails.biologist)
+    )
+      .put(`/api/observations/${b.id}/identification`)
+      .send({ version: 1, scientificName: 'Asteroidea' });
+    expect((await lead.post(`/api/observations/${b.id}/identification/verify`).send({ version: 2, status: 'verified' })).status).toBe(403);
+    expect((await detail(b.id)).identificationDetail?.verificationStatus).toBe('unverified');
+
+    // Someone else's entry and someone else's name: the lead verifies it.
+    const c = await logAs(emails.guest, { kind: 'biology', title: 'Octopus in an amphora' });
+    await (
+      await t.signIn(emails.biologist)
+    )
+      .put(`/api/observations/${c.id}/identification`)
+      .send({ version: 1, scientificName: 'Octopus vulgaris' });
+    const ok = await lead.post(`/api/observations/${c.id}/identification/verify`).send({ version: 2, status: 'verified' });
+    expect(ok.status).toBe(200);
+    expect(ok.body.identificationDetail.verificationStatus).toBe('verified');
+  });
+});
+
+describe('retired tags', () => {
+  it('refuses a retired tag on a new entry, names the tag it was merged into, and leaves tagged entries alone', async () => {
+    const lead = await t.signIn(emails.lead);
+    const bio = await t.signIn(emails.biologist);
+    const plain = (await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'old-survey' })).body as { id: string };
+    const merged = (await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'scleractinia' })).body as { id: string };
+    const tagged = await logAs(emails.biologist, { kind: 'biology', title: 'Tagged before retiring', tags: ['old-survey'] });
+
+    expect((await lead.patch(`/api/tags/${plain.id}`).send({ retired: true })).status).toBe(200);
+    const tagList = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[];
+    const coral = tagList.find((x) => x.name === 'coral')!;
+    expect((await lead.patch(`/api/tags/${merged.id}`).send({ mergeInto: coral.id })).status).toBe(200);
+
+    const refused = await bio
+      .post(`/api/dives/${ids.dive2026}/observations`)
+      .send({ kind: 'biology', title: 'Uses retired tags', tags: ['sponge', 'Old-Survey', 'scleractinia'] });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.code).toBe('validation_failed');
+    const issues = refused.body.error.issues as { path: string; message: string }[];
+    expect(issues.map((i) => i.path)).toEqual(['tags.1', 'tags.2']);
+    expect(issues[0]!.message).toMatch(/"old-survey" has been retired/);
+    expect(issues[0]!.message).not.toMatch(/merged/);
+    expect(issues[1]!.message).toMatch(/"scleractinia" has been retired: it was merged into "coral"/);
+    const n = t.ctx.db.$client.prepare("select count(*) from observations where title = 'Uses retired tags'").pluck().get();
+    expect(n).toBe(0);
+
+    // The entry that had it keeps it, also through an edit that sends it back...
+    expect((await detail(tagged.id)).tags).toEqual(['old-survey']);
+    const kept = await bio.patch(`/api/observations/${tagged.id}`).send({ version: 1, tags: ['old-survey', 'sponge'] });
+    expect(kept.status).toBe(200);
+    expect(kept.body.tags).toEqual(['old-survey', 'sponge']);
+    // ...but an edit may not add a retired tag to an entry that did not have it.
+    const other = await logAs(emails.biologist, { kind: 'biology', title: 'Untagged', tags: ['sponge'] });
+    const added = await bio.patch(`/api/observations/${other.id}`).send({ version: 1, tags: ['sponge', 'old-survey'] });
+    expect(added.status).toBe(400);
+    expect(added.body.error.issues[0].path).toBe('tags.1');
+    expect((await detail(other.id)).tags).toEqual(['sponge']);
   });
 });
 
