@@ -13,7 +13,8 @@ export function useBreakpoint(): Breakpoint {
 
 /**
  * The one place that decides how the app is laid out at each size: navigation at the bottom on
- * phones and at the side from tablets up; list and detail side by side on wide screens.
+ * phones and at the side from tablets up; list and detail side by side on wide screens; a note's
+ * preview beside its field wherever two columns fit, behind an Edit / Preview switch on phones.
  */
 export function useLayout() {
   const breakpoint = useBreakpoint();
@@ -21,5 +22,6 @@ export function useLayout() {
     breakpoint,
     navPlacement: breakpoint === 'phone' ? ('bottom' as const) : ('side' as const),
     splitView: breakpoint === 'wide',
+    previewBeside: breakpoint !== 'phone',
   };
 }

@@ -79,3 +79,43 @@ export const type = {
 
 /** Width limits of the three layouts, in CSS pixels. */
 export const breakpoints = { tablet: 700, wide: 1100 } as const;
+
+/* ---- tag colours ---- */
+
+/** One tag colour: `fg` for the name and the outline, `bg` for the fill behind it. */
+export type TagSwatch = { name: string; light: { fg: string; bg: string }; dark: { fg: string; bg: string } };
+
+/**
+ * Our own eight tag colours, named after things on a wreck site. Every `fg` reads at 4.5:1 or
+ * better on its own `bg` and on the theme's surfaces, so a tag's name stays legible in either
+ * theme; the colour only helps the eye group tags, the name always says which tag it is.
+ */
+export const tagPalette: readonly TagSwatch[] = [
+  { name: 'kelp', light: { fg: '#1f5e3a', bg: '#dcefe2' }, dark: { fg: '#8fe0ae', bg: '#143526' } },
+  { name: 'brine', light: { fg: '#0f5872', bg: '#d8ecf3' }, dark: { fg: '#86d3ee', bg: '#0f3442' } },
+  { name: 'rust', light: { fg: '#8a3b12', bg: '#f8e1d3' }, dark: { fg: '#f5ab83', bg: '#3f2014' } },
+  { name: 'anemone', light: { fg: '#8a2160', bg: '#f6dcea' }, dark: { fg: '#f2a0cf', bg: '#3c1630' } },
+  { name: 'lantern', light: { fg: '#6b5200', bg: '#f4eac4' }, dark: { fg: '#e8cd6e', bg: '#362c0c' } },
+  { name: 'slate', light: { fg: '#3d3f8f', bg: '#e2e2f6' }, dark: { fg: '#b0b4f5', bg: '#23254a' } },
+  { name: 'ember', light: { fg: '#9a2a33', bg: '#f9dfe0' }, dark: { fg: '#ff9ea5', bg: '#411a1e' } },
+  { name: 'lichen', light: { fg: '#4a5a12', bg: '#e8eecb' }, dark: { fg: '#c6db79', bg: '#2b3210' } },
+];
+
+/** 32-bit FNV-1a over the UTF-16 code units: small, fast and the same on every device. */
+export function fnv1a(text: string): number {
+  let h = 0x811c9dc5;
+  for (let i = 0; i < text.length; i++) {
+    h ^= text.charCodeAt(i);
+    h = Math.imul(h, 0x01000193) >>> 0;
+  }
+  return h >>> 0;
+}
+
+/**
+ * A tag's colour in a theme. It depends on the name alone (trimmed, any case), as the server
+ * matches tags, so a tag looks the same on every screen and for everyone in the campaign.
+ */
+export function tagColors(tag: string, scheme: 'light' | 'dark'): { fg: string; bg: string } {
+  const swatch = tagPalette[fnv1a(tag.trim().toLowerCase()) % tagPalette.length]!;
+  return swatch[scheme];
+}

@@ -7,6 +7,7 @@ import { formatDepth, formatScientificName, formatUtcTime } from '@/lib/format';
 import type { Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { KindBadge } from './kind-badge';
+import { TagLabel } from './tag-label';
 
 type Props = { observation: Observation; onPress: () => void; selected?: boolean };
 
@@ -62,9 +63,7 @@ export function ObservationCard({ observation: o, onPress, selected }: Props) {
           {o.authorName}
         </Text>
         {o.tags.map((t) => (
-          <Text key={t} variant="caption" color={colors.accent}>
-            #{t}
-          </Text>
+          <TagLabel key={t} name={t} />
         ))}
       </View>
     </Card>
@@ -74,6 +73,6 @@ export function ObservationCard({ observation: o, onPress, selected }: Props) {
 const styles = StyleSheet.create({
   top: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
   flex: { flex: 1 },
-  meta: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  meta: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
   italic: { fontStyle: 'italic' },
 });

@@ -27,6 +27,9 @@ const labels: Record<keyof Draft, string> = {
   title: 'Title',
   time: 'Time (UTC)',
   depth: 'Depth (m)',
+  lat: 'Latitude',
+  lon: 'Longitude',
+  temperature: 'Water temperature (°C)',
   note: 'Note',
   tags: 'Tags',
 };
@@ -47,6 +50,12 @@ function changes(draft: Draft, base: ObservationDetail, version: number): Observ
   if (changed.includes('title')) body.title = result.body.title;
   if (changed.includes('time')) body.observedAt = result.body.observedAt;
   if (changed.includes('depth')) body.depth = result.body.depth ?? null;
+  // The contract takes a position as a pair: a change to either half sends both.
+  if (changed.includes('lat') || changed.includes('lon')) {
+    body.lat = result.body.lat ?? null;
+    body.lon = result.body.lon ?? null;
+  }
+  if (changed.includes('temperature')) body.temperature = result.body.temperature ?? null;
   if (changed.includes('note')) body.note = result.body.note ?? '';
   if (changed.includes('tags')) body.tags = result.body.tags ?? [];
   return body;

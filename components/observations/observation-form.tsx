@@ -2,14 +2,14 @@ import { useState } from 'react';
 import { Platform, StyleSheet, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
-import { Chip } from '@/components/ui/chip';
 import { Field } from '@/components/ui/field';
 import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
 import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
-import { useCampaign, useCampaignTags } from '@/hooks/campaigns';
+import { useCampaign } from '@/hooks/campaigns';
 import { useDraft } from '@/hooks/draft';
+import { useLayout } from '@/hooks/layout';
 import { useLogEntry } from '@/hooks/outbox';
 import { useTheme } from '@/hooks/theme';
 import { parseUtcInput, toUtcInput } from '@/lib/format';
@@ -17,22 +17,59 @@ import { observationCreateSchema, observationKinds, type Observation, type Obser
 import { radius, space } from '@/lib/tokens';
 import { kindLabels } from './kind-badge';
 import { NoteView } from './note-view';
+import { TagInput } from './tag-input';
 
-export type Draft = { kind?: ObservationKind; title: string; time: string; depth: string; note: string; tags: string[] };
-export type FormErrors = Partial<Record<'kind' | 'title' | 'observedAt' | 'depth' | 'note' | 'tags' | 'form', string>>;
+export type Draft = {
+  kind?: ObservationKind;
+  title: string;
+  time: string;
+  depth: string;
+  /** Decimal degrees, as typed; both or neither. */
+  lat: string;
+  lon: string;
+  temperature: string;
+  note: string;
+  tags: string[];
+};
+export type FormErrors = Partial<
+  Record<'kind' | 'title' | 'observedAt' | 'depth' | 'lat' | 'lon' | 'temperature' | 'note' | 'tags' | 'form', string>
+>;
 
-export const blankDraft = (): Draft => ({ title: '', time: toUtcInput(new Date().toISOString()), depth: '', note: '', tags: [] });
+export const blankDraft = (): Draft => ({
+  title: '',
+  time: toUtcInput(new Date().toISOString()),
+  depth: '',
+  lat: '',
+  lon: '',
+  temperature: '',
+  note: '',
+  tags: [],
+});
 
-/** What the form shows for an existing entry; only a typed depth is editable as a number. */
+const typedOnly = (value: number | null, source: Observation['depthSource']) => (source === 'manual' && value != null ? String(value) : '');
+
+/**
+ * What the form shows for an existing entry. Only typed values are editable as numbers: a value
+ * from telemetry stays empty here, and stays linked to the telemetry log.
+ */
 export function draftFromObservation(o: Observation): Draft {
   return {
     kind: o.kind,
     title: o.title,
     time: toUtcInput(o.observedAt).concat(o.observedAt.slice(19, 23) === '.000' ? '' : o.observedAt.slice(19, 23)),
-    depth: o.depthSource === 'manual' && o.depth != null ? String(o.depth) : '',
+    depth: typedOnly(o.depth, o.depthSource),
+    lat: typedOnly(o.lat, o.positionSource),
+    lon: typedOnly(o.lon, o.positionSource),
+    temperature: typedOnly(o.temperature, o.temperatureSource),
     note: o.note,
     tags: o.tags,
   };
+}
+
+/** A typed number (a decimal comma is read as a point): null when empty, NaN when not a number. */
+function readNumber(text: string): number | null {
+  const t = text.trim().replace(',', '.');
+  return t === '' ? null : /^[-+]?(\d+\.?\d*|\.\d+)$/.test(t) ? Number(t) : NaN;
 }
 
 /** Turns the typed form into a create body, with the contract's own field messages. */
@@ -40,16 +77,28 @@ export function toPayload(d: Draft): { ok: true; body: ObservationCreate & { obs
   const errors: FormErrors = {};
   const observedAt = parseUtcInput(d.time);
   if (!observedAt) errors.observedAt = 'Type a UTC time like 2026-05-14 21:14:07';
-  const depthText = d.depth.trim().replace(',', '.');
-  const depth = depthText === '' ? null : Number(depthText);
-  if (depth !== null && !Number.isFinite(depth)) errors.depth = 'Depth is a number of metres';
+  const depth = readNumber(d.depth);
+  const lat = readNumber(d.lat);
+  const lon = readNumber(d.lon);
+  const temperature = readNumber(d.temperature);
+  if (Number.isNaN(depth)) errors.depth = 'Depth is a number of metres';
+  if (Number.isNaN(lat)) errors.lat = 'Latitude in decimal degrees, e.g. 36.1452 (south is negative)';
+  if (Number.isNaN(lon)) errors.lon = 'Longitude in decimal degrees, e.g. -7.4318 (west is negative)';
+  if (Number.isNaN(temperature)) errors.temperature = 'Temperature is a number of °C';
+  const valid = (n: number | null) => (n !== null && Number.isFinite(n) ? n : null);
+  // A position with an unreadable half is sent as neither, so only that half's message shows.
+  const positionBroken = Number.isNaN(lat) || Number.isNaN(lon);
   if (!d.kind) errors.kind = 'Choose what kind of observation this is';
   const parsed = observationCreateSchema.safeParse({
     kind: d.kind,
     title: d.title,
     note: d.note,
     observedAt: observedAt ?? undefined,
-    depth: depth !== null && Number.isFinite(depth) ? depth : null,
+    depth: valid(depth),
+    // A half-typed position is left to the contract's own "both or neither" rule.
+    lat: positionBroken ? null : lat,
+    lon: positionBroken ? null : lon,
+    temperature: valid(temperature),
     tags: d.tags,
   });
   if (!parsed.success) {
@@ -79,17 +128,38 @@ type FieldsProps = {
 /** The fields of an entry, shared by logging a new one and editing one. */
 export function ObservationFields({ campaignId, value: d, update, errors, onSubmit }: FieldsProps) {
   const { colors } = useTheme();
+  const { previewBeside } = useLayout();
   const [preview, setPreview] = useState(false);
-  const [newTag, setNewTag] = useState('');
-  const tags = useCampaignTags(campaignId).data ?? [];
   const campaign = useCampaign(campaignId).data;
-  const toggleTag = (name: string) => update({ tags: d.tags.includes(name) ? d.tags.filter((t) => t !== name) : [...d.tags, name] });
-  const addFreeTag = () => {
-    const name = newTag.trim();
-    if (name && !d.tags.includes(name)) update({ tags: [...d.tags, name] });
-    setNewTag('');
-  };
-  const vocabulary = [...new Set([...tags.filter((t) => !t.retired).map((t) => t.name), ...d.tags])];
+  const noteField = (
+    <Field
+      label="Note"
+      testID="field-note"
+      value={d.note}
+      onChangeText={(note) => update({ note })}
+      multiline
+      placeholder="*Scientific names* in italics, lists with -, **bold**…  (Ctrl+Enter saves)"
+      error={errors.note}
+      style={previewBeside ? styles.noteBeside : undefined}
+      onKeyPress={
+        Platform.OS === 'web'
+          ? (e) => {
+              const ev = e.nativeEvent as unknown as { key: string; ctrlKey?: boolean; metaKey?: boolean };
+              if (ev.key === 'Enter' && (ev.ctrlKey || ev.metaKey)) onSubmit();
+            }
+          : undefined
+      }
+    />
+  );
+  const notePreview = (
+    <View
+      style={[styles.preview, previewBeside && styles.previewBeside, { borderColor: colors.border, backgroundColor: colors.surface }]}
+      testID="note-preview"
+      aria-live="polite"
+    >
+      {d.note.trim() ? <NoteView markdown={d.note} /> : <Text muted>Nothing to preview.</Text>}
+    </View>
+  );
 
   return (
     <>
@@ -139,70 +209,79 @@ export function ObservationFields({ campaignId, value: d, update, errors, onSubm
         error={errors.depth}
       />
       <View style={styles.block}>
-        <Text variant="label">Tags</Text>
-        <View style={styles.chips}>
-          {vocabulary.map((name) => (
-            <Chip key={name} label={name} selected={d.tags.includes(name)} onPress={() => toggleTag(name)} testID={`tag-${name}`} />
-          ))}
-        </View>
-        {campaign?.allowFreeTags ? (
-          <View style={styles.row}>
-            <View style={styles.flex}>
-              <Field
-                label="New tag"
-                testID="field-new-tag"
-                value={newTag}
-                onChangeText={setNewTag}
-                onSubmitEditing={addFreeTag}
-                autoCapitalize="none"
-              />
-            </View>
-            <View style={styles.buttonBeside}>
-              <Button label="Add" tone="secondary" onPress={addFreeTag} />
-            </View>
+        <Text variant="label">Position (decimal degrees, WGS 84)</Text>
+        <View style={styles.row}>
+          <View style={styles.flex}>
+            <Field
+              label="Latitude"
+              testID="field-lat"
+              value={d.lat}
+              onChangeText={(lat) => update({ lat })}
+              inputMode="decimal"
+              mono
+              placeholder="36.14520"
+              error={errors.lat}
+            />
           </View>
-        ) : null}
-        {errors.tags ? (
-          <Text variant="caption" color={colors.danger}>
-            {errors.tags}
-          </Text>
-        ) : null}
+          <View style={styles.flex}>
+            <Field
+              label="Longitude"
+              testID="field-lon"
+              value={d.lon}
+              onChangeText={(lon) => update({ lon })}
+              inputMode="decimal"
+              mono
+              placeholder="-7.43180"
+              error={errors.lon}
+            />
+          </View>
+        </View>
+        <Text variant="caption" muted>
+          South and west are negative. Left empty, both come from telemetry.
+        </Text>
       </View>
+      <Field
+        label="Water temperature (°C)"
+        testID="field-temperature"
+        value={d.temperature}
+        onChangeText={(temperature) => update({ temperature })}
+        inputMode="decimal"
+        mono
+        placeholder="from telemetry when left empty"
+        error={errors.temperature}
+      />
+      <TagInput campaignId={campaignId} value={d.tags} onChange={(tags) => update({ tags })} error={errors.tags} />
       <View style={styles.block}>
         <View style={styles.row}>
           <Text variant="label" style={styles.flex}>
             Note (Markdown)
           </Text>
-          <Button
-            label={preview ? 'Edit' : 'Preview'}
-            tone="ghost"
-            compact
-            onPress={() => setPreview((p) => !p)}
-            testID="note-preview-toggle"
-          />
+          {previewBeside ? (
+            <Text variant="caption" muted>
+              Preview beside, as you type
+            </Text>
+          ) : (
+            <Button
+              label={preview ? 'Edit' : 'Preview'}
+              tone="ghost"
+              compact
+              onPress={() => setPreview((p) => !p)}
+              testID="note-preview-toggle"
+            />
+          )}
         </View>
-        {preview ? (
-          <View style={[styles.preview, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="note-preview">
-            {d.note.trim() ? <NoteView markdown={d.note} /> : <Text muted>Nothing to preview.</Text>}
+        {previewBeside ? (
+          <View style={styles.sideBySide}>
+            <View style={styles.flex}>{noteField}</View>
+            <View style={styles.flex}>
+              <Text variant="label">Preview</Text>
+              {notePreview}
+            </View>
           </View>
+        ) : preview ? (
+          notePreview
         ) : (
-          <Field
-            label="Note"
-            testID="field-note"
-            value={d.note}
-            onChangeText={(note) => update({ note })}
-            multiline
-            placeholder="*Scientific names* in italics, lists with -, **bold**…  (Ctrl+Enter saves)"
-            error={errors.note}
-            onKeyPress={
-              Platform.OS === 'web'
-                ? (e) => {
-                    const ev = e.nativeEvent as unknown as { key: string; ctrlKey?: boolean; metaKey?: boolean };
-                    if (ev.key === 'Enter' && (ev.ctrlKey || ev.metaKey)) onSubmit();
-                  }
-                : undefined
-            }
-          />
+          noteField
         )}
       </View>
     </>
@@ -280,6 +359,8 @@ const styles = StyleSheet.create({
   row: { flexDirection: 'row', alignItems: 'flex-end', gap: space.sm },
   buttonBeside: { paddingBottom: 22 },
   block: { gap: space.sm },
-  chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   preview: { borderWidth: 1, borderRadius: radius.md, padding: space.md, minHeight: 120 },
+  sideBySide: { flexDirection: 'row', gap: space.md, alignItems: 'stretch' },
+  noteBeside: { minHeight: 220 },
+  previewBeside: { minHeight: 220, marginTop: space.xs, flexGrow: 1 },
 });

@@ -113,8 +113,8 @@ export type Dive = z.infer<typeof diveSchema>;
 const title = z.string().trim().min(1, 'A title is needed').max(200, 'At most 200 characters');
 const note = z.string().max(20_000, 'Notes are limited to 20,000 characters');
 const depth = z.number().finite().min(-10, 'Depth is in metres below the surface').max(11_000, 'Deeper than any ocean');
-const lat = z.number().finite().min(-90).max(90);
-const lon = z.number().finite().min(-180).max(180);
+const lat = z.number().finite().min(-90, 'Latitude is between -90 and 90').max(90, 'Latitude is between -90 and 90');
+const lon = z.number().finite().min(-180, 'Longitude is between -180 and 180').max(180, 'Longitude is between -180 and 180');
 const temperature = z.number().finite().min(-3, 'Colder than sea water gets').max(400, 'Hotter than any vent');
 const tagName = z
   .string()

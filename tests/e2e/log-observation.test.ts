@@ -71,9 +71,11 @@ describe.each([
     await page.getByTestId('field-title').fill(title);
     await page.getByTestId('field-time').fill('2026-05-13 21:14:07');
     await page.getByTestId('field-depth').fill('601.5');
+    await page.getByTestId('field-tag').fill('microbial');
     await page.getByTestId('tag-microbial-mat').click();
     await page.getByTestId('field-note').fill('White *filamentous* mat, **40 %** cover.');
-    await page.getByTestId('note-preview-toggle').click();
+    // On a phone the preview is behind a switch; on a wide screen it shows beside the note.
+    if (size === 'phone') await page.getByTestId('note-preview-toggle').click();
     expect(await page.getByTestId('note-preview').locator('em').textContent()).toBe('filamentous');
     await page.getByTestId('save-observation').click();
 
