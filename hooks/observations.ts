@@ -33,6 +33,8 @@ export type DiveLogFilters = {
   author?: string;
   hasPhotos?: 'true' | 'false';
   verification?: string;
+  /** Only the retired entries, which the server shows to leads alone. */
+  retired?: 'only';
   sort?: 'time' | 'depth' | 'kind' | 'author';
   order?: 'asc' | 'desc';
 };

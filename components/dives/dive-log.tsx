@@ -1,4 +1,4 @@
-import { useCallback, useRef } from 'react';
+import { useCallback, useMemo, useRef } from 'react';
 import { ActivityIndicator, FlatList, Pressable, StyleSheet, View } from 'react-native';
 
 import { ObservationCard } from '@/components/observations/observation-card';
@@ -7,13 +7,19 @@ import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
 import { useDiveLog, type DiveLogFilters } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
-import type { Observation } from '@/lib/schemas';
+import { formatUtcTime } from '@/lib/format';
+import type { Dive, Observation } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
+import { matchesSearch, withPhases, type LogRow } from './log-rows';
 import { LogTableHeader, LogTableRow } from './log-table';
 
 type Props = {
   diveId: string;
   filters: DiveLogFilters;
+  /** Text the loaded entries' titles and notes are searched for, here in the app. */
+  search: string;
+  /** The dive's phases, shown between the entries when the log is in time order. */
+  phases?: Dive['phases'];
   onFiltersChange: (f: DiveLogFilters) => void;
   view: 'cards' | 'table';
   selectedId?: string;
@@ -36,6 +42,8 @@ export const READING_OFFSET = 120;
 export function DiveLog({
   diveId,
   filters,
+  search,
+  phases,
   onFiltersChange,
   view,
   selectedId,
@@ -46,23 +54,41 @@ export function DiveLog({
   header,
 }: Props) {
   const { colors } = useTheme();
-  const list = useRef<FlatList<Observation>>(null);
+  const list = useRef<FlatList<LogRow>>(null);
   const log = useDiveLog(diveId, filters);
-  const items = log.data?.pages.flatMap((p) => p.items) ?? [];
+  const searching = search.trim() !== '';
+  const loaded = useMemo(() => log.data?.pages.flatMap((p) => p.items) ?? [], [log.data]);
+  const items = useMemo(() => loaded.filter((o) => matchesSearch(o, search)), [loaded, search]);
+  const inTimeOrder = (filters.sort ?? 'time') === 'time';
+  const rows = useMemo(
+    () => withPhases(items, inTimeOrder ? phases : undefined, filters.order ?? 'desc', !log.hasNextPage),
+    [items, inTimeOrder, phases, filters.order, log.hasNextPage],
+  );
 
   const renderItem = useCallback(
-    ({ item }: { item: Observation }) =>
-      view === 'table' ? (
-        <LogTableRow observation={item} selected={item.id === selectedId} onPress={() => onSelect(item)} />
+    ({ item }: { item: LogRow }) => {
+      if (item.type === 'phase') return <PhaseDivider label={item.label} at={item.at} table={view === 'table'} phase={item.phase} />;
+      const o = item.observation;
+      return view === 'table' ? (
+        <LogTableRow observation={o} selected={o.id === selectedId} onPress={() => onSelect(o)} />
       ) : (
-        <ObservationCard observation={item} selected={item.id === selectedId} onPress={() => onSelect(item)} />
-      ),
+        <ObservationCard observation={o} selected={o.id === selectedId} onPress={() => onSelect(o)} />
+      );
+    },
     [onSelect, selectedId, view],
   );
 
   let empty: React.ReactElement;
   if (log.isPending) empty = <LoadingState label="Loading the dive log…" />;
   else if (log.isError) empty = <ErrorState error={log.error} onRetry={() => void log.refetch()} />;
+  else if (filters.retired) empty = <EmptyState title="No retired entries" body="Nothing on this dive has been retired." />;
+  else if (searching)
+    empty = (
+      <EmptyState
+        title="Nothing found"
+        body={`No loaded entry has “${search.trim()}” in its title or note.${log.hasNextPage ? ' Older entries are not loaded yet.' : ''}`}
+      />
+    );
   else if (Object.values(filters).some((v) => v && v !== 'time' && v !== 'desc'))
     empty = <EmptyState title="No entries match" body="Loosen the filters to see more of the log." />;
   else empty = <EmptyState title="No entries yet" body="Nothing has been logged on this dive. Log the first observation." />;
@@ -77,8 +103,8 @@ export function DiveLog({
       <FlatList
         ref={list}
         testID="dive-log"
-        data={items}
-        keyExtractor={(o) => o.id}
+        data={rows}
+        keyExtractor={(r) => r.key}
         renderItem={renderItem}
         ListHeaderComponent={
           <View>
@@ -93,6 +119,11 @@ export function DiveLog({
         ListFooterComponent={
           log.isFetchingNextPage ? (
             <ActivityIndicator color={colors.accent} />
+          ) : searching && items.length > 0 ? (
+            <Text variant="caption" muted style={styles.end} testID="search-count">
+              {items.length} of {loaded.length} loaded {loaded.length === 1 ? 'entry matches' : 'entries match'}
+              {log.hasNextPage ? '; older entries load as you scroll' : ''}
+            </Text>
           ) : log.hasNextPage || items.length === 0 ? null : (
             <Text variant="caption" muted style={styles.end}>
               Start of the dive log · {items.length} entries
@@ -130,6 +161,28 @@ export function DiveLog({
   );
 }
 
+/** A dive phase where it falls among the entries: a labelled rule, not an entry. */
+function PhaseDivider({ label, at, table, phase }: { label: string; at: string; table: boolean; phase: string }) {
+  const { colors } = useTheme();
+  return (
+    <View
+      style={[styles.phase, table && styles.phaseTable]}
+      testID={`log-phase-${phase}`}
+      role="separator"
+      aria-label={`${label} at ${formatUtcTime(at)}`}
+    >
+      <View style={[styles.rule, { backgroundColor: colors.border }]} />
+      <Text variant="monoSmall" muted>
+        {formatUtcTime(at)}
+      </Text>
+      <Text variant="label" muted>
+        {label}
+      </Text>
+      <View style={[styles.rule, { backgroundColor: colors.border }]} />
+    </View>
+  );
+}
+
 function Separator() {
   return <View style={styles.sep} />;
 }
@@ -139,6 +192,9 @@ const styles = StyleSheet.create({
   content: { padding: space.lg, paddingBottom: 96 },
   tableContent: { paddingBottom: 96 },
   sep: { height: space.md },
+  phase: { flexDirection: 'row', alignItems: 'center', gap: space.sm, paddingVertical: space.xs },
+  phaseTable: { paddingHorizontal: space.md, paddingVertical: space.sm },
+  rule: { flex: 1, height: StyleSheet.hairlineWidth },
   end: { textAlign: 'center', paddingVertical: space.lg },
   markerWrap: { position: 'absolute', top: space.md, left: 0, right: 0, alignItems: 'center' },
   marker: { borderRadius: radius.pill, paddingHorizontal: space.lg, paddingVertical: space.sm, elevation: 3 },

@@ -1,10 +1,11 @@
 import { useRouter } from 'expo-router';
 import { useRef, useState } from 'react';
-import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
+import { Pressable, ScrollView, StyleSheet, View, type TextInput } from 'react-native';
 
 import { ObservationDetail } from '@/components/observations/observation-detail';
 import { GalleryLink } from '@/components/photos/gallery-link';
 import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
 import { Icon } from '@/components/ui/icon';
 import { Screen, ScreenHeader } from '@/components/ui/screen';
 import { Segmented } from '@/components/ui/segmented';
@@ -25,6 +26,7 @@ import { diveStatus } from './dive-list';
 import { DivePhases } from './dive-phases';
 import { LiveStatusBadge } from './live-status';
 import { LogFilters } from './log-filters';
+import { matchesSearch } from './log-rows';
 import { PhaseControls } from './phase-controls';
 import { QuickMarkBar } from './quick-mark-bar';
 
@@ -38,10 +40,12 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const [filters, setFilters] = useState<DiveLogFilters>({});
   const [showFilters, setShowFilters] = useState(false);
   const [view, setView] = useState<'cards' | 'table'>('cards');
+  const [search, setSearch] = useState('');
+  const searchBox = useRef<TextInput>(null);
   const scrollOffset = useRef(0);
   const live = useDiveLive(diveId, () => scrollOffset.current > READING_OFFSET);
   const sendPending = useOutboxFlush();
-  const items = useDiveLog(diveId, filters).data?.pages.flatMap((p) => p.items) ?? [];
+  const items = (useDiveLog(diveId, filters).data?.pages.flatMap((p) => p.items) ?? []).filter((o) => matchesSearch(o, search));
   const role = campaign.data?.myRole;
 
   const open = (o: Observation) => {
@@ -65,6 +69,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       e: () => entryId && router.push(`/observations/${entryId}/edit`),
       Escape: () => router.setParams({ entry: undefined }),
       f: () => setShowFilters((s) => !s),
+      '/': () => searchBox.current?.focus(),
     },
     splitView,
   );
@@ -112,7 +117,26 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
           </View>
         ) : null}
       </View>
-      {showFilters ? <LogFilters campaignId={dive.data.campaignId} filters={filters} onChange={setFilters} /> : null}
+      <Field
+        ref={searchBox}
+        label="Search this log"
+        testID="log-search"
+        value={search}
+        onChangeText={setSearch}
+        placeholder={splitView ? 'Title or note contains…  ( / )' : 'Title or note contains…'}
+        autoCapitalize="none"
+        autoCorrect={false}
+        inputMode="search"
+        onKeyPress={(e) => {
+          if ((e.nativeEvent as { key?: string }).key === 'Escape') {
+            setSearch('');
+            searchBox.current?.blur();
+          }
+        }}
+      />
+      {showFilters ? (
+        <LogFilters campaignId={dive.data.campaignId} filters={filters} onChange={setFilters} isLead={role === 'lead'} />
+      ) : null}
     </View>
   ) : undefined;
 
@@ -120,6 +144,8 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
     <DiveLog
       diveId={diveId}
       filters={filters}
+      search={search}
+      phases={dive.data?.phases}
       onFiltersChange={setFilters}
       view={splitView ? view : 'cards'}
       selectedId={splitView ? entryId : undefined}
@@ -163,7 +189,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
             ) : (
               <EmptyState
                 title="Select an entry"
-                body="Its note, position, identification and history show here. Keys: N new entry · J / K next and previous · E edit · F filters · Esc close."
+                body="Its note, position, identification and history show here. Keys: N new entry · / search · J / K next and previous · E edit · F filters · Esc close."
               />
             )}
           </ScrollView>

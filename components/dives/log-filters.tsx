@@ -4,16 +4,18 @@ import { Chip } from '@/components/ui/chip';
 import { Text } from '@/components/ui/text';
 import { useCampaignTags } from '@/hooks/campaigns';
 import type { DiveLogFilters } from '@/hooks/observations';
+import { useCampaignMembers } from '@/hooks/team';
 import { useTheme } from '@/hooks/theme';
 import { observationKinds } from '@/lib/schemas';
-import { space } from '@/lib/tokens';
+import { space, tagColors } from '@/lib/tokens';
 import { kindLabels } from '../observations/kind-badge';
 
-type Props = { campaignId: string; filters: DiveLogFilters; onChange: (f: DiveLogFilters) => void };
+type Props = { campaignId: string; filters: DiveLogFilters; onChange: (f: DiveLogFilters) => void; isLead: boolean };
 
-/** Narrow the log by kind, tag, photos and verification. */
-export function LogFilters({ campaignId, filters, onChange }: Props) {
-  const { colors } = useTheme();
+/** Narrow the log by kind, tag, author, photos and verification; leads can also look at retired entries. */
+export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
+  const { colors, scheme } = useTheme();
+  const members = [...(useCampaignMembers(campaignId).data ?? [])].sort((a, b) => a.name.localeCompare(b.name));
   const tags = (useCampaignTags(campaignId).data ?? []).filter((t) => !t.retired && t.usage > 0).sort((a, b) => b.usage - a.usage);
   const set = (patch: Partial<DiveLogFilters>) => onChange({ ...filters, ...patch });
   return (
@@ -45,6 +47,22 @@ export function LogFilters({ campaignId, filters, onChange }: Props) {
           />
         ))}
       </ScrollView>
+      {members.length > 1 ? (
+        <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row} testID="filter-authors">
+          <Text variant="caption" muted>
+            Logged by
+          </Text>
+          {members.map((m) => (
+            <Chip
+              key={m.userId}
+              label={m.name}
+              selected={filters.author === m.userId}
+              onPress={() => set({ author: filters.author === m.userId ? undefined : m.userId })}
+              testID={`filter-author-${m.userId}`}
+            />
+          ))}
+        </ScrollView>
+      ) : null}
       {tags.length > 0 ? (
         <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row}>
           <Text variant="caption" muted>
@@ -54,6 +72,7 @@ export function LogFilters({ campaignId, filters, onChange }: Props) {
             <Chip
               key={t.id}
               label={`#${t.name}`}
+              color={tagColors(t.name, scheme).fg}
               selected={filters.tag === t.name}
               onPress={() => set({ tag: filters.tag === t.name ? undefined : t.name })}
               testID={`filter-tag-${t.name}`}
@@ -61,11 +80,28 @@ export function LogFilters({ campaignId, filters, onChange }: Props) {
           ))}
         </ScrollView>
       ) : null}
+      {isLead ? (
+        <View style={styles.row}>
+          <Chip
+            label={filters.retired ? 'Showing retired entries' : 'Retired entries'}
+            color={colors.danger}
+            selected={!!filters.retired}
+            onPress={() => set({ retired: filters.retired ? undefined : 'only' })}
+            testID="filter-retired"
+          />
+          {filters.retired ? (
+            <Text variant="caption" muted style={styles.flex}>
+              Only leads see these. Open one to restore it to the log.
+            </Text>
+          ) : null}
+        </View>
+      ) : null}
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   wrap: { gap: space.sm },
-  row: { gap: space.sm, alignItems: 'center', paddingVertical: 2 },
+  row: { flexDirection: 'row', gap: space.sm, alignItems: 'center', paddingVertical: 2 },
+  flex: { flex: 1 },
 });
