@@ -166,8 +166,16 @@ function FindForm({ observation: o, onDone, onDiscard }: { observation: Observat
   );
 }
 
+/** Why this person may not add to the trail, by the server's rule; null when they may. */
+function custodyRefusal(o: ObservationDetail, myRole: string, myId: string | undefined): string | null {
+  if (o.retired) return 'The trail of a retired entry is closed until a lead restores it.';
+  if (myRole === 'admin') return 'Only members of the campaign record hand-overs.';
+  if (myRole === 'guest' && o.authorId !== myId) return 'Guests record hand-overs only on their own entries.';
+  return null;
+}
+
 /** Who has held a recovered find or a sample, and where it is kept: append-only. */
-export function CustodyPanel({ observation: o, myRole }: { observation: ObservationDetail; myRole: string | undefined }) {
+export function CustodyPanel({ observation: o, myRole, myId }: Props) {
   const { colors } = useTheme();
   const [adding, setAdding] = useState(false);
   const [holder, setHolder] = useState('');
@@ -178,6 +186,8 @@ export function CustodyPanel({ observation: o, myRole }: { observation: Observat
   const inCustody = o.find?.state === 'recovered' || o.tags.some((t) => t.toLowerCase() === 'sample');
   if (!inCustody) return null;
   const sinceIso = parseUtcInput(since);
+  // Until the campaign says what this person is, neither the form nor a reason shows.
+  const refusal = myRole === undefined ? undefined : custodyRefusal(o, myRole, myId);
   return (
     <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="custody">
       <Text variant="label">Custody trail</Text>
@@ -195,42 +205,44 @@ export function CustodyPanel({ observation: o, myRole }: { observation: Observat
           </Text>
         </View>
       ))}
-      {myRole && myRole !== 'admin' ? (
-        adding ? (
-          <View style={styles.form}>
-            <RecoveryCaution />
-            <Field label="Held by" testID="field-custody-holder" value={holder} onChangeText={setHolder} />
-            <Field
-              label="Since (UTC)"
-              value={since}
-              onChangeText={setSince}
-              mono
-              error={sinceIso ? undefined : 'Type a UTC time like 2026-05-16 23:10:00'}
-            />
-            <Field
-              label="Kept at"
-              testID="field-custody-location"
-              value={location}
-              onChangeText={setLocation}
-              placeholder="Wet lab, tank 2"
-            />
-            <Field label="Container or label" value={container} onChangeText={setContainer} placeholder="Bag 14" />
-            {add.error instanceof ApiError ? <Text color={colors.danger}>{add.error.message}</Text> : null}
-            <Button
-              label="Add to the trail"
-              testID="save-custody"
-              busy={add.isPending}
-              disabled={!sinceIso}
-              onPress={() =>
-                sinceIso &&
-                add.mutate({ holder, since: sinceIso, location, container: container || null }, { onSuccess: () => setAdding(false) })
-              }
-            />
-          </View>
-        ) : (
-          <Button label="Record a hand-over" tone="secondary" compact onPress={() => setAdding(true)} testID="add-custody" />
-        )
-      ) : null}
+      {refusal ? (
+        <Text variant="caption" muted testID="custody-reason">
+          {refusal}
+        </Text>
+      ) : refusal === undefined ? null : adding ? (
+        <View style={styles.form}>
+          <RecoveryCaution />
+          <Field label="Held by" testID="field-custody-holder" value={holder} onChangeText={setHolder} />
+          <Field
+            label="Since (UTC)"
+            value={since}
+            onChangeText={setSince}
+            mono
+            error={sinceIso ? undefined : 'Type a UTC time like 2026-05-16 23:10:00'}
+          />
+          <Field
+            label="Kept at"
+            testID="field-custody-location"
+            value={location}
+            onChangeText={setLocation}
+            placeholder="Wet lab, tank 2"
+          />
+          <Field label="Container or label" value={container} onChangeText={setContainer} placeholder="Bag 14" />
+          {add.error instanceof ApiError ? <Text color={colors.danger}>{add.error.message}</Text> : null}
+          <Button
+            label="Add to the trail"
+            testID="save-custody"
+            busy={add.isPending}
+            disabled={!sinceIso}
+            onPress={() =>
+              sinceIso &&
+              add.mutate({ holder, since: sinceIso, location, container: container || null }, { onSuccess: () => setAdding(false) })
+            }
+          />
+        </View>
+      ) : (
+        <Button label="Record a hand-over" tone="secondary" compact onPress={() => setAdding(true)} testID="add-custody" />
+      )}
     </View>
   );
 }

@@ -22,6 +22,7 @@ import { IdentificationPanel } from './identification-panel';
 import { KindBadge } from './kind-badge';
 import { NoteView } from './note-view';
 import { RevisionHistory } from './revision-history';
+import { TagLabel } from './tag-label';
 
 const sourceLabel = (s: Observation['depthSource']) =>
   s === 'telemetry' ? 'from telemetry' : s === 'manual' ? 'typed in' : 'no telemetry';
@@ -67,7 +68,7 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
         </Text>
         {dive ? <TimecodeLabel dive={dive} observedAt={o.observedAt} /> : null}
       </View>
-      <EntryActions observation={o} mayEdit={mayEdit} isLead={role === 'lead'} />
+      {role && me ? <EntryActions observation={o} mayEdit={mayEdit} isLead={role === 'lead'} /> : null}
       <View style={[styles.facts, { borderColor: colors.border, backgroundColor: colors.surface }]}>
         {facts.map(([label, value, source]) => (
           <View key={label} style={styles.fact}>
@@ -86,11 +87,9 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
         ))}
       </View>
       {o.tags.length > 0 ? (
-        <View style={styles.tags}>
+        <View style={styles.tags} testID="detail-tags">
           {o.tags.map((t) => (
-            <Text key={t} variant="label" color={colors.accent}>
-              #{t}
-            </Text>
+            <TagLabel key={t} name={t} />
           ))}
         </View>
       ) : null}
@@ -99,7 +98,7 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
       </View>
       {o.kind === 'biology' ? <IdentificationPanel observation={o} myRole={role} myId={me?.user.id} /> : null}
       {o.kind === 'archaeology' ? <FindPanel observation={o} myRole={role} myId={me?.user.id} /> : null}
-      <CustodyPanel observation={o} myRole={role} />
+      <CustodyPanel observation={o} myRole={role} myId={me?.user.id} />
       <ObservationPhotos observation={o} />
       <RevisionHistory id={o.id} version={o.version} />
     </View>
@@ -128,9 +127,11 @@ function EntryActions({ observation: o, mayEdit, isLead }: { observation: Detail
       <View style={styles.actions}>
         <Button label="Restore" busy={restore.isPending} onPress={() => restore.mutate(undefined, { onError: fail })} testID="restore" />
       </View>
-    ) : null;
+    ) : (
+      <Reason text="Only a lead can restore a retired entry." />
+    );
   }
-  if (!mayEdit) return null;
+  if (!mayEdit) return <Reason text="Only the author or a lead can edit or retire this entry." />;
   return (
     <View style={styles.actions}>
       <Button label="Edit" tone="secondary" compact onPress={() => router.push(`/observations/${o.id}/edit`)} testID="edit" />
@@ -147,6 +148,15 @@ function EntryActions({ observation: o, mayEdit, isLead }: { observation: Detail
   );
 }
 
+/** Why an action someone might look for is not offered to them. */
+function Reason({ text }: { text: string }) {
+  return (
+    <Text variant="caption" muted testID="action-reason">
+      {text}
+    </Text>
+  );
+}
+
 const styles = StyleSheet.create({
   wrap: { gap: space.lg },
   head: { gap: space.sm, alignItems: 'flex-start' },
@@ -154,6 +164,6 @@ const styles = StyleSheet.create({
   banner: { borderRadius: radius.md, padding: space.md },
   facts: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg, flexDirection: 'row', flexWrap: 'wrap', gap: space.lg },
   fact: { minWidth: 160, gap: 2 },
-  tags: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
+  tags: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   note: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg },
 });
