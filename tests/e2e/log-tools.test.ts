@@ -1,0 +1,185 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+
+import { openBrowser, viewports, type Browser } from '../helpers/chromium';
+import { startServerProcess, type ServerProcess } from '../helpers/server-process';
+
+let server: ServerProcess;
+
+beforeAll(async () => {
+  server = await startServerProcess();
+});
+afterAll(async () => {
+  await server?.stop();
+});
+
+async function signIn(page: Page, email: string) {
+  await page.goto(server.url);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill('bathynote-demo');
+  await page.getByTestId('sign-in-password').press('Enter');
+  await page.getByTestId('campaign-list').waitFor();
+}
+
+async function openDive(page: Page, number = 'VS-02') {
+  await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+  await page.getByTestId(`dive-${number}`).click();
+  await page.getByTestId('dive-log').locator('[data-testid^="observation-"]').first().waitFor();
+}
+
+/** The log's entries (cards or table rows), not the parts inside a card. */
+const cards = (page: Page) =>
+  page
+    .getByTestId('dive-log')
+    .locator('[data-testid^="observation-"]:not([data-testid="observation-time"]):not([data-testid="observation-title"])');
+
+const title = 'Rust-coloured concretion on the keelson';
+
+describe('at phone size', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await openBrowser(viewports.phone);
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('logs a typed position and temperature with a tag from the vocabulary, and shows them after a reload', async () => {
+    const { page } = browser;
+    await signIn(page, 'biologist@bathynote.test');
+    await openDive(page);
+    await page.getByTestId('new-observation').click();
+    await page.getByTestId('observation-form').waitFor();
+    await page.getByTestId('field-kind-environment').click();
+    await page.getByTestId('field-title').fill(title);
+
+    // The contract's own range message, before anything is sent.
+    await page.getByTestId('field-lat').fill('96.2');
+    await page.getByTestId('field-lon').fill('-7.4318');
+    await page.getByTestId('save-observation').click();
+    expect(await page.getByTestId('field-lat-error').textContent()).toBe('Latitude is between -90 and 90');
+    await page.getByTestId('field-lat').fill('36.1452');
+    await page.getByTestId('field-temperature').fill('4,25');
+
+    // Typing narrows the suggestions to the vocabulary's matches; Enter adds the first one.
+    await page.getByTestId('field-tag').fill('concre');
+    expect(await page.getByTestId('tag-suggestions').locator('[data-testid^="tag-"]').count()).toBe(1);
+    await page.getByTestId('field-tag').press('Enter');
+    await page.getByTestId('chosen-tag-concretion').waitFor();
+    expect(await page.getByTestId('field-tag').inputValue()).toBe('');
+    // A tap adds one too, and the chosen tag leaves the suggestions.
+    await page.getByTestId('field-tag').fill('hu');
+    await page.getByTestId('tag-hull').click();
+    await page.getByTestId('chosen-tag-hull').waitFor();
+    expect(await page.getByTestId('tag-concretion').count()).toBe(0);
+
+    await page.getByTestId('save-observation').click();
+    await page.getByTestId('dive-log').getByText(title).waitFor();
+    await page.reload();
+    await page.getByTestId('dive-log').getByText(title).click();
+    const detail = page.getByTestId('observation-detail');
+    await detail.getByText(title).waitFor();
+    expect(await detail.getByTestId('fact-position').textContent()).toBe('36.14520° N, 7.43180° W');
+    expect(await detail.getByTestId('source-position').textContent()).toBe('typed in');
+    expect(await detail.getByTestId('fact-water').textContent()).toBe('4.25 °C');
+    expect(await detail.getByTestId('source-water').textContent()).toBe('typed in');
+    expect(await detail.getByTestId('detail-tags').textContent()).toBe('#concretion#hull');
+    expect(browser.errors).toEqual([]);
+  });
+
+  it('tells a member who is not the author why the entry cannot be edited', async () => {
+    const other = await openBrowser(viewports.phone);
+    try {
+      await signIn(other.page, 'archaeologist@bathynote.test');
+      await openDive(other.page);
+      await other.page.getByTestId('dive-log').getByText(title).click();
+      const detail = other.page.getByTestId('observation-detail');
+      await detail.getByText(title).waitFor();
+      expect(await detail.getByTestId('action-reason').textContent()).toBe('Only the author or a lead can edit or retire this entry.');
+      expect(await detail.getByTestId('edit').count()).toBe(0);
+    } finally {
+      await other.close();
+    }
+  });
+});
+
+describe('at wide size', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await openBrowser(viewports.wide);
+    await signIn(browser.page, 'lead@bathynote.test');
+    await openDive(browser.page);
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('shows the dive phases among the entries, as cards and in the table', async () => {
+    const { page } = browser;
+    await page.getByTestId('log-phase-launch').waitFor();
+    await page.getByTestId('log-view-table').click();
+    await page.getByTestId('log-phase-launch').waitFor();
+    expect(await page.getByTestId('log-phase-onBottom').textContent()).toContain('On bottom');
+    await page.getByTestId('log-view-cards').click();
+  });
+
+  it('narrows the log to one author', async () => {
+    const { page } = browser;
+    const all = await cards(page).count();
+    await page.getByTestId('toggle-filters').click();
+    await page.getByTestId('filter-authors').getByText('Bram Ostrander').click();
+    await expect.poll(async () => (await cards(page).count()) < all).toBe(true);
+    const authors = await cards(page).evaluateAll((els) => els.map((e) => e.textContent ?? ''));
+    expect(authors.length).toBeGreaterThan(0);
+    for (const text of authors) expect(text).toContain('Bram Ostrander');
+    await page.getByTestId('filter-authors').getByText('Bram Ostrander').click();
+    await expect.poll(() => cards(page).count()).toBe(all);
+  });
+
+  it('lets the lead find a retired entry and restore it', async () => {
+    const { page } = browser;
+    await page.getByTestId('dive-log').getByText(title).click();
+    await page.getByTestId('observation-detail').getByText(title).waitFor();
+    await page.getByTestId('retire').click();
+    await page.getByTestId('retired-banner').waitFor();
+    await expect.poll(() => page.getByTestId('dive-log').getByText(title).count()).toBe(0);
+
+    await page.getByTestId('filter-retired').click();
+    await page.getByTestId('dive-log').getByText(title).click();
+    const detail = page.getByTestId('detail-pane');
+    await detail.getByTestId('restore').click();
+    await expect.poll(() => detail.getByTestId('retired-banner').count()).toBe(0);
+    await expect.poll(() => page.getByTestId('dive-log').getByText(title).count()).toBe(0);
+
+    await page.getByTestId('filter-retired').click();
+    await page.getByTestId('dive-log').getByText(title).waitFor();
+  });
+
+  it('focuses the search box on "/" and narrows the loaded entries by title or note', async () => {
+    const { page } = browser;
+    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+    await page.keyboard.press('/');
+    expect(await page.evaluate(() => document.activeElement?.getAttribute('data-testid'))).toBe('log-search');
+    expect(await page.getByTestId('log-search').inputValue()).toBe('');
+    await page.keyboard.type('keelson');
+    await expect.poll(() => cards(page).count()).toBe(1);
+    await page.getByTestId('dive-log').getByText(title).waitFor();
+    await page.getByTestId('search-count').waitFor();
+    // Esc in the box empties it; Esc outside it closes the entry, and the keys are listed.
+    await page.getByTestId('log-search').press('Escape');
+    await expect.poll(async () => (await cards(page).count()) > 1).toBe(true);
+    await page.keyboard.press('Escape');
+    await page.getByTestId('detail-pane').getByText('/ search', { exact: false }).waitFor();
+  });
+
+  it('previews the note beside the field while typing', async () => {
+    const { page } = browser;
+    await page.getByTestId('new-observation').click();
+    await page.getByTestId('observation-form').waitFor();
+    expect(await page.getByTestId('note-preview-toggle').count()).toBe(0);
+    await page.getByTestId('field-note').fill('A *Lophelia* thicket');
+    await expect.poll(() => page.getByTestId('note-preview').locator('em').textContent()).toBe('Lophelia');
+    expect(await page.getByTestId('field-note').isVisible()).toBe(true);
+    expect(browser.errors).toEqual([]);
+  });
+});
