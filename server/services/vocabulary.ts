@@ -25,6 +25,23 @@ function usage(db: Executor, tagId: string): number {
   );
 }
 
+/**
+ * Quick marks name their tags, so a rename or merge carries over to them (`to`) and a retired
+ * tag leaves them (`to` null): a quick mark tapped during a dive must never fail on its tags.
+ */
+function retagQuickMarks(tx: Executor, campaignId: string, from: string, to: string | null): void {
+  const marks = tx.select().from(quickMarks).where(eq(quickMarks.campaignId, campaignId)).all();
+  for (const mark of marks) {
+    if (!mark.tags.some((t) => t.toLowerCase() === from.toLowerCase())) continue;
+    const next: string[] = [];
+    for (const t of mark.tags) {
+      const name = t.toLowerCase() === from.toLowerCase() ? to : t;
+      if (name !== null && !next.some((n) => n.toLowerCase() === name.toLowerCase())) next.push(name);
+    }
+    tx.update(quickMarks).set({ tags: next }).where(eq(quickMarks.id, mark.id)).run();
+  }
+}
+
 const toTag = (db: Executor, t: typeof tags.$inferSelect): Tag => ({ id: t.id, name: t.name, retired: t.retired, usage: usage(db, t.id) });
 
 export function createTag(db: Db, campaignId: string, actorId: string, body: unknown): Tag {
@@ -56,6 +73,7 @@ export function updateTag(db: Db, tagId: string, actorId: string, body: unknown)
         select observation_id, ${target.id} from observation_tags where tag_id = ${tag.id}`);
       tx.delete(observationTags).where(eq(observationTags.tagId, tag.id)).run();
       tx.update(tags).set({ retired: true }).where(eq(tags.id, tag.id)).run();
+      retagQuickMarks(tx, tag.campaignId, tag.name, target.name);
       audit(tx, {
         campaignId: tag.campaignId,
         actorId,
@@ -77,6 +95,8 @@ export function updateTag(db: Db, tagId: string, actorId: string, body: unknown)
       .set({ ...(input.name ? { name: input.name } : {}), ...(input.retired !== undefined ? { retired: input.retired } : {}) })
       .where(eq(tags.id, tagId))
       .run();
+    if (input.name && input.name !== tag.name) retagQuickMarks(tx, tag.campaignId, tag.name, input.name);
+    if (input.retired === true && !tag.retired) retagQuickMarks(tx, tag.campaignId, input.name ?? tag.name, null);
     audit(tx, { campaignId: tag.campaignId, actorId, action: 'tag.updated', target: tag.id, detail: input });
     return toTag(tx, tx.select().from(tags).where(eq(tags.id, tagId)).get()!);
   });

@@ -558,6 +558,38 @@ describe('dives, phases and the vocabulary', () => {
     expect(after.map((q) => q.id)).not.toContain(made.body.id);
     expect(after.length).toBe(list.length - 1);
   });
+
+  it('carries a tag rename, merge or retirement into the quick marks, so a tap never fails on its tags', async () => {
+    const lead = await t.signIn(emails.lead);
+    const scour = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'scour-pit' });
+    const ripple = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'ripple-field' });
+    const mark = await lead
+      .post(`/api/campaigns/${ids.campaign2026}/quick-marks`)
+      .send({ label: 'Scour at the stern', kind: 'environment', tags: ['scour-pit', 'ripple-field', 'coral'] });
+    expect(mark.status).toBe(201);
+    const tagsOfMark = async () =>
+      ((await lead.get(`/api/campaigns/${ids.campaign2026}/quick-marks`)).body as { id: string; tags: string[] }[]).find(
+        (q) => q.id === mark.body.id,
+      )!.tags;
+
+    expect((await lead.patch(`/api/tags/${scour.body.id}`).send({ name: 'scour' })).status).toBe(200);
+    expect(await tagsOfMark()).toEqual(['scour', 'ripple-field', 'coral']);
+    const coral = ((await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[]).find(
+      (x) => x.name === 'coral',
+    )!;
+    expect((await lead.patch(`/api/tags/${scour.body.id}`).send({ mergeInto: coral.id })).status).toBe(200);
+    expect(await tagsOfMark()).toEqual(['coral', 'ripple-field']);
+    expect((await lead.patch(`/api/tags/${ripple.body.id}`).send({ retired: true })).status).toBe(200);
+    expect(await tagsOfMark()).toEqual(['coral']);
+
+    // Tapping the mark logs an entry with its tags, as the app does.
+    const tapped = await (
+      await t.signIn(emails.biologist)
+    )
+      .post(`/api/dives/${ids.dive2026}/observations`)
+      .send({ kind: 'environment', title: 'Scour at the stern', tags: await tagsOfMark() });
+    expect(tapped.status).toBe(201);
+  });
 });
 
 describe('sorting and filtering the log', () => {
