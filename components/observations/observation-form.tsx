@@ -219,7 +219,7 @@ export function ObservationFields({ campaignId, value: d, update, errors, onSubm
               onChangeText={(lat) => update({ lat })}
               inputMode="decimal"
               mono
-              placeholder="36.14520"
+              placeholder="from telemetry"
               error={errors.lat}
             />
           </View>
@@ -231,7 +231,7 @@ export function ObservationFields({ campaignId, value: d, update, errors, onSubm
               onChangeText={(lon) => update({ lon })}
               inputMode="decimal"
               mono
-              placeholder="-7.43180"
+              placeholder="from telemetry"
               error={errors.lon}
             />
           </View>
