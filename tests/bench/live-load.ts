@@ -1,5 +1,4 @@
 import { spawn } from 'node:child_process';
-import { readFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 
@@ -8,6 +7,7 @@ import { hashPassword } from 'better-auth/crypto';
 import Database from 'better-sqlite3';
 
 import { startServerProcess } from '../helpers/server-process';
+import { memoryOf, signIn } from './process';
 
 const WRITERS = 20;
 const READERS = 200;
@@ -18,26 +18,6 @@ function percentile(values: number[], p: number): number {
   if (values.length === 0) return NaN;
   const sorted = [...values].sort((a, b) => a - b);
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!;
-}
-
-/** Peak and current resident memory of a process, from /proc (Linux). */
-function memoryOf(pid: number): { rssMb: number; peakMb: number } {
-  const status = readFileSync(`/proc/${pid}/status`, 'utf8');
-  const kb = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+)`).exec(status)?.[1] ?? NaN);
-  return { rssMb: kb('VmRSS') / 1024, peakMb: kb('VmHWM') / 1024 };
-}
-
-async function signIn(url: string, email: string, password: string): Promise<string> {
-  const res = await fetch(`${url}/api/auth/sign-in/email`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', origin: url },
-    body: JSON.stringify({ email, password }),
-  });
-  if (res.status !== 200) throw new Error(`sign-in ${email}: ${res.status}`);
-  return res.headers
-    .getSetCookie()
-    .map((c) => c.split(';')[0])
-    .join('; ');
 }
 
 /**
@@ -54,8 +34,12 @@ export async function benchLiveLoad(): Promise<void> {
     const password = 'bench-writer-password';
     const hash = await hashPassword(password);
     const now = Date.now();
-    const insertUser = db.prepare("insert into user (id, name, email, email_verified, created_at, updated_at, role) values (?, ?, ?, 1, ?, ?, 'user')");
-    const insertAccount = db.prepare("insert into account (id, account_id, provider_id, user_id, password, created_at, updated_at) values (?, ?, 'credential', ?, ?, ?, ?)");
+    const insertUser = db.prepare(
+      "insert into user (id, name, email, email_verified, created_at, updated_at, role) values (?, ?, ?, 1, ?, ?, 'user')",
+    );
+    const insertAccount = db.prepare(
+      "insert into account (id, account_id, provider_id, user_id, password, created_at, updated_at) values (?, ?, 'credential', ?, ?, ?, ?)",
+    );
     const insertMember = db.prepare("insert into memberships (campaign_id, user_id, role, created_at) values (?, ?, 'scientist', ?)");
     const writerEmails: string[] = [];
     for (let i = 0; i < WRITERS; i++) {
@@ -72,9 +56,13 @@ export async function benchLiveLoad(): Promise<void> {
     const readerCookies = await Promise.all(
       ['guest', 'lead', 'pilot', 'archaeologist', 'biologist'].map((who) => signIn(server.url, `${who}@bathynote.test`, 'bathynote-demo')),
     );
-    readers = spawn(process.execPath, ['--import', 'tsx', 'tests/bench/stream-readers.ts', `${server.url}/api/dives/${diveId}/stream`, String(READERS), ...readerCookies], {
-      stdio: ['pipe', 'pipe', 'inherit'],
-    });
+    readers = spawn(
+      process.execPath,
+      ['--import', 'tsx', 'tests/bench/stream-readers.ts', `${server.url}/api/dives/${diveId}/stream`, String(READERS), ...readerCookies],
+      {
+        stdio: ['pipe', 'pipe', 'inherit'],
+      },
+    );
     let out = '';
     readers.stdout!.on('data', (d: Buffer) => (out += d.toString()));
     for (let waited = 0; !out.includes('ready\n'); waited += 100) {
@@ -111,7 +99,12 @@ export async function benchLiveLoad(): Promise<void> {
             },
             setupRequest: (req) => ({
               ...req,
-              body: JSON.stringify({ kind: 'biology', title: `Load entry ${Math.random().toString(36).slice(2, 8)}`, tags: ['coral'], note: 'Polyps *extended*.' }),
+              body: JSON.stringify({
+                kind: 'biology',
+                title: `Load entry ${Math.random().toString(36).slice(2, 8)}`,
+                tags: ['coral'],
+                note: 'Polyps *extended*.',
+              }),
             }),
           },
         ],
@@ -126,7 +119,11 @@ export async function benchLiveLoad(): Promise<void> {
     const stream = JSON.parse(out.slice(before).trim()) as { received: number; p50: number; p99: number; max: number };
     const received = stream.received;
 
-    const sent = (db.prepare("select count(*) as n from live_events where id > ? and dive_id = ? and type = 'observation.created'").get(firstEvent, diveId) as { n: number }).n;
+    const sent = (
+      db
+        .prepare("select count(*) as n from live_events where id > ? and dive_id = ? and type = 'observation.created'")
+        .get(firstEvent, diveId) as { n: number }
+    ).n;
     db.close();
     const memory = memoryOf(server.child.pid!);
     const expected = sent * READERS;

@@ -4,28 +4,30 @@ import path from 'node:path';
 
 import Database from 'better-sqlite3';
 
+import { DEMO_PASSWORD } from '@/db/seed';
 import { diveFacts, stampDiveObservations } from '@/server/services/telemetry';
+import { importTelemetryLog } from '@/server/services/telemetry-import';
 import { announceStamped } from '@/server/services/telemetry-stamp';
 import { logOf } from '@/server/services/telemetry-series';
 import { writeVehicleLog } from '../fixtures/telemetry/logs';
 import { demoIds, emails } from '../helpers/demo';
+import { startServerProcess } from '../helpers/server-process';
 import { startTestServer } from '../helpers/test-server';
-
-const MB = 2 ** 20;
+import { memoryOf, signIn } from './process';
 
 /** Process CPU time (user and system) in ms; beside wall time it shows what a busy machine adds. */
 const cpuMs = (u: NodeJS.CpuUsage) => (u.user + u.system) / 1000;
 
-/** Peak resident memory while `work` runs, sampled every 10 ms. */
-async function withPeakRss<T>(work: () => Promise<T>): Promise<{ result: T; peak: number; before: number }> {
-  const before = process.memoryUsage().rss;
+/** Peak resident memory of process `pid` while `work` runs, sampled from /proc every 10 ms. */
+async function withPeakRssOf<T>(pid: number, work: () => Promise<T>): Promise<{ result: T; peak: number; before: number }> {
+  const before = memoryOf(pid).rssMb;
   let peak = before;
   const timer = setInterval(() => {
-    peak = Math.max(peak, process.memoryUsage().rss);
+    peak = Math.max(peak, memoryOf(pid).rssMb);
   }, 10);
   try {
     const result = await work();
-    peak = Math.max(peak, process.memoryUsage().rss);
+    peak = Math.max(peak, memoryOf(pid).rssMb);
     return { result, peak, before };
   } finally {
     clearInterval(timer);
@@ -62,6 +64,9 @@ function bareInsert(dbFile: string, diveId: string, rows: number, start: number)
  */
 export async function benchTelemetryImport(): Promise<void> {
   const dir = mkdtempSync(path.join(tmpdir(), 'bathynote-bench-telemetry-'));
+  // The import runs against the server in its own process, as in production, so its memory is
+  // the server's alone; stamping below is timed in this process on a test server.
+  const server = await startServerProcess({ LOG_LEVEL: 'silent', AUTH_RATE_LIMIT: '1000', API_RATE_LIMIT: '1000000' });
   const t = await startTestServer({ env: { AUTH_RATE_LIMIT: '1000', API_RATE_LIMIT: '1000000' } });
   try {
     const ids = demoIds(t.ctx.db);
@@ -70,26 +75,43 @@ export async function benchTelemetryImport(): Promise<void> {
     const start = facts.phases.launch ?? Date.UTC(2026, 4, 13, 17, 40);
     const file = path.join(dir, 'skerry-10h-10hz.csv');
     const rows = await writeVehicleLog(file, start, 10, 10);
-    const cookie = await t.sessionCookie(emails.pilot);
+
+    const serverDb = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
+    const serverDive = (serverDb.prepare("select id from dives where number = 'VS-02'").get() as { id: string }).id;
+    serverDb.close();
+    const cookie = await signIn(server.url, emails.pilot, DEMO_PASSWORD);
+    const pid = server.child.pid!;
 
     const blob = await openAsBlob(file, { type: 'text/csv' });
     const {
       result: imported,
       peak,
       before,
-    } = await withPeakRss(async () => {
+    } = await withPeakRssOf(pid, async () => {
       const body = new FormData();
       body.set('mode', 'replace');
       body.set('file', blob, 'skerry-10h-10hz.csv');
       const began = performance.now();
-      const cpu = process.cpuUsage();
-      const res = await fetch(`${t.url}/api/dives/${dive}/telemetry`, { method: 'POST', headers: { cookie, origin: t.url }, body });
+      const res = await fetch(`${server.url}/api/dives/${serverDive}/telemetry`, {
+        method: 'POST',
+        headers: { cookie, origin: server.url },
+        body,
+      });
       const report = (await res.json()) as { rowsTaken?: number; rowsRejected?: number; stamped?: { updated: number } };
-      return { ms: performance.now() - began, cpuMs: cpuMs(process.cpuUsage(cpu)), status: res.status, report };
+      return { ms: performance.now() - began, status: res.status, report };
     });
+    const lifetimePeak = memoryOf(pid).peakMb;
 
     const bareMs = bareInsert(path.join(dir, 'bare.db'), dive, rows, start);
 
+    // The same log in this process's database, untimed, so that every entry has a sample to take.
+    await importTelemetryLog(t.ctx.db, t.ctx.live, {
+      diveId: dive,
+      userId: ids.userId(emails.pilot),
+      filePath: file,
+      fileName: 'skerry-10h-10hz.csv',
+      fields: { mode: 'replace' },
+    });
     // 10,000 entries spread over the log, none with typed values, stamped in one go.
     const db = t.ctx.db;
     const authorId = ids.userId(emails.biologist);
@@ -112,13 +134,12 @@ export async function benchTelemetryImport(): Promise<void> {
     announceStamped(db, t.ctx.live, ids.campaign2026, dive, stamped.changed);
     const announceMs = performance.now() - began;
 
-    const mb = (bytes: number) => `${(bytes / MB).toFixed(0)} MB`;
     process.stdout.write(
       [
         `import of a ${rows.toLocaleString('en')}-row log (10 h at 10 Hz) through POST /api/dives/:diveId/telemetry`,
         `  status       ${imported.status}   rows taken ${imported.report.rowsTaken}   rejected ${imported.report.rowsRejected}`,
-        `  time         ${(imported.ms / 1000).toFixed(2)} s   (target <= 5 s; CPU ${(imported.cpuMs / 1000).toFixed(2)} s, server and client together)`,
-        `  peak memory  rss ${mb(peak)}   (target <= 300 MB; ${mb(before)} before the upload, so ${mb(peak - before)} for the import; server and client in one process)`,
+        `  time         ${(imported.ms / 1000).toFixed(2)} s   (target <= 5 s; upload, parse, write and stamp, server in its own process)`,
+        `  peak memory  server rss ${peak.toFixed(0)} MB during the import   (target <= 300 MB; ${before.toFixed(0)} MB before it, so ${(peak - before).toFixed(0)} MB for the import; ${lifetimePeak.toFixed(0)} MB the server's peak since start)`,
         `  bare insert  ${(bareMs / 1000).toFixed(2)} s for the same rows (better-sqlite3 loop, one transaction)   import/bare ${(imported.ms / bareMs).toFixed(1)}x`,
         `stamping 10,000 entries from that log`,
         `  stamp        ${stampMs.toFixed(0)} ms for ${stamped.changed.length} changed entries   (target <= 100 ms; CPU ${stampCpuMs.toFixed(0)} ms)`,
@@ -128,6 +149,7 @@ export async function benchTelemetryImport(): Promise<void> {
     );
   } finally {
     await t.close();
+    await server.stop();
     rmSync(dir, { recursive: true, force: true });
   }
 }
