@@ -7,7 +7,9 @@ import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
 import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
+import { TimecodeEntry } from '@/components/telemetry/timecode-entry';
 import { useCampaign } from '@/hooks/campaigns';
+import { useDive } from '@/hooks/dives';
 import { useDraft } from '@/hooks/draft';
 import { useLayout } from '@/hooks/layout';
 import { useLogEntry } from '@/hooks/outbox';
@@ -48,6 +50,9 @@ export const blankDraft = (): Draft => ({
 
 const typedOnly = (value: number | null, source: Observation['depthSource']) => (source === 'manual' && value != null ? String(value) : '');
 
+/** An instant as the time field shows it: UTC with seconds, and milliseconds only when there are some. */
+const timeInputOf = (iso: string) => toUtcInput(iso).concat(iso.slice(19, 23) === '.000' ? '' : iso.slice(19, 23));
+
 /**
  * What the form shows for an existing entry. Only typed values are editable as numbers: a value
  * from telemetry stays empty here, and stays linked to the telemetry log.
@@ -56,7 +61,7 @@ export function draftFromObservation(o: Observation): Draft {
   return {
     kind: o.kind,
     title: o.title,
-    time: toUtcInput(o.observedAt).concat(o.observedAt.slice(19, 23) === '.000' ? '' : o.observedAt.slice(19, 23)),
+    time: timeInputOf(o.observedAt),
     depth: typedOnly(o.depth, o.depthSource),
     lat: typedOnly(o.lat, o.positionSource),
     lon: typedOnly(o.lon, o.positionSource),
@@ -119,6 +124,8 @@ export function errorsFromServer(err: unknown): FormErrors {
 
 type FieldsProps = {
   campaignId: string;
+  /** The entry's dive: once its recording clock is set, the time can be typed as a video time code. */
+  diveId: string;
   value: Draft;
   update: (patch: Partial<Draft>) => void;
   errors: FormErrors;
@@ -126,11 +133,12 @@ type FieldsProps = {
 };
 
 /** The fields of an entry, shared by logging a new one and editing one. */
-export function ObservationFields({ campaignId, value: d, update, errors, onSubmit }: FieldsProps) {
+export function ObservationFields({ campaignId, diveId, value: d, update, errors, onSubmit }: FieldsProps) {
   const { colors } = useTheme();
   const { previewBeside } = useLayout();
   const [preview, setPreview] = useState(false);
   const campaign = useCampaign(campaignId).data;
+  const dive = useDive(diveId).data;
   const noteField = (
     <Field
       label="Note"
@@ -197,6 +205,7 @@ export function ObservationFields({ campaignId, value: d, update, errors, onSubm
           <Button label="Now" tone="secondary" testID="time-now" onPress={() => update({ time: toUtcInput(new Date().toISOString()) })} />
         </View>
       </View>
+      {dive ? <TimecodeEntry dive={dive} onTime={(iso) => update({ time: timeInputOf(iso) })} /> : null}
       <Field
         label="Depth (m)"
         testID="field-depth"
@@ -337,7 +346,14 @@ export function NewObservationForm({ diveId, campaignId, onCreated }: NewProps) 
           <Button label="Discard draft" tone="ghost" compact onPress={draft.clear} testID="discard-draft" />
         </View>
       ) : null}
-      <ObservationFields campaignId={campaignId} value={draft.value} update={draft.update} errors={errors} onSubmit={() => void submit()} />
+      <ObservationFields
+        campaignId={campaignId}
+        diveId={diveId}
+        value={draft.value}
+        update={draft.update}
+        errors={errors}
+        onSubmit={() => void submit()}
+      />
       {failure ? (
         <Text color={colors.danger} role="alert" testID="form-error">
           {failure}

@@ -13,6 +13,7 @@ import type { TelemetrySamples } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { DepthProfile } from './depth-profile';
 import { DiveStatsGrid } from './dive-stats';
+import { RecordingSettings } from './recording-settings';
 import { SitePlan } from './site-plan';
 import { TelemetryImport } from './telemetry-import';
 
@@ -78,6 +79,9 @@ export function DiveSummaryView({ diveId }: { diveId: string }) {
             Maximum depth from the entries’ depths: the dive has no depth in its log.
           </Text>
         ) : null}
+      </Card>
+      <Card testID="recording-card">
+        <RecordingSettings dive={dive.data} mayEdit={mayImport} />
       </Card>
       {mayImport ? (
         <Card testID="import-card">

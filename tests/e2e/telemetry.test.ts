@@ -158,6 +158,46 @@ describe('the dive summary on a wide screen', () => {
     }
   });
 
+  it('lets the pilot set the video clock, then log an entry by typing the time code on screen', async () => {
+    const browser = await openBrowser(viewports.wide);
+    try {
+      const { page } = browser;
+      await signIn(page, 'pilot@bathynote.test');
+      await page.goto(`${server.url}/dives/${diveId}/summary`);
+      await page.getByTestId('recording-settings').waitFor();
+      await page.getByTestId('recording-start').fill('2026-05-13 17:35:00');
+      await page.getByTestId('frame-rate-29-97-DF').click();
+      await page.getByTestId('recording-save').click();
+      await page.getByTestId('recording-saved').waitFor();
+
+      await page.goto(`${server.url}/dives/${diveId}`);
+      await page.getByTestId('new-observation').click();
+      await page.getByTestId('observation-form').waitFor();
+      // 00:01:00;00 is a label 29.97 drop-frame never shows (SMPTE ST 12-1 drops frames 0 and 1 of each minute but every tenth).
+      await page.getByTestId('timecode-input').fill('00:01:00;00');
+      await page.getByTestId('timecode-apply').click();
+      await page.getByTestId('timecode-input-error').waitFor();
+      // 01:00:00;00 began 3 599.997 s after the first frame (the arithmetic of tests/unit/timecode.test.ts).
+      await page.getByTestId('timecode-input').fill('01:00:00;00');
+      await page.getByTestId('timecode-apply').click();
+      expect(await page.getByTestId('field-time').inputValue()).toBe('2026-05-13 18:34:59.997');
+      expect(await page.getByTestId('timecode-input-error').count()).toBe(0);
+
+      const title = 'Amphora neck in frame on the recording';
+      await page.getByTestId('field-kind-archaeology').click();
+      await page.getByTestId('field-title').fill(title);
+      await page.getByTestId('save-observation').click();
+      await page.getByTestId('dive-log').getByText(title).click();
+      const detail = page.getByTestId('observation-detail');
+      await expect.poll(() => detail.getByTestId('detail-title').textContent()).toBe(title);
+      expect(await detail.getByTestId('fact-time').textContent()).toBe('2026-05-13 18:34:59.997Z');
+      expect(await detail.getByTestId('timecode').textContent()).toBe('TC 01:00:00;00');
+      expect(browser.errors).toEqual([]);
+    } finally {
+      await browser.close();
+    }
+  });
+
   it('shows a guest the plots without the import', async () => {
     const browser = await openBrowser(viewports.wide);
     try {
@@ -167,6 +207,11 @@ describe('the dive summary on a wide screen', () => {
       await page.getByTestId('depth-profile-svg').waitFor();
       await page.getByTestId('import-history').waitFor();
       expect(await page.getByTestId('telemetry-import').count()).toBe(0);
+      // The video clock the pilot set, to read only.
+      const settings = page.getByTestId('recording-settings');
+      expect(await settings.textContent()).toContain('Recording started 2026-05-13 17:35:00Z at 29.97 DF fps');
+      expect(await settings.textContent()).toContain('Only the lead or the pilot can change these.');
+      expect(await page.getByTestId('recording-save').count()).toBe(0);
       expect(browser.errors).toEqual([]);
     } finally {
       await browser.close();

@@ -235,7 +235,10 @@ describe('wall clock ↔ time code', () => {
       ok: true,
       iso: new Date(START + 3_599_997).toISOString(),
     });
-    expect(instantOfRecordingTimecode({ startAt: null, frameRate: '25' }, '00:00:01:00')).toMatchObject({ ok: false, message: /recording start/ });
+    expect(instantOfRecordingTimecode({ startAt: null, frameRate: '25' }, '00:00:01:00')).toMatchObject({
+      ok: false,
+      message: /recording start/,
+    });
     expect(instantOfRecordingTimecode({ startAt, frameRate: '48' }, '00:00:01:00')).toMatchObject({ ok: false });
     // 00:01:00;00 does not exist at 29.97 drop-frame: frames 0 and 1 of minute 1 are skipped (SMPTE ST 12-1).
     expect(instantOfRecordingTimecode({ startAt, frameRate: '29.97 DF' }, '00:01:00;00')).toMatchObject({ ok: false });
