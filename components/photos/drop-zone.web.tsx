@@ -1,4 +1,4 @@
-import { useState, type DragEvent, type ReactNode } from 'react';
+import { useEffect, useState, type DragEvent, type ReactNode } from 'react';
 
 import type { PickedFile } from '@/hooks/photo-upload';
 import { useTheme } from '@/hooks/theme';
@@ -19,6 +19,20 @@ export function DropZone({
 }) {
   const { colors } = useTheme();
   const [over, setOver] = useState(false);
+  useEffect(() => {
+    if (!enabled) return;
+    // A photo dropped just beside the zone would make the browser open it in place of the app,
+    // and a half-written entry with it; while a zone is on screen, stray file drops do nothing.
+    const ignoreStray = (e: globalThis.DragEvent) => {
+      if (e.dataTransfer && Array.from(e.dataTransfer.types).includes('Files')) e.preventDefault();
+    };
+    window.addEventListener('dragover', ignoreStray);
+    window.addEventListener('drop', ignoreStray);
+    return () => {
+      window.removeEventListener('dragover', ignoreStray);
+      window.removeEventListener('drop', ignoreStray);
+    };
+  }, [enabled]);
   if (!enabled) return <>{children}</>;
   // Both dragenter and dragover must be cancelled for the zone to count as a drop target
   // (HTML drag-and-drop model); otherwise a browser may send the drop to the page instead.

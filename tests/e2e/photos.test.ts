@@ -233,6 +233,16 @@ describe('photos on an entry', () => {
       expect(await photos.getByTestId('photo-count').textContent()).toBe('1 photo');
       expect(await strip.getByText('Taken 2026-05-13 21:02:05Z').count()).toBe(1);
 
+      // A file dropped beside the zone is ignored, rather than opened by the browser in place of the app.
+      const strayOpened = await page.evaluate(() => {
+        const dt = new DataTransfer();
+        dt.items.add(new File([new Uint8Array([0xff, 0xd8, 0xff])], 'stray.jpg', { type: 'image/jpeg' }));
+        const drop = new DragEvent('drop', { dataTransfer: dt, bubbles: true, cancelable: true });
+        return document.body.dispatchEvent(drop);
+      });
+      expect(strayOpened).toBe(false);
+      expect(await page.getByTestId('upload-done').count()).toBe(1);
+
       // The guest sees it arrive without reloading: in the entry beside the log, and on its card.
       await expect.poll(() => seen.getByTestId('photo-count').textContent(), { timeout: 30_000 }).toBe('1 photo');
       await expect.poll(() => seen.getByTestId('photo-thumb').count(), { timeout: 15_000 }).toBe(1);
