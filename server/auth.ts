@@ -8,6 +8,7 @@ import { admin, magicLink } from 'better-auth/plugins';
 import type { Db } from '../db/client';
 import * as schema from '../db/schema';
 import type { Env } from './env';
+import { oneAtATimePerKey } from './services/one-at-a-time';
 
 /** The header our own server sets from the socket (or the trusted proxy); clients cannot forge it. */
 export const CLIENT_IP_HEADER = 'x-bathynote-client-ip';
@@ -26,6 +27,8 @@ export const INVITATION_LINK_SECONDS = 72 * 60 * 60;
  */
 export class MagicLinkPostbox {
   private readonly expected = new Map<string, { linkKey: string; send: (url: string) => Promise<void> }>();
+  /** Sends to one address run one after another, so two invitations never share an entry. */
+  private readonly oneAtATime = oneAtATimePerKey();
 
   async deliver(email: string, url: string): Promise<void> {
     const entry = this.expected.get(email.toLowerCase());
@@ -38,26 +41,49 @@ export class MagicLinkPostbox {
     return `${key}.${randomBytes(32).toString('base64url')}`;
   }
 
-  async expect<T>(email: string, linkKey: string, send: (url: string) => Promise<void>, run: () => Promise<T>): Promise<T> {
+  expect<T>(email: string, linkKey: string, send: (url: string) => Promise<void>, run: () => Promise<T>): Promise<T> {
     const key = email.toLowerCase();
-    this.expected.set(key, { linkKey, send });
-    try {
-      return await run();
-    } finally {
-      this.expected.delete(key);
-    }
+    return this.oneAtATime(key, async () => {
+      this.expected.set(key, { linkKey, send });
+      try {
+        return await run();
+      } finally {
+        this.expected.delete(key);
+      }
+    });
   }
 }
 
-/** What is stored of a link's token: its invitation key and the SHA-256 of the whole token. */
+/**
+ * What is stored of a link's token: its invitation key and the SHA-256 of the whole token. A token
+ * without a key (a link mailed before keys were added) is stored as better-auth's own hash was,
+ * so such links keep working until they expire.
+ */
 export function storedLinkKey(token: string): string {
+  const hash = createHash('sha256').update(token).digest('base64url');
   const dot = token.indexOf('.');
-  const key = dot > 0 ? token.slice(0, dot).replace(/[^A-Za-z0-9-]/g, '') : 'none';
-  return `${key}:${createHash('sha256').update(token).digest('base64url')}`;
+  if (dot <= 0) return hash;
+  return `${token.slice(0, dot).replace(/[^A-Za-z0-9-]/g, '')}:${hash}`;
 }
 
-/** Deletes every sign-in link made for an invitation, so an older mail's link stops working. */
-export function forgetInvitationLinks(db: Db, invitationId: string): void {
+/** The stored keys of the sign-in links made for an invitation. */
+export function invitationLinks(db: Db, invitationId: string): string[] {
+  return db.$client
+    .prepare("select identifier from verification where identifier like 'magic-link:' || ? || ':%'")
+    .pluck()
+    .all(invitationId) as string[];
+}
+
+/**
+ * Deletes sign-in links made for an invitation, so an older mail's link stops working: all of
+ * them, or those of `only` (the links that were there before a new one was sent).
+ */
+export function forgetInvitationLinks(db: Db, invitationId: string, only?: string[]): void {
+  if (only) {
+    const del = db.$client.prepare('delete from verification where identifier = ?');
+    for (const identifier of only) del.run(identifier);
+    return;
+  }
   db.$client.prepare("delete from verification where identifier like 'magic-link:' || ? || ':%'").run(invitationId);
 }
 

@@ -9,7 +9,7 @@ import {
   type CampaignRole,
   type Invitation,
 } from '../../lib/schemas';
-import { forgetInvitationLinks, INVITATION_LINK_SECONDS } from '../auth';
+import { forgetInvitationLinks, INVITATION_LINK_SECONDS, invitationLinks } from '../auth';
 import type { AppContext } from '../context';
 import { ApiError, conflict } from '../errors';
 import { audit } from './audit';
@@ -66,8 +66,9 @@ async function sendInvitation(ctx: AppContext, row: InvitationRow, inviter: Acto
   const campaign = ctx.db.select({ name: campaigns.name }).from(campaigns).where(eq(campaigns.id, row.campaignId)).get();
   const base = ctx.env.PUBLIC_URL;
   const callbackURL = `${base}/api/invitations/${row.id}/accept`;
-  // A resend replaces the earlier link: only the newest mail's link works.
-  forgetInvitationLinks(ctx.db, row.id);
+  // A resend replaces the earlier link, once the new mail is out: only the newest mail's link
+  // works, and a mail that could not be sent leaves the earlier one working.
+  const earlier = invitationLinks(ctx.db, row.id);
   await ctx.postbox.expect(
     row.email,
     row.id,
@@ -95,6 +96,7 @@ async function sendInvitation(ctx: AppContext, row: InvitationRow, inviter: Acto
         headers: new Headers({ origin: base }),
       }),
   );
+  forgetInvitationLinks(ctx.db, row.id, earlier);
   ctx.db.update(invitations).set({ sentAt: new Date() }).where(eq(invitations.id, row.id)).run();
 }
 

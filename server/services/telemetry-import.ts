@@ -36,6 +36,7 @@ import {
   STORED_CHANNELS,
   type TelemetryColumns,
 } from './telemetry-series';
+import { oneAtATimePerKey } from './one-at-a-time';
 import { announceStamped } from './telemetry-stamp';
 
 /** Rejected rows listed one by one in the report; the count beyond it is still exact. */
@@ -198,17 +199,33 @@ async function readPlainRecords(
     onRecord(record.split(separator), line);
   };
   let rest = '';
+  // Inside a line already refused as too long: its remainder is skipped up to its end.
+  let skipping = false;
   const stream = createReadStream(filePath, { highWaterMark: 1024 * 1024, encoding: s.encoding });
   for await (const chunk of stream as AsyncIterable<string>) {
-    const text = rest === '' ? chunk : rest + chunk;
     let start = 0;
+    if (skipping) {
+      const nl = chunk.indexOf('\n');
+      if (nl === -1) continue;
+      start = nl + 1;
+      skipping = false;
+    }
+    const text = rest === '' ? chunk.slice(start) : rest + chunk;
+    start = 0;
     for (let nl = text.indexOf('\n'); nl !== -1; nl = text.indexOf('\n', start)) {
       take(text.slice(start, nl));
       start = nl + 1;
     }
     rest = text.slice(start);
+    if (rest.length > MAX_RECORD_SIZE + 1) {
+      // A line without end in sight (a file with no line breaks): refuse it without holding it.
+      line++;
+      onTooLong(line);
+      rest = '';
+      skipping = true;
+    }
   }
-  if (rest !== '') take(rest);
+  if (rest !== '' && !skipping) take(rest);
 }
 
 type ParseOutcome = {
@@ -327,9 +344,12 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
           if (err?.code === 'CSV_MAX_RECORD_SIZE') {
             // csv-parse reads no further after this error, so the rest of the log would be lost unsaid.
             parser.destroy(
-              new ApiError(400, 'record_too_long', `Line ${line} of the log runs past ${MAX_RECORD_SIZE} characters; nothing was imported.`, [
-                { path: `file.line.${line}`, message: 'Look for a double quote that is never closed, or a line that is not telemetry' },
-              ]),
+              new ApiError(
+                400,
+                'record_too_long',
+                `Line ${line} of the log runs past ${MAX_RECORD_SIZE} characters; nothing was imported.`,
+                [{ path: `file.line.${line}`, message: 'Look for a double quote that is never closed, or a line that is not telemetry' }],
+              ),
             );
             return;
           }
@@ -373,20 +393,8 @@ function warningsOf(r: HeaderRecognition, extra: string[]): string[] {
   return [...out, ...extra];
 }
 
-const locks = new Map<string, Promise<unknown>>();
-
-/** Runs imports of the same dive one after another, so an append always sees the log before it. */
-async function oneAtATime<T>(diveId: string, work: () => Promise<T>): Promise<T> {
-  const before = locks.get(diveId) ?? Promise.resolve();
-  const mine = before.then(work, work);
-  const tail = mine.catch(() => undefined);
-  locks.set(diveId, tail);
-  try {
-    return await mine;
-  } finally {
-    if (locks.get(diveId) === tail) locks.delete(diveId);
-  }
-}
+/** Imports of the same dive run one after another, so an append always sees the log before it. */
+const oneAtATime = oneAtATimePerKey();
 
 const insertStatements = new WeakMap<Db, Map<number, (values: unknown[]) => void>>();
 

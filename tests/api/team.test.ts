@@ -1,4 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createHash } from 'node:crypto';
+
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 
 import { caughtMailSchema, invitationSchema, meSchema } from '@/lib/schemas';
 import { demoIds, emails } from '../helpers/demo';
@@ -159,6 +161,62 @@ describe('inviting a guest scientist', () => {
     expect(fresh.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
     const joined = await follow(linkIn(otherMail!.text));
     expect(joined.last.location).toBe(`/campaigns/${ids.campaign2024}?welcome=1`);
+  });
+
+  it('keeps the earlier link working when the resent mail cannot be sent', async () => {
+    const lead = await t.signIn(emails.lead);
+    const email = 'no-link-at-sea@bathynote.test';
+    const res = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' });
+    const link = linkIn((await mailTo(email)).text);
+    const send = vi.spyOn(t.ctx.mailer, 'send').mockRejectedValueOnce(new Error('connection refused'));
+    try {
+      const resent = await lead.post(`/api/invitations/${res.body.id}/resend`);
+      expect(resent.status).toBeGreaterThanOrEqual(500);
+    } finally {
+      send.mockRestore();
+    }
+    const joined = await follow(link);
+    expect(joined.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
+  });
+
+  it('mails two invitations of one address, sent at once, each with its own link', async () => {
+    const lead = await t.signIn(emails.lead);
+    const email = 'both-seasons@bathynote.test';
+    const [a, b] = await Promise.all([
+      lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' }),
+      lead.post(`/api/campaigns/${ids.campaign2024}/invitations`).send({ email, role: 'scientist' }),
+    ]);
+    expect([a.status, b.status]).toEqual([201, 201]);
+    const mails = (await outbox()).filter((m) => m.to.includes(email));
+    expect(mails).toHaveLength(2);
+    for (const mail of mails) {
+      const token = new URL(linkIn(mail.text)).searchParams.get('token')!;
+      const forCampaign = mail.subject.includes('2026') ? a.body.id : b.body.id;
+      expect(token.startsWith(`${forCampaign}.`)).toBe(true);
+    }
+  });
+
+  it('still takes a link mailed before links carried their invitation', async () => {
+    const lead = await t.signIn(emails.lead);
+    const email = 'mailed-last-week@bathynote.test';
+    const res = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' });
+    expect(res.status).toBe(201);
+    // A link as the earlier release stored it: better-auth's plain SHA-256 of a token without a key.
+    const token = 'LegacyTokenWithoutAnyInvitationKey0123456789';
+    t.ctx.db.$client
+      .prepare('insert into verification (id, identifier, value, expires_at, created_at, updated_at) values (?, ?, ?, ?, ?, ?)')
+      .run(
+        'legacy-link',
+        `magic-link:${createHash('sha256').update(token).digest('base64url')}`,
+        JSON.stringify({ type: 'magic-link', email }),
+        Date.now() + 3600_000,
+        Date.now(),
+        Date.now(),
+      );
+    const accept = `${t.url}/api/invitations/${res.body.id}/accept`;
+    const link = `${t.url}/api/auth/magic-link/verify?token=${token}&callbackURL=${encodeURIComponent(accept)}&newUserCallbackURL=${encodeURIComponent(accept)}`;
+    const joined = await follow(link);
+    expect(joined.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
   });
 
   it('makes no account from a link whose invitation closed, even if the link were left behind', async () => {

@@ -203,9 +203,13 @@ describe('a good log', () => {
     const long = 'x'.repeat(70 * 1024);
     const log = (note: string) =>
       Buffer.from(`time,depth_m,note\n2026-05-13T18:00:00Z,10,a\n2026-05-13T18:00:01Z,11,${note}\n2026-05-13T18:00:02Z,12,b\n`);
-    const report = await imported(log(long));
-    expect(report.rowsTaken).toBe(2);
-    expect(report.rejected.map((r) => [r.line, r.code])).toEqual([[3, 'bad-csv']]);
+    // One over-long line inside a read, and one running across several reads of the file.
+    for (const note of [long, 'y'.repeat(3 * 1024 * 1024)]) {
+      const report = await imported(log(note));
+      expect(report.rowsTaken).toBe(2);
+      expect(report.rejected.map((r) => [r.line, r.code])).toEqual([[3, 'bad-csv']]);
+      expect(stored().map((x) => x.depth)).toEqual([10, 12]);
+    }
 
     // A quote never closed swallows the rest of the file; the import stops rather than take half.
     const before = stored();
