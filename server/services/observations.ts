@@ -291,7 +291,7 @@ export function listObservations(db: Db, diveId: string, rawQuery: unknown, opti
  * tag that was only retired. A merge is known from the audit trail (the tags table keeps no
  * link); the latest merge or retirement of the tag decides.
  */
-function replacementOf(db: Executor, campaignId: string, tagId: string): { name: string } | null {
+function replacementOf(db: Executor, campaignId: string, tagId: string): { id: string; name: string } | null {
   let current = tagId;
   for (let hop = 0; hop < 5; hop++) {
     const last = db
@@ -322,7 +322,7 @@ function replacementOf(db: Executor, campaignId: string, tagId: string): { name:
               .get()
           : undefined;
     if (!target) return null;
-    if (!target.retired) return { name: target.name };
+    if (!target.retired) return { id: target.id, name: target.name };
     current = target.id;
   }
   return null;
@@ -330,11 +330,13 @@ function replacementOf(db: Executor, campaignId: string, tagId: string): { name:
 
 /**
  * Finds the campaign's tags by name (case-insensitively), creating the missing ones when the
- * campaign allows free tags; otherwise an unknown tag is a field error. A retired tag is a field
- * error too (naming its replacement when it was merged), unless the entry already carries it:
- * retiring a tag leaves the entries that had it alone.
+ * campaign allows free tags; otherwise an unknown tag is a field error. A merged tag stands for
+ * the tag it went into. A tag that was only retired stays on the entries that had it; an edit may
+ * not add it (a field error), while a new entry keeps it: a new entry may have been logged on a
+ * device without a link before the tag was retired, and it must not be refused for that.
  */
-function resolveTags(db: Executor, campaignId: string, names: string[], kept: ReadonlySet<string> = new Set()): string[] {
+function resolveTags(db: Executor, campaignId: string, names: string[], mode: { kept: ReadonlySet<string> } | 'new'): string[] {
+  const kept = mode === 'new' ? new Set<string>() : mode.kept;
   const wanted = [...new Map(names.map((n) => [n.toLowerCase(), n])).values()];
   if (wanted.length === 0) return [];
   const existing = db
@@ -350,25 +352,19 @@ function resolveTags(db: Executor, campaignId: string, names: string[], kept: Re
       ),
     )
     .all();
-  const byLower = new Map(existing.map((t) => [t.name.toLowerCase(), t]));
-  const retired = existing.filter((t) => t.retired && !kept.has(t.id));
-  if (retired.length > 0) {
-    throw new ApiError(
-      400,
-      'validation_failed',
-      'Some tags have been retired from the campaign vocabulary.',
-      retired.map((t) => {
-        const given = wanted.find((n) => n.toLowerCase() === t.name.toLowerCase())!;
-        const replacement = replacementOf(db, campaignId, t.id);
-        return {
-          path: `tags.${names.indexOf(given)}`,
-          message: replacement
-            ? `"${t.name}" has been retired: it was merged into "${replacement.name}"; use that instead`
-            : `"${t.name}" has been retired from this campaign's tag vocabulary`,
-        };
-      }),
-    );
+  const byLower = new Map<string, { id: string }>(existing.map((t) => [t.name.toLowerCase(), t]));
+  const refused: { path: string; message: string }[] = [];
+  for (const t of existing.filter((x) => x.retired && !kept.has(x.id))) {
+    const replacement = replacementOf(db, campaignId, t.id);
+    if (replacement) {
+      byLower.set(t.name.toLowerCase(), replacement);
+    } else if (mode !== 'new') {
+      const given = wanted.find((n) => n.toLowerCase() === t.name.toLowerCase())!;
+      refused.push({ path: `tags.${names.indexOf(given)}`, message: `"${t.name}" has been retired from this campaign's tag vocabulary` });
+    }
   }
+  if (refused.length > 0)
+    throw new ApiError(400, 'validation_failed', 'Some tags have been retired from the campaign vocabulary.', refused);
   const missing = wanted.filter((n) => !byLower.has(n.toLowerCase()));
   if (missing.length > 0) {
     const campaign = db.select({ allow: campaigns.allowFreeTags }).from(campaigns).where(eq(campaigns.id, campaignId)).get();
@@ -382,12 +378,12 @@ function resolveTags(db: Executor, campaignId: string, names: string[], kept: Re
     }
     for (const name of missing) byLower.set(name.toLowerCase(), db.insert(tags).values({ campaignId, name }).returning().get());
   }
-  return wanted.map((n) => byLower.get(n.toLowerCase())!.id);
+  return [...new Set(wanted.map((n) => byLower.get(n.toLowerCase())!.id))];
 }
 
-function setTags(db: Executor, observationId: string, campaignId: string, names: string[]) {
+function setTags(db: Executor, observationId: string, campaignId: string, names: string[], isNew = false) {
   const had = db.select({ id: observationTags.tagId }).from(observationTags).where(eq(observationTags.observationId, observationId)).all();
-  const tagIds = resolveTags(db, campaignId, names, new Set(had.map((t) => t.id)));
+  const tagIds = resolveTags(db, campaignId, names, isNew ? 'new' : { kept: new Set(had.map((t) => t.id)) });
   db.delete(observationTags).where(eq(observationTags.observationId, observationId)).run();
   if (tagIds.length > 0)
     db.insert(observationTags)
@@ -432,7 +428,14 @@ function snapshotOf(db: Executor, observation: Observation): Record<string, unkn
   return rest;
 }
 
-function writeRevision(db: Executor, snapshot: Record<string, unknown> & { id: string }, version: number, action: Revision['action'], actorId: string, at: Date) {
+function writeRevision(
+  db: Executor,
+  snapshot: Record<string, unknown> & { id: string },
+  version: number,
+  action: Revision['action'],
+  actorId: string,
+  at: Date,
+) {
   db.insert(observationRevisions).values({ observationId: snapshot.id, version, action, snapshot, editedBy: actorId, editedAt: at }).run();
 }
 
@@ -490,7 +493,7 @@ export function createObservation(
       })
       .returning({ id: observations.id })
       .get();
-    setTags(tx, row.id, target.campaignId, input.tags);
+    setTags(tx, row.id, target.campaignId, input.tags, true);
     const observation = getObservation(tx, row.id)!;
     // A new entry has no identification, find, photos or custody yet.
     writeRevision(tx, { ...observation, identificationDetail: null, find: null }, 1, 'created', target.authorId, now);

@@ -69,6 +69,11 @@ export function updateTag(db: Db, tagId: string, actorId: string, body: unknown)
           { path: 'mergeInto', message: 'Unknown tag' },
         ]);
       }
+      if (target.retired) {
+        throw new ApiError(400, 'validation_failed', `"${target.name}" is retired; merge into a tag still in use.`, [
+          { path: 'mergeInto', message: 'That tag is retired' },
+        ]);
+      }
       tx.run(sql`insert or ignore into observation_tags (observation_id, tag_id)
         select observation_id, ${target.id} from observation_tags where tag_id = ${tag.id}`);
       tx.delete(observationTags).where(eq(observationTags.tagId, tag.id)).run();

@@ -446,7 +446,7 @@ describe('who verifies an identification', () => {
 });
 
 describe('retired tags', () => {
-  it('refuses a retired tag on a new entry, names the tag it was merged into, and leaves tagged entries alone', async () => {
+  it('takes a merged tag as the one it went into, keeps new entries whole, and lets no edit add a retired tag', async () => {
     const lead = await t.signIn(emails.lead);
     const bio = await t.signIn(emails.biologist);
     const plain = (await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'old-survey' })).body as { id: string };
@@ -458,18 +458,13 @@ describe('retired tags', () => {
     const coral = tagList.find((x) => x.name === 'coral')!;
     expect((await lead.patch(`/api/tags/${merged.id}`).send({ mergeInto: coral.id })).status).toBe(200);
 
-    const refused = await bio
+    // A new entry (perhaps logged offline before the change) is never refused for its tags: a
+    // merged tag stands for the one it went into, a retired one stays.
+    const created = await bio
       .post(`/api/dives/${ids.dive2026}/observations`)
-      .send({ kind: 'biology', title: 'Uses retired tags', tags: ['sponge', 'Old-Survey', 'scleractinia'] });
-    expect(refused.status).toBe(400);
-    expect(refused.body.error.code).toBe('validation_failed');
-    const issues = refused.body.error.issues as { path: string; message: string }[];
-    expect(issues.map((i) => i.path)).toEqual(['tags.1', 'tags.2']);
-    expect(issues[0]!.message).toMatch(/"old-survey" has been retired/);
-    expect(issues[0]!.message).not.toMatch(/merged/);
-    expect(issues[1]!.message).toMatch(/"scleractinia" has been retired: it was merged into "coral"/);
-    const n = t.ctx.db.$client.prepare("select count(*) from observations where title = 'Uses retired tags'").pluck().get();
-    expect(n).toBe(0);
+      .send({ kind: 'biology', title: 'Uses retired tags', tags: ['sponge', 'Old-Survey', 'scleractinia', 'coral'] });
+    expect(created.status).toBe(201);
+    expect([...created.body.tags].sort()).toEqual(['coral', 'old-survey', 'sponge']);
 
     // The entry that had it keeps it, also through an edit that sends it back...
     expect((await detail(tagged.id)).tags).toEqual(['old-survey']);
@@ -481,7 +476,11 @@ describe('retired tags', () => {
     const added = await bio.patch(`/api/observations/${other.id}`).send({ version: 1, tags: ['sponge', 'old-survey'] });
     expect(added.status).toBe(400);
     expect(added.body.error.issues[0].path).toBe('tags.1');
+    expect(added.body.error.issues[0].message).toMatch(/"old-survey" has been retired/);
     expect((await detail(other.id)).tags).toEqual(['sponge']);
+    const mergedIn = await bio.patch(`/api/observations/${other.id}`).send({ version: 1, tags: ['sponge', 'scleractinia'] });
+    expect(mergedIn.status).toBe(200);
+    expect([...mergedIn.body.tags].sort()).toEqual(['coral', 'sponge']);
   });
 });
 
@@ -581,6 +580,11 @@ describe('dives, phases and the vocabulary', () => {
     expect(await tagsOfMark()).toEqual(['coral', 'ripple-field']);
     expect((await lead.patch(`/api/tags/${ripple.body.id}`).send({ retired: true })).status).toBe(200);
     expect(await tagsOfMark()).toEqual(['coral']);
+    // Nothing merges into a retired tag.
+    const stray = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'stray' });
+    const intoRetired = await lead.patch(`/api/tags/${stray.body.id}`).send({ mergeInto: ripple.body.id });
+    expect(intoRetired.status).toBe(400);
+    expect(intoRetired.body.error.issues[0].path).toBe('mergeInto');
 
     // Tapping the mark logs an entry with its tags, as the app does.
     const tapped = await (
