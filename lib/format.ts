@@ -63,6 +63,12 @@ export function toUtcInput(iso: string): string {
   return new Date(iso).toISOString().slice(0, 19).replace('T', ' ');
 }
 
+/** As {@link toUtcInput}, with the milliseconds when there are any: "2026-05-14 21:14:07.250". */
+export function toUtcInputExact(iso: string): string {
+  const s = new Date(iso).toISOString();
+  return toUtcInput(iso).concat(s.slice(19, 23) === '.000' ? '' : s.slice(19, 23));
+}
+
 /**
  * A name with its open-nomenclature qualifier where taxonomists write it (common practice):
  * "cf." and "aff." before the epithet they doubt ("Munida cf. sarsi"), "sp." and "indet."

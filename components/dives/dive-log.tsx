@@ -3,6 +3,7 @@ import { ActivityIndicator, FlatList, Pressable, StyleSheet, View } from 'react-
 
 import { ObservationCard } from '@/components/observations/observation-card';
 import { PendingEntries } from '@/components/observations/pending-entries';
+import { Button } from '@/components/ui/button';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
 import { useDiveLog, type DiveLogFilters } from '@/hooks/observations';
@@ -87,6 +88,18 @@ export function DiveLog({
       <EmptyState
         title="Nothing found"
         body={`No loaded entry has “${search.trim()}” in its title or note.${log.hasNextPage ? ' Older entries are not loaded yet.' : ''}`}
+        action={
+          log.hasNextPage ? (
+            <Button
+              label="Load older entries"
+              tone="secondary"
+              compact
+              busy={log.isFetchingNextPage}
+              onPress={() => void log.fetchNextPage()}
+              testID="load-older"
+            />
+          ) : undefined
+        }
       />
     );
   else if (Object.values(filters).some((v) => v && v !== 'time' && v !== 'desc'))
@@ -120,10 +133,15 @@ export function DiveLog({
           log.isFetchingNextPage ? (
             <ActivityIndicator color={colors.accent} />
           ) : searching && items.length > 0 ? (
-            <Text variant="caption" muted style={styles.end} testID="search-count">
-              {items.length} of {loaded.length} loaded {loaded.length === 1 ? 'entry matches' : 'entries match'}
-              {log.hasNextPage ? '; older entries load as you scroll' : ''}
-            </Text>
+            <View style={styles.endBox}>
+              <Text variant="caption" muted testID="search-count">
+                {items.length} of {loaded.length} loaded {loaded.length === 1 ? 'entry matches' : 'entries match'}
+                {log.hasNextPage ? '; older entries load as you scroll' : ''}
+              </Text>
+              {log.hasNextPage ? (
+                <Button label="Load older entries" tone="ghost" compact onPress={() => void log.fetchNextPage()} testID="load-older" />
+              ) : null}
+            </View>
           ) : log.hasNextPage || items.length === 0 ? null : (
             <Text variant="caption" muted style={styles.end}>
               Start of the dive log · {items.length} entries
@@ -196,6 +214,7 @@ const styles = StyleSheet.create({
   phaseTable: { paddingHorizontal: space.md, paddingVertical: space.sm },
   rule: { flex: 1, height: StyleSheet.hairlineWidth },
   end: { textAlign: 'center', paddingVertical: space.lg },
+  endBox: { alignItems: 'center', paddingVertical: space.lg, gap: space.xs },
   markerWrap: { position: 'absolute', top: space.md, left: 0, right: 0, alignItems: 'center' },
   marker: { borderRadius: radius.pill, paddingHorizontal: space.lg, paddingVertical: space.sm, elevation: 3 },
 });

@@ -12,7 +12,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatUtc, parseUtcInput, toUtcInput } from '@/lib/format';
 import type { ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { RecordConflict } from './record-conflict';
+import { RecordConflict, useEditBase } from './record-conflict';
 
 type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
 
@@ -80,8 +80,7 @@ const stateLabel = { 'in-situ': 'in situ', recovered: 'recovered' } as const;
 function FindForm({ observation: o, onDone, onDiscard }: { observation: ObservationDetail; onDone: () => void; onDiscard: () => void }) {
   const { colors } = useTheme();
   const current = o.find;
-  // The version this typing answers: the one the form opened at, then the one a "Keep mine" chose.
-  const [baseVersion, setBaseVersion] = useState(o.version);
+  const { baseVersion, setBaseVersion, typing } = useEditBase(o.version);
   // The version a refused save started from; the panel shows once the entry has been fetched again.
   const [refusedFrom, setRefusedFrom] = useState<number | null>(null);
   const proposal = useQuery({ ...nextFindNumberQuery(o.campaignId), enabled: !current });
@@ -125,25 +124,28 @@ function FindForm({ observation: o, onDone, onDiscard }: { observation: Observat
           ]}
         />
       ) : refusedFrom !== null ? (
-        <Text muted>Someone else changed this entry; fetching their version…</Text>
+        <View style={styles.row}>
+          <Text muted>Someone else changed this entry; fetching their version…</Text>
+          <Button label="Cancel" tone="ghost" compact onPress={onDiscard} />
+        </View>
       ) : null}
       <Field
         label="Find number"
         testID="field-find-number"
         value={value}
-        onChangeText={setNumber}
+        onChangeText={typing(setNumber)}
         mono
         autoCapitalize="characters"
         hint={!current && proposal.data ? 'The next free number is proposed.' : undefined}
         error={issue('findNumber')}
       />
-      <Field label="Object type" value={objectType} onChangeText={setObjectType} placeholder="amphora, bowl, timber…" />
-      <Field label="Material" value={material} onChangeText={setMaterial} placeholder="ceramic, lead, wood…" />
-      <Field label="Condition" value={condition} onChangeText={setCondition} placeholder="complete, rim chipped…" />
+      <Field label="Object type" value={objectType} onChangeText={typing(setObjectType)} placeholder="amphora, bowl, timber…" />
+      <Field label="Material" value={material} onChangeText={typing(setMaterial)} placeholder="ceramic, lead, wood…" />
+      <Field label="Condition" value={condition} onChangeText={typing(setCondition)} placeholder="complete, rim chipped…" />
       <Segmented
         label="State"
         value={state}
-        onChange={setState}
+        onChange={typing(setState)}
         options={[
           { value: 'in-situ', label: 'In situ' },
           { value: 'recovered', label: 'Recovered' },

@@ -11,7 +11,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatScientificName, formatUtc } from '@/lib/format';
 import { identificationConfidences, identificationQualifiers, taxonRanks, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { RecordConflict } from './record-conflict';
+import { RecordConflict, useEditBase } from './record-conflict';
 
 type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
 
@@ -61,7 +61,7 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
             {mayVerify ? (
               <>
                 <Button label="Verify" compact busy={verify.isPending} onPress={() => judge('verified')} testID="verify" />
-                <Button label="Dispute" tone="secondary" compact onPress={() => judge('disputed')} testID="dispute" />
+                <Button label="Dispute" tone="secondary" compact busy={verify.isPending} onPress={() => judge('disputed')} testID="dispute" />
               </>
             ) : null}
             {mayPropose ? (
@@ -105,8 +105,7 @@ type FormProps = { observation: ObservationDetail; onDone: () => void; onDiscard
 function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
   const { colors } = useTheme();
   const current = o.identificationDetail;
-  // The version this typing answers: the one the form opened at, then the one a "Keep mine" chose.
-  const [baseVersion, setBaseVersion] = useState(o.version);
+  const { baseVersion, setBaseVersion, typing } = useEditBase(o.version);
   // The version a refused save started from; the panel shows once the entry has been fetched again.
   const [refusedFrom, setRefusedFrom] = useState<number | null>(null);
   const [name, setName] = useState(current?.scientificName ?? '');
@@ -167,13 +166,16 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
           ]}
         />
       ) : refusedFrom !== null ? (
-        <Text muted>Someone else changed this entry; fetching their version…</Text>
+        <View style={styles.row}>
+          <Text muted>Someone else changed this entry; fetching their version…</Text>
+          <Button label="Cancel" tone="ghost" compact onPress={onDiscard} />
+        </View>
       ) : null}
       <Field
         label="Scientific name"
         testID="field-scientific-name"
         value={name}
-        onChangeText={setName}
+        onChangeText={typing(setName)}
         placeholder="e.g. Desmophyllum pertusum"
         error={issue('scientificName')}
         autoCapitalize="sentences"
@@ -181,20 +183,20 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
       <Segmented
         label="Qualifier"
         value={qualifier}
-        onChange={setQualifier}
+        onChange={typing(setQualifier)}
         options={[{ value: 'none', label: 'none' }, ...identificationQualifiers.map((q) => ({ value: q, label: q }))]}
       />
-      <Segmented label="Rank" value={rank} onChange={setRank} options={taxonRanks.map((r) => ({ value: r, label: r }))} />
+      <Segmented label="Rank" value={rank} onChange={typing(setRank)} options={taxonRanks.map((r) => ({ value: r, label: r }))} />
       <Segmented
         label="Confidence"
         value={confidence}
-        onChange={setConfidence}
+        onChange={typing(setConfidence)}
         options={identificationConfidences.map((c) => ({ value: c, label: c }))}
       />
       <Field
         label="Taxon identifier (optional)"
         value={taxonId}
-        onChangeText={setTaxonId}
+        onChangeText={typing(setTaxonId)}
         placeholder="urn:lsid:… or a link"
         mono
         autoCapitalize="none"

@@ -168,7 +168,14 @@ function Editor({ current, refetch, onDone }: { current: ObservationDetail; refe
           </View>
         </View>
       ) : null}
-      <ObservationFields campaignId={current.campaignId} diveId={current.diveId} value={value} update={draft.update} errors={errors} onSubmit={() => submit()} />
+      <ObservationFields
+        campaignId={current.campaignId}
+        diveId={current.diveId}
+        value={value}
+        update={draft.update}
+        errors={errors}
+        onSubmit={() => submit()}
+      />
       {save.error instanceof ApiError && save.error.issues.length === 0 && save.error.code !== 'stale_version' ? (
         <Text color={colors.danger} role="alert" testID="form-error">
           {save.error.message}

@@ -14,7 +14,7 @@ import { useDraft } from '@/hooks/draft';
 import { useLayout } from '@/hooks/layout';
 import { useLogEntry } from '@/hooks/outbox';
 import { useTheme } from '@/hooks/theme';
-import { parseUtcInput, toUtcInput } from '@/lib/format';
+import { parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
 import { observationCreateSchema, observationKinds, type Observation, type ObservationCreate, type ObservationKind } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { kindLabels } from './kind-badge';
@@ -50,9 +50,6 @@ export const blankDraft = (): Draft => ({
 
 const typedOnly = (value: number | null, source: Observation['depthSource']) => (source === 'manual' && value != null ? String(value) : '');
 
-/** An instant as the time field shows it: UTC with seconds, and milliseconds only when there are some. */
-const timeInputOf = (iso: string) => toUtcInput(iso).concat(iso.slice(19, 23) === '.000' ? '' : iso.slice(19, 23));
-
 /**
  * What the form shows for an existing entry. Only typed values are editable as numbers: a value
  * from telemetry stays empty here, and stays linked to the telemetry log.
@@ -61,7 +58,7 @@ export function draftFromObservation(o: Observation): Draft {
   return {
     kind: o.kind,
     title: o.title,
-    time: timeInputOf(o.observedAt),
+    time: toUtcInputExact(o.observedAt),
     depth: typedOnly(o.depth, o.depthSource),
     lat: typedOnly(o.lat, o.positionSource),
     lon: typedOnly(o.lon, o.positionSource),
@@ -205,7 +202,7 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
           <Button label="Now" tone="secondary" testID="time-now" onPress={() => update({ time: toUtcInput(new Date().toISOString()) })} />
         </View>
       </View>
-      {dive ? <TimecodeEntry dive={dive} onTime={(iso) => update({ time: timeInputOf(iso) })} /> : null}
+      {dive ? <TimecodeEntry dive={dive} onTime={(iso) => update({ time: toUtcInputExact(iso) })} /> : null}
       <Field
         label="Depth (m)"
         testID="field-depth"
@@ -226,7 +223,8 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
               testID="field-lat"
               value={d.lat}
               onChangeText={(lat) => update({ lat })}
-              inputMode="decimal"
+              // A decimal keypad on iOS has no minus key, and south and west are negative.
+              keyboardType="numbers-and-punctuation"
               mono
               placeholder="from telemetry"
               error={errors.lat}
@@ -238,7 +236,8 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
               testID="field-lon"
               value={d.lon}
               onChangeText={(lon) => update({ lon })}
-              inputMode="decimal"
+              // A decimal keypad on iOS has no minus key, and south and west are negative.
+              keyboardType="numbers-and-punctuation"
               mono
               placeholder="from telemetry"
               error={errors.lon}
@@ -254,7 +253,7 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
         testID="field-temperature"
         value={d.temperature}
         onChangeText={(temperature) => update({ temperature })}
-        inputMode="decimal"
+        keyboardType="numbers-and-punctuation"
         mono
         placeholder="from telemetry when left empty"
         error={errors.temperature}

@@ -1,9 +1,26 @@
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/hooks/theme';
 import { radius, space } from '@/lib/tokens';
+
+/**
+ * The version a form's save answers: the entry's current one until something is typed (so a form
+ * left open follows the entry), then the one typing started at, then the one a "Keep mine" chose.
+ * Wrap each field's setter in `typing`.
+ */
+export function useEditBase(version: number) {
+  const [typedAt, setBaseVersion] = useState<number | null>(null);
+  const typing =
+    <T,>(set: (v: T) => void) =>
+    (v: T) => {
+      setBaseVersion((b) => b ?? version);
+      set(v);
+    };
+  return { baseVersion: typedAt ?? version, setBaseVersion, typing };
+}
 
 export type ConflictField = { key: string; label: string; theirs: string; mine: string };
 

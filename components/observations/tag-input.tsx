@@ -56,6 +56,10 @@ export function TagInput({ campaignId, value, onChange, error }: Props) {
     if (known) return add(known.name);
     if (value.some((t) => t.toLowerCase() === text.toLowerCase())) return setTyped('');
     if (suggestions[0]) return add(suggestions[0].name);
+    addNew(text);
+  };
+  /** A tag outside the vocabulary, where the campaign takes them: Enter when nothing matches, or its own chip. */
+  const addNew = (text: string) => {
     if (!allowFree) {
       setProblem(`"${text}" is not in this campaign's vocabulary, and the campaign takes no new tags. A lead can add it.`);
       return;
@@ -68,6 +72,8 @@ export function TagInput({ campaignId, value, onChange, error }: Props) {
     add(checked.data);
   };
   const remaining = suggestions.length - shown.length;
+  const typedName = typed.trim().replace(/^#+/, '').trim();
+  const newTag = allowFree && typedName && !vocabulary.some((t) => t.name.toLowerCase() === typedName.toLowerCase()) ? typedName : null;
 
   return (
     <View style={styles.wrap} testID="tag-input">
@@ -98,6 +104,7 @@ export function TagInput({ campaignId, value, onChange, error }: Props) {
       />
       {shown.length > 0 ? (
         <View style={styles.chips} testID="tag-suggestions">
+          {newTag ? <Chip label={`+ new "${newTag}"`} onPress={() => addNew(newTag)} testID="new-tag-chip" /> : null}
           {shown.map((t) => (
             <Chip key={t.id} label={`+ ${t.name}`} onPress={() => add(t.name)} testID={`tag-${t.name}`} />
           ))}

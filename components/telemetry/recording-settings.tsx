@@ -9,7 +9,7 @@ import { Text } from '@/components/ui/text';
 import { ApiError } from '@/hooks/api';
 import { diveKeys, useUpdateDive } from '@/hooks/dives';
 import { useTheme } from '@/hooks/theme';
-import { formatUtc, parseUtcInput, toUtcInput } from '@/lib/format';
+import { formatUtc, parseUtcInput, toUtcInputExact } from '@/lib/format';
 import type { Dive } from '@/lib/schemas';
 import { FRAME_RATES, type FrameRateName } from '@/lib/timecode';
 import { space } from '@/lib/tokens';
@@ -19,7 +19,7 @@ const rateNames = Object.keys(FRAME_RATES) as FrameRateName[];
 type Form = { startAt: string; frameRate: string | null; gapS: string };
 
 const formOf = (dive: Dive): Form => ({
-  startAt: dive.recording.startAt ? toUtcInput(dive.recording.startAt) : '',
+  startAt: dive.recording.startAt ? toUtcInputExact(dive.recording.startAt) : '',
   frameRate: dive.recording.frameRate,
   gapS: String(dive.telemetryGapS),
 });
@@ -35,17 +35,21 @@ export function RecordingSettings({ dive, mayEdit }: { dive: Dive; mayEdit: bool
   const qc = useQueryClient();
   const [errors, setErrors] = useState<Partial<Record<keyof Form | 'form', string>>>({});
   const [saved, setSaved] = useState(false);
-  // Only what this person typed is kept here; until they type, a save by someone else shows live.
-  const [draft, setDraft] = useState<Form | null>(null);
-  const form = draft ?? formOf(dive);
+  // Only what this person typed is kept here, with the version it started from; until they type,
+  // a save by someone else shows live, and once they have, a save by someone else is a conflict.
+  const [draft, setDraft] = useState<{ form: Form; base: Form; version: number } | null>(null);
+  const form = draft?.form ?? formOf(dive);
   const dirty = draft !== null;
 
   const change = (patch: Partial<Form>) => {
-    setDraft({ ...form, ...patch });
+    setDraft((d) =>
+      d ? { ...d, form: { ...d.form, ...patch } } : { form: { ...formOf(dive), ...patch }, base: formOf(dive), version: dive.version },
+    );
     setSaved(false);
   };
 
   const save = () => {
+    if (!draft) return;
     const next: typeof errors = {};
     const typed = form.startAt.trim();
     const startAt = typed === '' ? null : parseUtcInput(typed);
@@ -54,24 +58,29 @@ export function RecordingSettings({ dive, mayEdit }: { dive: Dive; mayEdit: bool
     if (!Number.isFinite(gap) || gap < 1 || gap > 3600) next.gapS = 'Give 1 to 3600 seconds';
     setErrors(next);
     if (Object.keys(next).length > 0) return;
-    update.mutate(
-      { version: dive.version, recordingStartAt: startAt, frameRate: form.frameRate, telemetryGapS: gap },
-      {
-        onSuccess: () => {
-          setDraft(null);
-          setSaved(true);
-        },
-        onError: (err) => {
-          if (err instanceof ApiError && err.status === 409) {
-            setDraft(null);
-            void qc.invalidateQueries({ queryKey: diveKeys.detail(dive.id) });
-            setErrors({ form: 'Someone else changed this dive a moment ago; their settings are shown now. Make your change again.' });
-          } else {
-            setErrors({ form: err instanceof Error ? err.message : 'Could not save the settings.' });
-          }
-        },
+    // Only what was changed goes out, so a field nobody touched keeps its exact stored value.
+    const { base } = draft;
+    const body = {
+      version: draft.version,
+      ...(form.startAt.trim() !== base.startAt.trim() ? { recordingStartAt: startAt } : {}),
+      ...(form.frameRate !== base.frameRate ? { frameRate: form.frameRate } : {}),
+      ...(form.gapS.trim() !== base.gapS.trim() ? { telemetryGapS: gap } : {}),
+    };
+    update.mutate(body, {
+      onSuccess: () => {
+        setDraft(null);
+        setSaved(true);
       },
-    );
+      onError: (err) => {
+        if (err instanceof ApiError && err.status === 409) {
+          setDraft(null);
+          void qc.invalidateQueries({ queryKey: diveKeys.detail(dive.id) });
+          setErrors({ form: 'Someone else changed this dive a moment ago; their settings are shown now. Make your change again.' });
+        } else {
+          setErrors({ form: err instanceof Error ? err.message : 'Could not save the settings.' });
+        }
+      },
+    });
   };
 
   if (!mayEdit) {

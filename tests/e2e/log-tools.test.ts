@@ -72,6 +72,11 @@ describe('at phone size', () => {
     await page.getByTestId('tag-hull').click();
     await page.getByTestId('chosen-tag-hull').waitFor();
     expect(await page.getByTestId('tag-concretion').count()).toBe(0);
+    // A new tag that is part of a known one ("mat" in "microbial-mat") has its own chip, since the campaign takes free tags.
+    await page.getByTestId('field-tag').fill('mat');
+    await page.getByTestId('tag-microbial-mat').waitFor();
+    await page.getByTestId('new-tag-chip').click();
+    await page.getByTestId('chosen-tag-mat').waitFor();
 
     await page.getByTestId('save-observation').click();
     await page.getByTestId('dive-log').getByText(title).waitFor();
@@ -83,7 +88,7 @@ describe('at phone size', () => {
     expect(await detail.getByTestId('source-position').textContent()).toBe('typed in');
     expect(await detail.getByTestId('fact-water').textContent()).toBe('4.25 °C');
     expect(await detail.getByTestId('source-water').textContent()).toBe('typed in');
-    expect(await detail.getByTestId('detail-tags').textContent()).toBe('#concretion#hull');
+    expect(await detail.getByTestId('detail-tags').textContent()).toBe('#concretion#hull#mat');
     expect(browser.errors).toEqual([]);
   });
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 
-import { formatInZone, formatLatLon, formatScientificName, formatUtc, formatUtcTime, parseUtcInput, toUtcInput } from '@/lib/format';
+import { formatInZone, formatLatLon, formatScientificName, formatUtc, formatUtcTime, parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
 
 // The suite runs under TZ=Pacific/Chatham (UTC+12:45 / +13:45): any local-time reading shows.
 describe('typed UTC times', () => {
@@ -20,6 +20,12 @@ describe('typed UTC times', () => {
   it('round-trips through the editable form', () => {
     const iso = '2026-05-14T21:14:07.000Z';
     expect(parseUtcInput(toUtcInput(iso))).toBe(iso);
+  });
+
+  it('keeps milliseconds in the editable form when there are any, so a save does not shift the time', () => {
+    expect(toUtcInputExact('2026-05-13T17:35:00.400Z')).toBe('2026-05-13 17:35:00.400');
+    expect(toUtcInputExact('2026-05-13T17:35:00.000Z')).toBe('2026-05-13 17:35:00');
+    expect(parseUtcInput(toUtcInputExact('2026-05-13T17:35:00.400Z'))).toBe('2026-05-13T17:35:00.400Z');
   });
 });
 
