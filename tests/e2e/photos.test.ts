@@ -5,7 +5,7 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { jpegWithExif } from '../fixtures/photos/make';
-import { openBrowser, viewports, type Browser } from '../helpers/chromium';
+import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -32,13 +32,7 @@ afterAll(async () => {
   await server?.stop();
 });
 
-async function signIn(page: Page, email: string) {
-  await page.goto(server.url);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill('bathynote-demo');
-  await page.getByTestId('sign-in-password').press('Enter');
-  await page.getByTestId('campaign-list').waitFor();
-}
+const signIn = (page: Page, email: string) => signInAs(page, server.url, email);
 
 /**
  * Drags files over an element the way a browser does when they come from the desktop: one

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
-import { openBrowser, viewports, type Browser } from '../helpers/chromium';
+import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -13,13 +13,7 @@ afterAll(async () => {
   await server?.stop();
 });
 
-async function signIn(page: Page, email: string) {
-  await page.goto(server.url);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill('bathynote-demo');
-  await page.getByTestId('sign-in-password').press('Enter');
-  await page.getByTestId('campaign-list').waitFor();
-}
+const signIn = (page: Page, email: string) => signInAs(page, server.url, email);
 
 async function openTeam(page: Page) {
   await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();

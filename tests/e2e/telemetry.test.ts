@@ -6,7 +6,7 @@ import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
-import { openBrowser, viewports, type Browser } from '../helpers/chromium';
+import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 import { csv, iso } from '../fixtures/telemetry/logs';
 
@@ -64,13 +64,7 @@ afterAll(async () => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-async function signIn(page: Page, email: string) {
-  await page.goto(server.url);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill('bathynote-demo');
-  await page.getByTestId('sign-in-password').press('Enter');
-  await page.getByTestId('campaign-list').waitFor();
-}
+const signIn = (page: Page, email: string) => signInAs(page, server.url, email);
 
 describe('the dive summary at phone size', () => {
   let browser: Browser;

@@ -53,3 +53,12 @@ export async function openBrowser(viewport: { width: number; height: number }): 
     },
   };
 }
+
+/** Signs in on the sign-in screen as a person would (demo password), and waits for their campaigns. */
+export async function signInAs(page: Page, url: string, email: string, password = 'bathynote-demo'): Promise<void> {
+  await page.goto(url);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill(password);
+  await page.getByTestId('sign-in-password').press('Enter');
+  await page.getByTestId('campaign-list').waitFor();
+}
