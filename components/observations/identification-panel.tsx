@@ -61,7 +61,14 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
             {mayVerify ? (
               <>
                 <Button label="Verify" compact busy={verify.isPending} onPress={() => judge('verified')} testID="verify" />
-                <Button label="Dispute" tone="secondary" compact busy={verify.isPending} onPress={() => judge('disputed')} testID="dispute" />
+                <Button
+                  label="Dispute"
+                  tone="secondary"
+                  compact
+                  busy={verify.isPending}
+                  onPress={() => judge('disputed')}
+                  testID="dispute"
+                />
               </>
             ) : null}
             {mayPropose ? (

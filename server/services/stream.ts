@@ -12,7 +12,6 @@ const REPLAY_LIMIT = 2000;
 /** A reader that stops reading is cut off before its buffer grows without bound. */
 const MAX_BUFFERED_BYTES = 4 * 1024 * 1024;
 
-
 /**
  * `GET /api/dives/:diveId/stream`: the dive's changes as Server-Sent Events. A reconnect with
  * `Last-Event-ID` first gets every event it missed, from the database; then live ones. The

@@ -32,21 +32,30 @@ export async function startServerProcess(
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   let log = '';
-  const child = spawn(process.execPath, [...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []), '--import', 'tsx', options.script ?? 'server/index.ts'], {
-    cwd: root,
-    env: {
-      ...process.env,
-      NODE_ENV: 'production',
-      PORT: String(port),
-      HOST: '127.0.0.1',
-      DATABASE_PATH: path.join(dir, 'bathynote.db'),
-      UPLOADS_DIR: path.join(dir, 'uploads'),
-      BATHYNOTE_DEMO: '1',
-      LOG_LEVEL: 'error',
-      ...env,
+  const child = spawn(
+    process.execPath,
+    [
+      ...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []),
+      '--import',
+      'tsx',
+      options.script ?? 'server/index.ts',
+    ],
+    {
+      cwd: root,
+      env: {
+        ...process.env,
+        NODE_ENV: 'production',
+        PORT: String(port),
+        HOST: '127.0.0.1',
+        DATABASE_PATH: path.join(dir, 'bathynote.db'),
+        UPLOADS_DIR: path.join(dir, 'uploads'),
+        BATHYNOTE_DEMO: '1',
+        LOG_LEVEL: 'error',
+        ...env,
+      },
+      stdio: ['ignore', 'pipe', 'pipe'],
     },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
+  );
   child.stdout?.on('data', (d: Buffer) => (log += d.toString()));
   child.stderr?.on('data', (d: Buffer) => (log += d.toString()));
   const deadline = Date.now() + 60_000;

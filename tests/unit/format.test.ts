@@ -1,6 +1,15 @@
 import { describe, expect, it } from 'vitest';
 
-import { formatInZone, formatLatLon, formatScientificName, formatUtc, formatUtcTime, parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
+import {
+  formatInZone,
+  formatLatLon,
+  formatScientificName,
+  formatUtc,
+  formatUtcTime,
+  parseUtcInput,
+  toUtcInput,
+  toUtcInputExact,
+} from '@/lib/format';
 
 // The suite runs under TZ=Pacific/Chatham (UTC+12:45 / +13:45): any local-time reading shows.
 describe('typed UTC times', () => {
