@@ -28,9 +28,15 @@ function emptyColumns(length: number): { t: Float64Array } & Record<StoredChanne
 
 /** Collects samples into growing typed columns, so a long log costs no object per row once read. */
 export class ColumnBuilder {
-  private cols = emptyColumns(4096);
-  private capacity = 4096;
+  private cols: ReturnType<typeof emptyColumns>;
+  private capacity: number;
   length = 0;
+
+  /** `expected`: about how many samples will come (from the file's size), so the columns rarely grow. */
+  constructor(expected = 4096) {
+    this.capacity = Math.max(4096, Math.ceil(expected));
+    this.cols = emptyColumns(this.capacity);
+  }
 
   push(sample: TelemetryRow): void {
     if (this.length === this.capacity) this.grow();
