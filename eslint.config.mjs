@@ -3,7 +3,7 @@ import reactHooks from 'eslint-plugin-react-hooks';
 import tseslint from 'typescript-eslint';
 
 export default tseslint.config(
-  { ignores: ['dist/**', 'node_modules/**', 'data/**', 'uploads/**', '.expo/**', 'db/migrations/**', 'expo-env.d.ts'] },
+  { ignores: ['dist/**', 'build/**', 'node_modules/**', 'data/**', 'uploads/**', '.expo/**', 'db/migrations/**', 'expo-env.d.ts'] },
   js.configs.recommended,
   ...tseslint.configs.recommendedTypeChecked,
   {

@@ -7,12 +7,13 @@ import type { BaseSQLiteDatabase } from 'drizzle-orm/sqlite-core';
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
 
 import * as schema from './schema';
+import { projectRoot } from './root';
 
 export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
 /** The database or a transaction on it: what a service needs to read and write. */
 export type Executor = BaseSQLiteDatabase<'sync', Database.RunResult, typeof schema>;
 
-const migrationsFolder = path.join(__dirname, 'migrations');
+const migrationsFolder = path.join(projectRoot, 'db', 'migrations');
 
 /**
  * Opens the database with the pragmas the notebook relies on: WAL so readers never block the

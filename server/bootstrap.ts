@@ -8,9 +8,10 @@ import type { Env } from './env';
 import { LiveHub } from './services/live';
 import { createLogger } from './services/logger';
 import { createMailer } from './services/mail';
+import { projectRoot } from '../db/root';
 
 const packageVersion = (): string => {
-  const pkg = JSON.parse(readFileSync(path.join(__dirname, '..', 'package.json'), 'utf8')) as { version: string };
+  const pkg = JSON.parse(readFileSync(path.join(projectRoot, 'package.json'), 'utf8')) as { version: string };
   return pkg.version;
 };
 

@@ -1,7 +1,8 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
+import { projectRoot } from '../../db/root';
 
-const folder = path.join(__dirname, '..', '..', 'content', 'mail');
+const folder = path.join(projectRoot, 'content', 'mail');
 const cache = new Map<string, string>();
 
 function template(name: string): string {

@@ -4,7 +4,11 @@ import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 
+import { buildServer } from '../../scripts/build-server';
+
 const root = path.resolve(__dirname, '..', '..');
+
+let bundle: string | undefined;
 
 export type ServerProcess = { url: string; dir: string; child: ChildProcess; output: () => string; stop: () => Promise<void> };
 
@@ -21,8 +25,9 @@ export async function freePort(): Promise<number> {
 }
 
 /**
- * The real server as a user starts it (`server/index.ts`), on a free port with a fresh database;
- * or another entry script, or an existing data folder (to restart on the same database).
+ * The real server as `npm start` runs it (the bundle of `server/index.ts`, built once per test
+ * process from the current sources), on a free port with a fresh database; or another entry
+ * script through tsx, or an existing data folder (to restart on the same database).
  */
 export async function startServerProcess(
   env: Record<string, string> = {},
@@ -32,14 +37,10 @@ export async function startServerProcess(
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   let log = '';
+  const entry = options.script ? ['--import', 'tsx', options.script] : [(bundle ??= buildServer())];
   const child = spawn(
     process.execPath,
-    [
-      ...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []),
-      '--import',
-      'tsx',
-      options.script ?? 'server/index.ts',
-    ],
+    [...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []), ...entry],
     {
       cwd: root,
       env: {
