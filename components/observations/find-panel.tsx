@@ -66,6 +66,11 @@ export function FindPanel({ observation: o, myRole, myId }: Props) {
       ) : (
         <Text muted>Not registered as a find.</Text>
       )}
+      {myRole && !mayEdit ? (
+        <Text variant="caption" muted testID="find-reason">
+          Scientists, leads and the entry’s author register and correct finds.
+        </Text>
+      ) : null}
     </View>
   );
 }

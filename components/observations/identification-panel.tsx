@@ -28,6 +28,18 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
   const mayPropose = myRole === 'lead' || myRole === 'scientist' || o.authorId === myId;
   // Nobody verifies a name they proposed or an entry they wrote, leads included (as the server rules).
   const mayVerify = !!ident && (myRole === 'lead' || myRole === 'scientist') && ident.identifiedBy !== myId && o.authorId !== myId;
+  // What this person cannot do here, and why, as the server rules it.
+  const reason = !myRole
+    ? null
+    : !ident
+      ? mayPropose
+        ? null
+        : 'Scientists, leads and the entry’s author propose names.'
+      : mayVerify
+        ? null
+        : myRole === 'lead' || myRole === 'scientist'
+          ? 'You proposed this name or wrote this entry, so another scientist or a lead verifies it.'
+          : 'Scientists and leads verify names.';
   // The version on screen goes with the verdict: a name changed meanwhile is not verified blind.
   const judge = (status: 'verified' | 'disputed') => verify.mutate({ version: o.version, status });
   const tint = ident
@@ -98,6 +110,11 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
       ) : (
         <Text muted>No identification yet.</Text>
       )}
+      {reason && !editing ? (
+        <Text variant="caption" muted testID="identification-reason">
+          {reason}
+        </Text>
+      ) : null}
     </View>
   );
 }

@@ -1,3 +1,6 @@
+import path from 'node:path';
+
+import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
@@ -98,6 +101,47 @@ describe('at phone size', () => {
       expect(await detail.getByTestId('edit').count()).toBe(0);
     } finally {
       await other.close();
+    }
+  });
+
+  it('tells a guest why they cannot verify a name or register a find, and the proposer why they cannot verify their own', async () => {
+    const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
+    const idOf = (t: string) =>
+      (
+        db
+          .prepare(
+            "select id from observations where title = ? and campaign_id = (select id from campaigns where name = 'Varn Shoal 2026')",
+          )
+          .get(t) as { id: string }
+      ).id;
+    const coral = idOf('Cold-water coral colony on the stern rail');
+    const amphora = idOf('Amphora with both handles, in situ');
+    db.close();
+    const guest = await openBrowser(viewports.phone);
+    try {
+      await signIn(guest.page, 'guest@bathynote.test');
+      await guest.page.goto(`${server.url}/observations/${coral}`);
+      await guest.page.getByTestId('scientific-name').waitFor();
+      expect(await guest.page.getByTestId('identification-reason').textContent()).toBe('Scientists and leads verify names.');
+      expect(await guest.page.getByTestId('verify').count()).toBe(0);
+      await guest.page.goto(`${server.url}/observations/${amphora}`);
+      await guest.page.getByTestId('find-number').waitFor();
+      expect(await guest.page.getByTestId('find-reason').textContent()).toBe(
+        'Scientists, leads and the entry’s author register and correct finds.',
+      );
+    } finally {
+      await guest.close();
+    }
+    // The biologist wrote the coral entry: someone else verifies it.
+    const author = await openBrowser(viewports.phone);
+    try {
+      await signIn(author.page, 'biologist@bathynote.test');
+      await author.page.goto(`${server.url}/observations/${coral}`);
+      await author.page.getByTestId('scientific-name').waitFor();
+      expect(await author.page.getByTestId('identification-reason').textContent()).toMatch(/another scientist or a lead verifies it/);
+      expect(await author.page.getByTestId('verify').count()).toBe(0);
+    } finally {
+      await author.close();
     }
   });
 });
