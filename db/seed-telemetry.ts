@@ -10,6 +10,7 @@ import { buildTelemetrySeries, sampleAt, type TelemetryRow } from '../lib/interp
 import { fromLocalEN } from '../lib/geodesy';
 import { pressureFromDepth } from '../lib/seawater';
 import type { Db } from './client';
+import { random } from './seed-random';
 import * as s from './schema';
 
 /** The dive whose log has a gap, and the entry the gap is centred on. */
@@ -18,17 +19,6 @@ const GAP_ENTRY = 4;
 const GAP_MS = 2 * 60_000;
 /** Minutes of log before launch and after on deck (the vehicle on deck, logging already). */
 const MARGIN_MIN = 3;
-
-function random(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const round = (v: number, places: number) => Math.round(v * 10 ** places) / 10 ** places;
 const smooth = (f: number) => f * f * (3 - 2 * f);

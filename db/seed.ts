@@ -7,6 +7,7 @@ import { count } from 'drizzle-orm';
 
 import type { CampaignRole, ObservationKind } from '../lib/schemas';
 import type { Db } from './client';
+import { random } from './seed-random';
 import { seedTelemetry } from './seed-telemetry';
 import * as s from './schema';
 
@@ -33,18 +34,6 @@ export const demoSignIns: { email: string; role: string }[] = [
   { email: 'guest@bathynote.test', role: 'guest biologist ashore, 2026 only (Elin Sato)' },
   { email: 'outsider@bathynote.test', role: 'member of no campaign (Oren Quist)' },
 ];
-
-/** A small deterministic generator, so the demo is the same on every fresh clone. */
-function random(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function shuffled<T>(items: T[], rand: () => number): T[] {
   const out = [...items];

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { StyleSheet, View } from 'react-native';
+import { View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
 import { ErrorState, LoadingState } from '@/components/ui/states';
@@ -9,7 +9,7 @@ import { useDraft } from '@/hooks/draft';
 import { useObservation, useUpdateObservation } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import type { ObservationDetail, ObservationUpdate } from '@/lib/schemas';
-import { radius, space } from '@/lib/tokens';
+import { RecordConflict } from './record-conflict';
 import {
   draftFromObservation,
   errorsFromServer,
@@ -120,53 +120,19 @@ function Editor({ current, refetch, onDone }: { current: ObservationDetail; refe
         </View>
       ) : null}
       {theirs && theirDraft ? (
-        <View
-          style={[styles.conflict, { borderColor: colors.warning, backgroundColor: colors.surface }]}
+        <RecordConflict
+          what="edit"
           testID="edit-conflict"
-          role="alert"
-        >
-          <Text variant="title">Someone else changed this entry</Text>
-          <Text muted>
-            It is now at version {theirs.version}; your edit started from version {baseVersion}. Nothing has been overwritten. Choose what
-            to keep.
-          </Text>
-          {clashes.length === 0 ? <Text>Your changes and theirs agree.</Text> : null}
-          {clashes.map((k) => (
-            <View key={k} style={styles.clash} testID={`conflict-${k}`}>
-              <Text variant="label">{labels[k]}</Text>
-              <View style={styles.sides}>
-                <View style={[styles.side, { borderColor: colors.border }]}>
-                  <Text variant="caption" muted>
-                    Theirs
-                  </Text>
-                  <Text testID={`theirs-${k}`}>
-                    {Array.isArray(theirDraft[k]) ? (theirDraft[k] as string[]).join(', ') : String(theirDraft[k] ?? '') || '—'}
-                  </Text>
-                </View>
-                <View style={[styles.side, { borderColor: colors.accent }]}>
-                  <Text variant="caption" muted>
-                    Yours
-                  </Text>
-                  <Text testID={`mine-${k}`}>
-                    {Array.isArray(mine[k]) ? (mine[k] as string[]).join(', ') : String(mine[k] ?? '') || '—'}
-                  </Text>
-                </View>
-              </View>
-            </View>
-          ))}
-          <View style={styles.row}>
-            <Button label="Keep mine" testID="keep-mine" busy={save.isPending} onPress={() => submit(theirs.version, theirs)} />
-            <Button
-              label="Take theirs"
-              tone="secondary"
-              testID="take-theirs"
-              onPress={() => {
-                draft.clear();
-                onDone();
-              }}
-            />
-          </View>
-        </View>
+          theirVersion={theirs.version}
+          baseVersion={baseVersion}
+          busy={save.isPending}
+          onKeepMine={() => submit(theirs.version, theirs)}
+          onTakeTheirs={() => {
+            draft.clear();
+            onDone();
+          }}
+          fields={clashes.map((k) => ({ key: k, label: labels[k], theirs: shown(theirDraft[k]), mine: shown(mine[k]) }))}
+        />
       ) : null}
       <ObservationFields
         campaignId={current.campaignId}
@@ -186,10 +152,5 @@ function Editor({ current, refetch, onDone }: { current: ObservationDetail; refe
   );
 }
 
-const styles = StyleSheet.create({
-  conflict: { borderWidth: 2, borderRadius: radius.lg, padding: space.lg, gap: space.md },
-  clash: { gap: space.xs },
-  sides: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
-  side: { flex: 1, minWidth: 140, borderWidth: 1, borderRadius: radius.md, padding: space.sm, gap: 2 },
-  row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
-});
+/** A field of the form as the conflict panel shows it: tags joined, empty as empty. */
+const shown = (v: string | readonly string[] | undefined) => (v === undefined ? '' : typeof v === 'string' ? v : v.join(', '));

@@ -37,9 +37,9 @@ type Props = {
 };
 
 /**
- * A save of an identification or a find refused because someone else changed the entry first:
- * their values beside the ones typed here, and the choice between them. It looks like the edit
- * form's conflict panel so that the same situation reads the same everywhere.
+ * A save refused because someone else changed the entry first (an edit, an identification, a
+ * find): their values beside the ones typed here, and the choice between them, the same panel
+ * everywhere so the same situation reads the same.
  */
 export function RecordConflict({ what, testID, theirVersion, baseVersion, fields, busy, onKeepMine, onTakeTheirs }: Props) {
   const { colors } = useTheme();

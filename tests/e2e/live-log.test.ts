@@ -101,9 +101,9 @@ describe('two people editing one entry', () => {
       const conflictPanel = author.page.getByTestId('edit-conflict');
       await conflictPanel.waitFor();
       expect(await author.page.getByTestId('save-observation').count()).toBe(0);
-      expect(await author.page.getByTestId('theirs-title').textContent()).toBe('Vase sponge on the sternpost');
-      expect(await author.page.getByTestId('mine-title').textContent()).toBe('Glass sponge on the sternpost');
-      await author.page.getByTestId('keep-mine').click();
+      expect(await author.page.getByTestId('edit-conflict-theirs-title').textContent()).toBe('Vase sponge on the sternpost');
+      expect(await author.page.getByTestId('edit-conflict-mine-title').textContent()).toBe('Glass sponge on the sternpost');
+      await author.page.getByTestId('edit-conflict-keep-mine').click();
       await author.page.getByTestId('observation-detail').getByText('Glass sponge on the sternpost').waitFor();
 
       await author.page.getByTestId('toggle-history').click();
