@@ -7,6 +7,7 @@ import { apiUrl } from './api';
 import { diveKeys } from './dives';
 import { photoKeys } from './photos';
 import { mergeIntoDiveLogs, observationKeys } from './observations';
+import { telemetryKeys } from './telemetry';
 
 export type LiveStatus = 'connecting' | 'live' | 'offline';
 
@@ -27,6 +28,133 @@ function parse<S extends z.ZodType>(schema: S, data: string): z.output<S> | unde
   }
 }
 
+/** What one screen following a dive wants to hear, beyond the cache updates every follower gets. */
+type Follower = {
+  /** True while the reader is scrolled away from the top: new entries wait instead of moving the list. */
+  holding?: () => boolean;
+  hold?: (o: Observation) => void;
+  onUpdated?: (o: Observation) => void;
+  onRetired?: (id: string) => void;
+  onStatus: (s: LiveStatus) => void;
+};
+
+type Connection = { followers: Set<Follower>; status: LiveStatus; close: () => void };
+
+/** One stream per dive however many screens follow it (the log, an entry opened over it, the gallery). */
+const connections = new WeakMap<QueryClient, Map<string, Connection>>();
+
+/** The dive's summary counts entries and marks them on its profile: fetched again once a burst of changes settles. */
+const SUMMARY_SETTLE_MS = 1000;
+
+function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Connection {
+  const connection: Connection = { followers, status: 'connecting', close: () => {} };
+  const setStatus = (s: LiveStatus) => {
+    connection.status = s;
+    for (const f of followers) f.onStatus(s);
+  };
+  const source = new EventSource(apiUrl(`/api/dives/${encodeURIComponent(diveId)}/stream`), { withCredentials: true });
+  source.onopen = () => setStatus('live');
+  source.onerror = () => setStatus(source.readyState === EventSource.CLOSED ? 'offline' : 'connecting');
+  const on = (type: string, handle: (data: string) => void) =>
+    source.addEventListener(type, (e) => handle((e as MessageEvent<string>).data));
+  let summaryTimer: ReturnType<typeof setTimeout> | undefined;
+  const summaryChanged = () => {
+    clearTimeout(summaryTimer);
+    summaryTimer = setTimeout(() => void qc.invalidateQueries({ queryKey: telemetryKeys.summary(diveId) }), SUMMARY_SETTLE_MS);
+  };
+  const holder = () => [...followers].find((f) => f.holding?.());
+
+  // Changes between loading a screen and opening the stream: fetch what is shown of the dive again once.
+  on('ready', () => {
+    void qc.invalidateQueries({ queryKey: observationKeys.diveLogs(diveId) });
+    void qc.invalidateQueries({
+      predicate: (q) =>
+        q.queryKey[0] === observationKeys.root[0] &&
+        q.queryKey[1] === 'detail' &&
+        (q.state.data as { diveId?: string } | undefined)?.diveId === diveId,
+    });
+    void qc.invalidateQueries({ queryKey: telemetryKeys.summary(diveId) });
+  });
+  on('resync', () => {
+    void qc.invalidateQueries({ queryKey: observationKeys.diveLogs(diveId) });
+    summaryChanged();
+  });
+  on('observation.created', (data) => {
+    const o = parse(observationSchema, data);
+    if (!o) return;
+    summaryChanged();
+    const h = inCache(qc, o) ? undefined : holder();
+    if (h) h.hold?.(o);
+    else mergeIntoDiveLogs(qc, o);
+  });
+  on('observation.updated', (data) => {
+    const o = parse(observationSchema, data);
+    if (!o) return;
+    summaryChanged();
+    for (const f of followers) f.onUpdated?.(o);
+    if (inCache(qc, o) || !holder()) mergeIntoDiveLogs(qc, o);
+    void qc.invalidateQueries({ queryKey: observationKeys.detail(o.id) });
+    // The entry's photos may be what changed (added, captioned, moved, retired): the detail above
+    // fetches them again, and so does an open gallery of the dive.
+    void qc.invalidateQueries({ queryKey: photoKeys.galleries(o.diveId) });
+  });
+  on('observation.retired', (data) => {
+    const r = parse(retiredSchema, data);
+    if (!r) return;
+    summaryChanged();
+    for (const f of followers) f.onRetired?.(r.id);
+    for (const [key, log] of qc.getQueriesData<InfiniteData<ObservationPage>>({ queryKey: observationKeys.diveLogs(r.diveId) })) {
+      if (log) qc.setQueryData(key, { ...log, pages: log.pages.map((p) => ({ ...p, items: p.items.filter((i) => i.id !== r.id) })) });
+    }
+    void qc.invalidateQueries({ queryKey: observationKeys.detail(r.id) });
+  });
+  on('dive.updated', (data) => {
+    const dive = parse(diveSchema, data);
+    if (dive && dive.id === diveId) qc.setQueryData(diveKeys.detail(diveId), dive);
+    summaryChanged();
+  });
+  connection.close = () => {
+    clearTimeout(summaryTimer);
+    source.close();
+  };
+  return connection;
+}
+
+/** Joins the dive's stream (opening it if this is its first follower); gives the leave function. */
+function follow(qc: QueryClient, diveId: string, follower: Follower): () => void {
+  let byDive = connections.get(qc);
+  if (!byDive) connections.set(qc, (byDive = new Map<string, Connection>()));
+  let connection = byDive.get(diveId);
+  if (!connection) {
+    connection = connect(qc, diveId, new Set());
+    byDive.set(diveId, connection);
+  }
+  connection.followers.add(follower);
+  follower.onStatus(connection.status);
+  const joined = connection;
+  return () => {
+    joined.followers.delete(follower);
+    if (joined.followers.size > 0) return;
+    joined.close();
+    if (byDive.get(diveId) === joined) byDive.delete(diveId);
+  };
+}
+
+/**
+ * Keeps what a screen shows of a dive live (an entry, the gallery, the summary) when it was opened
+ * straight from a link rather than over the dive's log; shares the log's stream when that is open.
+ */
+export function useFollowDive(diveId: string | undefined): LiveStatus {
+  const qc = useQueryClient();
+  const supported = typeof EventSource !== 'undefined';
+  const [status, setStatus] = useState<LiveStatus>(supported ? 'connecting' : 'offline');
+  useEffect(() => {
+    if (!diveId || !supported) return;
+    return follow(qc, diveId, { onStatus: setStatus });
+  }, [diveId, qc, supported]);
+  return status;
+}
+
 /**
  * Follows a dive's live stream and merges what happens into the cached dive log. While the
  * reader is scrolled away from the top, new entries are held back (`held`) instead of pushing
@@ -44,45 +172,13 @@ export function useDiveLive(diveId: string | undefined, holdNew: () => boolean) 
 
   useEffect(() => {
     if (!diveId || !supported) return;
-    const source = new EventSource(apiUrl(`/api/dives/${encodeURIComponent(diveId)}/stream`), { withCredentials: true });
-    source.onopen = () => setStatus('live');
-    source.onerror = () => setStatus(source.readyState === EventSource.CLOSED ? 'offline' : 'connecting');
-    const on = (type: string, handle: (data: string) => void) =>
-      source.addEventListener(type, (e) => handle((e as MessageEvent<string>).data));
-
-    // Entries logged between loading the list and opening the stream: fetch the list again once.
-    on('ready', () => void qc.invalidateQueries({ queryKey: observationKeys.diveLogs(diveId) }));
-    on('resync', () => void qc.invalidateQueries({ queryKey: observationKeys.diveLogs(diveId) }));
-    on('observation.created', (data) => {
-      const o = parse(observationSchema, data);
-      if (!o) return;
-      if (hold.current() && !inCache(qc, o)) setHeld((h) => [...h.filter((x) => x.id !== o.id), o]);
-      else mergeIntoDiveLogs(qc, o);
+    return follow(qc, diveId, {
+      onStatus: setStatus,
+      holding: () => hold.current(),
+      hold: (o) => setHeld((h) => [...h.filter((x) => x.id !== o.id), o]),
+      onUpdated: (o) => setHeld((h) => h.map((x) => (x.id === o.id ? o : x))),
+      onRetired: (id) => setHeld((h) => h.filter((x) => x.id !== id)),
     });
-    on('observation.updated', (data) => {
-      const o = parse(observationSchema, data);
-      if (!o) return;
-      setHeld((h) => h.map((x) => (x.id === o.id ? o : x)));
-      if (inCache(qc, o) || !hold.current()) mergeIntoDiveLogs(qc, o);
-      void qc.invalidateQueries({ queryKey: observationKeys.detail(o.id) });
-      // The entry's photos may be what changed (added, captioned, moved, retired): the detail above
-      // fetches them again, and so does an open gallery of the dive.
-      void qc.invalidateQueries({ queryKey: photoKeys.galleries(o.diveId) });
-    });
-    on('observation.retired', (data) => {
-      const r = parse(retiredSchema, data);
-      if (!r) return;
-      setHeld((h) => h.filter((x) => x.id !== r.id));
-      for (const [key, log] of qc.getQueriesData<InfiniteData<ObservationPage>>({ queryKey: observationKeys.diveLogs(r.diveId) })) {
-        if (log) qc.setQueryData(key, { ...log, pages: log.pages.map((p) => ({ ...p, items: p.items.filter((i) => i.id !== r.id) })) });
-      }
-      void qc.invalidateQueries({ queryKey: observationKeys.detail(r.id) });
-    });
-    on('dive.updated', (data) => {
-      const dive = parse(diveSchema, data);
-      if (dive && dive.id === diveId) qc.setQueryData(diveKeys.detail(diveId), dive);
-    });
-    return () => source.close();
   }, [diveId, qc, supported]);
 
   const showHeld = useCallback(() => {

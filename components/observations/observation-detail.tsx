@@ -11,6 +11,7 @@ import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useCampaign } from '@/hooks/campaigns';
 import { useDive } from '@/hooks/dives';
+import { useFollowDive } from '@/hooks/live';
 import { useObservation, useRestoreObservation, useRetireObservation } from '@/hooks/observations';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
@@ -29,6 +30,8 @@ const sourceLabel = (s: Observation['depthSource']) =>
 
 export function ObservationDetail({ id }: { id: string }) {
   const observation = useObservation(id);
+  // Opened from a link rather than over the dive's log, the entry still follows others' changes.
+  useFollowDive(observation.data?.diveId);
   if (observation.isPending) return <LoadingState label="Loading the entry…" />;
   if (observation.isError) return <ErrorState error={observation.error} onRetry={() => void observation.refetch()} />;
   return <ObservationBody observation={observation.data} />;

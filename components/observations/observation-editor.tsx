@@ -6,6 +6,7 @@ import { ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
 import { ApiError } from '@/hooks/api';
 import { useDraft } from '@/hooks/draft';
+import { useFollowDive } from '@/hooks/live';
 import { useObservation, useUpdateObservation } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import type { ObservationDetail, ObservationUpdate } from '@/lib/schemas';
@@ -63,6 +64,7 @@ function changes(draft: Draft, base: ObservationDetail, version: number): Observ
 
 export function ObservationEditor({ id, onDone }: { id: string; onDone: () => void }) {
   const observation = useObservation(id);
+  useFollowDive(observation.data?.diveId);
   if (observation.isPending) return <LoadingState label="Loading the entry…" />;
   if (observation.isError) return <ErrorState error={observation.error} onRetry={() => void observation.refetch()} />;
   return <Editor key={observation.data.id} current={observation.data} refetch={() => observation.refetch()} onDone={onDone} />;

@@ -7,6 +7,7 @@ import { Text } from '@/components/ui/text';
 import { useCampaignTags } from '@/hooks/campaigns';
 import { useDive } from '@/hooks/dives';
 import { useLayout } from '@/hooks/layout';
+import { useFollowDive } from '@/hooks/live';
 import { photoUrl, useGallery, useThumbnailsOnly } from '@/hooks/photos';
 import { useTheme } from '@/hooks/theme';
 import { formatUtcTime } from '@/lib/format';
@@ -29,6 +30,7 @@ export function DiveGallery({ diveId }: { diveId: string }) {
   const { breakpoint } = useLayout();
   const [width, setWidth] = useState(0);
   const dive = useDive(diveId);
+  useFollowDive(diveId);
   const tags = useCampaignTags(dive.data?.campaignId);
   const [kind, setKind] = useState<ObservationKind | undefined>();
   const [tag, setTag] = useState<string | undefined>();

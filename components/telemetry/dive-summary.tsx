@@ -6,6 +6,7 @@ import { Text } from '@/components/ui/text';
 import { useCampaign } from '@/hooks/campaigns';
 import { useDive } from '@/hooks/dives';
 import { useLayout } from '@/hooks/layout';
+import { useFollowDive } from '@/hooks/live';
 import { useDiveSummary, useTelemetry } from '@/hooks/telemetry';
 import { useTheme } from '@/hooks/theme';
 import { formatUtc } from '@/lib/format';
@@ -25,6 +26,7 @@ export function DiveSummaryView({ diveId }: { diveId: string }) {
   const { colors } = useTheme();
   const { splitView } = useLayout();
   const dive = useDive(diveId);
+  useFollowDive(diveId);
   const campaign = useCampaign(dive.data?.campaignId);
   const samples = useTelemetry(diveId);
   const summary = useDiveSummary(diveId);

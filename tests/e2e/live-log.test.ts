@@ -73,6 +73,41 @@ describe.each([
     await reader.page.getByTestId('dive-log').getByText(title).waitFor();
     expect(await marker.count()).toBe(0);
   });
+
+  it('keeps an entry and the dive summary opened straight from a link up to date', async () => {
+    const title = `Ling under the bow (${size})`;
+    await logEntry(logger.page, title);
+    const diveId = /\/dives\/([^/?#]+)/.exec(logger.page.url())![1]!;
+    // The logger's own browser talks to the API as the app does (same origin, its session).
+    const api = (path: string, method = 'GET', body?: unknown) =>
+      logger.page.evaluate(
+        async ({ path, method, body }) => {
+          const res = await fetch(path, {
+            method,
+            headers: body ? { 'content-type': 'application/json' } : {},
+            body: body ? JSON.stringify(body) : undefined,
+          });
+          return (await res.json()) as { id: string; version: number; items?: { id: string; title: string; version: number }[] };
+        },
+        { path, method, body },
+      );
+    const entry = (await api(`/api/dives/${diveId}/observations?limit=100`)).items!.find((i) => i.title === title)!;
+
+    await reader.page.goto(`${server.url}/observations/${entry.id}`);
+    const detail = reader.page.getByTestId('observation-detail');
+    await detail.getByText(title).waitFor();
+    await api(`/api/observations/${entry.id}`, 'PATCH', { version: entry.version, title: `${title}, two of them` });
+    await detail.getByText(`${title}, two of them`).waitFor({ timeout: 5000 });
+
+    await reader.page.goto(`${server.url}/dives/${diveId}/summary`);
+    const count = reader.page.getByTestId('stat-entries');
+    await count.waitFor();
+    const before = Number(await count.textContent());
+    await api(`/api/dives/${diveId}/observations`, 'POST', { kind: 'biology', title: `Second ling (${size})` });
+    await expect.poll(async () => Number(await count.textContent()), { timeout: 5000 }).toBe(before + 1);
+    expect(logger.errors).toEqual([]);
+    expect(reader.errors).toEqual([]);
+  });
 });
 
 describe('two people editing one entry', () => {
