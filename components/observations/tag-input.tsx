@@ -104,9 +104,22 @@ export function TagInput({ campaignId, value, onChange, error }: Props) {
       />
       {shown.length > 0 ? (
         <View style={styles.chips} testID="tag-suggestions">
-          {newTag ? <Chip label={`+ new "${newTag}"`} onPress={() => addNew(newTag)} testID="new-tag-chip" /> : null}
+          {newTag ? (
+            <Chip
+              label={`+ new "${newTag}"`}
+              onPress={() => addNew(newTag)}
+              action={{ accessibilityLabel: `Add a new tag, ${newTag}` }}
+              testID="new-tag-chip"
+            />
+          ) : null}
           {shown.map((t) => (
-            <Chip key={t.id} label={`+ ${t.name}`} onPress={() => add(t.name)} testID={`tag-${t.name}`} />
+            <Chip
+              key={t.id}
+              label={`+ ${t.name}`}
+              onPress={() => add(t.name)}
+              action={{ accessibilityLabel: `Add tag ${t.name}` }}
+              testID={`tag-${t.name}`}
+            />
           ))}
           {remaining > 0 ? (
             <Text variant="caption" muted>
