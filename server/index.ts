@@ -1,31 +1,50 @@
-import { createServer } from 'node:http';
+import { createServer, type RequestListener } from 'node:http';
 
 import { demoSignIns, DEMO_PASSWORD, seedDemo } from '../db/seed';
 import { createApp } from './app';
 import { createContext } from './bootstrap';
 import { loadEnv } from './env';
 
+/** Until the database is open and migrated, every request is told to come back in a moment. */
+const starting: RequestListener = (_req, res) => {
+  res.writeHead(503, { 'content-type': 'application/json; charset=utf-8', 'retry-after': '2' });
+  res.end(JSON.stringify({ error: { code: 'starting', message: 'Bathynote is starting; try again in a moment.' } }));
+};
+
 async function main() {
   const env = loadEnv();
+  // The port is taken first, so that nothing started below (the mail catcher takes a free port of
+  // its own) can land on it, and so that a port already in use is reported before any work is done.
+  let handle = starting;
+  const server = createServer((req, res) => handle(req, res));
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', (err: NodeJS.ErrnoException) =>
+      reject(
+        err.code === 'EADDRINUSE'
+          ? new Error(`port ${env.PORT} on ${env.HOST} is already in use; stop what holds it, or set PORT to another port`)
+          : err,
+      ),
+    );
+    server.listen(env.PORT, env.HOST, resolve);
+  });
   const ctx = await createContext(env);
   if (env.BATHYNOTE_DEMO) {
     const { seeded, observations } = await seedDemo(ctx.db);
     if (seeded) ctx.log.info('seeded the demo campaigns', { observations });
   }
-  const server = createServer(createApp(ctx));
-  server.listen(env.PORT, env.HOST, () => {
-    const lines = [
-      '',
-      `  Bathynote ${ctx.version} is running at ${env.PUBLIC_URL}`,
-      `  database: ${env.DATABASE_PATH}   uploads: ${env.UPLOADS_DIR}`,
-      `  mail: ${ctx.mailer.catching ? 'caught by the built-in mail catcher (site administrators read it under Admin → Outbox)' : 'sent through SMTP_URL'}`,
-    ];
-    if (env.BATHYNOTE_DEMO) {
-      lines.push('', `  Demo sign-ins (password "${DEMO_PASSWORD}" for all):`);
-      for (const s of demoSignIns) lines.push(`    ${s.email.padEnd(30)} ${s.role}`);
-    }
-    process.stdout.write(`${lines.join('\n')}\n\n`);
-  });
+  const app = createApp(ctx);
+  const lines = [
+    '',
+    `  Bathynote ${ctx.version} is running at ${env.PUBLIC_URL}`,
+    `  database: ${env.DATABASE_PATH}   uploads: ${env.UPLOADS_DIR}`,
+    `  mail: ${ctx.mailer.catching ? 'caught by the built-in mail catcher (site administrators read it under Admin → Outbox)' : 'sent through SMTP_URL'}`,
+  ];
+  if (env.BATHYNOTE_DEMO) {
+    lines.push('', `  Demo sign-ins (password "${DEMO_PASSWORD}" for all):`);
+    for (const s of demoSignIns) lines.push(`    ${s.email.padEnd(30)} ${s.role}`);
+  }
+  process.stdout.write(`${lines.join('\n')}\n\n`);
+  handle = app;
 
   const shutdown = (signal: string) => {
     ctx.log.info('shutting down', { signal });

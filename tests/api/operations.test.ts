@@ -7,7 +7,7 @@
 import { existsSync, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import type { AddressInfo } from 'node:net';
+import { createServer as createNetServer, type AddressInfo } from 'node:net';
 
 import express from 'express';
 import { simpleParser } from 'mailparser';
@@ -210,6 +210,21 @@ describe('starting the server', () => {
       expect(res.status).toBe(200);
     } finally {
       await server.stop();
+    }
+  });
+
+  it('says in one line that its port is taken, rather than throwing', async () => {
+    const holder = createNetServer();
+    await new Promise<void>((resolve) => holder.listen(0, '127.0.0.1', resolve));
+    const { port } = holder.address() as AddressInfo;
+    try {
+      const started = startServerProcess({ PORT: String(port) });
+      await expect(started).rejects.toThrow(
+        `Bathynote could not start: port ${port} on 127.0.0.1 is already in use; stop what holds it, or set PORT to another port`,
+      );
+      await expect(started).rejects.not.toThrow(/Unhandled|EADDRINUSE/);
+    } finally {
+      holder.close();
     }
   });
 });
