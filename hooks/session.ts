@@ -43,8 +43,10 @@ export function useSignOut() {
   return useMutation({
     mutationFn: () => request('/api/auth/sign-out', z.unknown(), { body: {} }),
     onSettled: () => {
-      qc.clear();
+      // `me` is set rather than cleared with the rest: the screens' guard watches that very query,
+      // and a cleared cache would leave it watching a query that is gone (still signed in, to it).
       qc.setQueryData(sessionKeys.me(), null);
+      qc.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.root[0] });
     },
   });
 }
