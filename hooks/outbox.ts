@@ -1,7 +1,9 @@
 /**
  * Entries that could not be sent (no link, or the server did not answer) wait here, on this
  * device, and are sent again until they get through. Each carries a `clientRef`, so an entry
- * whose first send did arrive (but whose answer was lost) is not logged twice.
+ * whose first send did arrive (but whose answer was lost) is not logged twice, and the id of the
+ * person who wrote it: on a shared control-room screen an entry is only ever sent, shown or
+ * discarded while its author is signed in.
  */
 import { useQueryClient } from '@tanstack/react-query';
 import { useCallback, useEffect, useSyncExternalStore } from 'react';
@@ -9,10 +11,13 @@ import { useCallback, useEffect, useSyncExternalStore } from 'react';
 import { observationSchema, type Observation, type ObservationCreate } from '@/lib/schemas';
 import { ApiError, request } from './api';
 import { mergeIntoDiveLogs } from './observations';
+import { useMe } from './session';
 import { storage } from './storage';
 
 export type PendingEntry = {
   clientRef: string;
+  /** Who wrote it (absent on entries kept before authors were recorded: shown to whoever signs in). */
+  authorId?: string;
   diveId: string;
   body: ObservationCreate;
   queuedAt: string;
@@ -51,8 +56,14 @@ export function newClientRef(): string {
   return c?.randomUUID ? c.randomUUID() : `${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 12)}`;
 }
 
-/** Whether a failed send is worth trying again (as opposed to a refusal the person must fix). */
-const retryable = (err: unknown) => err instanceof ApiError && (err.isNetwork || err.status >= 500 || err.status === 429);
+/**
+ * Whether a failed send is worth trying again (as opposed to a refusal the person must fix). A
+ * session that ended (401) is worth it: the entry waits until its author signs in again.
+ */
+const retryable = (err: unknown) =>
+  err instanceof ApiError && (err.isNetwork || err.status >= 500 || err.status === 429 || err.status === 401);
+
+const mine = (p: PendingEntry, userId: string | undefined) => !!userId && (p.authorId === undefined || p.authorId === userId);
 
 function send(entry: Pick<PendingEntry, 'diveId' | 'body' | 'clientRef'>): Promise<Observation> {
   return request(`/api/dives/${encodeURIComponent(entry.diveId)}/observations`, observationSchema, {
@@ -60,9 +71,11 @@ function send(entry: Pick<PendingEntry, 'diveId' | 'body' | 'clientRef'>): Promi
   });
 }
 
+/** The signed-in person's entries still on this device (of one dive, or all). */
 export function usePendingEntries(diveId?: string): PendingEntry[] {
   const all = useSyncExternalStore(subscribe, read, read);
-  return diveId ? all.filter((p) => p.diveId === diveId) : all;
+  const userId = useMe().data?.user.id;
+  return all.filter((p) => mine(p, userId) && (!diveId || p.diveId === diveId));
 }
 
 /**
@@ -71,6 +84,7 @@ export function usePendingEntries(diveId?: string): PendingEntry[] {
  */
 export function useLogEntry(diveId: string) {
   const qc = useQueryClient();
+  const authorId = useMe().data?.user.id;
   return useCallback(
     async (body: ObservationCreate): Promise<{ queued: false; observation: Observation } | { queued: true }> => {
       const entry = { clientRef: newClientRef(), diveId, body: { ...body, observedAt: body.observedAt ?? new Date().toISOString() } };
@@ -80,11 +94,11 @@ export function useLogEntry(diveId: string) {
         return { queued: false, observation };
       } catch (err) {
         if (!retryable(err)) throw err;
-        write([...read(), { ...entry, queuedAt: new Date().toISOString(), attempts: 1, lastError: (err as Error).message }]);
+        write([...read(), { ...entry, authorId, queuedAt: new Date().toISOString(), attempts: 1, lastError: (err as Error).message }]);
         return { queued: true };
       }
     },
-    [diveId, qc],
+    [authorId, diveId, qc],
   );
 }
 
@@ -92,16 +106,22 @@ export function discardPending(clientRef: string) {
   write(read().filter((p) => p.clientRef !== clientRef));
 }
 
+/** Sends a refused entry again (after the person has fixed what the refusal named, or regained access). */
+export function retryPending(clientRef: string) {
+  write(read().map((p) => (p.clientRef === clientRef ? { ...p, attempts: 0 } : p)));
+}
+
 let flushing = false;
 
 /** Sends whatever waits in the outbox, oldest first; keeps what still cannot be sent. */
 export function useOutboxFlush() {
   const qc = useQueryClient();
+  const userId = useMe().data?.user.id;
   return useCallback(async () => {
-    if (flushing) return;
+    if (flushing || !userId) return;
     flushing = true;
     try {
-      for (const entry of read().filter((p) => p.attempts >= 0)) {
+      for (const entry of read().filter((p) => p.attempts >= 0 && mine(p, userId))) {
         try {
           const observation = await send(entry);
           mergeIntoDiveLogs(qc, observation);
@@ -120,7 +140,7 @@ export function useOutboxFlush() {
     } finally {
       flushing = false;
     }
-  }, [qc]);
+  }, [qc, userId]);
 }
 
 /** Keeps trying the outbox while the app is open: on a timer and whenever the browser is back online. */

@@ -13,6 +13,7 @@ import { useDive } from '@/hooks/dives';
 import { useDraft } from '@/hooks/draft';
 import { useLayout } from '@/hooks/layout';
 import { useLogEntry } from '@/hooks/outbox';
+import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
 import { observationCreateSchema, observationKinds, type Observation, type ObservationCreate, type ObservationKind } from '@/lib/schemas';
@@ -305,7 +306,9 @@ type NewProps = { diveId: string; campaignId: string; onCreated: (o: Observation
 export function NewObservationForm({ diveId, campaignId, onCreated }: NewProps) {
   const { colors } = useTheme();
   const toast = useToast();
-  const draft = useDraft<Draft>(`bathynote.draft.${diveId}`, blankDraft);
+  // Kept per person as well as per dive: a shared screen never shows one person's draft to the next.
+  const me = useMe();
+  const draft = useDraft<Draft>(`bathynote.draft.${me.data?.user.id ?? 'anyone'}.${diveId}`, blankDraft);
   const [errors, setErrors] = useState<FormErrors>({});
   const [sending, setSending] = useState(false);
   const [failure, setFailure] = useState<string | null>(null);

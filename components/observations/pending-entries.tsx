@@ -3,12 +3,12 @@ import { StyleSheet, View } from 'react-native';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
-import { discardPending, usePendingEntries, type PendingEntry } from '@/hooks/outbox';
+import { discardPending, retryPending, usePendingEntries, type PendingEntry } from '@/hooks/outbox';
 import { useTheme } from '@/hooks/theme';
 import { formatUtcTime } from '@/lib/format';
 import { space } from '@/lib/tokens';
 
-/** Entries written on this device that have not reached the server yet. */
+/** The signed-in person's entries written on this device that have not reached the server yet. */
 export function PendingEntries({ diveId, onRetry }: { diveId: string; onRetry: () => void }) {
   const pending = usePendingEntries(diveId);
   if (pending.length === 0) return null;
@@ -39,7 +39,16 @@ function PendingCard({ entry, onRetry }: { entry: PendingEntry; onRetry: () => v
           : `Kept on this device; tried ${entry.attempts} time${entry.attempts === 1 ? '' : 's'}. ${entry.lastError ?? ''}`}
       </Text>
       <View style={styles.row}>
-        {refused ? null : <Button label="Send now" tone="secondary" compact onPress={onRetry} testID="pending-retry" />}
+        <Button
+          label={refused ? 'Try again' : 'Send now'}
+          tone="secondary"
+          compact
+          onPress={() => {
+            if (refused) retryPending(entry.clientRef);
+            onRetry();
+          }}
+          testID="pending-retry"
+        />
         <Button label="Discard" tone="ghost" compact onPress={() => discardPending(entry.clientRef)} testID="pending-discard" />
       </View>
     </Card>

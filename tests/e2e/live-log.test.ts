@@ -206,4 +206,59 @@ describe('logging fast and over a failing link', () => {
       await bio.close();
     }
   });
+
+  it('keeps a waiting entry and a half-typed draft to their author when the next person signs in on the same screen', async () => {
+    const screen = await openBrowser(viewports.phone);
+    const page = screen.page;
+    const signOut = async () => {
+      await page.goto(`${server.url}/account`);
+      await page.getByTestId('sign-out').click();
+      await page.getByTestId('sign-in-email').waitFor();
+    };
+    const posts = (route: string) =>
+      page.route(route, (r) => (r.request().method() === 'POST' ? r.abort('internetdisconnected') : r.continue()));
+    try {
+      await signIn(page, 'biologist@bathynote.test');
+      await openDive(page, 'VS-02');
+      await posts('**/api/dives/*/observations');
+      await page.getByTestId('new-observation').click();
+      await page.getByTestId('field-kind-biology').click();
+      await page.getByTestId('field-title').fill('Written by the biologist, not sent yet');
+      await page.getByTestId('save-observation').click();
+      await page.getByTestId('pending-entries').getByText('Written by the biologist, not sent yet').waitFor();
+      await page.getByTestId('new-observation').click();
+      await page.getByTestId('field-title').fill('Half-typed by the biologist');
+      await page.waitForTimeout(600); // the draft is kept 300 ms after the last key
+      await signOut();
+      await page.unroute('**/api/dives/*/observations');
+
+      // The archaeologist signs in on the same screen, with the link back.
+      await signIn(page, 'archaeologist@bathynote.test');
+      await openDive(page, 'VS-02');
+      await page.waitForTimeout(1500); // long enough for the outbox to have sent anything it would send
+      expect(await page.getByTestId('pending-entries').count()).toBe(0);
+      const titles = await page.evaluate(
+        async (diveUrl) => {
+          const res = await fetch(`${diveUrl}/observations?limit=100`);
+          return ((await res.json()) as { items: { title: string }[] }).items.map((i) => i.title);
+        },
+        `/api/dives/${/\/dives\/([^/?#]+)/.exec(page.url())![1]}`,
+      );
+      expect(titles).not.toContain('Written by the biologist, not sent yet');
+      await page.getByTestId('new-observation').click();
+      expect(await page.getByTestId('field-title').inputValue()).toBe('');
+      await signOut();
+
+      // Back with its author, it is waiting, and goes out in her name.
+      await signIn(page, 'biologist@bathynote.test');
+      await openDive(page, 'VS-02');
+      const log = page.getByTestId('dive-log').locator('[data-testid^="observation-"]');
+      await log.getByText('Written by the biologist, not sent yet').waitFor();
+      await page.getByTestId('new-observation').click();
+      expect(await page.getByTestId('field-title').inputValue()).toBe('Half-typed by the biologist');
+      expect(screen.errors).toEqual([]);
+    } finally {
+      await screen.close();
+    }
+  });
 });
