@@ -45,6 +45,9 @@ const connections = new WeakMap<QueryClient, Map<string, Connection>>();
 
 /** The dive's summary counts entries and marks them on its profile: fetched again once a burst of changes settles. */
 const SUMMARY_SETTLE_MS = 1000;
+/** A stream the server (or a proxy) refused is opened again after 2 s, then 4, 8 … at most a minute apart. */
+const RETRY_FIRST_MS = 2000;
+const RETRY_MAX_MS = 60_000;
 
 function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Connection {
   const connection: Connection = { followers, status: 'connecting', close: () => {} };
@@ -52,11 +55,38 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
     connection.status = s;
     for (const f of followers) f.onStatus(s);
   };
-  const source = new EventSource(apiUrl(`/api/dives/${encodeURIComponent(diveId)}/stream`), { withCredentials: true });
-  source.onopen = () => setStatus('live');
-  source.onerror = () => setStatus(source.readyState === EventSource.CLOSED ? 'offline' : 'connecting');
-  const on = (type: string, handle: (data: string) => void) =>
-    source.addEventListener(type, (e) => handle((e as MessageEvent<string>).data));
+  // The browser reconnects a dropped stream by itself, but gives up for good when an answer is not
+  // the stream (a proxy's 502, a 429, a 401 while the session is renewed): then it is opened again
+  // here, later and later, from the last event it saw.
+  let source: EventSource | undefined;
+  let lastEventId: string | undefined;
+  let retryTimer: ReturnType<typeof setTimeout> | undefined;
+  let retryMs = RETRY_FIRST_MS;
+  let closed = false;
+  const handlers: [string, (data: string) => void][] = [];
+  const on = (type: string, handle: (data: string) => void) => handlers.push([type, handle]);
+  const open = () => {
+    const since = lastEventId ? `?lastEventId=${encodeURIComponent(lastEventId)}` : '';
+    const s = new EventSource(apiUrl(`/api/dives/${encodeURIComponent(diveId)}/stream${since}`), { withCredentials: true });
+    source = s;
+    s.onopen = () => {
+      retryMs = RETRY_FIRST_MS;
+      setStatus('live');
+    };
+    s.onerror = () => {
+      setStatus('connecting');
+      if (s.readyState !== EventSource.CLOSED || closed) return;
+      retryTimer = setTimeout(open, retryMs);
+      retryMs = Math.min(retryMs * 2, RETRY_MAX_MS);
+    };
+    for (const [type, handle] of handlers) {
+      s.addEventListener(type, (e) => {
+        const m = e as MessageEvent<string>;
+        if (m.lastEventId) lastEventId = m.lastEventId;
+        handle(m.data);
+      });
+    }
+  };
   let summaryTimer: ReturnType<typeof setTimeout> | undefined;
   const summaryChanged = () => {
     clearTimeout(summaryTimer);
@@ -113,9 +143,12 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
     if (dive && dive.id === diveId) qc.setQueryData(diveKeys.detail(diveId), dive);
     summaryChanged();
   });
+  open();
   connection.close = () => {
+    closed = true;
     clearTimeout(summaryTimer);
-    source.close();
+    clearTimeout(retryTimer);
+    source?.close();
   };
   return connection;
 }

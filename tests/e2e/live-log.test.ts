@@ -176,6 +176,32 @@ describe('logging fast and over a failing link', () => {
     }
   });
 
+  it('opens the live log again after the stream was refused on the way (a proxy error)', async () => {
+    const [reader, logger] = await Promise.all([openBrowser(viewports.phone), openBrowser(viewports.phone)]);
+    try {
+      await Promise.all([signIn(reader.page, 'guest@bathynote.test'), signIn(logger.page, 'pilot@bathynote.test')]);
+      // A proxy on the link answers the first attempt with an error page, which a browser's own
+      // reconnecting gives up on for good.
+      let refused = 0;
+      await reader.page.route('**/api/dives/*/stream*', (route) => {
+        if (refused++ > 0) return route.continue();
+        return route.fulfill({ status: 502, contentType: 'text/html', body: '<h1>Bad gateway</h1>' });
+      });
+      await reader.page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+      await reader.page.getByTestId('dive-VS-01').click();
+      await reader.page.getByTestId('live-status-connecting').waitFor();
+      await reader.page.getByTestId('live-status-live').waitFor({ timeout: 10_000 });
+      expect(refused).toBe(2);
+
+      await openDive(logger.page, 'VS-01');
+      await logEntry(logger.page, 'Logged after the proxy error');
+      await reader.page.getByTestId('dive-log').getByText('Logged after the proxy error').waitFor({ timeout: 5000 });
+      expect(reader.errors.filter((e) => !e.includes('502'))).toEqual([]);
+    } finally {
+      await Promise.all([reader.close(), logger.close()]);
+    }
+  });
+
   it('keeps an entry that could not be sent, shows it waiting, and sends it when the link is back', async () => {
     const bio = await openBrowser(viewports.phone);
     try {
