@@ -3,6 +3,7 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/r
 import { diveSchema, type DivePhase } from '@/lib/schemas';
 import { request } from './api';
 import { campaignKeys } from './campaigns';
+import { telemetryKeys } from './telemetry';
 
 export const diveKeys = {
   root: ['dives'] as const,
@@ -21,6 +22,8 @@ function useDiveMutation<I>(diveId: string, path: string, method: 'POST' | 'PATC
     onSuccess: (dive) => {
       qc.setQueryData(diveKeys.detail(diveId), dive);
       void qc.invalidateQueries({ queryKey: campaignKeys.dives(dive.campaignId) });
+      // Phases, the video clock and the gap setting all change what the summary says.
+      void qc.invalidateQueries({ queryKey: telemetryKeys.summary(diveId) });
     },
   });
 }

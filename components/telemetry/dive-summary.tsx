@@ -1,5 +1,6 @@
 import { StyleSheet, View } from 'react-native';
 
+import { PhaseTimes } from '@/components/dives/phase-times';
 import { Card } from '@/components/ui/card';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
@@ -81,6 +82,9 @@ export function DiveSummaryView({ diveId }: { diveId: string }) {
             Maximum depth from the entries’ depths: the dive has no depth in its log.
           </Text>
         ) : null}
+      </Card>
+      <Card testID="phases-card">
+        <PhaseTimes dive={dive.data} mayEdit={mayImport} />
       </Card>
       <Card testID="recording-card">
         <RecordingSettings dive={dive.data} mayEdit={mayImport} />

@@ -192,6 +192,45 @@ describe('the dive summary on a wide screen', () => {
     }
   });
 
+  it('lets the pilot correct a phase marked late, with the statistics following, and undo it', async () => {
+    const browser = await openBrowser(viewports.wide);
+    try {
+      const { page } = browser;
+      await signIn(page, 'pilot@bathynote.test');
+      await page.goto(`${server.url}/dives/${diveId}/summary`);
+      const bottom = page.getByTestId('stat-bottom');
+      await bottom.waitFor();
+      const minutes = async () => {
+        const [, h, m] = /^(\d+) h (\d{2}) min$/.exec((await bottom.textContent()) ?? '')!;
+        return Number(h) * 60 + Number(m);
+      };
+      const before = await minutes();
+      const field = page.getByTestId('phase-time-on-bottom');
+      const original = await field.inputValue();
+      const marked = Date.parse(`${original.replace(' ', 'T')}Z`);
+      const utc = (t: number) => new Date(t).toISOString().slice(0, 23).replace('T', ' ');
+
+      // Touchdown was marked ten minutes late: the bottom time is ten minutes shorter once corrected.
+      await field.fill(utc(marked + 10 * 60_000));
+      await page.getByTestId('phase-save-on-bottom').click();
+      await page.getByTestId('toast').getByText('On bottom set to').waitFor();
+      await expect.poll(minutes, { timeout: 5000 }).toBe(before - 10);
+      await page.getByTestId('toast-action').click();
+      await expect.poll(minutes, { timeout: 5000 }).toBe(before);
+      expect(await field.inputValue()).toBe(original);
+
+      // Phases follow each other: on bottom cannot come after off bottom.
+      const offBottom = Date.parse(`${(await page.getByTestId('phase-time-off-bottom').inputValue()).replace(' ', 'T')}Z`);
+      await field.fill(utc(offBottom + 60_000));
+      await field.press('Enter');
+      expect(await page.getByTestId('phase-time-on-bottom-error').textContent()).toMatch(/^on-bottom cannot be after off-bottom/);
+      expect(await minutes()).toBe(before);
+      expect(browser.errors).toEqual([]);
+    } finally {
+      await browser.close();
+    }
+  });
+
   it('shows a guest the plots without the import', async () => {
     const browser = await openBrowser(viewports.wide);
     try {
