@@ -21,6 +21,8 @@ type Props = {
   search: string;
   /** The dive's phases, shown between the entries when the log is in time order. */
   phases?: Dive['phases'];
+  /** The dive's video clock: each entry shows its time code once it is set. */
+  recording?: Dive['recording'];
   onFiltersChange: (f: DiveLogFilters) => void;
   view: 'cards' | 'table';
   selectedId?: string;
@@ -45,6 +47,7 @@ export function DiveLog({
   filters,
   search,
   phases,
+  recording,
   onFiltersChange,
   view,
   selectedId,
@@ -71,12 +74,12 @@ export function DiveLog({
       if (item.type === 'phase') return <PhaseDivider label={item.label} at={item.at} table={view === 'table'} phase={item.phase} />;
       const o = item.observation;
       return view === 'table' ? (
-        <LogTableRow observation={o} selected={o.id === selectedId} onPress={() => onSelect(o)} />
+        <LogTableRow observation={o} recording={recording} selected={o.id === selectedId} onPress={() => onSelect(o)} />
       ) : (
-        <ObservationCard observation={o} selected={o.id === selectedId} onPress={() => onSelect(o)} />
+        <ObservationCard observation={o} recording={recording} selected={o.id === selectedId} onPress={() => onSelect(o)} />
       );
     },
-    [onSelect, selectedId, view],
+    [onSelect, recording, selectedId, view],
   );
 
   let empty: React.ReactElement;

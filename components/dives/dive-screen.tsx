@@ -146,6 +146,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       filters={filters}
       search={search}
       phases={dive.data?.phases}
+      recording={dive.data?.recording}
       onFiltersChange={setFilters}
       view={splitView ? view : 'cards'}
       selectedId={splitView ? entryId : undefined}

@@ -1,10 +1,11 @@
 import { Pressable, StyleSheet, View } from 'react-native';
 
+import { timecodeOf } from '@/components/telemetry/timecode-label';
 import { Text } from '@/components/ui/text';
 import type { DiveLogFilters } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import { formatDepth, formatUtcTime } from '@/lib/format';
-import type { Observation } from '@/lib/schemas';
+import type { Dive, Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { kindLabels } from '../observations/kind-badge';
 
@@ -51,8 +52,11 @@ export function LogTableHeader({ filters, onSort }: { filters: DiveLogFilters; o
   );
 }
 
-export function LogTableRow({ observation: o, selected, onPress }: { observation: Observation; selected: boolean; onPress: () => void }) {
+type RowProps = { observation: Observation; selected: boolean; onPress: () => void; recording?: Dive['recording'] };
+
+export function LogTableRow({ observation: o, selected, onPress, recording }: RowProps) {
   const { colors } = useTheme();
+  const tc = recording ? timecodeOf({ recording }, o.observedAt)?.label : null;
   return (
     <Pressable
       role="row"
@@ -61,9 +65,14 @@ export function LogTableRow({ observation: o, selected, onPress }: { observation
       onPress={onPress}
       style={[styles.row, { borderBottomColor: colors.border, backgroundColor: selected ? colors.surfaceAlt : 'transparent' }]}
     >
-      <Text variant="monoSmall" style={{ flex: 1.1 }}>
-        {formatUtcTime(o.observedAt)}
-      </Text>
+      <View style={{ flex: 1.1 }}>
+        <Text variant="monoSmall">{formatUtcTime(o.observedAt)}</Text>
+        {tc ? (
+          <Text variant="monoSmall" muted testID="observation-timecode" accessibilityLabel={`Video time code ${tc}`}>
+            TC {tc}
+          </Text>
+        ) : null}
+      </View>
       <Text variant="caption" color={colors.kind[o.kind]} style={{ flex: 1 }}>
         {kindLabels[o.kind]}
       </Text>

@@ -4,15 +4,17 @@ import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/hooks/theme';
 import { formatDepth, formatScientificName, formatUtcTime } from '@/lib/format';
-import type { Observation } from '@/lib/schemas';
+import type { Dive, Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
+import { timecodeOf } from '@/components/telemetry/timecode-label';
 import { KindBadge } from './kind-badge';
 import { TagLabel } from './tag-label';
 
-type Props = { observation: Observation; onPress: () => void; selected?: boolean };
+type Props = { observation: Observation; onPress: () => void; selected?: boolean; recording?: Dive['recording'] };
 
-export function ObservationCard({ observation: o, onPress, selected }: Props) {
+export function ObservationCard({ observation: o, onPress, selected, recording }: Props) {
   const { colors } = useTheme();
+  const tc = recording ? timecodeOf({ recording }, o.observedAt)?.label : null;
   return (
     <Card
       testID={`observation-${o.id}`}
@@ -31,6 +33,11 @@ export function ObservationCard({ observation: o, onPress, selected }: Props) {
           {formatDepth(o.depth)}
         </Text>
       </View>
+      {tc ? (
+        <Text variant="monoSmall" muted testID="observation-timecode" accessibilityLabel={`Video time code ${tc}`}>
+          TC {tc}
+        </Text>
+      ) : null}
       <Text variant="title" numberOfLines={2} testID="observation-title">
         {o.title}
       </Text>

@@ -181,6 +181,10 @@ describe('the dive summary on a wide screen', () => {
       await page.getByTestId('field-kind-archaeology').click();
       await page.getByTestId('field-title').fill(title);
       await page.getByTestId('save-observation').click();
+      // The log shows every entry's time code beside its time, once the dive's video clock is set.
+      const card = page.getByTestId('dive-log').locator('[data-testid^="observation-"]').filter({ hasText: title }).first();
+      await card.waitFor();
+      expect(await card.getByTestId('observation-timecode').textContent()).toBe('TC 01:00:00;00');
       await page.getByTestId('dive-log').getByText(title).click();
       const detail = page.getByTestId('observation-detail');
       await expect.poll(() => detail.getByTestId('detail-title').textContent()).toBe(title);
