@@ -17,6 +17,7 @@ import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { formatDepth, formatInZone, formatLatLon, formatTemperature, formatUtc } from '@/lib/format';
 import type { Observation, ObservationDetail as Detail } from '@/lib/schemas';
+import { pressureFromDepth } from '@/lib/seawater';
 import { radius, space } from '@/lib/tokens';
 import { CustodyPanel, FindPanel } from './find-panel';
 import { IdentificationPanel } from './identification-panel';
@@ -44,12 +45,19 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
   const me = useMe().data;
   const role = campaign?.myRole;
   const mayEdit = role === 'lead' || (!!me && o.authorId === me.user.id && role !== 'admin');
+  // The sea pressure at the entry's depth, for comparing with instruments that log pressure.
+  const latitude = o.lat ?? campaign?.datumLat;
+  const atDepth = o.depth !== null && latitude !== undefined ? pressureFromDepth(o.depth, latitude) : Number.NaN;
+  const pressure = Number.isFinite(atDepth) ? atDepth : null;
   const facts: [string, string, string?][] = [
     ['Time (UTC)', formatUtc(o.observedAt, true)],
     ...(campaign && campaign.timeZone !== 'UTC'
       ? ([[`Local (${campaign.timeZone})`, formatInZone(o.observedAt, campaign.timeZone)]] as [string, string][])
       : []),
     ['Depth', formatDepth(o.depth), sourceLabel(o.depthSource)],
+    ...(pressure !== null
+      ? ([['Pressure', `≈ ${pressure.toFixed(1)} dbar`, 'from the depth (Saunders 1981)']] as [string, string, string][])
+      : []),
     ['Position', formatLatLon(o.lat, o.lon), sourceLabel(o.positionSource)],
     ['Water temperature', formatTemperature(o.temperature), sourceLabel(o.temperatureSource)],
   ];

@@ -9,6 +9,7 @@ import type { Page } from 'playwright-core';
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 import { csv, iso } from '../fixtures/telemetry/logs';
+import { pressureFromDepth } from '@/lib/seawater';
 
 let server: ServerProcess;
 let dir: string;
@@ -117,7 +118,15 @@ describe('the dive summary at phone size', () => {
     await marker.click();
     await page.getByTestId('observation-detail').waitFor();
     expect(new URL(page.url()).pathname).toBe(`/observations/${id}`);
+    const depth = Number((await page.getByTestId('fact-depth').textContent())!.replace(' m', ''));
     expect(await page.getByTestId('fact-depth').textContent()).toMatch(/^\d+\.\d m$/);
+    // Beside the depth, the sea pressure there by Saunders (1981) at the entry's latitude (lib/seawater.ts,
+    // checked against the paper's own values in tests/unit/seawater.test.ts).
+    const [lat] = (await page.getByTestId('fact-position').textContent())!.split('°');
+    // (The depth shown is rounded to 0.1 m, so the two agree to about 0.1 dbar.)
+    const shown = /^≈ (\d+\.\d) dbar$/.exec((await page.getByTestId('fact-pressure').textContent()) ?? '');
+    expect(shown).not.toBeNull();
+    expect(Math.abs(Number(shown![1]) - pressureFromDepth(depth, Number(lat)))).toBeLessThanOrEqual(0.15);
     expect(browser.errors).toEqual([]);
   });
 });
