@@ -15,7 +15,7 @@ import { useLayout } from '@/hooks/layout';
 import { useLogEntry } from '@/hooks/outbox';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
-import { parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
+import { formatInZone, parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
 import { observationCreateSchema, observationKinds, type Observation, type ObservationCreate, type ObservationKind } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { kindLabels } from './kind-badge';
@@ -195,7 +195,7 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
             onChangeText={(time) => update({ time })}
             mono
             error={errors.observedAt}
-            hint={campaign ? `Seconds count; the entry also shows ${campaign.timeZone} time.` : undefined}
+            hint={timeHint(d.time, campaign?.timeZone)}
             autoCapitalize="none"
           />
         </View>
@@ -298,6 +298,14 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
 }
 
 type NewProps = { diveId: string; campaignId: string; onCreated: (o: Observation | null) => void };
+
+/** Under the UTC time as it is typed: the same instant in the campaign's display zone. */
+function timeHint(typed: string, zone: string | undefined): string | undefined {
+  if (!zone) return undefined;
+  const at = parseUtcInput(typed);
+  if (!at) return `UTC, with seconds; the entry also shows ${zone} time.`;
+  return zone === 'UTC' ? 'UTC, with seconds.' : `= ${formatInZone(at, zone)} (${zone})`;
+}
 
 /**
  * Logging a new entry. The draft survives a reload; a send that cannot reach the server is kept

@@ -39,7 +39,7 @@ export const Field = forwardRef<TextInput, Props>(function Field({ label, error,
           {error}
         </Text>
       ) : hint ? (
-        <Text variant="caption" muted>
+        <Text variant="caption" muted testID={testID ? `${testID}-hint` : undefined}>
           {hint}
         </Text>
       ) : null}

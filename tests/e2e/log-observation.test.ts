@@ -70,6 +70,8 @@ describe.each([
     await page.getByTestId('field-kind-biology').click();
     await page.getByTestId('field-title').fill(title);
     await page.getByTestId('field-time').fill('2026-05-13 21:14:07');
+    // As it is typed, the time also reads in the campaign's display zone (Lisbon is an hour ahead in May).
+    expect(await page.getByTestId('field-time-hint').textContent()).toMatch(/^= 2026-05-13 22:14:07 \S+ \(Europe\/Lisbon\)$/);
     await page.getByTestId('field-depth').fill('601.5');
     await page.getByTestId('field-tag').fill('microbial');
     await page.getByTestId('tag-microbial-mat').click();
