@@ -124,8 +124,11 @@ export function DiveLog({
         renderItem={renderItem}
         ListHeaderComponent={
           <View>
-            {header}
-            <PendingEntries diveId={diveId} onRetry={onRetryPending} />
+            {/* The table runs edge to edge; what sits above it keeps the cards' margin. */}
+            <View style={view === 'table' ? styles.tableHeader : undefined}>
+              {header}
+              <PendingEntries diveId={diveId} onRetry={onRetryPending} />
+            </View>
             {view === 'table' ? (
               <LogTableHeader filters={filters} onSort={(sort, order) => onFiltersChange({ ...filters, sort, order })} />
             ) : null}
@@ -211,7 +214,8 @@ function Separator() {
 const styles = StyleSheet.create({
   fill: { flex: 1 },
   content: { padding: space.lg, paddingBottom: 96 },
-  tableContent: { paddingBottom: 96 },
+  tableContent: { paddingTop: space.lg, paddingBottom: 96 },
+  tableHeader: { paddingHorizontal: space.lg },
   sep: { height: space.md },
   phase: { flexDirection: 'row', alignItems: 'center', gap: space.sm, paddingVertical: space.xs },
   phaseTable: { paddingHorizontal: space.md, paddingVertical: space.sm },

@@ -34,7 +34,9 @@ import { QuickMarkBar } from './quick-mark-bar';
 export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: string }) {
   const router = useRouter();
   const { colors } = useTheme();
-  const { splitView, navPlacement } = useLayout();
+  const { splitView, navPlacement, breakpoint } = useLayout();
+  // From tablet width up there is room for the table, and likely a keyboard.
+  const roomy = breakpoint !== 'phone';
   const dive = useDive(diveId);
   const campaign = useCampaign(dive.data?.campaignId);
   const [filters, setFilters] = useState<DiveLogFilters>({});
@@ -59,19 +61,23 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
     const next = items[Math.min(items.length - 1, Math.max(0, at < 0 ? 0 : at + by))];
     if (next) router.setParams({ entry: next.id });
   };
+  // Stepping through entries needs the detail beside the list; the others work wherever a keyboard might be.
+  const besideList = (run: () => void) => () => {
+    if (splitView) run();
+  };
   useKeyboardShortcuts(
     {
       n: newEntry,
-      j: () => step(1),
-      ArrowDown: () => step(1),
-      k: () => step(-1),
-      ArrowUp: () => step(-1),
-      e: () => entryId && router.push(`/observations/${entryId}/edit`),
-      Escape: () => router.setParams({ entry: undefined }),
+      j: besideList(() => step(1)),
+      ArrowDown: besideList(() => step(1)),
+      k: besideList(() => step(-1)),
+      ArrowUp: besideList(() => step(-1)),
+      e: besideList(() => entryId && router.push(`/observations/${entryId}/edit`)),
+      Escape: besideList(() => router.setParams({ entry: undefined })),
       f: () => setShowFilters((s) => !s),
       '/': () => searchBox.current?.focus(),
     },
-    splitView,
+    roomy,
   );
 
   if (dive.isError) {
@@ -101,7 +107,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
           onPress={() => setShowFilters((s) => !s)}
           testID="toggle-filters"
         />
-        {splitView ? (
+        {roomy ? (
           <View style={styles.viewSwitch}>
             <Segmented
               label="View"
@@ -123,7 +129,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
         testID="log-search"
         value={search}
         onChangeText={setSearch}
-        placeholder={splitView ? 'Title or note contains…  ( / )' : 'Title or note contains…'}
+        placeholder={roomy ? 'Title or note contains…  ( / )' : 'Title or note contains…'}
         autoCapitalize="none"
         autoCorrect={false}
         inputMode="search"
@@ -148,7 +154,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       phases={dive.data?.phases}
       recording={dive.data?.recording}
       onFiltersChange={setFilters}
-      view={splitView ? view : 'cards'}
+      view={roomy ? view : 'cards'}
       selectedId={splitView ? entryId : undefined}
       onSelect={open}
       live={live}

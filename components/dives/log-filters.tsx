@@ -12,14 +12,47 @@ import { kindLabels } from '../observations/kind-badge';
 
 type Props = { campaignId: string; filters: DiveLogFilters; onChange: (f: DiveLogFilters) => void; isLead: boolean };
 
-/** Narrow the log by kind, tag, author, photos and verification; leads can also look at retired entries. */
+type Sort = NonNullable<DiveLogFilters['sort']>;
+type Order = NonNullable<DiveLogFilters['order']>;
+/** The orders the log can be read in (the table's column headers sort the same way). */
+const sorts: { sort: Sort; order: Order; label: string; id: string }[] = [
+  { sort: 'time', order: 'desc', label: 'Newest first', id: 'newest' },
+  { sort: 'time', order: 'asc', label: 'Oldest first', id: 'oldest' },
+  { sort: 'depth', order: 'desc', label: 'Deepest first', id: 'deepest' },
+  { sort: 'depth', order: 'asc', label: 'Shallowest first', id: 'shallowest' },
+  { sort: 'kind', order: 'asc', label: 'By kind', id: 'kind' },
+  { sort: 'author', order: 'asc', label: 'By author', id: 'author' },
+];
+
+/**
+ * Order the log, and narrow it by kind, tag, author, photos and verification; leads can also look
+ * at retired entries.
+ */
 export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
   const { colors, scheme } = useTheme();
   const members = [...(useCampaignMembers(campaignId).data ?? [])].sort((a, b) => a.name.localeCompare(b.name));
   const tags = (useCampaignTags(campaignId).data ?? []).filter((t) => !t.retired && t.usage > 0).sort((a, b) => b.usage - a.usage);
   const set = (patch: Partial<DiveLogFilters>) => onChange({ ...filters, ...patch });
+  const sort = filters.sort ?? 'time';
+  const order = filters.order ?? (sort === 'time' || sort === 'depth' ? 'desc' : 'asc');
   return (
     <View style={styles.wrap} testID="log-filters">
+      <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row} testID="log-sort">
+        <Text variant="caption" muted>
+          Order
+        </Text>
+        {sorts.map((o) => (
+          <Chip
+            key={o.id}
+            label={o.label}
+            selected={sort === o.sort && order === o.order}
+            onPress={() =>
+              o.sort === 'time' && o.order === 'desc' ? set({ sort: undefined, order: undefined }) : set({ sort: o.sort, order: o.order })
+            }
+            testID={`sort-${o.id}`}
+          />
+        ))}
+      </ScrollView>
       <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row}>
         <Chip label="All kinds" selected={!filters.kind} onPress={() => set({ kind: undefined })} testID="filter-kind-all" />
         {observationKinds.map((k) => (
@@ -68,7 +101,7 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
           <Text variant="caption" muted>
             Tag
           </Text>
-          {tags.slice(0, 24).map((t) => (
+          {tags.map((t) => (
             <Chip
               key={t.id}
               label={`#${t.name}`}

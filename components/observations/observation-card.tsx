@@ -29,7 +29,7 @@ export function ObservationCard({ observation: o, onPress, selected, recording }
         </Text>
         <KindBadge kind={o.kind} />
         <View style={styles.flex} />
-        <Text variant="monoSmall" muted>
+        <Text variant="monoSmall" muted testID="observation-depth">
           {formatDepth(o.depth)}
         </Text>
       </View>

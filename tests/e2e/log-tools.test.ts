@@ -28,7 +28,9 @@ async function openDive(page: Page, number = 'VS-02') {
 const cards = (page: Page) =>
   page
     .getByTestId('dive-log')
-    .locator('[data-testid^="observation-"]:not([data-testid="observation-time"]):not([data-testid="observation-title"])');
+    .locator(
+      '[data-testid^="observation-"]:not([data-testid="observation-time"]):not([data-testid="observation-title"]):not([data-testid="observation-depth"]):not([data-testid="observation-timecode"])',
+    );
 
 const title = 'Rust-coloured concretion on the keelson';
 
@@ -237,5 +239,46 @@ describe('at wide size', () => {
     await expect.poll(() => page.getByTestId('note-preview').locator('em').textContent()).toBe('Lophelia');
     expect(await page.getByTestId('field-note').isVisible()).toBe(true);
     expect(browser.errors).toEqual([]);
+  });
+});
+
+describe('at laptop size (1024 × 768), between the phone and the wide layout', () => {
+  it('offers the table, the keys that need no detail pane, and the log in order of depth', async () => {
+    const browser = await openBrowser({ width: 1024, height: 768 });
+    try {
+      const { page } = browser;
+      await signIn(page, 'biologist@bathynote.test');
+      await openDive(page);
+      await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+      await page.keyboard.press('f');
+      await page.getByTestId('sort-deepest').click();
+      await expect.poll(async () => (await page.getByTestId('sort-deepest').getAttribute('aria-checked')) === 'true').toBe(true);
+      const depths = async () =>
+        (await page.getByTestId('dive-log').getByTestId('observation-depth').allTextContents())
+          .filter((t) => t !== '—')
+          .map((t) => Number(t.replace(' m', '')));
+      await expect
+        .poll(async () => {
+          const d = await depths();
+          return d.length > 3 && d.every((v, i) => i === 0 || d[i - 1]! >= v);
+        })
+        .toBe(true);
+      await page.getByTestId('sort-shallowest').click();
+      await expect
+        .poll(async () => {
+          const d = await depths();
+          return d.length > 3 && d.every((v, i) => i === 0 || d[i - 1]! <= v);
+        })
+        .toBe(true);
+
+      await page.getByTestId('log-view-table').click();
+      await page.getByRole('columnheader', { name: /Depth/ }).waitFor();
+      await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+      await page.keyboard.press('/');
+      expect(await page.evaluate(() => document.activeElement?.getAttribute('data-testid'))).toBe('log-search');
+      expect(browser.errors).toEqual([]);
+    } finally {
+      await browser.close();
+    }
   });
 });
