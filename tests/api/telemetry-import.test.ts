@@ -325,6 +325,33 @@ describe('a good log', () => {
 });
 
 describe('a bad log leaves the dive as it was', () => {
+  it('keeps nothing of an import that fails while its rows are being written, and keeps the log it was replacing', async () => {
+    await imported(linearLog(T0, 10, 7));
+    const before = stored();
+    const imports = importCount();
+    const entries = () =>
+      t.ctx.db.$client.prepare('select id, depth, depth_source from observations where dive_id = ? order by id').all(ids.dive2026);
+    const entriesBefore = entries();
+    // The disk fills up (or anything else goes wrong inside SQLite) at the 900th row of 1,000.
+    const failAt = T0 + 899 * 2000;
+    t.ctx.db.$client.exec(
+      `create trigger test_fail_import before insert on telemetry_samples when new.t = ${failAt} begin select raise(abort, 'database or disk is full'); end`,
+    );
+    try {
+      const res = await upload(linearLog(T0, 2, 1000));
+      expect(res.status).toBe(500);
+      expect(res.body.error.code).toBe('internal');
+      expect(JSON.stringify(res.body)).not.toMatch(/disk is full|telemetry_samples|trigger/);
+    } finally {
+      t.ctx.db.$client.exec('drop trigger test_fail_import');
+    }
+    expect(stored()).toEqual(before);
+    expect(importCount()).toBe(imports);
+    expect(entries()).toEqual(entriesBefore);
+    // And the same log goes in whole once the fault is gone.
+    expect((await imported(linearLog(T0, 2, 1000))).rowsTaken).toBe(1000);
+  });
+
   it('refuses a log with no time column', async () => {
     await imported(linearLog(T0, 10, 7));
     const before = samples();
