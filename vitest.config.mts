@@ -2,6 +2,10 @@ import { fileURLToPath } from 'node:url';
 import { defineConfig } from 'vitest/config';
 
 const root = fileURLToPath(new URL('.', import.meta.url));
+// The suite runs where local time is far from UTC (UTC+12:45/+13:45), so a time read as local
+// instead of UTC fails it; `npm test` also runs the unit and API tests under UTC. A plain
+// `npx vitest` gets the same zone.
+process.env.TZ ||= 'Pacific/Chatham';
 const alias = { '@': root };
 
 export default defineConfig({
