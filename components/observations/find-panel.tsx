@@ -10,7 +10,7 @@ import { ApiError } from '@/hooks/api';
 import { nextFindNumberQuery, useAddCustody, useSetFind } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import { formatUtc, parseUtcInput, toUtcInput } from '@/lib/format';
-import type { ObservationDetail } from '@/lib/schemas';
+import { SAMPLE_TAG, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { RecordConflict, useEditBase } from './record-conflict';
 
@@ -190,7 +190,7 @@ export function CustodyPanel({ observation: o, myRole, myId }: Props) {
   const [location, setLocation] = useState('');
   const [container, setContainer] = useState('');
   const add = useAddCustody(o.id);
-  const inCustody = o.find?.state === 'recovered' || o.tags.some((t) => t.toLowerCase() === 'sample');
+  const inCustody = o.find?.state === 'recovered' || o.tags.some((t) => t.toLowerCase() === SAMPLE_TAG) || o.custody.length > 0;
   if (!inCustody) return null;
   const sinceIso = parseUtcInput(since);
   // Until the campaign says what this person is, neither the form nor a reason shows.

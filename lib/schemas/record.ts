@@ -14,6 +14,12 @@ const text = (max: number) => z.string().trim().max(max);
 const version = z.number().int().min(1);
 
 /** Darwin Core taxonRank values the form offers (TDWG recommended vocabulary, lower case). */
+/**
+ * The tag that marks an entry whose sample was taken: such an entry keeps a custody trail, like a
+ * recovered find. The lead cannot rename, merge or retire it away.
+ */
+export const SAMPLE_TAG = 'sample';
+
 export const taxonRanks = ['kingdom', 'phylum', 'class', 'order', 'family', 'genus', 'species', 'subspecies'] as const;
 /** Open-nomenclature qualifiers (Darwin Core identificationQualifier examples). */
 export const identificationQualifiers = ['cf.', 'aff.', 'sp.', 'indet.'] as const;

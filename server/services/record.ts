@@ -4,6 +4,7 @@ import type { Db, Executor } from '../../db/client';
 import { campaigns, custodyEvents, finds, identifications, observationTags, tags } from '../../db/schema';
 import {
   custodyInputSchema,
+  SAMPLE_TAG,
   findInputSchema,
   identificationInputSchema,
   verificationInputSchema,
@@ -196,9 +197,11 @@ export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, body
       .select({ n: sql<number>`count(*)` })
       .from(observationTags)
       .innerJoin(tags, eq(tags.id, observationTags.tagId))
-      .where(and(eq(observationTags.observationId, id), sql`lower(${tags.name}) = 'sample'`))
+      .where(and(eq(observationTags.observationId, id), sql`lower(${tags.name}) = ${SAMPLE_TAG}`))
       .get();
-    if (find?.state !== 'recovered' && !isSample?.n) {
+    // A trail once begun goes on, even if the entry has since lost its tag.
+    const hasTrail = tx.select({ id: custodyEvents.id }).from(custodyEvents).where(eq(custodyEvents.observationId, id)).get();
+    if (find?.state !== 'recovered' && !isSample?.n && !hasTrail) {
       throw conflict('not_in_custody', 'A custody trail is kept for recovered finds and for samples (entries tagged "sample").');
     }
     tx.insert(custodyEvents)

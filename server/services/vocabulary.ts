@@ -2,7 +2,7 @@ import { and, asc, count, eq, ne, sql } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../db/client';
 import { observations, observationTags, quickMarks, tags } from '../../db/schema';
-import { quickMarkInputSchema, tagCreateSchema, tagUpdateSchema, type QuickMark, type Tag } from '../../lib/schemas';
+import { quickMarkInputSchema, SAMPLE_TAG, tagCreateSchema, tagUpdateSchema, type QuickMark, type Tag } from '../../lib/schemas';
 import { ApiError, conflict } from '../errors';
 import { audit } from './audit';
 
@@ -62,6 +62,13 @@ export function updateTag(db: Db, tagId: string, actorId: string, body: unknown)
   return db.transaction((tx) => {
     const tag = tx.select().from(tags).where(eq(tags.id, tagId)).get();
     if (!tag) throw new ApiError(404, 'not_found', 'Not found');
+    const renamed = input.name !== undefined && input.name.toLowerCase() !== tag.name.toLowerCase();
+    if (tag.name.toLowerCase() === SAMPLE_TAG && (input.mergeInto || renamed || input.retired === true)) {
+      throw conflict(
+        'reserved_tag',
+        `"${tag.name}" marks the entries whose samples are kept in custody, so it cannot be renamed, merged or retired. Merge other tags into it instead.`,
+      );
+    }
     if (input.mergeInto) {
       const target = tx.select().from(tags).where(eq(tags.id, input.mergeInto)).get();
       if (!target || target.campaignId !== tag.campaignId || target.id === tag.id) {

@@ -284,6 +284,34 @@ describe('finds and their custody', () => {
     expect(second.body.custody.map((c: { holder: string }) => c.holder)).toEqual(['Bram Ostrander', 'Conservator ashore']);
     expect((await arch.post(`/api/observations/${a.id}/custody`).send({ holder: '', since: 'yesterday', location: '' })).status).toBe(400);
   });
+
+  it('keeps a custody trail for samples (entries tagged "sample"), a tag the lead cannot rename, merge or retire away', async () => {
+    const bio = await t.signIn(emails.biologist);
+    const step = { holder: 'Cleo Varga', since: '2026-05-16T23:40:00.000Z', location: 'Cold room, rack B', container: 'Vial S-07' };
+    const plain = await logAs(emails.biologist, { kind: 'biology', title: 'Mat seen, nothing taken', tags: ['microbial-mat'] });
+    expect((await bio.post(`/api/observations/${plain.id}/custody`).send(step)).body.error.code).toBe('not_in_custody');
+    const sampled = await logAs(emails.biologist, { kind: 'biology', title: 'Push core of the mat', tags: ['sample', 'microbial-mat'] });
+    expect((await bio.post(`/api/observations/${sampled.id}/custody`).send(step)).status).toBe(201);
+
+    const lead = await t.signIn(emails.lead);
+    const vocabulary = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[];
+    const sample = vocabulary.find((v) => v.name === 'sample')!;
+    const other = vocabulary.find((v) => v.name === 'microbial-mat')!;
+    for (const change of [{ name: 'samples' }, { retired: true }, { mergeInto: other.id }]) {
+      const res = await lead.patch(`/api/tags/${sample.id}`).send(change);
+      expect(res.status, JSON.stringify(change)).toBe(409);
+      expect(res.body.error.code).toBe('reserved_tag');
+    }
+    expect((await lead.patch(`/api/tags/${sample.id}`).send({ name: 'Sample' })).status).toBe(200);
+    expect((await detail(sampled.id)).tags).toContain('Sample');
+
+    // A trail once begun goes on after the entry loses its tag.
+    const version = (await detail(sampled.id)).version;
+    expect((await bio.patch(`/api/observations/${sampled.id}`).send({ version, tags: ['microbial-mat'] })).status).toBe(200);
+    const next = await bio.post(`/api/observations/${sampled.id}/custody`).send({ ...step, holder: 'Courier to the lab ashore' });
+    expect(next.status).toBe(201);
+    expect(next.body.custody).toHaveLength(2);
+  });
 });
 
 const revisionCount = (id: string) =>
