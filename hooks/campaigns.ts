@@ -61,6 +61,15 @@ export function useCreateQuickMark(campaignId: string) {
   });
 }
 
+export function useUpdateQuickMark(campaignId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, ...input }: { id: string; label: string; kind: ObservationKind; tags: string[] }) =>
+      request(`/api/quick-marks/${encodeURIComponent(id)}`, quickMarkSchema, { method: 'PATCH', body: input }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: quickMarksQuery(campaignId).queryKey }),
+  });
+}
+
 export function useRetireQuickMark(campaignId: string) {
   const qc = useQueryClient();
   return useMutation({

@@ -15,12 +15,14 @@ import {
   useCreateTag,
   useQuickMarks,
   useRetireQuickMark,
+  useUpdateQuickMark,
   useUpdateTag,
 } from '@/hooks/campaigns';
 import { useTheme } from '@/hooks/theme';
-import { observationKinds, type ObservationKind, type Tag } from '@/lib/schemas';
+import { observationKinds, SAMPLE_TAG, type ObservationKind, type QuickMark, type Tag } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { kindLabels } from '../observations/kind-badge';
+import { TagInput } from '../observations/tag-input';
 
 /** The lead's tools for the campaign's words: the tag vocabulary and the quick marks. */
 export function VocabularySettings({ campaignId }: { campaignId: string }) {
@@ -41,10 +43,31 @@ function QuickMarks({ campaignId, editable }: { campaignId: string; editable: bo
   const { colors } = useTheme();
   const marks = useQuickMarks(campaignId).data ?? [];
   const create = useCreateQuickMark(campaignId);
+  const change = useUpdateQuickMark(campaignId);
   const retire = useRetireQuickMark(campaignId);
   const [label, setLabel] = useState('');
   const [kind, setKind] = useState<ObservationKind>('biology');
-  const [tags, setTags] = useState('');
+  const [tags, setTags] = useState<string[]>([]);
+  // The quick mark being changed, if the form holds one rather than a new one.
+  const [editing, setEditing] = useState<QuickMark | null>(null);
+  const reset = () => {
+    setEditing(null);
+    setLabel('');
+    setKind('biology');
+    setTags([]);
+  };
+  const edit = (m: QuickMark) => {
+    setEditing(m);
+    setLabel(m.label);
+    setKind(m.kind);
+    setTags(m.tags);
+  };
+  const save = () => {
+    const input = { label: label.trim(), kind, tags };
+    if (editing) change.mutate({ id: editing.id, ...input }, { onSuccess: reset });
+    else create.mutate(input, { onSuccess: reset });
+  };
+  const failure = editing ? change.error : create.error;
   return (
     <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="quick-mark-settings">
       <Text variant="title">Quick marks</Text>
@@ -56,51 +79,38 @@ function QuickMarks({ campaignId, editable }: { campaignId: string; editable: bo
         {marks.map((m) => (
           <View key={m.id} style={styles.item}>
             <Chip label={`${m.label}${m.tags.length ? ` · #${m.tags.join(' #')}` : ''}`} color={colors.kind[m.kind]} selected />
-            {editable ? <Button label="Remove" tone="ghost" compact onPress={() => retire.mutate(m.id)} /> : null}
+            {editable ? (
+              <>
+                <Button label="Edit" tone="ghost" compact onPress={() => edit(m)} testID={`edit-quick-mark-${m.label}`} />
+                <Button label="Remove" tone="ghost" compact onPress={() => retire.mutate(m.id)} />
+              </>
+            ) : null}
           </View>
         ))}
       </View>
       {editable ? (
         <View style={styles.form}>
+          {editing ? <Text variant="label">Changing “{editing.label}”</Text> : null}
           <Field label="Label" testID="field-quick-mark-label" value={label} onChangeText={setLabel} placeholder="Microbial mat" />
           <Segmented
             label="Kind"
             value={kind}
             onChange={setKind}
+            testID="field-quick-mark-kind"
             options={observationKinds.map((k) => ({ value: k, label: kindLabels[k], color: colors.kind[k] }))}
           />
-          <Field
-            label="Tags (comma separated)"
-            value={tags}
-            onChangeText={setTags}
-            autoCapitalize="none"
-            placeholder="microbial-mat, hull"
-          />
-          {create.error instanceof ApiError ? <Text color={colors.danger}>{create.error.message}</Text> : null}
-          <Button
-            label="Add quick mark"
-            testID="add-quick-mark"
-            busy={create.isPending}
-            disabled={!label.trim()}
-            onPress={() =>
-              create.mutate(
-                {
-                  label: label.trim(),
-                  kind,
-                  tags: tags
-                    .split(',')
-                    .map((t) => t.trim())
-                    .filter(Boolean),
-                },
-                {
-                  onSuccess: () => {
-                    setLabel('');
-                    setTags('');
-                  },
-                },
-              )
-            }
-          />
+          <TagInput campaignId={campaignId} value={tags} onChange={setTags} />
+          {failure instanceof ApiError ? <Text color={colors.danger}>{failure.message}</Text> : null}
+          <View style={styles.chips}>
+            <Button
+              label={editing ? 'Save quick mark' : 'Add quick mark'}
+              testID="add-quick-mark"
+              busy={create.isPending || change.isPending}
+              disabled={!label.trim()}
+              onPress={save}
+            />
+            {editing ? <Button label="Cancel" tone="ghost" onPress={reset} testID="cancel-quick-mark" /> : null}
+          </View>
         </View>
       ) : null}
     </View>
@@ -160,6 +170,15 @@ function TagEditor({ tag, tags, campaignId, onDone }: { tag: Tag; tags: Tag[]; c
   const [mergeInto, setMergeInto] = useState<string | null>(null);
   const run = (input: { name?: string; retired?: boolean; mergeInto?: string }) =>
     update.mutate({ id: tag.id, ...input }, { onSuccess: onDone });
+  if (tag.name.toLowerCase() === SAMPLE_TAG) {
+    return (
+      <View style={[styles.editor, { borderColor: colors.border }]}>
+        <Text muted testID="reserved-tag">
+          “{tag.name}” marks the entries whose samples are kept in custody, so it stays as it is. Merge other tags into it instead.
+        </Text>
+      </View>
+    );
+  }
   return (
     <View style={[styles.editor, { borderColor: colors.border }]}>
       <Field label={`Rename “${tag.name}”`} value={name} onChangeText={setName} autoCapitalize="none" />

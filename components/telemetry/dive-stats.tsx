@@ -4,7 +4,7 @@ import { kindLabels } from '@/components/observations/kind-badge';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/hooks/theme';
 import { observationKinds, type DiveStatsAnswer, type ObservationKind } from '@/lib/schemas';
-import { radius, space } from '@/lib/tokens';
+import { radius, space, tagColors } from '@/lib/tokens';
 
 const dash = '—';
 
@@ -26,7 +26,7 @@ const isKind = (label: string): label is ObservationKind => (observationKinds as
 
 /** The dive's figures as a grid: durations between phases, depth, rates, track and what was logged. */
 export function DiveStatsGrid({ stats, maxDepth }: { stats: DiveStatsAnswer; maxDepth: number | null }) {
-  const { colors } = useTheme();
+  const { colors, scheme } = useTheme();
   const facts: [string, string, string][] = [
     ['total', 'Launch to on deck', formatDuration(stats.totalMs)],
     ['descent', 'Descent', formatDuration(stats.descentMs)],
@@ -77,14 +77,20 @@ export function DiveStatsGrid({ stats, maxDepth }: { stats: DiveStatsAnswer; max
             </Text>
           ) : (
             <View style={styles.tags}>
-              {stats.entriesByTag.map((tag) => (
-                <View key={tag.label} style={[styles.tag, { backgroundColor: colors.surfaceAlt, borderColor: colors.border }]}>
-                  <Text variant="caption" color={colors.accent}>
-                    #{tag.label}
-                  </Text>
-                  <Text variant="monoSmall">{tag.count}</Text>
-                </View>
-              ))}
+              {stats.entriesByTag.map((tag) => {
+                // The tag's own colour, as on the entries.
+                const { fg, bg } = tagColors(tag.label, scheme);
+                return (
+                  <View key={tag.label} style={[styles.tag, { backgroundColor: bg, borderColor: fg }]} testID={`stat-tag-${tag.label}`}>
+                    <Text variant="caption" color={fg}>
+                      #{tag.label}
+                    </Text>
+                    <Text variant="monoSmall" color={fg}>
+                      {tag.count}
+                    </Text>
+                  </View>
+                );
+              })}
             </View>
           )}
         </View>

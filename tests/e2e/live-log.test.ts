@@ -164,12 +164,22 @@ describe('logging fast and over a failing link', () => {
       await lead.page.getByTestId('field-quick-mark-label').fill('Rusticle drip');
       await lead.page.getByTestId('add-quick-mark').click();
       await lead.page.getByTestId('quick-mark-settings').getByText('Rusticle drip').waitFor();
+      // The lead changes it afterwards: a tag from the vocabulary, picked as on an entry.
+      await lead.page.getByTestId('edit-quick-mark-Rusticle drip').click();
+      expect(await lead.page.getByTestId('field-quick-mark-label').inputValue()).toBe('Rusticle drip');
+      await lead.page.getByTestId('field-tag').fill('hu');
+      await lead.page.getByTestId('field-tag').press('Enter');
+      await lead.page.getByTestId('chosen-tag-hull').waitFor();
+      await lead.page.getByTestId('add-quick-mark').click();
+      await lead.page.getByTestId('quick-mark-settings').getByText('Rusticle drip · #hull').waitFor();
 
       await signIn(bio.page, 'biologist@bathynote.test');
       await openDive(bio.page, 'VS-03');
       await bio.page.getByTestId('quick-mark-Rusticle drip').click();
       await bio.page.getByTestId('toast').getByText('Logged “Rusticle drip”').waitFor();
-      await bio.page.getByTestId('dive-log').locator('[data-testid^="observation-"]').getByText('Rusticle drip').waitFor();
+      const logged = bio.page.getByTestId('dive-log').locator('[data-testid^="observation-"]').filter({ hasText: 'Rusticle drip' }).first();
+      await logged.waitFor();
+      await logged.getByText('#hull').waitFor();
       expect(bio.errors).toEqual([]);
     } finally {
       await Promise.all([lead.close(), bio.close()]);
