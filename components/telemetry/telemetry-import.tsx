@@ -44,12 +44,26 @@ export function TelemetryImport({ diveId, hasLog }: { diveId: string; hasLog: bo
   const [mapping, setMapping] = useState<Record<string, TelemetryChannelName | 'ignore'>>({});
 
   const recognition = useMemo(() => (picked ? recogniseHeaders(picked.headers, mapping) : null), [picked, mapping]);
-  const unknown = useMemo(() => (picked ? recogniseHeaders(picked.headers).unknown : []), [picked]);
+  const plain = useMemo(() => (picked ? recogniseHeaders(picked.headers) : null), [picked]);
+  const unknown = plain?.unknown ?? [];
+  // A recognised column can be read as something else, or not at all (a housing temperature
+  // called "temp", a failed depth sensor): tapping its chip opens the same choice.
+  const [changing, setChanging] = useState<string[]>([]);
+  const choosing = [...unknown, ...changing.filter((h) => !unknown.includes(h))];
+  const readAs = (header: string): TelemetryChannelName | 'ignore' => {
+    if (mapping[header]) return mapping[header];
+    const index = picked?.headers.indexOf(header) ?? -1;
+    const recognised = plain
+      ? (Object.entries(plain.mapping) as [TelemetryChannelName, number][]).find(([, at]) => at === index)
+      : undefined;
+    return recognised?.[0] ?? 'ignore';
+  };
 
   const pick = (log: PickedLog) => {
     upload.reset();
     setPicked(log);
     setMapping({});
+    setChanging([]);
     setGpsTime(recogniseHeaders(log.headers).timeScale === 'gps');
   };
 
@@ -93,11 +107,21 @@ export function TelemetryImport({ diveId, hasLog }: { diveId: string; hasLog: bo
       {recognition && picked ? (
         <View style={styles.section} testID="telemetry-columns">
           <Text variant="label">Columns</Text>
+          <Text variant="caption" muted>
+            Tap a column to read it as something else, or not at all.
+          </Text>
           <View style={styles.chips}>
             {picked.headers.map((h, i) => {
               const channel = (Object.entries(recognition.mapping) as [TelemetryChannelName, number][]).find(([, at]) => at === i)?.[0];
               return (
-                <Chip key={`${h}-${i}`} label={channel ? `${h} → ${channelLabels[channel]}` : `${h}: not read`} selected={!!channel} />
+                <Chip
+                  key={`${h}-${i}`}
+                  label={channel ? `${h} → ${channelLabels[channel]}` : `${h}: not read`}
+                  selected={!!channel}
+                  action={{ accessibilityLabel: `Choose what the column ${h} holds` }}
+                  onPress={unknown.includes(h) ? undefined : () => setChanging((c) => (c.includes(h) ? c : [...c, h]))}
+                  testID={`telemetry-column-${h}`}
+                />
               );
             })}
           </View>
@@ -106,7 +130,7 @@ export function TelemetryImport({ diveId, hasLog }: { diveId: string; hasLog: bo
               No column holds the time. Say which one does below.
             </Text>
           ) : null}
-          {unknown.map((header) => (
+          {choosing.map((header) => (
             <View key={header} style={styles.mapping}>
               <Text variant="caption">“{header}” holds</Text>
               <View style={styles.chips}>
@@ -115,7 +139,7 @@ export function TelemetryImport({ diveId, hasLog }: { diveId: string; hasLog: bo
                     key={c}
                     testID={`telemetry-map-${header}-${c}`}
                     label={c === 'ignore' ? 'nothing to read' : channelLabels[c]}
-                    selected={(mapping[header] ?? 'ignore') === c}
+                    selected={readAs(header) === c}
                     onPress={() => setMapping((m) => ({ ...m, [header]: c }))}
                   />
                 ))}

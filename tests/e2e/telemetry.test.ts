@@ -88,7 +88,31 @@ describe('the dive summary at phone size', () => {
     await page.getByTestId('telemetry-file').setInputFiles(logFile);
     await page.getByTestId('telemetry-columns').getByText('time → time').waitFor();
     expect(await page.getByTestId('telemetry-file-name').textContent()).toContain('skerry-vs-02-nav.csv');
+    // A recognised column can be read as nothing (say the sensor failed) and back again.
+    const temperature = page.getByTestId('telemetry-column-temperature_c');
+    expect(await temperature.textContent()).toBe('temperature_c → temperature (°C)');
+    await temperature.click();
+    await page.getByTestId('telemetry-map-temperature_c-ignore').click();
+    expect(await temperature.textContent()).toBe('temperature_c: not read');
+    await page.getByTestId('telemetry-map-temperature_c-temperature').click();
+    expect(await temperature.textContent()).toBe('temperature_c → temperature (°C)');
+
+    // Over a thin satellite link (64 kB/s up) the upload shows its progress as it goes.
+    const cdp = await browser.context.newCDPSession(page);
+    await cdp.send('Network.emulateNetworkConditions', {
+      offline: false,
+      latency: 300,
+      downloadThroughput: -1,
+      uploadThroughput: 64 * 1024,
+    });
     await page.getByTestId('telemetry-upload').click();
+    const bar = page.getByTestId('telemetry-progress');
+    await bar.waitFor();
+    const sent = async () => Number(await bar.getAttribute('aria-valuenow'));
+    await expect.poll(sent, { timeout: 10_000 }).toBeGreaterThan(0);
+    const first = await sent();
+    await expect.poll(sent, { timeout: 10_000 }).toBeGreaterThan(first);
+    await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
 
     const report = page.getByTestId('telemetry-report');
     await report.waitFor({ timeout: 60_000 });
