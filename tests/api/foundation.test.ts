@@ -5,6 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { observations } from '@/db/schema';
 import { campaignSchema, diveSchema, meSchema, observationPageSchema, observationSchema } from '@/lib/schemas';
+import { tinyJpeg } from '../fixtures/photos/make';
 import { demoIds, emails } from '../helpers/demo';
 import { FAKE_INDEX, startTestServer, type TestServer } from '../helpers/test-server';
 
@@ -295,6 +296,59 @@ describe('the dive log', () => {
     );
     expect(tagged.items.length).toBeGreaterThan(0);
     expect(tagged.items.every((o) => o.tags.includes('amphora'))).toBe(true);
+  });
+
+  it('filters by photos, verification and author, and sorts by depth, kind and author', async () => {
+    const agent = await t.signIn(emails.biologist);
+    const list = async (query: Record<string, string>) =>
+      observationPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/observations`).query({ limit: 200, ...query })).body).items;
+    // The demo has no photos: one frame grab on one entry.
+    const framed = (await list({}))[3]!;
+    const attached = await agent.post(`/api/observations/${framed.id}/photos`).attach('photo', await tinyJpeg(), {
+      filename: 'frame.jpg',
+      contentType: 'image/jpeg',
+    });
+    expect(attached.status).toBe(201);
+    const all = await list({});
+    const withPhotos = await list({ hasPhotos: 'true' });
+    expect(withPhotos.map((o) => o.id)).toContain(framed.id);
+    const without = await list({ hasPhotos: 'false' });
+    expect(withPhotos.length).toBeGreaterThan(0);
+    expect(withPhotos.every((o) => o.photoCount > 0)).toBe(true);
+    expect(without.every((o) => o.photoCount === 0)).toBe(true);
+    expect(withPhotos.length + without.length).toBe(all.length);
+
+    // And one name verified by the lead (identified by someone else).
+    const named = all.find((o) => o.identification && o.identification.verificationStatus !== 'verified')!;
+    const lead = await t.signIn(emails.lead);
+    const verifying = await lead
+      .post(`/api/observations/${named.id}/identification/verify`)
+      .send({ version: named.version, status: 'verified' });
+    expect(verifying.status, JSON.stringify(verifying.body)).toBe(200);
+    const verified = await list({ verification: 'verified' });
+    expect(verified.map((o) => o.id)).toContain(named.id);
+    expect(verified.length).toBe((await list({})).filter((o) => o.identification?.verificationStatus === 'verified').length);
+    expect(verified.every((o) => o.identification?.verificationStatus === 'verified')).toBe(true);
+    const author = all[0]!.authorId;
+    const mine = await list({ author });
+    expect(mine.length).toBe(all.filter((o) => o.authorId === author).length);
+    expect(mine.every((o) => o.authorId === author)).toBe(true);
+
+    const inOrder = <T>(values: T[], before: (a: T, b: T) => boolean) => values.every((v, i) => i === 0 || !before(v, values[i - 1]!));
+    const deepest = (await list({ sort: 'depth', order: 'desc' })).map((o) => o.depth);
+    const known = deepest.filter((d): d is number => d !== null);
+    expect(inOrder(known, (a, b) => a > b)).toBe(true);
+    // Entries without a depth come last, in either order.
+    expect(deepest.slice(known.length).every((d) => d === null)).toBe(true);
+    expect(
+      inOrder(
+        (await list({ sort: 'kind' })).map((o) => o.kind),
+        (a, b) => a < b,
+      ),
+    ).toBe(true);
+    const names = (await list({ sort: 'author', order: 'desc' })).map((o) => o.authorName.toLowerCase());
+    expect(inOrder(names, (a, b) => a > b)).toBe(true);
+    expect(new Set(names).size).toBeGreaterThan(1);
   });
 });
 
