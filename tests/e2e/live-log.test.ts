@@ -233,10 +233,22 @@ describe('logging fast and over a failing link', () => {
       await bio.page.reload();
       await bio.page.getByTestId('pending-entries').getByText('Sent over a dropping link').waitFor();
 
+      // A second one, logged by mistake, its author throws away before the link is back.
+      await bio.page.getByTestId('new-observation').click();
+      await bio.page.getByTestId('field-kind-biology').click();
+      await bio.page.getByTestId('field-title').fill('Logged twice by mistake');
+      await bio.page.getByTestId('save-observation').click();
+      const mistake = bio.page.locator('[data-testid^="pending-"]').filter({ hasText: 'Logged twice by mistake' }).last();
+      await mistake.getByTestId('pending-discard').click();
+      await expect.poll(() => bio.page.getByTestId('pending-entries').getByText('Logged twice by mistake').count()).toBe(0);
+
       await bio.page.unroute('**/api/dives/*/observations');
       await bio.page.getByTestId('pending-retry').click();
       await bio.page.getByTestId('dive-log').locator('[data-testid^="observation-"]').getByText('Sent over a dropping link').waitFor();
       expect(await bio.page.getByTestId('pending-entries').count()).toBe(0);
+      await bio.page.reload();
+      await bio.page.getByTestId('dive-log').getByText('Sent over a dropping link').waitFor();
+      expect(await bio.page.getByTestId('dive-log').getByText('Logged twice by mistake').count()).toBe(0);
       expect(bio.errors).toEqual([]);
     } finally {
       await bio.close();
