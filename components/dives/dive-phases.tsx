@@ -5,20 +5,14 @@ import { useTheme } from '@/hooks/theme';
 import { formatUtcTime } from '@/lib/format';
 import type { Dive } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-
-const phases: [keyof Dive['phases'], string][] = [
-  ['launch', 'Launch'],
-  ['onBottom', 'On bottom'],
-  ['offBottom', 'Off bottom'],
-  ['onDeck', 'On deck'],
-];
+import { phaseLabels } from './log-rows';
 
 /** The dive's four phases in a row, the ones not reached yet left blank. */
 export function DivePhases({ dive }: { dive: Dive }) {
   const { colors } = useTheme();
   return (
     <View style={[styles.row, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="dive-phases">
-      {phases.map(([key, label]) => {
+      {phaseLabels.map(([key, label]) => {
         const at = dive.phases[key];
         return (
           <View key={key} style={styles.cell}>

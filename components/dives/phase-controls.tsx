@@ -4,15 +4,11 @@ import { Button } from '@/components/ui/button';
 import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useSetPhase } from '@/hooks/dives';
-import type { Dive, DivePhase } from '@/lib/schemas';
+import type { Dive } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
+import { phaseSteps } from './log-rows';
 
-const steps: { phase: DivePhase; key: keyof Dive['phases']; label: string }[] = [
-  { phase: 'launch', key: 'launch', label: 'Launch' },
-  { phase: 'on-bottom', key: 'onBottom', label: 'On bottom' },
-  { phase: 'off-bottom', key: 'offBottom', label: 'Off bottom' },
-  { phase: 'on-deck', key: 'onDeck', label: 'On deck' },
-];
+const steps = phaseSteps;
 
 /** For the pilot and the lead: mark the next dive phase now, with undo. */
 export function PhaseControls({ dive }: { dive: Dive }) {

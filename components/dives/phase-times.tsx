@@ -8,15 +8,11 @@ import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useSetPhase } from '@/hooks/dives';
 import { formatUtc, parseUtcInput, toUtcInputExact } from '@/lib/format';
-import type { Dive, DivePhase } from '@/lib/schemas';
+import type { Dive } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
+import { phaseSteps } from './log-rows';
 
-const steps: { phase: DivePhase; key: keyof Dive['phases']; label: string }[] = [
-  { phase: 'launch', key: 'launch', label: 'Launch' },
-  { phase: 'on-bottom', key: 'onBottom', label: 'On bottom' },
-  { phase: 'off-bottom', key: 'offBottom', label: 'Off bottom' },
-  { phase: 'on-deck', key: 'onDeck', label: 'On deck' },
-];
+const steps = phaseSteps;
 
 /**
  * The dive's four phase times, which the statistics and the plots are cut by. A phase marked late
