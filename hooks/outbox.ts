@@ -8,10 +8,10 @@
 import { useQueryClient } from '@tanstack/react-query';
 import { useCallback, useEffect, useSyncExternalStore } from 'react';
 
-import { observationSchema, type Observation, type ObservationCreate } from '@/lib/schemas';
+import { observationSchema, type Me, type Observation, type ObservationCreate } from '@/lib/schemas';
 import { ApiError, request } from './api';
 import { mergeIntoDiveLogs } from './observations';
-import { useMe } from './session';
+import { sessionKeys, useMe } from './session';
 import { storage } from './storage';
 
 export type PendingEntry = {
@@ -121,7 +121,12 @@ export function useOutboxFlush() {
     if (flushing || !userId) return;
     flushing = true;
     try {
-      for (const entry of read().filter((p) => p.attempts >= 0 && mine(p, userId))) {
+      for (const { clientRef } of read().filter((p) => p.attempts >= 0 && mine(p, userId))) {
+        // Sends take time on a slow link: an entry discarded meanwhile is not sent, and if its
+        // author has signed out (someone else may have signed in), nothing more goes out.
+        const entry = read().find((p) => p.clientRef === clientRef && p.attempts >= 0);
+        if (!entry) continue;
+        if (qc.getQueryData<Me | null>(sessionKeys.me())?.user.id !== userId) break;
         try {
           const observation = await send(entry);
           mergeIntoDiveLogs(qc, observation);
