@@ -3,10 +3,11 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { z } from 'zod';
 
 import { diveSchema, observationSchema, type Observation, type ObservationPage } from '@/lib/schemas';
-import { apiUrl } from './api';
+import { ApiError, apiUrl, request } from './api';
 import { diveKeys } from './dives';
 import { photoKeys } from './photos';
 import { mergeIntoDiveLogs, observationKeys } from './observations';
+import { sessionKeys } from './session';
 import { telemetryKeys } from './telemetry';
 
 export type LiveStatus = 'connecting' | 'live' | 'offline';
@@ -56,8 +57,9 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
     for (const f of followers) f.onStatus(s);
   };
   // The browser reconnects a dropped stream by itself, but gives up for good when an answer is not
-  // the stream (a proxy's 502, a 429, a 401 while the session is renewed): then it is opened again
-  // here, later and later, from the last event it saw.
+  // the stream (a proxy's 502, a 429): then it is opened again here, later and later, from the
+  // last event it saw. Unless the dive itself is now refused: signed out (401), or no longer a
+  // member (403, 404), where the stream stays closed.
   let source: EventSource | undefined;
   let lastEventId: string | undefined;
   let retryTimer: ReturnType<typeof setTimeout> | undefined;
@@ -65,6 +67,12 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
   let closed = false;
   const handlers: [string, (data: string) => void][] = [];
   const on = (type: string, handle: (data: string) => void) => handlers.push([type, handle]);
+  const retry = () => {
+    if (closed) return;
+    setStatus('connecting');
+    retryTimer = setTimeout(open, retryMs);
+    retryMs = Math.min(retryMs * 2, RETRY_MAX_MS);
+  };
   const open = () => {
     const since = lastEventId ? `?lastEventId=${encodeURIComponent(lastEventId)}` : '';
     const s = new EventSource(apiUrl(`/api/dives/${encodeURIComponent(diveId)}/stream${since}`), { withCredentials: true });
@@ -74,10 +82,17 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
       setStatus('live');
     };
     s.onerror = () => {
-      setStatus('connecting');
-      if (s.readyState !== EventSource.CLOSED || closed) return;
-      retryTimer = setTimeout(open, retryMs);
-      retryMs = Math.min(retryMs * 2, RETRY_MAX_MS);
+      if (s.readyState !== EventSource.CLOSED) return setStatus('connecting');
+      if (closed) return;
+      void request(`/api/dives/${encodeURIComponent(diveId)}`, z.unknown()).then(
+        () => retry(),
+        (err: unknown) => {
+          const status = err instanceof ApiError ? err.status : 0;
+          if (status === 401) void qc.invalidateQueries({ queryKey: sessionKeys.me() });
+          if (status === 401 || status === 403 || status === 404) setStatus('offline');
+          else retry();
+        },
+      );
     };
     for (const [type, handle] of handlers) {
       s.addEventListener(type, (e) => {
@@ -94,8 +109,9 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
   };
   const holder = () => [...followers].find((f) => f.holding?.());
 
-  // Changes between loading a screen and opening the stream: fetch what is shown of the dive again once.
-  on('ready', () => {
+  // Changes between loading a screen and opening the stream (or more than the server replays):
+  // fetch everything shown of the dive again once.
+  const refetchAll = () => {
     void qc.invalidateQueries({ queryKey: observationKeys.diveLogs(diveId) });
     void qc.invalidateQueries({
       predicate: (q) =>
@@ -103,12 +119,12 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
         q.queryKey[1] === 'detail' &&
         (q.state.data as { diveId?: string } | undefined)?.diveId === diveId,
     });
+    void qc.invalidateQueries({ queryKey: diveKeys.detail(diveId) });
+    void qc.invalidateQueries({ queryKey: photoKeys.galleries(diveId) });
     void qc.invalidateQueries({ queryKey: telemetryKeys.summary(diveId) });
-  });
-  on('resync', () => {
-    void qc.invalidateQueries({ queryKey: observationKeys.diveLogs(diveId) });
-    summaryChanged();
-  });
+  };
+  on('ready', refetchAll);
+  on('resync', refetchAll);
   on('observation.created', (data) => {
     const o = parse(observationSchema, data);
     if (!o) return;

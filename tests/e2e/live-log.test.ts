@@ -310,3 +310,28 @@ describe('logging fast and over a failing link', () => {
     }
   });
 });
+
+describe('a member taken off the campaign while following a dive', () => {
+  it('sees the live log stop ("Not live") rather than reconnect for ever', async () => {
+    const [guest, lead] = await Promise.all([openBrowser(viewports.phone), openBrowser(viewports.phone)]);
+    try {
+      await Promise.all([signIn(guest.page, 'guest@bathynote.test'), signIn(lead.page, 'lead@bathynote.test')]);
+      await openDive(guest.page, 'VS-01');
+      const diveId = /\/dives\/([^/?#]+)/.exec(guest.page.url())![1]!;
+      // The lead removes the guest, through the API as the team screen does.
+      const removed = await lead.page.evaluate(async (diveId) => {
+        const dive = (await (await fetch(`/api/dives/${diveId}`)).json()) as { campaignId: string };
+        const members = (await (await fetch(`/api/campaigns/${dive.campaignId}/members`)).json()) as { userId: string; email: string }[];
+        const guestId = members.find((m) => m.email === 'guest@bathynote.test')!.userId;
+        return (await fetch(`/api/campaigns/${dive.campaignId}/members/${guestId}`, { method: 'DELETE' })).status;
+      }, diveId);
+      expect(removed).toBeLessThan(300);
+      await guest.page.getByTestId('live-status-offline').waitFor({ timeout: 15_000 });
+      // And it stays so: no attempt every few seconds against a dive the guest may no longer see.
+      await guest.page.waitForTimeout(5000);
+      expect(await guest.page.getByTestId('live-status-offline').count()).toBe(1);
+    } finally {
+      await Promise.all([guest.close(), lead.close()]);
+    }
+  });
+});
