@@ -61,21 +61,23 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
     const next = items[Math.min(items.length - 1, Math.max(0, at < 0 ? 0 : at + by))];
     if (next) router.setParams({ entry: next.id });
   };
-  // Stepping through entries needs the detail beside the list; the others work wherever a keyboard might be.
-  const besideList = (run: () => void) => () => {
-    if (splitView) run();
-  };
+  // Stepping through entries needs the detail beside the list (without it the arrow keys scroll,
+  // as usual); the others work wherever a keyboard might be.
   useKeyboardShortcuts(
     {
       n: newEntry,
-      j: besideList(() => step(1)),
-      ArrowDown: besideList(() => step(1)),
-      k: besideList(() => step(-1)),
-      ArrowUp: besideList(() => step(-1)),
-      e: besideList(() => entryId && router.push(`/observations/${entryId}/edit`)),
-      Escape: besideList(() => router.setParams({ entry: undefined })),
       f: () => setShowFilters((s) => !s),
       '/': () => searchBox.current?.focus(),
+      ...(splitView
+        ? {
+            j: () => step(1),
+            ArrowDown: () => step(1),
+            k: () => step(-1),
+            ArrowUp: () => step(-1),
+            e: () => entryId && router.push(`/observations/${entryId}/edit`),
+            Escape: () => router.setParams({ entry: undefined }),
+          }
+        : {}),
     },
     roomy,
   );
