@@ -18,14 +18,18 @@ async function main() {
   let handle = starting;
   const server = createServer((req, res) => handle(req, res));
   await new Promise<void>((resolve, reject) => {
-    server.once('error', (err: NodeJS.ErrnoException) =>
+    const failed = (err: NodeJS.ErrnoException) =>
       reject(
         err.code === 'EADDRINUSE'
           ? new Error(`port ${env.PORT} on ${env.HOST} is already in use; stop what holds it, or set PORT to another port`)
           : err,
-      ),
-    );
-    server.listen(env.PORT, env.HOST, resolve);
+      );
+    server.once('error', failed);
+    server.listen(env.PORT, env.HOST, () => {
+      // Later errors are the running server's, not a failed start.
+      server.off('error', failed);
+      resolve();
+    });
   });
   const ctx = await createContext(env);
   if (env.BATHYNOTE_DEMO) {
