@@ -13,6 +13,9 @@ export type WriteRound = {
 
 type Writer = { cookie: string; agent: Agent };
 
+/** An answer slower than this counts as an error (and the bench goes on). */
+const REQUEST_TIMEOUT_MS = 30_000;
+
 /**
  * People logging a dive, each on a keep-alive connection of their own.
  *
@@ -69,9 +72,21 @@ export class Writers {
     });
   }
 
-  private send(writer: Writer, due: number, round: WriteRound, done: () => void) {
-    const payload = this.body();
-    round.sent++;
+  private send(writer: Writer, due: number, round: WriteRound, finished: () => void, again?: string) {
+    const retried = again !== undefined;
+    const payload = again ?? this.body();
+    if (!retried) round.sent++;
+    let settled = false;
+    const done = () => {
+      if (settled) return;
+      settled = true;
+      finished();
+    };
+    const failed = () => {
+      if (settled) return;
+      round.errors++;
+      done();
+    };
     const req = request(
       `${this.url}`,
       {
@@ -81,7 +96,10 @@ export class Writers {
       },
       (res) => {
         res.resume();
+        res.on('aborted', failed);
+        res.on('error', failed);
         res.on('end', () => {
+          if (settled) return;
           round.latencies.push(performance.now() - due);
           if ((res.statusCode ?? 0) < 200 || (res.statusCode ?? 0) >= 300) round.non2xx++;
           const dur = /dur=([\d.]+)/.exec(String(res.headers['server-timing'] ?? ''));
@@ -90,9 +108,16 @@ export class Writers {
         });
       },
     );
-    req.on('error', () => {
-      round.errors++;
-      done();
+    req.setTimeout(REQUEST_TIMEOUT_MS, () => req.destroy(new Error('timed out')));
+    req.on('error', (err: NodeJS.ErrnoException) => {
+      // A kept-alive socket the server closed as this request went out (its idle timeout, 5 s,
+      // is this schedule's interval): sent again once on a new socket, as a browser would.
+      if (!retried && req.reusedSocket && err.code === 'ECONNRESET') {
+        settled = true;
+        this.send(writer, due, round, finished, payload);
+        return;
+      }
+      failed();
     });
     req.end(payload);
   }
