@@ -7,7 +7,12 @@ import { loadEnv } from './env';
 
 /** Until the database is open and migrated, every request is told to come back in a moment. */
 const starting: RequestListener = (_req, res) => {
-  res.writeHead(503, { 'content-type': 'application/json; charset=utf-8', 'retry-after': '2' });
+  res.writeHead(503, {
+    'content-type': 'application/json; charset=utf-8',
+    'retry-after': '2',
+    'cache-control': 'no-store',
+    'x-content-type-options': 'nosniff',
+  });
   res.end(JSON.stringify({ error: { code: 'starting', message: 'Bathynote is starting; try again in a moment.' } }));
 };
 
