@@ -8,13 +8,11 @@ import type { Dive } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { phaseSteps } from './log-rows';
 
-const steps = phaseSteps;
-
 /** For the pilot and the lead: mark the next dive phase now, with undo. */
 export function PhaseControls({ dive }: { dive: Dive }) {
   const setPhase = useSetPhase(dive.id);
   const toast = useToast();
-  const next = steps.find((s) => !dive.phases[s.key]);
+  const next = phaseSteps.find((s) => !dive.phases[s.key]);
   if (!next) return null;
   const mark = () =>
     setPhase.mutate(

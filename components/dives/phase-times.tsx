@@ -12,8 +12,6 @@ import type { Dive } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { phaseSteps } from './log-rows';
 
-const steps = phaseSteps;
-
 /**
  * The dive's four phase times, which the statistics and the plots are cut by. A phase marked late
  * in the control room (or missed) is corrected here by the lead or the pilot, to the second.
@@ -27,7 +25,7 @@ export function PhaseTimes({ dive, mayEdit }: { dive: Dive; mayEdit: boolean }) 
           Correct a phase marked late or missed: the statistics and the plots follow. Leave a time empty to clear it.
         </Text>
       ) : null}
-      {steps.map((s) =>
+      {phaseSteps.map((s) =>
         mayEdit ? (
           <PhaseRow key={s.phase} dive={dive} step={s} />
         ) : (
@@ -48,7 +46,7 @@ export function PhaseTimes({ dive, mayEdit }: { dive: Dive; mayEdit: boolean }) 
   );
 }
 
-function PhaseRow({ dive, step }: { dive: Dive; step: (typeof steps)[number] }) {
+function PhaseRow({ dive, step }: { dive: Dive; step: (typeof phaseSteps)[number] }) {
   const setPhase = useSetPhase(dive.id);
   const toast = useToast();
   const stored = dive.phases[step.key];
