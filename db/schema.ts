@@ -2,6 +2,7 @@ import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 
 import type { CampaignRole, DepthSource, ObservationKind } from '../lib/schemas';
+import type { ExportLicence, PublicPositionMode } from '../lib/schemas/exports';
 import type { identificationConfidences, identificationQualifiers, taxonRanks } from '../lib/schemas/record';
 
 const id = () =>
@@ -103,6 +104,10 @@ export const campaigns = sqliteTable('campaigns', {
   allowFreeTags: integer('allow_free_tags', { mode: 'boolean' }).notNull().default(true),
   /** Whether photo GPS metadata is kept (off by default: positions of heritage sites are sensitive). */
   keepPhotoPositions: integer('keep_photo_positions', { mode: 'boolean' }).notNull().default(false),
+  /** Licence of the published exports. */
+  exportLicence: text('export_licence').$type<ExportLicence>().notNull().default('CC-BY-4.0'),
+  /** How positions appear in public exports; rounded by default, since wreck positions are sensitive. */
+  publicPositions: text('public_positions').$type<PublicPositionMode>().notNull().default('grid-0.1'),
   createdAt: createdAt(),
   updatedAt: updatedAt(),
 });
