@@ -1,5 +1,6 @@
 /** The HTTP contract, one file per area; import from `@/lib/schemas`. */
 export * from './core';
+export * from './exports';
 export * from './photos';
 export * from './record';
 export * from './team';

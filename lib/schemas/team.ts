@@ -1,6 +1,8 @@
 /** The campaign team: campaigns as the site administrator creates them, members and invitations. */
 import { z } from 'zod';
 
+import { exportLicences, publicPositionModes } from './exports';
+
 const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
 const invitationStatuses = ['pending', 'accepted', 'expired', 'revoked'] as const;
 const date = z.iso.date({ message: 'Use a date like 2026-05-10' });
@@ -59,6 +61,8 @@ export const campaignUpdateSchema = z
     timeZone: timeZone.optional(),
     allowFreeTags: z.boolean().optional(),
     keepPhotoPositions: z.boolean().optional(),
+    exportLicence: z.enum(exportLicences).optional(),
+    publicPositions: z.enum(publicPositionModes).optional(),
   })
   .strict()
   .refine(datesInOrder, { message: 'The campaign ends after it starts', path: ['endDate'] });
