@@ -2,6 +2,8 @@ import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 
 import type { CampaignRole, DepthSource, ObservationKind } from '../lib/schemas';
+import type { DigestFrequency, DigestTrigger } from '../lib/schemas/digests';
+import type { MailKind, MailState } from '../lib/schemas/mail';
 import type { ExportLicence, PublicPositionMode } from '../lib/schemas/exports';
 import type { identificationConfidences, identificationQualifiers, taxonRanks } from '../lib/schemas/record';
 
@@ -451,10 +453,15 @@ export const subscriptions = sqliteTable(
     userId: text('user_id')
       .notNull()
       .references(() => user.id, { onDelete: 'cascade' }),
-    frequency: text('frequency').$type<'off' | 'daily' | 'after-each-dive'>().notNull().default('off'),
+    frequency: text('frequency').$type<DigestFrequency>().notNull().default('off'),
     /** Which entries matter to this subscriber: kinds, tags, verified only. */
     filters: text('filters', { mode: 'json' }).$type<Record<string, unknown>>().notNull().default({}),
+    /** The end of the window the last digest covered: the next one starts there. */
     lastDigestAt: integer('last_digest_at', { mode: 'timestamp_ms' }),
+    /** Part of the signed unsubscribe link; a new one is drawn on unsubscribing, so a link works once. */
+    unsubscribeNonce: text('unsubscribe_nonce'),
+    /** The daily 07:00 (as an instant) whose digest was last composed, so a restart sends a missed one once. */
+    dailyDoneFor: integer('daily_done_for', { mode: 'timestamp_ms' }),
     updatedAt: updatedAt(),
   },
   (t) => [primaryKey({ columns: [t.campaignId, t.userId] })],
@@ -473,10 +480,44 @@ export const digests = sqliteTable(
     subject: text('subject').notNull(),
     observationCount: integer('observation_count').notNull(),
     since: integer('since', { mode: 'timestamp_ms' }),
+    /** When the digest was composed and queued (its mail's own row says when it went out). */
     sentAt: integer('sent_at', { mode: 'timestamp_ms' }).notNull(),
     sentBy: text('sent_by').references(() => user.id, { onDelete: 'set null' }),
+    /** The end of the window it covers (entries changed after `since`, up to this instant). */
+    until: integer('until', { mode: 'timestamp_ms' }),
+    trigger: text('trigger').$type<DigestTrigger>(),
+    diveId: text('dive_id').references(() => dives.id, { onDelete: 'set null' }),
+    mailId: text('mail_id'),
   },
   (t) => [index('digest_campaign_idx').on(t.campaignId, t.sentAt)],
+);
+
+/**
+ * Every mail the server sends, written in the same transaction as the change that causes it and
+ * sent afterwards by the mail sender, with retries.
+ */
+export const mailQueue = sqliteTable(
+  'mail_queue',
+  {
+    id: id(),
+    kind: text('kind').$type<MailKind>().notNull(),
+    /** The invitation or digest the mail belongs to. */
+    ref: text('ref'),
+    campaignId: text('campaign_id').references(() => campaigns.id, { onDelete: 'cascade' }),
+    to: text('to').notNull(),
+    toName: text('to_name'),
+    subject: text('subject').notNull(),
+    /** What the sender needs: the rendered parts and extra headers, or the values an invitation's link is added to. */
+    payload: text('payload', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+    state: text('state').$type<MailState>().notNull().default('queued'),
+    attempts: integer('attempts').notNull().default(0),
+    nextAttemptAt: integer('next_attempt_at', { mode: 'timestamp_ms' }),
+    lastError: text('last_error'),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+    sentAt: integer('sent_at', { mode: 'timestamp_ms' }),
+  },
+  (t) => [index('mail_queue_due_idx').on(t.state, t.nextAttemptAt), index('mail_queue_ref_idx').on(t.ref)],
 );
 
 /* ---- live events and the audit trail ---- */
