@@ -44,18 +44,23 @@ export function parseUtcInput(text: string): string | null {
   const m = /^\s*(\d{4})-(\d{2})-(\d{2})[ T](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,3}))?)?\s*Z?\s*$/i.exec(text);
   if (!m) return null;
   const [, y, mo, d, h, mi, sec = '0', ms = '0'] = m;
-  const t = Date.UTC(Number(y), Number(mo) - 1, Number(d), Number(h), Number(mi), Number(sec), Number(ms.padEnd(3, '0')));
-  const date = new Date(t);
-  // Date.UTC rolls 2026-02-30 over into March; a typed date that rolls over is a typo.
-  if (
-    date.getUTCDate() !== Number(d) ||
-    date.getUTCHours() !== Number(h) ||
-    date.getUTCMinutes() !== Number(mi) ||
-    date.getUTCSeconds() !== Number(sec)
-  ) {
-    return null;
-  }
-  return date.toISOString();
+  // Luxon refuses a month, day, minute or second that does not exist (month 13, 30 February) where
+  // Date.UTC would roll it over into a later date: a typed time that rolls over is a typo. It reads
+  // 24:00 as the next midnight (ISO 8601 allows it), which a typed time does not mean either.
+  if (Number(h) > 23) return null;
+  const dt = DateTime.fromObject(
+    {
+      year: Number(y),
+      month: Number(mo),
+      day: Number(d),
+      hour: Number(h),
+      minute: Number(mi),
+      second: Number(sec),
+      millisecond: Number(ms.padEnd(3, '0')),
+    },
+    { zone: 'utc' },
+  );
+  return dt.isValid ? new Date(dt.toMillis()).toISOString() : null;
 }
 
 /** The editable text form of an instant: "2026-05-14 21:14:07". */

@@ -9,58 +9,12 @@ import { useDraft } from '@/hooks/draft';
 import { useFollowDive } from '@/hooks/live';
 import { useObservation, useUpdateObservation } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
-import type { ObservationDetail, ObservationUpdate } from '@/lib/schemas';
+import type { ObservationDetail } from '@/lib/schemas';
+import { changes, differing, draftFromObservation, draftLabels, type Draft, type FormErrors } from './entry-draft';
 import { RecordConflict } from './record-conflict';
-import {
-  draftFromObservation,
-  errorsFromServer,
-  formStyles,
-  ObservationFields,
-  toPayload,
-  type Draft,
-  type FormErrors,
-} from './observation-form';
+import { errorsFromServer, formStyles, ObservationFields } from './observation-form';
 
 type EditDraft = Draft & { baseVersion: number };
-
-const labels: Record<keyof Draft, string> = {
-  kind: 'Kind',
-  title: 'Title',
-  time: 'Time (UTC)',
-  depth: 'Depth (m)',
-  lat: 'Latitude',
-  lon: 'Longitude',
-  temperature: 'Water temperature (°C)',
-  note: 'Note',
-  tags: 'Tags',
-};
-
-/** The fields where two versions of the form differ. */
-function differing(a: Draft, b: Draft): (keyof Draft)[] {
-  return (Object.keys(labels) as (keyof Draft)[]).filter((k) => JSON.stringify(a[k]) !== JSON.stringify(b[k]));
-}
-
-/** The edit body: only what changed against the version the edit started from. */
-function changes(draft: Draft, base: ObservationDetail, version: number): ObservationUpdate | FormErrors {
-  const result = toPayload(draft);
-  if (!result.ok) return result.errors;
-  const from = draftFromObservation(base);
-  const body: ObservationUpdate = { version };
-  const changed = differing(draft, from);
-  if (changed.includes('kind')) body.kind = result.body.kind;
-  if (changed.includes('title')) body.title = result.body.title;
-  if (changed.includes('time')) body.observedAt = result.body.observedAt;
-  if (changed.includes('depth')) body.depth = result.body.depth ?? null;
-  // The contract takes a position as a pair: a change to either half sends both.
-  if (changed.includes('lat') || changed.includes('lon')) {
-    body.lat = result.body.lat ?? null;
-    body.lon = result.body.lon ?? null;
-  }
-  if (changed.includes('temperature')) body.temperature = result.body.temperature ?? null;
-  if (changed.includes('note')) body.note = result.body.note ?? '';
-  if (changed.includes('tags')) body.tags = result.body.tags ?? [];
-  return body;
-}
 
 export function ObservationEditor({ id, onDone }: { id: string; onDone: () => void }) {
   const observation = useObservation(id);
@@ -133,7 +87,7 @@ function Editor({ current, refetch, onDone }: { current: ObservationDetail; refe
             draft.clear();
             onDone();
           }}
-          fields={clashes.map((k) => ({ key: k, label: labels[k], theirs: shown(theirDraft[k]), mine: shown(mine[k]) }))}
+          fields={clashes.map((k) => ({ key: k, label: draftLabels[k], theirs: shown(theirDraft[k]), mine: shown(mine[k]) }))}
         />
       ) : null}
       <ObservationFields

@@ -16,103 +16,12 @@ import { useLogEntry } from '@/hooks/outbox';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { formatInZone, parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
-import { observationCreateSchema, observationKinds, type Observation, type ObservationCreate, type ObservationKind } from '@/lib/schemas';
+import { observationKinds, type Observation } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
+import { blankDraft, toPayload, type Draft, type FormErrors } from './entry-draft';
 import { kindLabels } from './kind-badge';
 import { NoteView } from './note-view';
 import { TagInput } from './tag-input';
-
-export type Draft = {
-  kind?: ObservationKind;
-  title: string;
-  time: string;
-  depth: string;
-  /** Decimal degrees, as typed; both or neither. */
-  lat: string;
-  lon: string;
-  temperature: string;
-  note: string;
-  tags: string[];
-};
-export type FormErrors = Partial<
-  Record<'kind' | 'title' | 'observedAt' | 'depth' | 'lat' | 'lon' | 'temperature' | 'note' | 'tags' | 'form', string>
->;
-
-export const blankDraft = (): Draft => ({
-  title: '',
-  time: toUtcInput(new Date().toISOString()),
-  depth: '',
-  lat: '',
-  lon: '',
-  temperature: '',
-  note: '',
-  tags: [],
-});
-
-const typedOnly = (value: number | null, source: Observation['depthSource']) => (source === 'manual' && value != null ? String(value) : '');
-
-/**
- * What the form shows for an existing entry. Only typed values are editable as numbers: a value
- * from telemetry stays empty here, and stays linked to the telemetry log.
- */
-export function draftFromObservation(o: Observation): Draft {
-  return {
-    kind: o.kind,
-    title: o.title,
-    time: toUtcInputExact(o.observedAt),
-    depth: typedOnly(o.depth, o.depthSource),
-    lat: typedOnly(o.lat, o.positionSource),
-    lon: typedOnly(o.lon, o.positionSource),
-    temperature: typedOnly(o.temperature, o.temperatureSource),
-    note: o.note,
-    tags: o.tags,
-  };
-}
-
-/** A typed number (a decimal comma is read as a point): null when empty, NaN when not a number. */
-function readNumber(text: string): number | null {
-  const t = text.trim().replace(',', '.');
-  return t === '' ? null : /^[-+]?(\d+\.?\d*|\.\d+)$/.test(t) ? Number(t) : NaN;
-}
-
-/** Turns the typed form into a create body, with the contract's own field messages. */
-export function toPayload(d: Draft): { ok: true; body: ObservationCreate & { observedAt: string } } | { ok: false; errors: FormErrors } {
-  const errors: FormErrors = {};
-  const observedAt = parseUtcInput(d.time);
-  if (!observedAt) errors.observedAt = 'Type a UTC time like 2026-05-14 21:14:07';
-  const depth = readNumber(d.depth);
-  const lat = readNumber(d.lat);
-  const lon = readNumber(d.lon);
-  const temperature = readNumber(d.temperature);
-  if (Number.isNaN(depth)) errors.depth = 'Depth is a number of metres';
-  if (Number.isNaN(lat)) errors.lat = 'Latitude in decimal degrees, e.g. 36.1452 (south is negative)';
-  if (Number.isNaN(lon)) errors.lon = 'Longitude in decimal degrees, e.g. -7.4318 (west is negative)';
-  if (Number.isNaN(temperature)) errors.temperature = 'Temperature is a number of °C';
-  const valid = (n: number | null) => (n !== null && Number.isFinite(n) ? n : null);
-  // A position with an unreadable half is sent as neither, so only that half's message shows.
-  const positionBroken = Number.isNaN(lat) || Number.isNaN(lon);
-  if (!d.kind) errors.kind = 'Choose what kind of observation this is';
-  const parsed = observationCreateSchema.safeParse({
-    kind: d.kind,
-    title: d.title,
-    note: d.note,
-    observedAt: observedAt ?? undefined,
-    depth: valid(depth),
-    // A half-typed position is left to the contract's own "both or neither" rule.
-    lat: positionBroken ? null : lat,
-    lon: positionBroken ? null : lon,
-    temperature: valid(temperature),
-    tags: d.tags,
-  });
-  if (!parsed.success) {
-    for (const issue of parsed.error.issues) {
-      const key = String(issue.path[0] ?? 'form') as keyof FormErrors;
-      errors[key] ??= issue.message;
-    }
-  }
-  if (Object.keys(errors).length > 0 || !parsed.success || !observedAt) return { ok: false, errors };
-  return { ok: true, body: { ...parsed.data, observedAt } };
-}
 
 export function errorsFromServer(err: unknown): FormErrors {
   const out: FormErrors = {};

@@ -19,12 +19,28 @@ describe('typed UTC times', () => {
     expect(parseUtcInput(' 2026-05-14 21:14 ')).toBe('2026-05-14T21:14:00.000Z');
   });
 
-  it.each(['2026-02-30 10:00:00', '2026-05-14 24:00:00', '2026-05-14 21:60:00', '2026-05-14 21:14:61', '14/05/2026 21:14', '', 'now'])(
-    'refuses %j',
-    (text) => {
-      expect(parseUtcInput(text)).toBeNull();
-    },
-  );
+  it.each([
+    '2026-13-01 10:00:00',
+    '2026-00-15 10:00',
+    '2026-02-30 10:00:00',
+    '2025-02-29 10:00',
+    '2026-04-31 10:00',
+    '2026-05-00 10:00',
+    '2026-05-14 24:00:00',
+    '2026-05-14 21:60:00',
+    '2026-05-14 21:14:61',
+    '14/05/2026 21:14',
+    '',
+    'now',
+  ])('refuses %j', (text) => {
+    expect(parseUtcInput(text)).toBeNull();
+  });
+
+  it('takes the days that do exist at the ends of months (Gregorian calendar: 2024 is a leap year, 2026 is not)', () => {
+    expect(parseUtcInput('2024-02-29 00:00')).toBe('2024-02-29T00:00:00.000Z');
+    expect(parseUtcInput('2026-12-31 23:59:59.999')).toBe('2026-12-31T23:59:59.999Z');
+    expect(parseUtcInput('2026-01-01 00:00')).toBe('2026-01-01T00:00:00.000Z');
+  });
 
   it('round-trips through the editable form', () => {
     const iso = '2026-05-14T21:14:07.000Z';

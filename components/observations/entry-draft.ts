@@ -1,0 +1,144 @@
+/**
+ * The entry form's typed values and how they become a request: a create body for a new entry, and
+ * for an edit only the fields that changed since the version the edit started from. Pure, so the
+ * mapping is tested without a screen.
+ */
+import { parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
+import {
+  observationCreateSchema,
+  type Observation,
+  type ObservationCreate,
+  type ObservationKind,
+  type ObservationUpdate,
+} from '@/lib/schemas';
+
+export type Draft = {
+  kind?: ObservationKind;
+  title: string;
+  time: string;
+  depth: string;
+  /** Decimal degrees, as typed; both or neither. */
+  lat: string;
+  lon: string;
+  temperature: string;
+  note: string;
+  tags: string[];
+};
+export type FormErrors = Partial<
+  Record<'kind' | 'title' | 'observedAt' | 'depth' | 'lat' | 'lon' | 'temperature' | 'note' | 'tags' | 'form', string>
+>;
+
+export const blankDraft = (): Draft => ({
+  title: '',
+  time: toUtcInput(new Date().toISOString()),
+  depth: '',
+  lat: '',
+  lon: '',
+  temperature: '',
+  note: '',
+  tags: [],
+});
+
+const typedOnly = (value: number | null, source: Observation['depthSource']) => (source === 'manual' && value != null ? String(value) : '');
+
+/**
+ * What the form shows for an existing entry. Only typed values are editable as numbers: a value
+ * from telemetry stays empty here, and stays linked to the telemetry log.
+ */
+export function draftFromObservation(o: Observation): Draft {
+  return {
+    kind: o.kind,
+    title: o.title,
+    time: toUtcInputExact(o.observedAt),
+    depth: typedOnly(o.depth, o.depthSource),
+    lat: typedOnly(o.lat, o.positionSource),
+    lon: typedOnly(o.lon, o.positionSource),
+    temperature: typedOnly(o.temperature, o.temperatureSource),
+    note: o.note,
+    tags: o.tags,
+  };
+}
+
+/** A typed number (a decimal comma is read as a point): null when empty, NaN when not a number. */
+export function readNumber(text: string): number | null {
+  const t = text.trim().replace(',', '.');
+  return t === '' ? null : /^[-+]?(\d+\.?\d*|\.\d+)$/.test(t) ? Number(t) : NaN;
+}
+
+/** Turns the typed form into a create body, with the contract's own field messages. */
+export function toPayload(d: Draft): { ok: true; body: ObservationCreate & { observedAt: string } } | { ok: false; errors: FormErrors } {
+  const errors: FormErrors = {};
+  const observedAt = parseUtcInput(d.time);
+  if (!observedAt) errors.observedAt = 'Type a UTC time like 2026-05-14 21:14:07';
+  const depth = readNumber(d.depth);
+  const lat = readNumber(d.lat);
+  const lon = readNumber(d.lon);
+  const temperature = readNumber(d.temperature);
+  if (Number.isNaN(depth)) errors.depth = 'Depth is a number of metres';
+  if (Number.isNaN(lat)) errors.lat = 'Latitude in decimal degrees, e.g. 36.1452 (south is negative)';
+  if (Number.isNaN(lon)) errors.lon = 'Longitude in decimal degrees, e.g. -7.4318 (west is negative)';
+  if (Number.isNaN(temperature)) errors.temperature = 'Temperature is a number of °C';
+  const valid = (n: number | null) => (n !== null && Number.isFinite(n) ? n : null);
+  // A position with an unreadable half is sent as neither, so only that half's message shows.
+  const positionBroken = Number.isNaN(lat) || Number.isNaN(lon);
+  if (!d.kind) errors.kind = 'Choose what kind of observation this is';
+  const parsed = observationCreateSchema.safeParse({
+    kind: d.kind,
+    title: d.title,
+    note: d.note,
+    observedAt: observedAt ?? undefined,
+    depth: valid(depth),
+    // A half-typed position is left to the contract's own "both or neither" rule.
+    lat: positionBroken ? null : lat,
+    lon: positionBroken ? null : lon,
+    temperature: valid(temperature),
+    tags: d.tags,
+  });
+  if (!parsed.success) {
+    for (const issue of parsed.error.issues) {
+      const key = String(issue.path[0] ?? 'form') as keyof FormErrors;
+      errors[key] ??= issue.message;
+    }
+  }
+  if (Object.keys(errors).length > 0 || !parsed.success || !observedAt) return { ok: false, errors };
+  return { ok: true, body: { ...parsed.data, observedAt } };
+}
+
+export const draftLabels: Record<keyof Draft, string> = {
+  kind: 'Kind',
+  title: 'Title',
+  time: 'Time (UTC)',
+  depth: 'Depth (m)',
+  lat: 'Latitude',
+  lon: 'Longitude',
+  temperature: 'Water temperature (°C)',
+  note: 'Note',
+  tags: 'Tags',
+};
+
+/** The fields where two versions of the form differ. */
+export function differing(a: Draft, b: Draft): (keyof Draft)[] {
+  return (Object.keys(draftLabels) as (keyof Draft)[]).filter((k) => JSON.stringify(a[k]) !== JSON.stringify(b[k]));
+}
+
+/** The edit body: only what changed against the version the edit started from. */
+export function changes(draft: Draft, base: Observation, version: number): ObservationUpdate | FormErrors {
+  const result = toPayload(draft);
+  if (!result.ok) return result.errors;
+  const from = draftFromObservation(base);
+  const body: ObservationUpdate = { version };
+  const changed = differing(draft, from);
+  if (changed.includes('kind')) body.kind = result.body.kind;
+  if (changed.includes('title')) body.title = result.body.title;
+  if (changed.includes('time')) body.observedAt = result.body.observedAt;
+  if (changed.includes('depth')) body.depth = result.body.depth ?? null;
+  // The contract takes a position as a pair: a change to either half sends both.
+  if (changed.includes('lat') || changed.includes('lon')) {
+    body.lat = result.body.lat ?? null;
+    body.lon = result.body.lon ?? null;
+  }
+  if (changed.includes('temperature')) body.temperature = result.body.temperature ?? null;
+  if (changed.includes('note')) body.note = result.body.note ?? '';
+  if (changed.includes('tags')) body.tags = result.body.tags ?? [];
+  return body;
+}

@@ -1,0 +1,118 @@
+import { describe, expect, it } from 'vitest';
+
+import { changes, draftFromObservation, readNumber, toPayload, type Draft } from '@/components/observations/entry-draft';
+import type { Observation } from '@/lib/schemas';
+
+const draft = (patch: Partial<Draft> = {}): Draft => ({
+  kind: 'biology',
+  title: 'Sponge on the stern',
+  time: '2026-05-14 21:14:07',
+  depth: '',
+  lat: '',
+  lon: '',
+  temperature: '',
+  note: '',
+  tags: [],
+  ...patch,
+});
+
+const stored: Observation = {
+  id: 'obs-1',
+  diveId: 'dive-1',
+  campaignId: 'camp-1',
+  observedAt: '2026-05-14T21:14:07.250Z',
+  kind: 'biology',
+  title: 'Sponge on the stern',
+  note: 'Pale, about 20 cm.',
+  depth: 512.4,
+  depthSource: 'telemetry',
+  lat: 36.1452,
+  lon: -7.4318,
+  positionSource: 'manual',
+  temperature: 4.1,
+  temperatureSource: 'telemetry',
+  tags: ['sponge'],
+  photoCount: 0,
+  identification: null,
+  findNumber: null,
+  authorId: 'user-1',
+  authorName: 'Cleo',
+  version: 3,
+  retired: false,
+  createdAt: '2026-05-14T21:15:00.000Z',
+  updatedAt: '2026-05-14T21:15:00.000Z',
+};
+
+describe('a new entry from the form', () => {
+  it('reads the typed time as UTC and leaves empty numbers to the telemetry log', () => {
+    const result = toPayload(draft());
+    expect(result).toEqual({
+      ok: true,
+      body: {
+        kind: 'biology',
+        title: 'Sponge on the stern',
+        note: '',
+        observedAt: '2026-05-14T21:14:07.000Z',
+        depth: null,
+        lat: null,
+        lon: null,
+        temperature: null,
+        tags: [],
+      },
+    });
+  });
+
+  it('takes a decimal comma as a point and keeps negative (south, west) degrees', () => {
+    const result = toPayload(draft({ depth: '512,5', lat: '36.1452', lon: '-7.4318', temperature: '4,25' }));
+    expect(result.ok && result.body).toMatchObject({ depth: 512.5, lat: 36.1452, lon: -7.4318, temperature: 4.25 });
+  });
+
+  it('refuses a time with an impossible month, and says how to type one', () => {
+    const result = toPayload(draft({ time: '2026-13-01 10:00:00' }));
+    expect(result.ok).toBe(false);
+    expect(!result.ok && result.errors.observedAt).toMatch(/UTC time like/);
+  });
+
+  it('names each unreadable field, and a missing kind', () => {
+    const result = toPayload(draft({ kind: undefined, depth: 'deep', lat: '36,1', lon: 'west' }));
+    expect(result.ok).toBe(false);
+    if (result.ok) return;
+    expect(Object.keys(result.errors).sort()).toEqual(['depth', 'kind', 'lon']);
+  });
+
+  it('leaves "both or neither" of a position to the contract', () => {
+    const result = toPayload(draft({ lat: '36.1452' }));
+    expect(!result.ok && result.errors.lon).toMatch(/both latitude and longitude/);
+  });
+
+  it('reads numbers strictly', () => {
+    expect(readNumber('  ')).toBeNull();
+    expect(readNumber('.5')).toBe(0.5);
+    expect(readNumber('1e3')).toBeNaN();
+    expect(readNumber('12 m')).toBeNaN();
+  });
+});
+
+describe('an edit from the form', () => {
+  it('shows only typed values as numbers: a telemetry value stays linked to the log', () => {
+    const d = draftFromObservation(stored);
+    expect(d).toMatchObject({ time: '2026-05-14 21:14:07.250', depth: '', lat: '36.1452', lon: '-7.4318', temperature: '' });
+  });
+
+  it('sends nothing but the version when nothing was changed (the milliseconds survive)', () => {
+    expect(changes(draftFromObservation(stored), stored, 3)).toEqual({ version: 3 });
+  });
+
+  it('sends only the changed fields, a position as a pair, and a cleared value as null', () => {
+    const edited = { ...draftFromObservation(stored), note: 'Pale, about 25 cm.', lon: '-7.4320' };
+    expect(changes(edited, stored, 3)).toEqual({ version: 3, note: 'Pale, about 25 cm.', lat: 36.1452, lon: -7.432 });
+    const cleared = { ...draftFromObservation(stored), lat: '', lon: '' };
+    expect(changes(cleared, stored, 4)).toEqual({ version: 4, lat: null, lon: null });
+  });
+
+  it('answers the field errors instead of a body when the typing is unreadable', () => {
+    const result = changes({ ...draftFromObservation(stored), time: '2026-02-30 10:00' }, stored, 3);
+    expect(result).not.toHaveProperty('version');
+    expect(result).toHaveProperty('observedAt');
+  });
+});
