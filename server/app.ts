@@ -4,6 +4,7 @@ import helmet from 'helmet';
 
 import { CLIENT_IP_HEADER } from './auth';
 import type { AppContext } from './context';
+import { errorBody } from './errors';
 import { authHandler } from './middleware/auth-handler';
 import { apiNotFound, errorHandler } from './middleware/errors';
 import { sameOrigin } from './middleware/same-origin';
@@ -74,7 +75,7 @@ export function createApp(ctx: AppContext): Express {
       standardHeaders: 'draft-8',
       legacyHeaders: false,
       handler: (_req, res) => {
-        res.status(429).json({ error: { code: 'rate_limited', message: 'Too many requests; wait a moment and try again.' } });
+        res.status(429).json(errorBody('rate_limited', 'Too many requests; wait a moment and try again.'));
       },
     }),
   );

@@ -4,6 +4,7 @@ import { demoSignIns, DEMO_PASSWORD, seedDemo } from '../db/seed';
 import { createApp } from './app';
 import { createContext } from './bootstrap';
 import { loadEnv } from './env';
+import { errorBody } from './errors';
 
 /** Until the database is open and migrated, every request is told to come back in a moment. */
 const starting: RequestListener = (_req, res) => {
@@ -13,7 +14,7 @@ const starting: RequestListener = (_req, res) => {
     'cache-control': 'no-store',
     'x-content-type-options': 'nosniff',
   });
-  res.end(JSON.stringify({ error: { code: 'starting', message: 'Bathynote is starting; try again in a moment.' } }));
+  res.end(JSON.stringify(errorBody('starting', 'Bathynote is starting; try again in a moment.')));
 };
 
 async function main() {

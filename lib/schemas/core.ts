@@ -28,6 +28,58 @@ const isoOut = z.string();
 
 /* ---- errors ---- */
 
+/**
+ * Every `code` the server itself answers in the error shape. docs/api.md names each of them (a
+ * test holds the two together). Sign-in errors may also carry better-auth's own codes, lowercased,
+ * which is why the body schema below takes any string.
+ */
+export const errorCodes = [
+  // 400
+  'validation_failed',
+  'malformed_json',
+  'bad_request',
+  'bad_multipart',
+  'empty_file',
+  'empty_log',
+  'no_rows',
+  'no_rows_taken',
+  'no_time_column',
+  'record_too_long',
+  // 401, 403, 404
+  'unauthorized',
+  'auth_error',
+  'forbidden',
+  'foreign_origin',
+  'not_found',
+  // 409
+  'stale_version',
+  'retired',
+  'no_identification',
+  'duplicate_find_number',
+  'duplicate_dive_number',
+  'duplicate_tag',
+  'reserved_tag',
+  'already_member',
+  'already_invited',
+  'invitation_accepted',
+  'invitation_revoked',
+  'last_lead',
+  'not_in_custody',
+  // 413, 415
+  'too_large',
+  'too_many_files',
+  'too_many_parts',
+  'too_many_pixels',
+  'unsupported_type',
+  'unsupported_encoding',
+  // 429, 5xx
+  'rate_limited',
+  'internal',
+  'starting',
+] as const;
+export const errorCodeSchema = z.enum(errorCodes);
+export type ErrorCode = z.infer<typeof errorCodeSchema>;
+
 export const apiErrorSchema = z.object({
   error: z.object({
     code: z.string(),

@@ -2,7 +2,7 @@ import type { Request as ExpressRequest, RequestHandler, Response as ExpressResp
 import { z } from 'zod';
 
 import type { Auth } from '../auth';
-import { ApiError } from '../errors';
+import { ApiError, notFound } from '../errors';
 import { zodIssues } from './errors';
 import { sessionCacheFor, sessionCookieOf } from './session';
 
@@ -35,7 +35,7 @@ export function authHandler(auth: Auth, publicUrl: string, onSignedOut: (session
     const body = req.method === 'GET' || req.method === 'HEAD' ? undefined : await readBody(req);
     const pathname = req.originalUrl.split('?')[0] ?? '';
     if (closedPaths.has(pathname)) {
-      throw new ApiError(404, 'not_found', 'People join a campaign by the invitation their lead sends.');
+      throw notFound('People join a campaign by the invitation their lead sends.');
     }
     const check = preChecks[pathname];
     if (check && req.method === 'POST') {

@@ -1,6 +1,7 @@
 import type { RequestHandler } from 'express';
 
 import { trustedOriginsFor } from '../auth';
+import { errorBody } from '../errors';
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
@@ -20,11 +21,8 @@ export function sameOrigin(publicUrl: string): RequestHandler {
     const foreign =
       origin !== undefined ? !trusted.has(origin) : fetchSite !== undefined && fetchSite !== 'same-origin' && fetchSite !== 'none';
     if (!foreign) return next();
-    res.status(403).json({
-      error: {
-        code: 'foreign_origin',
-        message: 'This request came from another site, so it was refused. Use Bathynote from its own address.',
-      },
-    });
+    res
+      .status(403)
+      .json(errorBody('foreign_origin', 'This request came from another site, so it was refused. Use Bathynote from its own address.'));
   };
 }

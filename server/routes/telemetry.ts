@@ -1,7 +1,7 @@
 import { Router, type RequestHandler } from 'express';
 
 import type { AppContext } from '../context';
-import { ApiError } from '../errors';
+import { fieldError } from '../errors';
 import { accessOf, byDive, requireCampaignRole } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
 import { diveSummary, telemetryAt, telemetrySamples } from '../services/telemetry';
@@ -18,9 +18,7 @@ export function telemetryRoutes({ db, auth, live }: AppContext): Router {
   r.post('/dives/:diveId/telemetry', ...importer, receiveLog, async (req, res) => {
     try {
       if (!req.file) {
-        throw new ApiError(400, 'validation_failed', 'No log was sent.', [
-          { path: 'file', message: 'Send the log as multipart/form-data in the field "file"' },
-        ]);
+        throw fieldError('file', 'Send the log as multipart/form-data in the field "file"', 'No log was sent.');
       }
       const report = await importTelemetryLog(db, live, {
         diveId: req.params.diveId as string,

@@ -4,7 +4,7 @@ import type { Db } from '../../db/client';
 import { dives, observations } from '../../db/schema';
 import { FRAME_RATES } from '../../lib/timecode';
 import { diveCreateSchema, diveUpdateSchema, phaseInputSchema, type Dive, type DivePhase } from '../../lib/schemas';
-import { ApiError, conflict } from '../errors';
+import { conflict, fieldError, notFound } from '../errors';
 import type { LiveHub } from './live';
 import { restampDive } from './telemetry-stamp';
 
@@ -87,9 +87,7 @@ export function createDive(db: Db, live: LiveHub, campaignId: string, body: unkn
 export function updateDive(db: Db, live: LiveHub, diveId: string, body: unknown): Dive {
   const input = diveUpdateSchema.parse(body);
   if (input.frameRate != null && !(input.frameRate in FRAME_RATES)) {
-    throw new ApiError(400, 'validation_failed', 'Unknown frame rate.', [
-      { path: 'frameRate', message: `One of ${Object.keys(FRAME_RATES).join(', ')}` },
-    ]);
+    throw fieldError('frameRate', `One of ${Object.keys(FRAME_RATES).join(', ')}`, 'Unknown frame rate.');
   }
   const date = (v: string | null | undefined) => (v === undefined ? undefined : v === null ? null : new Date(v));
   const row = db
@@ -109,7 +107,7 @@ export function updateDive(db: Db, live: LiveHub, diveId: string, body: unknown)
     .get();
   if (!row) {
     const current = db.select({ v: dives.version }).from(dives).where(eq(dives.id, diveId)).get();
-    if (!current) throw new ApiError(404, 'not_found', 'Not found');
+    if (!current) throw notFound();
     throw conflict('stale_version', `This dive was changed by someone else (it is at version ${current.v}). Nothing was overwritten.`);
   }
   // A new gap threshold changes which entries fall in a gap of the log.
@@ -132,16 +130,18 @@ export function setPhase(db: Db, live: LiveHub, diveId: string, body: unknown, n
   const input = phaseInputSchema.parse(body);
   const at = input.at === null ? null : input.at ? new Date(input.at) : now;
   const row = db.select().from(dives).where(eq(dives.id, diveId)).get();
-  if (!row) throw new ApiError(404, 'not_found', 'Not found');
+  if (!row) throw notFound();
   if (at) {
     const index = order.indexOf(input.phase);
     for (const [i, phase] of order.entries()) {
       const other = row[phaseColumn[phase]];
       if (!other || i === index) continue;
       if ((i < index && other > at) || (i > index && other < at)) {
-        throw new ApiError(400, 'validation_failed', 'Dive phases follow each other in time.', [
-          { path: 'at', message: `${input.phase} cannot be ${i < index ? 'before' : 'after'} ${phase} (${other.toISOString()})` },
-        ]);
+        throw fieldError(
+          'at',
+          `${input.phase} cannot be ${i < index ? 'before' : 'after'} ${phase} (${other.toISOString()})`,
+          'Dive phases follow each other in time.',
+        );
       }
     }
   }

@@ -3,7 +3,7 @@ import type { Request, RequestHandler, Response } from 'express';
 import multer, { MulterError } from 'multer';
 
 import { photoLimits } from '../../lib/schemas';
-import { ApiError, notFound } from '../errors';
+import { ApiError, fieldError, notFound } from '../errors';
 import type { PhotoFile } from './photos';
 import type { PhotoStorage } from './photo-storage';
 
@@ -40,9 +40,7 @@ function translate(err: unknown): ApiError {
       case 'LIMIT_FIELD_VALUE':
         return new ApiError(413, 'too_large', 'A text field of the upload is too long.');
       case 'LIMIT_UNEXPECTED_FILE':
-        return new ApiError(400, 'validation_failed', 'Send photos in the field "photo".', [
-          { path: err.field ?? '(body)', message: 'Unexpected file field' },
-        ]);
+        return fieldError(err.field ?? '(body)', 'Unexpected file field', 'Send photos in the field "photo".');
       default:
         return new ApiError(400, 'bad_multipart', 'The upload could not be read.');
     }
@@ -53,11 +51,7 @@ function translate(err: unknown): ApiError {
 /** Parses `multipart/form-data`; every failure comes out in the contract's error shape. */
 export const readPhotoUpload: RequestHandler = (req, res, next) => {
   if (!req.is('multipart/form-data')) {
-    next(
-      new ApiError(400, 'validation_failed', 'Send the photos as multipart/form-data in the field "photo".', [
-        { path: 'photo', message: 'No file was sent' },
-      ]),
-    );
+    next(fieldError('photo', 'No file was sent', 'Send the photos as multipart/form-data in the field "photo".'));
     return;
   }
   parser(req, res, (err?: unknown) => next(err ? translate(err) : undefined));

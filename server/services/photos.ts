@@ -13,7 +13,7 @@ import {
   type PhotoSize,
   type PhotoUploadResult,
 } from '../../lib/schemas';
-import { ApiError, forbidden, notFound } from '../errors';
+import { fieldError, forbidden, notFound } from '../errors';
 import type { CampaignAccess } from '../middleware/campaign-access';
 import { processPhoto, type ProcessedPhoto } from './photo-processing';
 import { newPhotoKey, type PhotoStorage } from './photo-storage';
@@ -96,9 +96,7 @@ export async function uploadPhotos(
   rawFields: unknown,
 ): Promise<PhotoUploadResult & { created: number }> {
   if (files.length === 0) {
-    throw new ApiError(400, 'validation_failed', 'Attach at least one photo in the field "photo".', [
-      { path: 'photo', message: 'No file was sent' },
-    ]);
+    throw fieldError('photo', 'No file was sent', 'Attach at least one photo in the field "photo".');
   }
   const fields = photoUploadFieldsSchema.parse(rawFields ?? {});
   const campaign = db.select({ keep: campaigns.keepPhotoPositions }).from(campaigns).where(eq(campaigns.id, target.campaignId)).get();
@@ -266,9 +264,7 @@ export function photoFile(db: Db, photoId: string, size: PhotoSize): PhotoFile {
 const decodeCursor = (cursor: string | undefined): number => {
   if (cursor === undefined) return 0;
   if (!/^\d{1,9}$/.test(cursor)) {
-    throw new ApiError(400, 'validation_failed', 'The cursor is not valid.', [
-      { path: 'cursor', message: 'Use the nextCursor of an earlier page' },
-    ]);
+    throw fieldError('cursor', 'Use the nextCursor of an earlier page', 'The cursor is not valid.');
   }
   return Number(cursor);
 };

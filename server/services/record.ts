@@ -10,13 +10,13 @@ import {
   verificationInputSchema,
   type ObservationDetail,
 } from '../../lib/schemas';
-import { ApiError, conflict } from '../errors';
+import { conflict, fieldError, forbidden, notFound } from '../errors';
 import type { LiveHub } from './live';
 import { assertCurrent, getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
 
 function loadLive(db: Executor, id: string) {
   const row = getObservationRow(db, id);
-  if (!row) throw new ApiError(404, 'not_found', 'Not found');
+  if (!row) throw notFound();
   if (row.retired) throw conflict('retired', 'This entry has been retired. A lead can restore it.');
   return row;
 }
@@ -37,14 +37,12 @@ export function setIdentification(db: Db, live: LiveHub, id: string, actor: Acto
   db.transaction((tx) => {
     const row = loadLive(tx, id);
     if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
-      throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may propose an identification.');
+      throw forbidden('Scientists, leads and the entry’s author may propose an identification.');
     }
     const input = identificationInputSchema.parse(body);
     assertCurrent(row, input.version);
     if (row.kind !== 'biology')
-      throw new ApiError(400, 'validation_failed', 'Only biology entries carry an identification.', [
-        { path: 'kind', message: 'Change the entry to biology first' },
-      ]);
+      throw fieldError('kind', 'Change the entry to biology first', 'Only biology entries carry an identification.');
     const previous = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
     const sameName = previous?.scientificName === input.scientificName && previous.qualifier === (input.qualifier ?? null);
     const values = {
@@ -78,11 +76,11 @@ export function verifyIdentification(db: Db, live: LiveHub, id: string, actor: A
   db.transaction((tx) => {
     const row = loadLive(tx, id);
     if (actor.role !== 'lead' && actor.role !== 'scientist') {
-      throw new ApiError(403, 'forbidden', 'Only scientists and leads verify identifications.');
+      throw forbidden('Only scientists and leads verify identifications.');
     }
     const ident = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
     if (ident?.identifiedBy === actor.userId || row.authorId === actor.userId) {
-      throw new ApiError(403, 'forbidden', 'Another scientist or a lead must verify this: you proposed the name or wrote the entry.');
+      throw forbidden('Another scientist or a lead must verify this: you proposed the name or wrote the entry.');
     }
     const input = verificationInputSchema.parse(body);
     assertCurrent(row, input.version);
@@ -144,14 +142,12 @@ export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: u
   db.transaction((tx) => {
     const row = loadLive(tx, id);
     if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
-      throw new ApiError(403, 'forbidden', 'Scientists, leads and the entry’s author may record a find.');
+      throw forbidden('Scientists, leads and the entry’s author may record a find.');
     }
     const input = findInputSchema.parse(body);
     assertCurrent(row, input.version);
     if (row.kind !== 'archaeology')
-      throw new ApiError(400, 'validation_failed', 'Only archaeology entries carry a find.', [
-        { path: 'kind', message: 'Change the entry to archaeology first' },
-      ]);
+      throw fieldError('kind', 'Change the entry to archaeology first', 'Only archaeology entries carry a find.');
     const clash = tx
       .select({ id: finds.observationId })
       .from(finds)
@@ -189,8 +185,7 @@ export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: u
 export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
   db.transaction((tx) => {
     const row = loadLive(tx, id);
-    if (actor.role === 'guest' && row.authorId !== actor.userId)
-      throw new ApiError(403, 'forbidden', 'Guests record custody only on their own entries.');
+    if (actor.role === 'guest' && row.authorId !== actor.userId) throw forbidden('Guests record custody only on their own entries.');
     const input = custodyInputSchema.parse(body);
     const find = tx.select({ state: finds.state }).from(finds).where(eq(finds.observationId, id)).get();
     const isSample = tx

@@ -17,13 +17,14 @@ import { telemetryImports } from '../../db/schema';
 import { upperBound, type TelemetryRow } from '../../lib/interpolate';
 import {
   telemetryImportFieldsSchema,
+  type ErrorCode,
   telemetryMappingSchema,
   type TelemetryImportReport,
   type TelemetryMapping,
   type TelemetryRejection,
 } from '../../lib/schemas';
 import { parseRow, recogniseHeaders, type ColumnMapping, type HeaderRecognition, type TelemetryChannel } from '../../lib/telemetry-columns';
-import { ApiError } from '../errors';
+import { ApiError, fieldError } from '../errors';
 import type { LiveHub } from './live';
 import { diveFacts, spanOf, stampDiveObservations } from './telemetry';
 import {
@@ -59,7 +60,8 @@ export type ImportRequest = {
 type Delimiter = TelemetryImportReport['delimiter'];
 const DELIMITERS: Record<Delimiter, string> = { comma: ',', semicolon: ';', tab: '\t' };
 
-const fileIssue = (code: string, message: string, detail: string) => new ApiError(400, code, message, [{ path: 'file', message: detail }]);
+const fileIssue = (code: ErrorCode, message: string, detail: string) =>
+  new ApiError(400, code, message, [{ path: 'file', message: detail }]);
 
 function parseMapping(text: string | undefined): TelemetryMapping {
   if (text === undefined || text.trim() === '') return {};
@@ -67,9 +69,11 @@ function parseMapping(text: string | undefined): TelemetryMapping {
   try {
     json = JSON.parse(text);
   } catch {
-    throw new ApiError(400, 'validation_failed', 'The column mapping is not valid JSON.', [
-      { path: 'mapping', message: 'Give the mapping as JSON, e.g. {"Zeit": "time", "Tiefe": "depth"}' },
-    ]);
+    throw fieldError(
+      'mapping',
+      'Give the mapping as JSON, e.g. {"Zeit": "time", "Tiefe": "depth"}',
+      'The column mapping is not valid JSON.',
+    );
   }
   const parsed = telemetryMappingSchema.safeParse(json);
   if (!parsed.success) {
@@ -465,9 +469,11 @@ export async function importTelemetryLog(db: Db, live: LiveHub, req: ImportReque
   const delimiter = detectDelimiter(lines);
   const decimalComma = fields.decimal === 'comma' || (fields.decimal === 'auto' && delimiter === 'semicolon' && detectDecimalComma(lines));
   if (decimalComma && delimiter === 'comma') {
-    throw new ApiError(400, 'validation_failed', 'A comma-separated log cannot use the comma as its decimal mark.', [
-      { path: 'decimal', message: 'Use "point", or save the log with semicolons' },
-    ]);
+    throw fieldError(
+      'decimal',
+      'Use "point", or save the log with semicolons',
+      'A comma-separated log cannot use the comma as its decimal mark.',
+    );
   }
 
   return oneAtATime(req.diveId, async () => {

@@ -15,7 +15,7 @@ import type { RequestHandler } from 'express';
 import { fileTypeFromBuffer } from 'file-type';
 import multer from 'multer';
 
-import { ApiError } from '../errors';
+import { ApiError, fieldError } from '../errors';
 
 /** Largest log accepted: a day at 10 Hz with every channel stays well below it. */
 export const MAX_LOG_BYTES = 200 * 1024 * 1024;
@@ -111,7 +111,7 @@ function uploadError(err: unknown): Error {
       err.code === 'LIMIT_UNEXPECTED_FILE' || err.code === 'LIMIT_FILE_COUNT'
         ? 'Send one log, in the form field "file"'
         : `The form is not one this import reads (${err.message.toLowerCase()})`;
-    return new ApiError(400, 'validation_failed', 'The upload could not be read.', [{ path: err.field ?? 'file', message }]);
+    return fieldError(err.field ?? 'file', message, 'The upload could not be read.');
   }
   return new ApiError(400, 'bad_request', 'The upload could not be read; send the log as multipart/form-data with the field "file".');
 }

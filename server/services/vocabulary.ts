@@ -3,7 +3,7 @@ import { and, asc, count, eq, ne, sql } from 'drizzle-orm';
 import type { Db, Executor } from '../../db/client';
 import { observations, observationTags, quickMarks, tags } from '../../db/schema';
 import { quickMarkInputSchema, SAMPLE_TAG, tagCreateSchema, tagUpdateSchema, type QuickMark, type Tag } from '../../lib/schemas';
-import { ApiError, conflict } from '../errors';
+import { conflict, fieldError, notFound } from '../errors';
 import { audit } from './audit';
 
 function tagByName(db: Db, campaignId: string, name: string) {
@@ -61,7 +61,7 @@ export function updateTag(db: Db, tagId: string, actorId: string, body: unknown)
   const input = tagUpdateSchema.parse(body);
   return db.transaction((tx) => {
     const tag = tx.select().from(tags).where(eq(tags.id, tagId)).get();
-    if (!tag) throw new ApiError(404, 'not_found', 'Not found');
+    if (!tag) throw notFound();
     const renamed = input.name !== undefined && input.name.toLowerCase() !== tag.name.toLowerCase();
     if (tag.name.toLowerCase() === SAMPLE_TAG && (input.mergeInto || renamed || input.retired === true)) {
       throw conflict(
@@ -72,14 +72,10 @@ export function updateTag(db: Db, tagId: string, actorId: string, body: unknown)
     if (input.mergeInto) {
       const target = tx.select().from(tags).where(eq(tags.id, input.mergeInto)).get();
       if (!target || target.campaignId !== tag.campaignId || target.id === tag.id) {
-        throw new ApiError(400, 'validation_failed', 'Merge into another tag of the same campaign.', [
-          { path: 'mergeInto', message: 'Unknown tag' },
-        ]);
+        throw fieldError('mergeInto', 'Unknown tag', 'Merge into another tag of the same campaign.');
       }
       if (target.retired) {
-        throw new ApiError(400, 'validation_failed', `"${target.name}" is retired; merge into a tag still in use.`, [
-          { path: 'mergeInto', message: 'That tag is retired' },
-        ]);
+        throw fieldError('mergeInto', 'That tag is retired', `"${target.name}" is retired; merge into a tag still in use.`);
       }
       tx.run(sql`insert or ignore into observation_tags (observation_id, tag_id)
         select observation_id, ${target.id} from observation_tags where tag_id = ${tag.id}`);
@@ -148,7 +144,7 @@ export function updateQuickMark(db: Db, id: string, body: unknown): QuickMark {
     .where(eq(quickMarks.id, id))
     .returning()
     .get();
-  if (!row) throw new ApiError(404, 'not_found', 'Not found');
+  if (!row) throw notFound();
   return toQuickMark(row);
 }
 
