@@ -3,15 +3,9 @@ import { z } from 'zod';
 
 import { campaignSchema, diveSchema, memberSchema, quickMarkSchema, tagSchema, type ObservationKind } from '@/lib/schemas';
 import { request } from './api';
+import { campaignKeys } from './query-keys';
 
-export const campaignKeys = {
-  root: ['campaigns'] as const,
-  list: () => [...campaignKeys.root, 'list'] as const,
-  detail: (id: string) => [...campaignKeys.root, 'detail', id] as const,
-  dives: (id: string) => [...campaignKeys.root, 'detail', id, 'dives'] as const,
-  tags: (id: string) => [...campaignKeys.root, 'detail', id, 'tags'] as const,
-  members: (id: string) => [...campaignKeys.root, 'detail', id, 'members'] as const,
-};
+export { campaignKeys };
 
 export const campaignsQuery = () =>
   queryOptions({ queryKey: campaignKeys.list(), queryFn: () => request('/api/campaigns', z.array(campaignSchema)) });
@@ -45,7 +39,7 @@ export const useCampaignTags = (id: string | undefined) => useQuery({ ...campaig
 
 export const quickMarksQuery = (id: string) =>
   queryOptions({
-    queryKey: [...campaignKeys.detail(id), 'quick-marks'] as const,
+    queryKey: campaignKeys.quickMarks(id),
     queryFn: () => request(`/api/campaigns/${encodeURIComponent(id)}/quick-marks`, z.array(quickMarkSchema)),
     staleTime: 5 * 60_000,
   });

@@ -2,13 +2,10 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/r
 
 import { diveSchema, type DivePhase } from '@/lib/schemas';
 import { request } from './api';
-import { campaignKeys } from './campaigns';
-import { telemetryKeys } from './telemetry';
+import { afterDiveChanged } from './cache-effects';
+import { diveKeys } from './query-keys';
 
-export const diveKeys = {
-  root: ['dives'] as const,
-  detail: (id: string) => [...diveKeys.root, id] as const,
-};
+export { diveKeys };
 
 export const diveQuery = (id: string) =>
   queryOptions({ queryKey: diveKeys.detail(id), queryFn: () => request(`/api/dives/${encodeURIComponent(id)}`, diveSchema) });
@@ -19,12 +16,7 @@ function useDiveMutation<I>(diveId: string, path: string, method: 'POST' | 'PATC
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (input: I) => request(`/api/dives/${encodeURIComponent(diveId)}${path}`, diveSchema, { method, body: input }),
-    onSuccess: (dive) => {
-      qc.setQueryData(diveKeys.detail(diveId), dive);
-      void qc.invalidateQueries({ queryKey: campaignKeys.dives(dive.campaignId) });
-      // Phases, the video clock and the gap setting all change what the summary says.
-      void qc.invalidateQueries({ queryKey: telemetryKeys.summary(diveId) });
-    },
+    onSuccess: (dive) => afterDiveChanged(qc, dive),
   });
 }
 

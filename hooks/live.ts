@@ -1,24 +1,15 @@
-import { useQueryClient, type InfiniteData, type QueryClient } from '@tanstack/react-query';
+import { useQueryClient, type QueryClient } from '@tanstack/react-query';
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { z } from 'zod';
 
-import { diveSchema, observationSchema, type Observation, type ObservationPage } from '@/lib/schemas';
+import { diveSchema, observationSchema, type Observation } from '@/lib/schemas';
 import { ApiError, apiUrl, request } from './api';
-import { diveKeys } from './dives';
-import { photoKeys } from './photos';
-import { mergeIntoDiveLogs, observationKeys } from './observations';
-import { sessionKeys } from './session';
-import { telemetryKeys } from './telemetry';
+import { afterDiveChanged, afterDiveResync, afterEntryChanged, afterEntryRetired, isInDiveLogs, mergeIntoDiveLogs } from './cache-effects';
+import { sessionKeys, telemetryKeys } from './query-keys';
 
 export type LiveStatus = 'connecting' | 'live' | 'offline';
 
 const retiredSchema = z.object({ id: z.string(), diveId: z.string() });
-
-function inCache(qc: QueryClient, o: Observation): boolean {
-  return qc
-    .getQueriesData<InfiniteData<ObservationPage>>({ queryKey: observationKeys.diveLogs(o.diveId) })
-    .some(([, data]) => data?.pages.some((p) => p.items.some((i) => i.id === o.id)));
-}
 
 function parse<S extends z.ZodType>(schema: S, data: string): z.output<S> | undefined {
   try {
@@ -111,53 +102,38 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
 
   // Changes between loading a screen and opening the stream (or more than the server replays):
   // fetch everything shown of the dive again once.
-  const refetchAll = () => {
-    void qc.invalidateQueries({ queryKey: observationKeys.diveLogs(diveId) });
-    void qc.invalidateQueries({
-      predicate: (q) =>
-        q.queryKey[0] === observationKeys.root[0] &&
-        q.queryKey[1] === 'detail' &&
-        (q.state.data as { diveId?: string } | undefined)?.diveId === diveId,
-    });
-    void qc.invalidateQueries({ queryKey: diveKeys.detail(diveId) });
-    void qc.invalidateQueries({ queryKey: photoKeys.galleries(diveId) });
-    void qc.invalidateQueries({ queryKey: telemetryKeys.summary(diveId) });
-  };
+  const refetchAll = () => afterDiveResync(qc, diveId);
   on('ready', refetchAll);
   on('resync', refetchAll);
-  on('observation.created', (data) => {
+  // A new entry, or one a lead restored, appears in the log: at once, or held back while the
+  // reader is scrolled away from the top.
+  const appeared = (data: string) => {
     const o = parse(observationSchema, data);
     if (!o) return;
     summaryChanged();
-    const h = inCache(qc, o) ? undefined : holder();
+    const h = isInDiveLogs(qc, o) ? undefined : holder();
     if (h) h.hold?.(o);
-    else mergeIntoDiveLogs(qc, o);
-  });
+    afterEntryChanged(qc, o, { origin: 'stream', merge: !h });
+  };
+  on('observation.created', appeared);
+  on('observation.restored', appeared);
   on('observation.updated', (data) => {
     const o = parse(observationSchema, data);
     if (!o) return;
     summaryChanged();
     for (const f of followers) f.onUpdated?.(o);
-    if (inCache(qc, o) || !holder()) mergeIntoDiveLogs(qc, o);
-    void qc.invalidateQueries({ queryKey: observationKeys.detail(o.id) });
-    // The entry's photos may be what changed (added, captioned, moved, retired): the detail above
-    // fetches them again, and so does an open gallery of the dive.
-    void qc.invalidateQueries({ queryKey: photoKeys.galleries(o.diveId) });
+    afterEntryChanged(qc, o, { origin: 'stream', merge: isInDiveLogs(qc, o) || !holder() });
   });
   on('observation.retired', (data) => {
     const r = parse(retiredSchema, data);
     if (!r) return;
     summaryChanged();
     for (const f of followers) f.onRetired?.(r.id);
-    for (const [key, log] of qc.getQueriesData<InfiniteData<ObservationPage>>({ queryKey: observationKeys.diveLogs(r.diveId) })) {
-      if (log) qc.setQueryData(key, { ...log, pages: log.pages.map((p) => ({ ...p, items: p.items.filter((i) => i.id !== r.id) })) });
-    }
-    void qc.invalidateQueries({ queryKey: observationKeys.detail(r.id) });
+    afterEntryRetired(qc, r, 'stream');
   });
   on('dive.updated', (data) => {
     const dive = parse(diveSchema, data);
-    if (dive && dive.id === diveId) qc.setQueryData(diveKeys.detail(diveId), dive);
-    summaryChanged();
+    if (dive && dive.id === diveId) afterDiveChanged(qc, dive);
   });
   open();
   connection.close = () => {

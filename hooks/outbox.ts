@@ -10,8 +10,9 @@ import { useCallback, useEffect, useSyncExternalStore } from 'react';
 
 import { observationSchema, type Me, type Observation, type ObservationCreate } from '@/lib/schemas';
 import { ApiError, request } from './api';
-import { mergeIntoDiveLogs } from './observations';
-import { sessionKeys, useMe } from './session';
+import { mergeIntoDiveLogs } from './cache-effects';
+import { sessionKeys } from './query-keys';
+import { useMe } from './session';
 import { storage } from './storage';
 
 export type PendingEntry = {

@@ -1,17 +1,15 @@
 /**
- * Photo uploads that survive a thin link: one request per file over XMLHttpRequest (the one
- * browser API that reports upload progress), cancelled by aborting it, and retried with growing
+ * Photo uploads that survive a thin link: one request per file through the API client's upload
+ * (which reports progress), cancelled by aborting it, and retried with growing
  * pauses when the link drops. The queue of each entry lives outside React, so leaving the screen
  * does not stop an upload that is under way.
  */
 import { useQueryClient } from '@tanstack/react-query';
 import { useEffect, useSyncExternalStore } from 'react';
 
-import { apiErrorSchema, photoLimits, photoUploadResultSchema, type PhotoUploadResult } from '@/lib/schemas';
-import { ApiError } from './api';
-import { diveKeys } from './dives';
-import { observationKeys } from './observations';
-import { photoKeys, photoUploadUrl } from './photos';
+import { photoLimits, photoUploadResultSchema, type PhotoUploadResult } from '@/lib/schemas';
+import { ApiError, upload } from './api';
+import { afterPhotosChanged } from './cache-effects';
 
 /** A file as the picker or a drop gives it: a browser `File`, or a native file address. */
 export type PickedFile = {
@@ -53,49 +51,19 @@ export function retryDelay(attempt: number): number {
 /** Errors worth trying again by themselves: the link, or a server or proxy that is briefly away. */
 const transient = (err: ApiError) => err.isNetwork || err.status === 429 || err.status === 502 || err.status === 503 || err.status === 504;
 
-function send(
-  observationId: string,
-  picked: PickedFile,
-  onProgress: (fraction: number) => void,
-): { done: Promise<PhotoUploadResult>; abort: () => void } {
-  const xhr = new XMLHttpRequest();
-  const done = new Promise<PhotoUploadResult>((resolve, reject) => {
-    const body = new FormData();
-    if (picked.file) body.append('photo', picked.file, picked.name);
-    // React Native's FormData takes a file address in this shape.
-    else body.append('photo', { uri: picked.uri, name: picked.name, type: picked.mime } as unknown as Blob);
-    xhr.open('POST', photoUploadUrl(observationId));
-    xhr.withCredentials = true;
-    xhr.setRequestHeader('accept', 'application/json');
-    xhr.upload.onprogress = (e) => {
-      if (e.lengthComputable && e.total > 0) onProgress(e.loaded / e.total);
-    };
-    xhr.onerror = () => reject(new ApiError(0, 'network', 'The link dropped during the upload.'));
-    xhr.ontimeout = () => reject(new ApiError(0, 'network', 'The upload timed out.'));
-    xhr.onabort = () => reject(new ApiError(0, 'cancelled', 'Cancelled.'));
-    xhr.onload = () => {
-      let json: unknown;
-      try {
-        json = JSON.parse(xhr.responseText);
-      } catch {
-        json = undefined;
-      }
-      if (xhr.status >= 200 && xhr.status < 300) {
-        const parsed = photoUploadResultSchema.safeParse(json);
-        if (parsed.success) resolve(parsed.data);
-        else reject(new ApiError(xhr.status, 'bad_response', 'The server sent an answer this app does not understand.'));
-        return;
-      }
-      const error = apiErrorSchema.safeParse(json);
-      reject(
-        error.success
-          ? new ApiError(xhr.status, error.data.error.code, error.data.error.message)
-          : new ApiError(xhr.status, 'http_error', `The server answered ${xhr.status}.`),
-      );
-    };
-    xhr.send(body);
+function send(observationId: string, picked: PickedFile, onProgress: (fraction: number) => void) {
+  const body = new FormData();
+  if (picked.file) body.append('photo', picked.file, picked.name);
+  // React Native's FormData takes a file address in this shape.
+  else body.append('photo', { uri: picked.uri, name: picked.name, type: picked.mime } as unknown as Blob);
+  const controller = new AbortController();
+  const done = upload(`/api/observations/${encodeURIComponent(observationId)}/photos`, photoUploadResultSchema, body, {
+    signal: controller.signal,
+    onProgress: (sent, total) => {
+      if (total) onProgress(sent / total);
+    },
   });
-  return { done, abort: () => xhr.abort() };
+  return { done, abort: () => controller.abort() };
 }
 
 type Entry = { id: string; diveId: string };
@@ -191,7 +159,7 @@ class UploadQueue {
       })
       .catch((err: unknown) => {
         const e = err instanceof ApiError ? err : new ApiError(0, 'network', 'The upload failed.');
-        if (e.code === 'cancelled') return;
+        if (e.code === 'aborted') return;
         if (transient(e) && attempt < MAX_AUTOMATIC_TRIES) {
           const delay = retryDelay(attempt);
           this.set(id, { status: 'waiting', retryAt: Date.now() + delay, error: e.message });
@@ -249,12 +217,7 @@ export function usePhotoUploads(entry: Entry) {
   useEffect(
     () =>
       whenUploaded(() => {
-        void Promise.all([
-          qc.invalidateQueries({ queryKey: observationKeys.detail(entry.id) }),
-          qc.invalidateQueries({ queryKey: observationKeys.diveLog(entry.diveId) }),
-          qc.invalidateQueries({ queryKey: photoKeys.galleries(entry.diveId) }),
-          qc.invalidateQueries({ queryKey: diveKeys.detail(entry.diveId) }),
-        ]);
+        void afterPhotosChanged(qc, { id: entry.id, diveId: entry.diveId });
       }),
     [whenUploaded, qc, entry.id, entry.diveId],
   );

@@ -12,22 +12,14 @@ import {
   type PhotoUpdate,
 } from '@/lib/schemas';
 import { apiUrl, request } from './api';
-import { diveKeys } from './dives';
-import { observationKeys } from './observations';
+import { afterPhotosChanged } from './cache-effects';
+import { photoKeys } from './query-keys';
 import { storage } from './storage';
 
-export const photoKeys = {
-  root: ['photos'] as const,
-  gallery: (diveId: string, filters: { kind?: string; tag?: string }) =>
-    [...photoKeys.root, 'gallery', diveId, { kind: filters.kind ?? null, tag: filters.tag ?? null }] as const,
-  galleries: (diveId: string) => [...photoKeys.root, 'gallery', diveId] as const,
-};
+export { photoKeys };
 
 /** The address of one size of a photo, for an image element. */
 export const photoUrl = (photo: Pick<Photo, 'urls'>, size: keyof Photo['urls']) => apiUrl(photo.urls[size]);
-
-/** The upload endpoint of an entry. */
-export const photoUploadUrl = (observationId: string) => apiUrl(`/api/observations/${encodeURIComponent(observationId)}/photos`);
 
 export const galleryQuery = (diveId: string, filters: Pick<GalleryQuery, 'kind' | 'tag'>) =>
   infiniteQueryOptions({
@@ -46,16 +38,10 @@ export const galleryQuery = (diveId: string, filters: Pick<GalleryQuery, 'kind' 
 export const useGallery = (diveId: string | undefined, filters: Pick<GalleryQuery, 'kind' | 'tag'>) =>
   useInfiniteQuery({ ...galleryQuery(diveId ?? '', filters), enabled: !!diveId });
 
-/** After any change to an entry's photos: its detail, its card in the dive log, the galleries. */
+/** After any change to an entry's photos made here. */
 export function usePhotosChanged() {
   const qc = useQueryClient();
-  return async (observation: Pick<ObservationDetail, 'id' | 'diveId'>) => {
-    await Promise.all([
-      qc.invalidateQueries({ queryKey: observationKeys.detail(observation.id) }),
-      qc.invalidateQueries({ queryKey: observationKeys.diveLog(observation.diveId) }),
-      qc.invalidateQueries({ queryKey: photoKeys.galleries(observation.diveId) }),
-    ]);
-  };
+  return (observation: Pick<ObservationDetail, 'id' | 'diveId'>) => afterPhotosChanged(qc, observation);
 }
 
 export function useUpdatePhoto(observation: Pick<ObservationDetail, 'id' | 'diveId'>) {
@@ -80,7 +66,6 @@ export function useRetirePhoto(observation: Pick<ObservationDetail, 'id' | 'dive
  * has, so a change made meanwhile by someone else is refused (409) rather than overwritten.
  */
 export function useTakeTimeFromPhoto(observation: Pick<ObservationDetail, 'id' | 'diveId' | 'campaignId' | 'version'>) {
-  const qc = useQueryClient();
   const changed = usePhotosChanged();
   return useMutation({
     mutationFn: (capturedAt: string) =>
@@ -88,9 +73,7 @@ export function useTakeTimeFromPhoto(observation: Pick<ObservationDetail, 'id' |
         method: 'PATCH',
         body: { observedAt: capturedAt, version: observation.version },
       }),
-    onSettled: async () => {
-      await Promise.all([changed(observation), qc.invalidateQueries({ queryKey: diveKeys.detail(observation.diveId) })]);
-    },
+    onSettled: () => changed(observation),
   });
 }
 

@@ -3,8 +3,9 @@ import { z } from 'zod';
 
 import { meSchema, type Me } from '@/lib/schemas';
 import { ApiError, request } from './api';
+import { sessionKeys } from './query-keys';
 
-export const sessionKeys = { root: ['session'] as const, me: () => [...sessionKeys.root, 'me'] as const };
+export { sessionKeys };
 
 /** The signed-in person, or null when nobody is signed in (a 401 is an answer, not an error). */
 export const meQuery = queryOptions({

@@ -3,17 +3,11 @@ import { useCallback, useRef, useState } from 'react';
 
 import { diveSummarySchema, telemetryAtSchema, telemetrySamplesSchema, type TelemetryImportFields } from '@/lib/schemas';
 import { request } from './api';
-import { diveKeys } from './dives';
-import { observationKeys } from './observations';
+import { afterTelemetryImported } from './cache-effects';
+import { telemetryKeys } from './query-keys';
 import { uploadTelemetryLog, type UploadProgress } from './telemetry-upload';
 
-export const telemetryKeys = {
-  root: ['telemetry'] as const,
-  dive: (diveId: string) => [...telemetryKeys.root, diveId] as const,
-  samples: (diveId: string, points: number) => [...telemetryKeys.dive(diveId), 'samples', points] as const,
-  summary: (diveId: string) => [...telemetryKeys.dive(diveId), 'summary'] as const,
-  at: (diveId: string, t: string) => [...telemetryKeys.dive(diveId), 'at', t] as const,
-};
+export { telemetryKeys };
 
 const divePath = (diveId: string) => `/api/dives/${encodeURIComponent(diveId)}`;
 
@@ -65,13 +59,7 @@ export function useImportTelemetry(diveId: string) {
       controller.current = null;
       setProgress(null);
     },
-    onSuccess: async () => {
-      await Promise.all([
-        qc.invalidateQueries({ queryKey: telemetryKeys.dive(diveId) }),
-        qc.invalidateQueries({ queryKey: observationKeys.root }),
-        qc.invalidateQueries({ queryKey: diveKeys.detail(diveId) }),
-      ]);
-    },
+    onSuccess: () => afterTelemetryImported(qc, diveId),
   });
   const { reset: resetMutation } = mutation;
   const reset = useCallback(() => {
