@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 
 import { demoIds, emails } from '../helpers/demo';
 import { openSse } from '../helpers/sse';
@@ -78,8 +78,11 @@ describe('the live dive log', () => {
   it('sends a heartbeat comment regularly', async () => {
     const reader = openSse(streamUrl(), { cookie: await t.sessionCookie(emails.pilot) });
     await reader.next((e) => e.event === 'ready');
-    await new Promise((r) => setTimeout(r, 800));
-    expect(reader.comments.filter((c) => c.startsWith('keep-alive')).length).toBeGreaterThanOrEqual(1);
+    // The first comment is the signal itself: no fixed wait, and a stream without heartbeats times out.
+    await vi.waitFor(() => expect(reader.comments.filter((c) => c.startsWith('keep-alive')).length).toBeGreaterThanOrEqual(1), {
+      timeout: 3000,
+      interval: 50,
+    });
     reader.close();
   });
 

@@ -470,7 +470,8 @@ describe('sign-in rate limit', () => {
         .post('/api/auth/sign-in/email')
         .set('Origin', s.url)
         .send({ email: emails.biologist, password: 'wrong-password' });
-      expect(limited.body.error.code).toBeDefined();
+      expect(limited.status).toBe(429);
+      expect(limited.body.error.code).toBe('auth_error');
     } finally {
       await s.close();
     }
