@@ -1,12 +1,12 @@
 import { Stack } from 'expo-router';
 
 import { AppShell } from '@/components/layout/app-shell';
-import { useOutboxSender } from '@/hooks/outbox';
+import { useSendQueueSender } from '@/hooks/send-queue';
 import { useTheme } from '@/hooks/theme';
 
 export default function AppLayout() {
   const { colors } = useTheme();
-  useOutboxSender();
+  useSendQueueSender();
   return (
     <AppShell>
       <Stack screenOptions={{ headerShown: false, animation: 'none', contentStyle: { backgroundColor: colors.bg } }} />

@@ -2,7 +2,7 @@ import { useCallback, useMemo, useRef } from 'react';
 import { ActivityIndicator, FlatList, Pressable, StyleSheet, View } from 'react-native';
 
 import { ObservationCard } from '@/components/observations/observation-card';
-import { PendingEntries } from '@/components/observations/pending-entries';
+import { WaitingEntries } from '@/components/observations/waiting-entries';
 import { Button } from '@/components/ui/button';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
@@ -30,7 +30,7 @@ type Props = {
   /** The dive's live feed (held-back entries), and where the list is scrolled to. */
   live: { held: Observation[]; showHeld: () => void };
   onScrollOffset: (y: number) => void;
-  onRetryPending: () => void;
+  onRetryWaiting: () => void;
   header?: React.ReactElement;
 };
 
@@ -54,7 +54,7 @@ export function DiveLog({
   onSelect,
   live,
   onScrollOffset,
-  onRetryPending,
+  onRetryWaiting,
   header,
 }: Props) {
   const { colors } = useTheme();
@@ -127,7 +127,7 @@ export function DiveLog({
             {/* The table runs edge to edge; what sits above it keeps the cards' margin. */}
             <View style={view === 'table' ? styles.tableHeader : undefined}>
               {header}
-              <PendingEntries diveId={diveId} onRetry={onRetryPending} />
+              <WaitingEntries diveId={diveId} onRetry={onRetryWaiting} />
             </View>
             {view === 'table' ? (
               <LogTableHeader filters={filters} onSort={(sort, order) => onFiltersChange({ ...filters, sort, order })} />

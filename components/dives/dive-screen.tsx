@@ -17,7 +17,7 @@ import { useKeyboardShortcuts } from '@/hooks/keyboard';
 import { useLayout } from '@/hooks/layout';
 import { useDiveLive } from '@/hooks/live';
 import { useDiveLog, type DiveLogFilters } from '@/hooks/observations';
-import { useOutboxFlush } from '@/hooks/outbox';
+import { useSendQueueFlush } from '@/hooks/send-queue';
 import { useTheme } from '@/hooks/theme';
 import type { Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
@@ -46,7 +46,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const searchBox = useRef<TextInput>(null);
   const scrollOffset = useRef(0);
   const live = useDiveLive(diveId, () => scrollOffset.current > READING_OFFSET);
-  const sendPending = useOutboxFlush();
+  const sendWaiting = useSendQueueFlush();
   const items = (useDiveLog(diveId, filters).data?.pages.flatMap((p) => p.items) ?? []).filter((o) => matchesSearch(o, search));
   const role = campaign.data?.myRole;
 
@@ -163,7 +163,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       onScrollOffset={(y) => {
         scrollOffset.current = y;
       }}
-      onRetryPending={() => void sendPending()}
+      onRetryWaiting={() => void sendWaiting()}
       header={header}
     />
   );

@@ -7,7 +7,7 @@ import { Text } from '@/components/ui/text';
 import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useQuickMarks } from '@/hooks/campaigns';
-import { useLogEntry } from '@/hooks/outbox';
+import { useLogEntry } from '@/hooks/send-queue';
 import { useTheme } from '@/hooks/theme';
 import type { QuickMark } from '@/lib/schemas';
 import { space } from '@/lib/tokens';

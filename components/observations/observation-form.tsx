@@ -12,7 +12,7 @@ import { useCampaign } from '@/hooks/campaigns';
 import { useDive } from '@/hooks/dives';
 import { useDraft } from '@/hooks/draft';
 import { useLayout } from '@/hooks/layout';
-import { useLogEntry } from '@/hooks/outbox';
+import { useLogEntry } from '@/hooks/send-queue';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { formatInZone, parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';

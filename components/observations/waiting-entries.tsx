@@ -3,25 +3,28 @@ import { StyleSheet, View } from 'react-native';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
-import { discardPending, retryPending, usePendingEntries, type PendingEntry } from '@/hooks/outbox';
+import { discardWaiting, retryWaiting, useWaitingEntries, type WaitingEntry } from '@/hooks/send-queue';
 import { useTheme } from '@/hooks/theme';
 import { formatUtcTime } from '@/lib/format';
 import { space } from '@/lib/tokens';
 
-/** The signed-in person's entries written on this device that have not reached the server yet. */
-export function PendingEntries({ diveId, onRetry }: { diveId: string; onRetry: () => void }) {
-  const pending = usePendingEntries(diveId);
-  if (pending.length === 0) return null;
+/**
+ * The signed-in person's entries written on this device that have not reached the server yet.
+ * (Their test ids keep the name the browser tests know them by.)
+ */
+export function WaitingEntries({ diveId, onRetry }: { diveId: string; onRetry: () => void }) {
+  const waiting = useWaitingEntries(diveId);
+  if (waiting.length === 0) return null;
   return (
     <View style={styles.list} testID="pending-entries">
-      {pending.map((p) => (
-        <PendingCard key={p.clientRef} entry={p} onRetry={onRetry} />
+      {waiting.map((p) => (
+        <WaitingCard key={p.clientRef} entry={p} onRetry={onRetry} />
       ))}
     </View>
   );
 }
 
-function PendingCard({ entry, onRetry }: { entry: PendingEntry; onRetry: () => void }) {
+function WaitingCard({ entry, onRetry }: { entry: WaitingEntry; onRetry: () => void }) {
   const { colors } = useTheme();
   const refused = entry.attempts < 0;
   return (
@@ -44,12 +47,12 @@ function PendingCard({ entry, onRetry }: { entry: PendingEntry; onRetry: () => v
           tone="secondary"
           compact
           onPress={() => {
-            if (refused) retryPending(entry.clientRef);
+            if (refused) retryWaiting(entry.clientRef);
             onRetry();
           }}
           testID="pending-retry"
         />
-        <Button label="Discard" tone="ghost" compact onPress={() => discardPending(entry.clientRef)} testID="pending-discard" />
+        <Button label="Discard" tone="ghost" compact onPress={() => discardWaiting(entry.clientRef)} testID="pending-discard" />
       </View>
     </Card>
   );

@@ -1,6 +1,6 @@
 /**
- * Entries that could not be sent (no link, or the server did not answer) wait here, on this
- * device, and are sent again until they get through. Each carries a `clientRef`, so an entry
+ * The send queue: entries that could not be sent (no link, or the server did not answer) wait
+ * here, on this device, and are sent again until they get through. Each carries a `clientRef`, so an entry
  * whose first send did arrive (but whose answer was lost) is not logged twice, and the id of the
  * person who wrote it: on a shared control-room screen an entry is only ever sent, shown or
  * discarded while its author is signed in.
@@ -15,7 +15,7 @@ import { sessionKeys } from './query-keys';
 import { useMe } from './session';
 import { storage } from './storage';
 
-export type PendingEntry = {
+export type WaitingEntry = {
   clientRef: string;
   /** Who wrote it (absent on entries kept before authors were recorded: shown to whoever signs in). */
   authorId?: string;
@@ -26,22 +26,47 @@ export type PendingEntry = {
   lastError: string | null;
 };
 
-const KEY = 'bathynote.outbox';
+const KEY = 'bathynote.send-queue';
+/** Where earlier versions of the app kept the queue: its entries are moved over, never dropped. */
+const FORMER_KEY = 'bathynote.outbox';
 const listeners = new Set<() => void>();
-let cache: PendingEntry[] | null = null;
+let cache: WaitingEntry[] | null = null;
 
-function read(): PendingEntry[] {
-  if (cache) return cache;
+function stored(key: string): WaitingEntry[] {
   try {
-    const parsed: unknown = JSON.parse(storage.get(KEY) ?? '[]');
-    cache = Array.isArray(parsed) ? (parsed as PendingEntry[]) : [];
+    const parsed: unknown = JSON.parse(storage.get(key) ?? '[]');
+    return Array.isArray(parsed) ? (parsed as WaitingEntry[]) : [];
   } catch {
-    cache = [];
+    return [];
   }
+}
+
+/**
+ * Moves entries kept under the former key into the queue (once per start, and again should a tab
+ * still running the earlier version have written there since), the queue's own copy winning on
+ * the same `clientRef`.
+ */
+export function migrateFormerQueue() {
+  const former = stored(FORMER_KEY);
+  if (former.length === 0) {
+    if (storage.get(FORMER_KEY) !== null) storage.remove(FORMER_KEY);
+    return;
+  }
+  const current = stored(KEY);
+  const known = new Set(current.map((p) => p.clientRef));
+  storage.set(KEY, JSON.stringify([...current, ...former.filter((p) => !known.has(p.clientRef))]));
+  storage.remove(FORMER_KEY);
+  cache = null;
+}
+
+function read(): WaitingEntry[] {
+  if (cache) return cache;
+  migrateFormerQueue();
+  cache = stored(KEY);
   return cache;
 }
 
-function write(next: PendingEntry[]) {
+function write(next: WaitingEntry[]) {
   cache = next;
   storage.set(KEY, JSON.stringify(next));
   for (const l of listeners) l();
@@ -64,24 +89,24 @@ export function newClientRef(): string {
 const retryable = (err: unknown) =>
   err instanceof ApiError && (err.isNetwork || err.status >= 500 || err.status === 429 || err.status === 401);
 
-const mine = (p: PendingEntry, userId: string | undefined) => !!userId && (p.authorId === undefined || p.authorId === userId);
+const mine = (p: WaitingEntry, userId: string | undefined) => !!userId && (p.authorId === undefined || p.authorId === userId);
 
-function send(entry: Pick<PendingEntry, 'diveId' | 'body' | 'clientRef'>): Promise<Observation> {
+function send(entry: Pick<WaitingEntry, 'diveId' | 'body' | 'clientRef'>): Promise<Observation> {
   return request(`/api/dives/${encodeURIComponent(entry.diveId)}/observations`, observationSchema, {
     body: { ...entry.body, clientRef: entry.clientRef },
   });
 }
 
 /** The signed-in person's entries still on this device (of one dive, or all). */
-export function usePendingEntries(diveId?: string): PendingEntry[] {
+export function useWaitingEntries(diveId?: string): WaitingEntry[] {
   const all = useSyncExternalStore(subscribe, read, read);
   const userId = useMe().data?.user.id;
   return all.filter((p) => mine(p, userId) && (!diveId || p.diveId === diveId));
 }
 
 /**
- * Logs an entry: sent at once when the link is up, otherwise kept in the outbox and sent later.
- * Resolves with the stored entry, or with `{ queued: true }` when it waits in the outbox.
+ * Logs an entry: sent at once when the link is up, otherwise kept in the send queue and sent later.
+ * Resolves with the stored entry, or with `{ queued: true }` when it waits in the queue.
  */
 export function useLogEntry(diveId: string) {
   const qc = useQueryClient();
@@ -103,19 +128,19 @@ export function useLogEntry(diveId: string) {
   );
 }
 
-export function discardPending(clientRef: string) {
+export function discardWaiting(clientRef: string) {
   write(read().filter((p) => p.clientRef !== clientRef));
 }
 
 /** Sends a refused entry again (after the person has fixed what the refusal named, or regained access). */
-export function retryPending(clientRef: string) {
+export function retryWaiting(clientRef: string) {
   write(read().map((p) => (p.clientRef === clientRef ? { ...p, attempts: 0 } : p)));
 }
 
 let flushing = false;
 
-/** Sends whatever waits in the outbox, oldest first; keeps what still cannot be sent. */
-export function useOutboxFlush() {
+/** Sends whatever waits in the send queue, oldest first; keeps what still cannot be sent. */
+export function useSendQueueFlush() {
   const qc = useQueryClient();
   const userId = useMe().data?.user.id;
   return useCallback(async () => {
@@ -149,9 +174,9 @@ export function useOutboxFlush() {
   }, [qc, userId]);
 }
 
-/** Keeps trying the outbox while the app is open: on a timer and whenever the browser is back online. */
-export function useOutboxSender(intervalMs = 15_000) {
-  const flush = useOutboxFlush();
+/** Keeps trying the send queue while the app is open: on a timer and whenever the browser is back online. */
+export function useSendQueueSender(intervalMs = 15_000) {
+  const flush = useSendQueueFlush();
   useEffect(() => {
     const timer = setInterval(() => void flush(), intervalMs);
     const online = () => void flush();
