@@ -275,19 +275,36 @@ export const observationPageSchema = z.object({
 });
 export type ObservationPage = z.infer<typeof observationPageSchema>;
 
-export const observationListQuerySchema = z
-  .object({
+const queryDepth = z.coerce.number().finite().min(-100).max(11_000);
+
+/**
+ * The entry filters a query string may carry, shared by the dive log, search and the exports
+ * (each adds its own paging or scope).
+ */
+export const observationFilterQuerySchema = z.object({
+  kind: z.enum(observationKinds).optional(),
+  tag: z.string().max(40).optional(),
+  author: z.string().max(100).optional(),
+  hasPhotos: z.enum(['true', 'false']).optional(),
+  verification: z.enum(verificationStatuses).optional(),
+  minDepth: queryDepth.optional(),
+  maxDepth: queryDepth.optional(),
+  from: instant.optional(),
+  to: instant.optional(),
+});
+export type ObservationFilterQuery = z.infer<typeof observationFilterQuerySchema>;
+
+export const observationListQuerySchema = observationFilterQuerySchema
+  .extend({
     cursor: z.string().max(200).optional(),
     limit: z.coerce.number().int().min(1).max(200).default(50),
-    kind: z.enum(observationKinds).optional(),
-    tag: z.string().max(40).optional(),
-    author: z.string().max(100).optional(),
-    hasPhotos: z.enum(['true', 'false']).optional(),
-    verification: z.enum(verificationStatuses).optional(),
     sort: z.enum(['time', 'depth', 'kind', 'author']).default('time'),
     order: z.enum(['asc', 'desc']).optional(),
+    /** Retired entries instead of live ones (leads only). */
+    retired: z.enum(['only']).optional(),
   })
   .strict();
+export type ObservationListQuery = z.infer<typeof observationListQuerySchema>;
 
 /* ---- dives: planning, phases, recording ---- */
 

@@ -2,12 +2,13 @@ import { eq } from 'drizzle-orm';
 import type { Request, RequestHandler } from 'express';
 
 import type { Db } from '../../db/client';
-import { campaigns, dives, observations } from '../../db/schema';
+import { campaigns, dives, memberships, observations } from '../../db/schema';
+import { refusal, rolesFor, roleWithArticle, type AccessRole, type Action, type Facts } from '../../lib/permissions';
 import type { CampaignRole } from '../../lib/schemas';
 import { forbidden, notFound } from '../errors';
 import { userOf } from './session';
 
-export type AccessRole = CampaignRole | 'admin';
+export type { AccessRole };
 export type CampaignAccess = { campaignId: string; role: AccessRole; userId: string };
 
 declare module 'express-serve-static-core' {
@@ -53,14 +54,6 @@ export function roleIn(db: Db, campaignId: string, user: { id: string; siteRole:
   return user.siteRole === 'admin' ? 'admin' : undefined;
 }
 
-const roleNames: Record<AccessRole, string> = {
-  lead: 'a lead',
-  scientist: 'a scientist',
-  pilot: 'a pilot',
-  guest: 'a guest',
-  admin: 'the site administrator',
-};
-
 /**
  * Resolves the campaign a request touches and the caller's role in it. A caller who is not a
  * member gets the same 404 as for something that does not exist, so a campaign never reveals
@@ -78,7 +71,7 @@ export function requireCampaignRole(
     const role = campaignId ? roleIn(db, campaignId, user) : undefined;
     if (!campaignId || !role) throw notFound();
     if (allowed && !allowed.includes(role)) {
-      throw forbidden(`As ${roleNames[role]} of this campaign you may not ${action}.`);
+      throw forbidden(`As ${roleWithArticle[role]} of this campaign you may not ${action}.`);
     }
     req.access = { campaignId, role, userId: user.id };
     next();
@@ -88,4 +81,44 @@ export function requireCampaignRole(
 export function accessOf(req: Request): CampaignAccess {
   if (!req.access) throw notFound();
   return req.access;
+}
+
+/** `requireCampaignRole` with the roles and the refusal of an action in the permission table. */
+export function requirePermission(db: Db, resolve: CampaignResolver, action: Action): RequestHandler {
+  const allowed = rolesFor(action);
+  return (req, _res, next) => {
+    const user = userOf(req);
+    const campaignId = resolve(db, req);
+    const role = campaignId ? roleIn(db, campaignId, user) : undefined;
+    if (!campaignId || !role) throw notFound();
+    if (!allowed.includes(role)) throw forbidden(refusal(role, action)!);
+    req.access = { campaignId, role, userId: user.id };
+    next();
+  };
+}
+
+/** Refuses with 403 and the table's reason when the caller may not do `action` given the facts. */
+export function assertCan(role: AccessRole, action: Action, facts: Facts = {}): void {
+  const why = refusal(role, action, facts);
+  if (why) throw forbidden(why);
+}
+
+/**
+ * The campaigns a person may read at this moment: those they are a member of, or every campaign
+ * for the site administrator. Asked per request, never cached, so a removed member stops seeing
+ * a campaign on their next request.
+ */
+export function memberCampaignIds(db: Db, user: { id: string; siteRole: string }): string[] {
+  if (user.siteRole === 'admin')
+    return db
+      .select({ id: campaigns.id })
+      .from(campaigns)
+      .all()
+      .map((c) => c.id);
+  return db
+    .select({ id: memberships.campaignId })
+    .from(memberships)
+    .where(eq(memberships.userId, user.id))
+    .all()
+    .map((m) => m.id);
 }

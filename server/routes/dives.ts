@@ -1,9 +1,11 @@
-import { Router, type RequestHandler } from 'express';
+import { Router } from 'express';
 
+import { diveCreateSchema, diveUpdateSchema, phaseInputSchema } from '../../lib/schemas';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
-import { accessOf, byCampaign, byDive, requireCampaignRole } from '../middleware/campaign-access';
+import { accessOf, byCampaign, byDive, requirePermission } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
+import { validate } from '../middleware/validate';
 import { createDive, getDive, setPhase, updateDive } from '../services/dives';
 import { diveStream } from '../services/stream';
 
@@ -11,29 +13,31 @@ export function diveRoutes(ctx: AppContext): Router {
   const { db, auth, live } = ctx;
   const r = Router();
   const signedIn = requireSession(auth);
-  const member: RequestHandler[] = [signedIn, requireCampaignRole(db, byDive)];
-  const operator = (action: string): RequestHandler[] => [signedIn, requireCampaignRole(db, byDive, ['lead', 'pilot'], action)];
+  const diveId = (req: { params: Record<string, unknown> }) => req.params.diveId as string;
+  const newDive = validate(diveCreateSchema);
+  const diveChange = validate(diveUpdateSchema);
+  const phase = validate(phaseInputSchema);
 
-  r.post('/campaigns/:campaignId/dives', signedIn, requireCampaignRole(db, byCampaign, ['lead', 'pilot'], 'plan dives'), (req, res) => {
-    const dive = createDive(db, live, accessOf(req).campaignId, req.body);
+  r.post('/campaigns/:campaignId/dives', signedIn, requirePermission(db, byCampaign, 'dive.plan'), newDive, (req, res) => {
+    const dive = createDive(db, live, accessOf(req).campaignId, newDive.of(req));
     res.status(201).location(`/api/dives/${dive.id}`).json(dive);
   });
 
-  r.get('/dives/:diveId', ...member, (req, res) => {
-    const dive = getDive(db, req.params.diveId as string);
+  r.get('/dives/:diveId', signedIn, requirePermission(db, byDive, 'campaign.read'), (req, res) => {
+    const dive = getDive(db, diveId(req));
     if (!dive) throw notFound();
     res.json(dive);
   });
 
-  r.patch('/dives/:diveId', ...operator('change dives'), (req, res) => {
-    res.json(updateDive(db, live, req.params.diveId as string, req.body));
+  r.patch('/dives/:diveId', signedIn, requirePermission(db, byDive, 'dive.run'), diveChange, (req, res) => {
+    res.json(updateDive(db, live, diveId(req), diveChange.of(req)));
   });
 
-  r.post('/dives/:diveId/phases', ...operator('mark dive phases'), (req, res) => {
-    res.json(setPhase(db, live, req.params.diveId as string, req.body));
+  r.post('/dives/:diveId/phases', signedIn, requirePermission(db, byDive, 'dive.run'), phase, (req, res) => {
+    res.json(setPhase(db, live, diveId(req), phase.of(req)));
   });
 
-  r.get('/dives/:diveId/stream', ...member, diveStream(ctx));
+  r.get('/dives/:diveId/stream', signedIn, requirePermission(db, byDive, 'campaign.read'), diveStream(ctx));
 
   return r;
 }

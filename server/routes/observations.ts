@@ -1,12 +1,26 @@
+import { eq } from 'drizzle-orm';
 import { Router, type RequestHandler } from 'express';
 
+import { identifications } from '../../db/schema';
+import type { Action } from '../../lib/permissions';
+import {
+  custodyInputSchema,
+  findInputSchema,
+  identificationInputSchema,
+  observationCreateSchema,
+  observationListQuerySchema,
+  observationUpdateSchema,
+  verificationInputSchema,
+} from '../../lib/schemas';
 import type { AppContext } from '../context';
-import { forbidden, notFound } from '../errors';
-import { accessOf, byDive, byObservation, requireCampaignRole } from '../middleware/campaign-access';
+import { notFound } from '../errors';
+import { accessOf, assertCan, byDive, byObservation, requirePermission } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
+import { validate } from '../middleware/validate';
 import {
   createObservation,
   getObservationDetail,
+  getObservationRow,
   listObservations,
   listRevisions,
   restoreObservation,
@@ -15,32 +29,53 @@ import {
 } from '../services/observations';
 import { addCustody, setFind, setIdentification, verifyIdentification } from '../services/record';
 
-const members = ['lead', 'scientist', 'pilot', 'guest'] as const;
-
 export function observationRoutes({ db, auth, live }: AppContext): Router {
   const r = Router();
   const signedIn = requireSession(auth);
-  const diveMember: RequestHandler[] = [signedIn, requireCampaignRole(db, byDive)];
-  const diveLogger: RequestHandler[] = [signedIn, requireCampaignRole(db, byDive, members, 'log entries')];
-  const reader: RequestHandler[] = [signedIn, requireCampaignRole(db, byObservation)];
-  const writer = (action: string): RequestHandler[] => [signedIn, requireCampaignRole(db, byObservation, members, action)];
-  const lead = (action: string): RequestHandler[] => [signedIn, requireCampaignRole(db, byObservation, ['lead'], action)];
   const id = (req: { params: Record<string, unknown> }) => req.params.id as string;
   const actor = (req: Parameters<RequestHandler>[0]) => ({ userId: accessOf(req).userId, role: accessOf(req).role });
 
-  r.get('/dives/:diveId/observations', ...diveMember, (req, res) => {
-    const { retired, ...query } = req.query;
-    if (retired === 'only' && accessOf(req).role !== 'lead') throw forbidden('Only a campaign lead sees retired entries.');
-    res.json(listObservations(db, req.params.diveId as string, query, { retired: retired === 'only' }));
+  /**
+   * The permission table's rules that depend on the entry (its author, who named it), checked
+   * before the body is read so that a refused caller learns nothing from a 400.
+   */
+  const entryRule =
+    (action: Action): RequestHandler =>
+    (req, _res, next) => {
+      const row = getObservationRow(db, id(req));
+      if (!row) throw notFound();
+      const { role, userId } = accessOf(req);
+      const isIdentifier =
+        action === 'identification.verify' &&
+        db.select({ by: identifications.identifiedBy }).from(identifications).where(eq(identifications.observationId, row.id)).get()?.by ===
+          userId;
+      assertCan(role, action, { isAuthor: row.authorId === userId, isIdentifier });
+      next();
+    };
+  const onEntry = (action: Action): RequestHandler[] => [signedIn, requirePermission(db, byObservation, action), entryRule(action)];
+  const reader: RequestHandler[] = [signedIn, requirePermission(db, byObservation, 'campaign.read')];
+
+  const listQuery = validate(observationListQuerySchema, 'query');
+  const newEntry = validate(observationCreateSchema);
+  const edit = validate(observationUpdateSchema);
+  const identification = validate(identificationInputSchema);
+  const verification = validate(verificationInputSchema);
+  const find = validate(findInputSchema);
+  const custody = validate(custodyInputSchema);
+
+  r.get('/dives/:diveId/observations', signedIn, requirePermission(db, byDive, 'campaign.read'), listQuery, (req, res) => {
+    const query = listQuery.of(req);
+    if (query.retired === 'only') assertCan(accessOf(req).role, 'entry.seeRetired');
+    res.json(listObservations(db, req.params.diveId as string, query));
   });
 
-  r.post('/dives/:diveId/observations', ...diveLogger, (req, res) => {
+  r.post('/dives/:diveId/observations', signedIn, requirePermission(db, byDive, 'entry.create'), newEntry, (req, res) => {
     const { campaignId, userId } = accessOf(req);
     const { observation, repeated } = createObservation(
       db,
       live,
       { diveId: req.params.diveId as string, campaignId, authorId: userId },
-      req.body,
+      newEntry.of(req),
     );
     // A repeated send of the same entry answers 200 with the entry that was stored the first time.
     res
@@ -55,17 +90,17 @@ export function observationRoutes({ db, auth, live }: AppContext): Router {
     res.json(observation);
   });
 
-  r.patch('/observations/:id', ...writer('edit entries'), (req, res) => {
-    updateObservation(db, live, id(req), actor(req), req.body);
+  r.patch('/observations/:id', ...onEntry('entry.edit'), edit, (req, res) => {
+    updateObservation(db, live, id(req), actor(req), edit.of(req));
     res.json(getObservationDetail(db, id(req)));
   });
 
-  r.delete('/observations/:id', ...writer('retire entries'), (req, res) => {
+  r.delete('/observations/:id', ...onEntry('entry.retire'), (req, res) => {
     retireObservation(db, live, id(req), actor(req));
     res.json(getObservationDetail(db, id(req)));
   });
 
-  r.post('/observations/:id/restore', ...lead('restore retired entries'), (req, res) => {
+  r.post('/observations/:id/restore', ...onEntry('entry.restore'), (req, res) => {
     restoreObservation(db, live, id(req), actor(req));
     res.json(getObservationDetail(db, id(req)));
   });
@@ -74,20 +109,20 @@ export function observationRoutes({ db, auth, live }: AppContext): Router {
     res.json(listRevisions(db, id(req)));
   });
 
-  r.put('/observations/:id/identification', ...writer('propose identifications'), (req, res) => {
-    res.json(setIdentification(db, live, id(req), actor(req), req.body));
+  r.put('/observations/:id/identification', ...onEntry('identification.propose'), identification, (req, res) => {
+    res.json(setIdentification(db, live, id(req), actor(req), identification.of(req)));
   });
 
-  r.post('/observations/:id/identification/verify', ...writer('verify identifications'), (req, res) => {
-    res.json(verifyIdentification(db, live, id(req), actor(req), req.body));
+  r.post('/observations/:id/identification/verify', ...onEntry('identification.verify'), verification, (req, res) => {
+    res.json(verifyIdentification(db, live, id(req), actor(req), verification.of(req)));
   });
 
-  r.put('/observations/:id/find', ...writer('record finds'), (req, res) => {
-    res.json(setFind(db, live, id(req), actor(req), req.body));
+  r.put('/observations/:id/find', ...onEntry('find.edit'), find, (req, res) => {
+    res.json(setFind(db, live, id(req), actor(req), find.of(req)));
   });
 
-  r.post('/observations/:id/custody', ...writer('record custody'), (req, res) => {
-    res.status(201).json(addCustody(db, live, id(req), actor(req), req.body));
+  r.post('/observations/:id/custody', ...onEntry('custody.record'), custody, (req, res) => {
+    res.status(201).json(addCustody(db, live, id(req), actor(req), custody.of(req)));
   });
 
   return r;

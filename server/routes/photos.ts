@@ -2,11 +2,11 @@ import { eq } from 'drizzle-orm';
 import { Router, type RequestHandler } from 'express';
 
 import { photos } from '../../db/schema';
-import { photoFileQuerySchema } from '../../lib/schemas';
+import { photoFileQuerySchema, photoUpdateSchema } from '../../lib/schemas';
+import { validate } from '../middleware/validate';
 import type { AppContext } from '../context';
 import { accessOf, byDive, byObservation, requireCampaignRole, type CampaignResolver } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
-import { getObservation } from '../services/observations';
 import { readPhotoUpload, sendPhotoFile, uploadedFiles } from '../services/photo-http';
 import { localFolderStorage } from '../services/photo-storage';
 import { galleryOf, photoFile, photoRow, requirePhotoEditor, retirePhoto, updatePhoto, uploadPhotos } from '../services/photos';
@@ -22,14 +22,7 @@ export function photoRoutes({ db, auth, env, live }: AppContext): Router {
   const storage = localFolderStorage(env.UPLOADS_DIR);
   const signedIn = requireSession(auth);
   const photoMember: RequestHandler[] = [signedIn, requireCampaignRole(db, byPhoto)];
-
-  // Tell the dive's readers that an entry's photos changed (added, captioned, moved, retired), so
-  // counts, strips and galleries refresh. Called once the change is committed. It lives here
-  // rather than in the photo service because observations.ts already imports that service.
-  const announce = (observationId: string) => {
-    const observation = getObservation(db, observationId);
-    if (observation) live.publish(observation.campaignId, observation.diveId, 'observation.updated', observation);
-  };
+  const photoChange = validate(photoUpdateSchema);
 
   // Who may upload is settled before the body is read, so a refused caller never sends megabytes.
   const mayUpload: RequestHandler = (req, _res, next) => {
@@ -44,8 +37,7 @@ export function photoRoutes({ db, auth, env, live }: AppContext): Router {
   r.post('/observations/:id/photos', signedIn, requireCampaignRole(db, byObservation), mayUpload, readPhotoUpload, async (req, res) => {
     const { campaignId, userId } = accessOf(req);
     const observationId = req.params.id as string;
-    const result = await uploadPhotos(db, storage, { observationId, campaignId, userId }, uploadedFiles(req), req.body);
-    if (result.created > 0) announce(observationId);
+    const result = await uploadPhotos(db, live, storage, { observationId, campaignId, userId }, uploadedFiles(req), req.body);
     const { created, ...body } = result;
     if (created === 1 && result.photos.length === 1) res.location(`/api/photos/${result.photos[0]!.id}`);
     res.status(created > 0 ? 201 : 200).json(body);
@@ -61,15 +53,12 @@ export function photoRoutes({ db, auth, env, live }: AppContext): Router {
     await sendPhotoFile(req, res, storage, photoId, size, photoFile(db, photoId, size));
   });
 
-  r.patch('/photos/:photoId', ...photoMember, mayEditPhoto, (req, res) => {
-    const photo = updatePhoto(db, req.params.photoId as string, req.body);
-    announce(photo.observationId);
-    res.json(photo);
+  r.patch('/photos/:photoId', ...photoMember, mayEditPhoto, photoChange, (req, res) => {
+    res.json(updatePhoto(db, live, req.params.photoId as string, photoChange.of(req)));
   });
 
   r.delete('/photos/:photoId', ...photoMember, mayEditPhoto, (req, res) => {
-    const retired = retirePhoto(db, req.params.photoId as string);
-    announce(retired.observationId);
+    retirePhoto(db, live, req.params.photoId as string);
     res.status(204).end();
   });
 

@@ -1,9 +1,11 @@
 import { and, asc, count, eq, inArray, sql } from 'drizzle-orm';
 
-import type { Db } from '../../db/client';
+import type { Db, Executor } from '../../db/client';
 import { dives, observations } from '../../db/schema';
 import { FRAME_RATES } from '../../lib/timecode';
-import { diveCreateSchema, diveUpdateSchema, phaseInputSchema, type Dive, type DivePhase } from '../../lib/schemas';
+import type { z } from 'zod';
+
+import type { diveCreateSchema, diveUpdateSchema, phaseInputSchema, Dive, DivePhase } from '../../lib/schemas';
 import { conflict, fieldError, notFound } from '../errors';
 import type { LiveHub } from './live';
 import { restampDive } from './telemetry-stamp';
@@ -35,7 +37,7 @@ export function toDive(row: DiveRow, observationCount: number): Dive {
   };
 }
 
-function observationCounts(db: Db, diveIds: string[]) {
+function observationCounts(db: Executor, diveIds: string[]) {
   if (diveIds.length === 0) return new Map<string, number>();
   const rows = db
     .select({ id: observations.diveId, n: count() })
@@ -55,66 +57,72 @@ export function listDives(db: Db, campaignId: string): Dive[] {
   return rows.map((r) => toDive(r, counts.get(r.id) ?? 0));
 }
 
-export function getDive(db: Db, diveId: string): Dive | undefined {
+export function getDive(db: Executor, diveId: string): Dive | undefined {
   const row = db.select().from(dives).where(eq(dives.id, diveId)).get();
   return row ? toDive(row, observationCounts(db, [row.id]).get(row.id) ?? 0) : undefined;
 }
 
-export function createDive(db: Db, live: LiveHub, campaignId: string, body: unknown): Dive {
-  const input = diveCreateSchema.parse(body);
+export type DiveCreateInput = z.output<typeof diveCreateSchema>;
+export type DiveUpdateInput = z.output<typeof diveUpdateSchema>;
+export type PhaseInput = z.output<typeof phaseInputSchema>;
+
+export function createDive(db: Db, live: LiveHub, campaignId: string, input: DiveCreateInput): Dive {
   const clash = db
     .select({ id: dives.id })
     .from(dives)
     .where(and(eq(dives.campaignId, campaignId), eq(dives.number, input.number)))
     .get();
   if (clash) throw conflict('duplicate_dive_number', `This campaign already has a dive ${input.number}.`);
-  const row = db
-    .insert(dives)
-    .values({
-      campaignId,
-      number: input.number,
-      objectives: input.objectives,
-      plannedMaxDepth: input.plannedMaxDepth ?? null,
-      plannedStartAt: input.plannedStartAt ? new Date(input.plannedStartAt) : null,
-    })
-    .returning()
-    .get();
-  const dive = toDive(row, 0);
-  live.publish(campaignId, dive.id, 'dive.updated', dive);
-  return dive;
+  return live.withEvents((tx, stage) => {
+    const row = tx
+      .insert(dives)
+      .values({
+        campaignId,
+        number: input.number,
+        objectives: input.objectives,
+        plannedMaxDepth: input.plannedMaxDepth ?? null,
+        plannedStartAt: input.plannedStartAt ? new Date(input.plannedStartAt) : null,
+      })
+      .returning()
+      .get();
+    const dive = toDive(row, 0);
+    stage(campaignId, dive.id, 'dive.updated', dive);
+    return dive;
+  });
 }
 
-export function updateDive(db: Db, live: LiveHub, diveId: string, body: unknown): Dive {
-  const input = diveUpdateSchema.parse(body);
+export function updateDive(db: Db, live: LiveHub, diveId: string, input: DiveUpdateInput): Dive {
   if (input.frameRate != null && !(input.frameRate in FRAME_RATES)) {
     throw fieldError('frameRate', `One of ${Object.keys(FRAME_RATES).join(', ')}`, 'Unknown frame rate.');
   }
   const date = (v: string | null | undefined) => (v === undefined ? undefined : v === null ? null : new Date(v));
-  const row = db
-    .update(dives)
-    .set({
-      ...(input.objectives !== undefined ? { objectives: input.objectives } : {}),
-      ...(input.plannedMaxDepth !== undefined ? { plannedMaxDepth: input.plannedMaxDepth } : {}),
-      ...(input.plannedStartAt !== undefined ? { plannedStartAt: date(input.plannedStartAt) } : {}),
-      ...(input.recordingStartAt !== undefined ? { recordingStartAt: date(input.recordingStartAt) } : {}),
-      ...(input.frameRate !== undefined ? { frameRate: input.frameRate } : {}),
-      ...(input.telemetryGapS !== undefined ? { telemetryGapS: input.telemetryGapS } : {}),
-      version: sql`${dives.version} + 1`,
-      updatedAt: new Date(),
-    })
-    .where(and(eq(dives.id, diveId), eq(dives.version, input.version)))
-    .returning()
-    .get();
-  if (!row) {
-    const current = db.select({ v: dives.version }).from(dives).where(eq(dives.id, diveId)).get();
-    if (!current) throw notFound();
-    throw conflict('stale_version', `This dive was changed by someone else (it is at version ${current.v}). Nothing was overwritten.`);
-  }
-  // A new gap threshold changes which entries fall in a gap of the log.
-  if (input.telemetryGapS !== undefined) restampDive(db, live, diveId);
-  const dive = getDive(db, diveId)!;
-  live.publish(dive.campaignId, dive.id, 'dive.updated', dive);
-  return dive;
+  return live.withEvents((tx, stage) => {
+    const row = tx
+      .update(dives)
+      .set({
+        ...(input.objectives !== undefined ? { objectives: input.objectives } : {}),
+        ...(input.plannedMaxDepth !== undefined ? { plannedMaxDepth: input.plannedMaxDepth } : {}),
+        ...(input.plannedStartAt !== undefined ? { plannedStartAt: date(input.plannedStartAt) } : {}),
+        ...(input.recordingStartAt !== undefined ? { recordingStartAt: date(input.recordingStartAt) } : {}),
+        ...(input.frameRate !== undefined ? { frameRate: input.frameRate } : {}),
+        ...(input.telemetryGapS !== undefined ? { telemetryGapS: input.telemetryGapS } : {}),
+        version: sql`${dives.version} + 1`,
+        updatedAt: new Date(),
+      })
+      .where(and(eq(dives.id, diveId), eq(dives.version, input.version)))
+      .returning()
+      .get();
+    if (!row) {
+      const current = db.select({ v: dives.version }).from(dives).where(eq(dives.id, diveId)).get();
+      if (!current) throw notFound();
+      throw conflict('stale_version', `This dive was changed by someone else (it is at version ${current.v}). Nothing was overwritten.`);
+    }
+    // A new gap threshold changes which entries fall in a gap of the log.
+    if (input.telemetryGapS !== undefined) restampDive(db, live, diveId);
+    const dive = getDive(tx, diveId)!;
+    stage(dive.campaignId, dive.id, 'dive.updated', dive);
+    return dive;
+  });
 }
 
 const phaseColumn: Record<DivePhase, 'launchAt' | 'onBottomAt' | 'offBottomAt' | 'onDeckAt'> = {
@@ -126,8 +134,7 @@ const phaseColumn: Record<DivePhase, 'launchAt' | 'onBottomAt' | 'offBottomAt' |
 const order: DivePhase[] = ['launch', 'on-bottom', 'off-bottom', 'on-deck'];
 
 /** Marks a dive phase (now, or at a given time). Phases must follow each other in time. */
-export function setPhase(db: Db, live: LiveHub, diveId: string, body: unknown, now = new Date()): Dive {
-  const input = phaseInputSchema.parse(body);
+export function setPhase(db: Db, live: LiveHub, diveId: string, input: PhaseInput, now = new Date()): Dive {
   const at = input.at === null ? null : input.at ? new Date(input.at) : now;
   const row = db.select().from(dives).where(eq(dives.id, diveId)).get();
   if (!row) throw notFound();
@@ -145,11 +152,13 @@ export function setPhase(db: Db, live: LiveHub, diveId: string, body: unknown, n
       }
     }
   }
-  db.update(dives)
-    .set({ [phaseColumn[input.phase]]: at, version: sql`${dives.version} + 1`, updatedAt: now })
-    .where(eq(dives.id, diveId))
-    .run();
-  const dive = getDive(db, diveId)!;
-  live.publish(dive.campaignId, dive.id, 'dive.updated', dive);
-  return dive;
+  return live.withEvents((tx, stage) => {
+    tx.update(dives)
+      .set({ [phaseColumn[input.phase]]: at, version: sql`${dives.version} + 1`, updatedAt: now })
+      .where(eq(dives.id, diveId))
+      .run();
+    const dive = getDive(tx, diveId)!;
+    stage(dive.campaignId, dive.id, 'dive.updated', dive);
+    return dive;
+  });
 }

@@ -3,7 +3,7 @@ import { EventEmitter } from 'node:events';
 import type { Db, Executor } from '../../db/client';
 import { liveEvents } from '../../db/schema';
 
-export type LiveEventType = 'observation.created' | 'observation.updated' | 'observation.retired' | 'dive.updated';
+export type LiveEventType = 'observation.created' | 'observation.updated' | 'observation.retired' | 'observation.restored' | 'dive.updated';
 
 export type LiveEvent = {
   id: number;
@@ -15,6 +15,9 @@ export type LiveEvent = {
   /** The event as one Server-Sent Events frame, written once however many readers there are. */
   frame: string;
 };
+
+/** Records one event inside the change's transaction (see `LiveHub.withEvents`). */
+export type StageEvent = (campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at?: Date) => LiveEvent;
 
 export const sseFrame = (id: number, type: string, payload: unknown) => `id: ${id}\nevent: ${type}\ndata: ${JSON.stringify(payload)}\n\n`;
 
@@ -30,23 +33,43 @@ export class LiveHub {
     this.emitter.setMaxListeners(0);
   }
 
-  publish(campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at = new Date()): LiveEvent {
-    const event = this.stage(this.db, campaignId, diveId, type, payload, at);
-    this.emit(event);
-    return event;
-  }
+  /** Events staged by the transaction in progress, told to readers once it commits. */
+  private staged: LiveEvent[] | null = null;
 
   /**
-   * Records an event inside the caller's transaction, so the change and its event are one commit
-   * (one disk flush). The caller hands it to `emit` once that transaction has committed, so no
-   * reader ever hears of a change that did not happen.
+   * Runs a change and the live events it causes as one transaction: `stage` writes each event to
+   * `live_events` inside it, so the change and its replay are one commit, and the readers are
+   * told only after that commit. A change that throws rolls back with its events, and no reader
+   * ever hears of it. Called inside another `withEvents`, it joins the outer transaction and its
+   * events wait for the outer commit.
    */
-  stage(db: Executor, campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at = new Date()): LiveEvent {
+  withEvents<T>(work: (tx: Executor, stage: StageEvent) => T): T {
+    const outer = this.staged;
+    const mine: LiveEvent[] = [];
+    this.staged = mine;
+    let result: T;
+    try {
+      result = this.db.transaction((tx) =>
+        work(tx, (campaignId, diveId, type, payload, at = new Date()) => {
+          const event = this.write(tx, campaignId, diveId, type, payload, at);
+          mine.push(event);
+          return event;
+        }),
+      );
+    } finally {
+      this.staged = outer;
+    }
+    if (outer) outer.push(...mine);
+    else for (const event of mine) this.emit(event);
+    return result;
+  }
+
+  private write(db: Executor, campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at: Date): LiveEvent {
     const row = db.insert(liveEvents).values({ campaignId, diveId, type, payload, at }).returning({ id: liveEvents.id }).get();
     return { id: row.id, campaignId, diveId, type, payload, at, frame: sseFrame(row.id, type, payload) };
   }
 
-  emit(event: LiveEvent): void {
+  private emit(event: LiveEvent): void {
     this.emitter.emit(`dive:${event.diveId}`, event);
     this.emitter.emit('any', event);
   }

@@ -2,11 +2,13 @@ import { createHash } from 'node:crypto';
 
 import { and, asc, count, eq, inArray, max, sql } from 'drizzle-orm';
 
-import type { Db } from '../../db/client';
+import type { z } from 'zod';
+
+import type { Db, Executor } from '../../db/client';
 import { campaigns, observations, observationTags, photos, tags, user } from '../../db/schema';
 import {
   galleryQuerySchema,
-  photoUpdateSchema,
+  type photoUpdateSchema,
   photoUploadFieldsSchema,
   type GalleryPage,
   type Photo,
@@ -15,6 +17,8 @@ import {
 } from '../../lib/schemas';
 import { fieldError, forbidden, notFound } from '../errors';
 import type { CampaignAccess } from '../middleware/campaign-access';
+import type { LiveHub, StageEvent } from './live';
+import { getObservation } from './observations/hydrate';
 import { processPhoto, type ProcessedPhoto } from './photo-processing';
 import { newPhotoKey, type PhotoStorage } from './photo-storage';
 
@@ -74,6 +78,17 @@ export function requirePhotoEditor(db: Db, access: CampaignAccess, observationId
   return entry;
 }
 
+/**
+ * Tells the dive's readers, inside the change's transaction, that an entry's photos changed
+ * (added, captioned, moved, retired), so counts, strips and galleries refresh.
+ */
+function stagePhotosChanged(tx: Executor, stage: StageEvent, observationId: string) {
+  const observation = getObservation(tx, observationId);
+  if (observation) stage(observation.campaignId, observation.diveId, 'observation.updated', observation);
+}
+
+export type PhotoUpdateInput = z.output<typeof photoUpdateSchema>;
+
 /* ---- upload ---- */
 
 export type UploadedFile = { buffer: Buffer; originalname: string };
@@ -90,6 +105,7 @@ type Prepared = { sha: string; name: string; processed: ProcessedPhoto };
  */
 export async function uploadPhotos(
   db: Db,
+  live: LiveHub,
   storage: PhotoStorage,
   target: { observationId: string; campaignId: string; userId: string },
   files: UploadedFile[],
@@ -148,7 +164,7 @@ export async function uploadPhotos(
         written.push(p.keys[size]);
       }
     }
-    inserted = db.transaction((tx) => {
+    inserted = live.withEvents((tx, stage) => {
       const top = tx
         .select({ n: max(photos.position) })
         .from(photos)
@@ -156,7 +172,7 @@ export async function uploadPhotos(
         .get()?.n;
       let position = top === null || top === undefined ? 0 : top + 1;
       const now = new Date();
-      return keyed.map((p) =>
+      const rows = keyed.map((p) =>
         tx
           .insert(photos)
           .values({
@@ -183,6 +199,8 @@ export async function uploadPhotos(
           .returning()
           .get(),
       );
+      if (rows.length > 0) stagePhotosChanged(tx, stage, target.observationId);
+      return rows;
     });
   } catch (err) {
     await Promise.all(written.map((key) => storage.delete(key).catch(() => undefined)));
@@ -213,10 +231,9 @@ function livePhoto(db: Db, photoId: string): PhotoRow {
 }
 
 /** Caption, credit, or a new place in the entry's order (the others close up around it). */
-export function updatePhoto(db: Db, photoId: string, body: unknown): Photo {
-  const input = photoUpdateSchema.parse(body);
+export function updatePhoto(db: Db, live: LiveHub, photoId: string, input: PhotoUpdateInput): Photo {
   const row = livePhoto(db, photoId);
-  db.transaction((tx) => {
+  live.withEvents((tx, stage) => {
     const text: Partial<PhotoRow> = {};
     if (input.caption !== undefined) text.caption = input.caption || null;
     if (input.credit !== undefined) text.credit = input.credit || null;
@@ -233,14 +250,18 @@ export function updatePhoto(db: Db, photoId: string, body: unknown): Photo {
       order.splice(Math.min(input.position, order.length), 0, photoId);
       order.forEach((id, position) => tx.update(photos).set({ position }).where(eq(photos.id, id)).run());
     }
+    stagePhotosChanged(tx, stage, row.observationId);
   });
   return toPhoto(photoRow(db, photoId)!);
 }
 
 /** Retires a photo: hidden everywhere, its files kept (nothing is hard-deleted). */
-export function retirePhoto(db: Db, photoId: string): PhotoRow {
+export function retirePhoto(db: Db, live: LiveHub, photoId: string): PhotoRow {
   const row = livePhoto(db, photoId);
-  db.update(photos).set({ retired: true }).where(eq(photos.id, photoId)).run();
+  live.withEvents((tx, stage) => {
+    tx.update(photos).set({ retired: true }).where(eq(photos.id, photoId)).run();
+    stagePhotosChanged(tx, stage, row.observationId);
+  });
   return row;
 }
 

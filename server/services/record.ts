@@ -2,17 +2,24 @@ import { and, eq, sql } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../db/client';
 import { campaigns, custodyEvents, finds, identifications, observationTags, tags } from '../../db/schema';
+import type { z } from 'zod';
+
 import {
-  custodyInputSchema,
   SAMPLE_TAG,
-  findInputSchema,
-  identificationInputSchema,
-  verificationInputSchema,
+  type custodyInputSchema,
+  type findInputSchema,
+  type identificationInputSchema,
   type ObservationDetail,
+  type verificationInputSchema,
 } from '../../lib/schemas';
-import { conflict, fieldError, forbidden, notFound } from '../errors';
-import type { LiveHub } from './live';
+import { conflict, fieldError, notFound } from '../errors';
+import type { LiveHub, StageEvent } from './live';
 import { assertCurrent, getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
+
+export type IdentificationInput = z.output<typeof identificationInputSchema>;
+export type VerificationInput = z.output<typeof verificationInputSchema>;
+export type FindInput = z.output<typeof findInputSchema>;
+export type CustodyInput = z.output<typeof custodyInputSchema>;
 
 function loadLive(db: Executor, id: string) {
   const row = getObservationRow(db, id);
@@ -21,11 +28,19 @@ function loadLive(db: Executor, id: string) {
   return row;
 }
 
-function announce(db: Db, live: LiveHub, id: string): ObservationDetail {
-  const detail = getObservationDetail(db, id)!;
-  const { photos: _photos, identificationDetail: _identification, find: _find, custody: _custody, ...observation } = detail;
-  live.publish(observation.campaignId, observation.diveId, 'observation.updated', observation);
-  return detail;
+/**
+ * Runs a change to what hangs off an entry (identification, find, custody) with its
+ * `observation.updated` event in one transaction, and answers the entry's detail as it now stands.
+ * Who may do it is settled before (the routes check the permission table).
+ */
+function changeEntry(db: Db, live: LiveHub, id: string, work: (tx: Executor) => void): ObservationDetail {
+  return live.withEvents((tx, stage: StageEvent) => {
+    work(tx);
+    const detail = getObservationDetail(tx, id)!;
+    const { photos: _photos, identificationDetail: _identification, find: _find, custody: _custody, ...observation } = detail;
+    stage(observation.campaignId, observation.diveId, 'observation.updated', observation);
+    return detail;
+  });
 }
 
 /**
@@ -33,13 +48,9 @@ function announce(db: Db, live: LiveHub, id: string): ObservationDetail {
  * on any entry, others on their own; a new name starts unverified again. The body carries the
  * entry's version, so two people naming the same entry at once cannot overwrite each other.
  */
-export function setIdentification(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
-  db.transaction((tx) => {
+export function setIdentification(db: Db, live: LiveHub, id: string, actor: Actor, input: IdentificationInput): ObservationDetail {
+  return changeEntry(db, live, id, (tx) => {
     const row = loadLive(tx, id);
-    if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
-      throw forbidden('Scientists, leads and the entry’s author may propose an identification.');
-    }
-    const input = identificationInputSchema.parse(body);
     assertCurrent(row, input.version);
     if (row.kind !== 'biology')
       throw fieldError('kind', 'Change the entry to biology first', 'Only biology entries carry an identification.');
@@ -63,7 +74,6 @@ export function setIdentification(db: Db, live: LiveHub, id: string, actor: Acto
       .run();
     recordChange(tx, id, actor.userId, 'updated');
   });
-  return announce(db, live, id);
 }
 
 /**
@@ -72,17 +82,10 @@ export function setIdentification(db: Db, live: LiveHub, id: string, actor: Acto
  * "others'" identifications; the issue: "a lead or a scientist other than the author"). The body
  * carries the entry's version, so a name changed since the verifier looked is not verified.
  */
-export function verifyIdentification(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
-  db.transaction((tx) => {
+export function verifyIdentification(db: Db, live: LiveHub, id: string, actor: Actor, input: VerificationInput): ObservationDetail {
+  return changeEntry(db, live, id, (tx) => {
     const row = loadLive(tx, id);
-    if (actor.role !== 'lead' && actor.role !== 'scientist') {
-      throw forbidden('Only scientists and leads verify identifications.');
-    }
     const ident = tx.select().from(identifications).where(eq(identifications.observationId, id)).get();
-    if (ident?.identifiedBy === actor.userId || row.authorId === actor.userId) {
-      throw forbidden('Another scientist or a lead must verify this: you proposed the name or wrote the entry.');
-    }
-    const input = verificationInputSchema.parse(body);
     assertCurrent(row, input.version);
     if (!ident) throw conflict('no_identification', 'There is no identification to verify yet.');
     tx.update(identifications)
@@ -91,7 +94,6 @@ export function verifyIdentification(db: Db, live: LiveHub, id: string, actor: A
       .run();
     recordChange(tx, id, actor.userId, 'updated');
   });
-  return announce(db, live, id);
 }
 
 /** Campaign initials and the two-digit year: "Varn Shoal 2026" → "VS26". */
@@ -138,13 +140,9 @@ export function nextFindNumber(db: Executor, campaignId: string): string {
  * Records or corrects an archaeology entry's find; a number already used in the campaign is a
  * 409, and so is a stale version (the body carries the entry's version, as an edit does).
  */
-export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
-  db.transaction((tx) => {
+export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, input: FindInput): ObservationDetail {
+  return changeEntry(db, live, id, (tx) => {
     const row = loadLive(tx, id);
-    if (actor.role !== 'lead' && actor.role !== 'scientist' && row.authorId !== actor.userId) {
-      throw forbidden('Scientists, leads and the entry’s author may record a find.');
-    }
-    const input = findInputSchema.parse(body);
     assertCurrent(row, input.version);
     if (row.kind !== 'archaeology')
       throw fieldError('kind', 'Change the entry to archaeology first', 'Only archaeology entries carry a find.');
@@ -174,7 +172,6 @@ export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: u
       .run();
     recordChange(tx, id, actor.userId, 'updated');
   });
-  return announce(db, live, id);
 }
 
 /**
@@ -182,11 +179,9 @@ export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, body: u
  * The trail is append-only: a correction is a new step. It takes no version: a step overwrites
  * nothing and leaves the entry's version alone, so two hand-overs recorded at once both stay.
  */
-export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, body: unknown): ObservationDetail {
-  db.transaction((tx) => {
-    const row = loadLive(tx, id);
-    if (actor.role === 'guest' && row.authorId !== actor.userId) throw forbidden('Guests record custody only on their own entries.');
-    const input = custodyInputSchema.parse(body);
+export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, input: CustodyInput): ObservationDetail {
+  return changeEntry(db, live, id, (tx) => {
+    loadLive(tx, id);
     const find = tx.select({ state: finds.state }).from(finds).where(eq(finds.observationId, id)).get();
     const isSample = tx
       .select({ n: sql<number>`count(*)` })
@@ -211,5 +206,4 @@ export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, body
       })
       .run();
   });
-  return announce(db, live, id);
 }

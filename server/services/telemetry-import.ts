@@ -553,7 +553,7 @@ export async function importTelemetryLog(db: Db, live: LiveHub, req: ImportReque
       importedAt: importedAt.toISOString(),
     };
 
-    const stamped = db.transaction(() => {
+    live.withEvents((tx, stage) => {
       if (fields.mode === 'replace') db.$client.prepare('delete from telemetry_samples where dive_id = ?').run(req.diveId);
       insertColumns(db, req.diveId, columns);
       const result = stampDiveObservations(db, req.diveId, log.series, facts.gapMs);
@@ -573,10 +573,9 @@ export async function importTelemetryLog(db: Db, live: LiveHub, req: ImportReque
           importedAt,
         })
         .run();
-      return result;
+      announceStamped(tx, stage, facts.campaignId, req.diveId, result.changed);
     });
     rememberLog(db, req.diveId, log);
-    announceStamped(db, live, facts.campaignId, req.diveId, stamped.changed);
     return report;
   });
 }

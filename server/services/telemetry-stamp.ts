@@ -3,8 +3,8 @@
  * entries changed. Kept apart from telemetry.ts because the announcement needs the observation
  * service, which itself asks telemetry.ts for values.
  */
-import type { Db } from '../../db/client';
-import type { LiveHub } from './live';
+import type { Db, Executor } from '../../db/client';
+import type { LiveHub, StageEvent } from './live';
 import { observationsByIds } from './observations';
 import { diveFacts, stampDiveObservations, type StampResult } from './telemetry';
 import { logOf } from './telemetry-series';
@@ -12,17 +12,23 @@ import { logOf } from './telemetry-series';
 /** Entries read back per query when announcing; far below SQLite's limit on parameters. */
 const ANNOUNCE_BATCH = 500;
 
-/** Announces re-stamped entries as `observation.updated`, one event each, written in one transaction. */
-export function announceStamped(db: Db, live: LiveHub, campaignId: string, diveId: string, changed: StampResult['changed']): void {
+/**
+ * Stages re-stamped entries as `observation.updated`, one event each, inside the transaction that
+ * re-stamped them (see `LiveHub.withEvents`).
+ */
+export function announceStamped(
+  tx: Executor,
+  stage: StageEvent,
+  campaignId: string,
+  diveId: string,
+  changed: StampResult['changed'],
+): void {
   const visible = changed.filter((c) => !c.retired).map((c) => c.id);
-  if (visible.length === 0) return;
-  db.transaction(() => {
-    for (let i = 0; i < visible.length; i += ANNOUNCE_BATCH) {
-      for (const observation of observationsByIds(db, visible.slice(i, i + ANNOUNCE_BATCH))) {
-        live.publish(campaignId, diveId, 'observation.updated', observation);
-      }
+  for (let i = 0; i < visible.length; i += ANNOUNCE_BATCH) {
+    for (const observation of observationsByIds(tx, visible.slice(i, i + ANNOUNCE_BATCH))) {
+      stage(campaignId, diveId, 'observation.updated', observation);
     }
-  });
+  }
 }
 
 /**
@@ -32,7 +38,9 @@ export function announceStamped(db: Db, live: LiveHub, campaignId: string, diveI
 export function restampDive(db: Db, live: LiveHub, diveId: string): { updated: number; noTelemetry: number } {
   const facts = diveFacts(db, diveId);
   const { series } = logOf(db, diveId);
-  const result = db.transaction(() => stampDiveObservations(db, diveId, series, facts.gapMs));
-  announceStamped(db, live, facts.campaignId, diveId, result.changed);
-  return { updated: result.changed.length, noTelemetry: result.noTelemetry };
+  return live.withEvents((tx, stage) => {
+    const result = stampDiveObservations(db, diveId, series, facts.gapMs);
+    announceStamped(tx, stage, facts.campaignId, diveId, result.changed);
+    return { updated: result.changed.length, noTelemetry: result.noTelemetry };
+  });
 }

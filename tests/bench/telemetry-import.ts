@@ -125,14 +125,18 @@ export async function benchTelemetryImport(): Promise<void> {
       }
     })();
     const { series } = logOf(db, dive);
-    let began = performance.now();
+    // Stamping and its announcement are one transaction, as in the import itself.
+    const began = performance.now();
     const stampCpu = process.cpuUsage();
-    const stamped = db.transaction(() => stampDiveObservations(db, dive, series, facts.gapMs));
-    const stampMs = performance.now() - began;
+    let stampMs = 0;
+    const stamped = t.ctx.live.withEvents((tx, stage) => {
+      const result = stampDiveObservations(db, dive, series, facts.gapMs);
+      stampMs = performance.now() - began;
+      announceStamped(tx, stage, ids.campaign2026, dive, result.changed);
+      return result;
+    });
+    const announceMs = performance.now() - began - stampMs;
     const stampCpuMs = cpuMs(process.cpuUsage(stampCpu));
-    began = performance.now();
-    announceStamped(db, t.ctx.live, ids.campaign2026, dive, stamped.changed);
-    const announceMs = performance.now() - began;
 
     process.stdout.write(
       [
@@ -143,7 +147,7 @@ export async function benchTelemetryImport(): Promise<void> {
         `  bare insert  ${(bareMs / 1000).toFixed(2)} s for the same rows (better-sqlite3 loop, one transaction)   import/bare ${(imported.ms / bareMs).toFixed(1)}x`,
         `stamping 10,000 entries from that log`,
         `  stamp        ${stampMs.toFixed(0)} ms for ${stamped.changed.length} changed entries   (target <= 100 ms; CPU ${stampCpuMs.toFixed(0)} ms)`,
-        `  announce     ${announceMs.toFixed(0)} ms to publish their observation.updated events`,
+        `  announce     ${announceMs.toFixed(0)} ms more to stage and send their observation.updated events`,
         '',
       ].join('\n'),
     );

@@ -1,0 +1,32 @@
+import type { Db } from '../../../db/client';
+import { telemetryValuesAt } from '../telemetry';
+
+type Typed = { depth?: number | null; lat?: number | null; lon?: number | null; temperature?: number | null };
+
+/**
+ * The depth, position and temperature an entry takes: what the person typed is `manual`;
+ * what they left empty comes from the telemetry log at that instant, when the log has a value.
+ */
+export function stampValues(db: Db, diveId: string, at: Date, typed: Typed) {
+  const fromLog =
+    typed.depth == null || typed.lat == null || typed.temperature == null ? telemetryValuesAt(db, diveId, at.getTime()) : null;
+  const pick = (manual: number | null | undefined, logged: number | null | undefined) =>
+    manual != null
+      ? { value: manual, source: 'manual' as const }
+      : logged != null
+        ? { value: logged, source: 'telemetry' as const }
+        : { value: null, source: null };
+  const depth = pick(typed.depth, fromLog?.depth);
+  const hasPosition = typed.lat != null && typed.lon != null;
+  const loggedPosition = fromLog?.lat != null && fromLog.lon != null;
+  const temperature = pick(typed.temperature, fromLog?.temperature);
+  return {
+    depth: depth.value,
+    depthSource: depth.source,
+    lat: hasPosition ? typed.lat! : loggedPosition ? fromLog.lat : null,
+    lon: hasPosition ? typed.lon! : loggedPosition ? fromLog.lon : null,
+    positionSource: hasPosition ? ('manual' as const) : loggedPosition ? ('telemetry' as const) : null,
+    temperature: temperature.value,
+    temperatureSource: temperature.source,
+  };
+}
