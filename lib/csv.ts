@@ -86,6 +86,19 @@ function field(value: unknown): string {
 }
 
 /**
+ * One CSV record (without its line end) of the given values, for files written a row at a time.
+ * The same rules as {@link toCsv}.
+ */
+export function csvRecord(values: readonly unknown[]): string {
+  const text = values.map(field).join(',');
+  // A lone empty field would be an empty line, which many readers skip.
+  return text === '' && values.length === 1 ? '""' : text;
+}
+
+export const CSV_LINE_END = LINE_END;
+export const CSV_BOM = BOM;
+
+/**
  * CSV text with a header record and one record per row, every record ending
  * in CRLF. Missing, null and undefined values give empty fields; numbers are
  * plain decimals (non-finite ones give empty fields); Dates are ISO 8601 in
@@ -97,11 +110,7 @@ export function toCsv(
   options: CsvOptions = {},
 ): string {
   const normalised: CsvColumn[] = columns.map((column) => (typeof column === 'string' ? { key: column, header: column } : column));
-  const record = (values: unknown[]): string => {
-    const text = values.map(field).join(',');
-    // A lone empty field would be an empty line, which many readers skip.
-    return text === '' && values.length === 1 ? '""' : text;
-  };
+  const record = csvRecord;
   const records = [
     record(normalised.map((column) => column.header)),
     ...rows.map((row) => record(normalised.map((column) => row[column.key]))),
