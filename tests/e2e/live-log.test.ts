@@ -34,7 +34,23 @@ async function logEntry(page: Page, title: string, time?: string) {
 async function scrollLogDown(page: Page) {
   await page.getByTestId('dive-log').first().hover();
   for (let i = 0; i < 4; i++) await page.mouse.wheel(0, 600);
-  await page.waitForTimeout(300);
+  // Settled: the list stands still away from the top across two reads (the app hears of the
+  // position through the list's throttled scroll events, at most 100 ms apart).
+  const offset = () =>
+    page.evaluate(() =>
+      Math.max(...Array.from(document.querySelectorAll('[data-testid="dive-log"], [data-testid="dive-log"] *')).map((e) => e.scrollTop)),
+    );
+  let last = -1;
+  await expect
+    .poll(
+      async () => {
+        const [before, now] = [last, await offset()];
+        last = now;
+        return now > 0 && now === before;
+      },
+      { interval: 150, timeout: 5000 },
+    )
+    .toBe(true);
 }
 
 describe.each([
@@ -276,14 +292,28 @@ describe('logging fast and over a failing link', () => {
       await page.getByTestId('pending-entries').getByText('Written by the biologist, not sent yet').waitFor();
       await page.getByTestId('new-observation').click();
       await page.getByTestId('field-title').fill('Half-typed by the biologist');
-      await page.waitForTimeout(600); // the draft is kept 300 ms after the last key
+      // The draft is kept a moment after the last key: wait until it is in the browser's storage.
+      await page.waitForFunction((text) => Object.values(localStorage).some((v) => v.includes(text)), 'Half-typed by the biologist');
       await signOut();
       await page.unroute('**/api/dives/*/observations');
 
       // The archaeologist signs in on the same screen, with the link back.
       await signIn(page, 'archaeologist@bathynote.test');
       await openDive(page, 'VS-02');
-      await page.waitForTimeout(1500); // long enough for the outbox to have sent anything it would send
+      expect(await page.getByTestId('pending-entries').count()).toBe(0);
+      await page.getByTestId('new-observation').click();
+      expect(await page.getByTestId('field-title').inputValue()).toBe('');
+      // An entry of the archaeologist's own, queued behind the biologist's: the send queue goes
+      // through its entries oldest first, so once this one has arrived the biologist's has been
+      // passed over, not merely not reached yet.
+      await posts('**/api/dives/*/observations');
+      await page.getByTestId('field-kind-biology').click();
+      await page.getByTestId('field-title').fill('Queued by the archaeologist');
+      await page.getByTestId('save-observation').click();
+      await page.getByTestId('pending-entries').getByText('Queued by the archaeologist').waitFor();
+      await page.unroute('**/api/dives/*/observations');
+      await page.evaluate(() => window.dispatchEvent(new Event('online')));
+      await page.getByTestId('dive-log').locator('[data-testid^="observation-"]').getByText('Queued by the archaeologist').waitFor();
       expect(await page.getByTestId('pending-entries').count()).toBe(0);
       const titles = await page.evaluate(
         async (diveUrl) => {
@@ -292,9 +322,8 @@ describe('logging fast and over a failing link', () => {
         },
         `/api/dives/${/\/dives\/([^/?#]+)/.exec(page.url())![1]}`,
       );
+      expect(titles).toContain('Queued by the archaeologist');
       expect(titles).not.toContain('Written by the biologist, not sent yet');
-      await page.getByTestId('new-observation').click();
-      expect(await page.getByTestId('field-title').inputValue()).toBe('');
       await signOut();
 
       // Back with its author, it is waiting, and goes out in her name.
@@ -315,6 +344,12 @@ describe('a member taken off the campaign while following a dive', () => {
   it('sees the live log stop ("Not live") rather than reconnect for ever', async () => {
     const [guest, lead] = await Promise.all([openBrowser(viewports.phone), openBrowser(viewports.phone)]);
     try {
+      // The guest's page runs on a clock the test can move on, to see what it would do later.
+      await guest.page.clock.install();
+      const streamsOpened: string[] = [];
+      guest.page.on('request', (r) => {
+        if (r.url().includes('/stream')) streamsOpened.push(r.url());
+      });
       await Promise.all([signIn(guest.page, 'guest@bathynote.test'), signIn(lead.page, 'lead@bathynote.test')]);
       await openDive(guest.page, 'VS-01');
       const diveId = /\/dives\/([^/?#]+)/.exec(guest.page.url())![1]!;
@@ -327,8 +362,15 @@ describe('a member taken off the campaign while following a dive', () => {
       }, diveId);
       expect(removed).toBeLessThan(300);
       await guest.page.getByTestId('live-status-offline').waitFor({ timeout: 15_000 });
-      // And it stays so: no attempt every few seconds against a dive the guest may no longer see.
-      await guest.page.waitForTimeout(5000);
+      // And it stays so: an hour of the page's timers later (past every retry delay, at most a
+      // minute), no attempt against a dive the guest may no longer see.
+      const opened = streamsOpened.length;
+      await guest.page.clock.runFor('01:00:00');
+      // A request sent after the timers ran is seen after any they sent: then the count is final.
+      const marker = guest.page.waitForRequest((r) => r.url().endsWith('/api/health'));
+      await guest.page.evaluate(() => void fetch('/api/health'));
+      await marker;
+      expect(streamsOpened.length).toBe(opened);
       expect(await guest.page.getByTestId('live-status-offline').count()).toBe(1);
     } finally {
       await Promise.all([guest.close(), lead.close()]);

@@ -79,9 +79,13 @@ describe('a note typed with script in it, in the browser', () => {
       await note.fill(`${marker}\n\n${vector.payload}`);
       await preview.getByText(marker).waitFor();
       for (const f of await dangerIn(page, 'note-preview')) findings.push(`${vector.technique}: ${f}`);
+      // What a payload could set off comes from its images failing or loading: wait until every
+      // image of the preview has done one or the other, and a task queued after those events ran.
+      await page.waitForFunction(() =>
+        Array.from(document.querySelectorAll('[data-testid="note-preview"] img')).every((i) => (i as HTMLImageElement).complete),
+      );
+      await page.evaluate(() => new Promise((resolve) => setTimeout(resolve, 0)));
     }
-    // A moment for anything scheduled by a payload (an image's error, a timer) to fire.
-    await page.waitForTimeout(1000);
     expect(findings).toEqual([]);
     expect(await page.evaluate(() => (window as unknown as { __ran: unknown[] }).__ran)).toEqual([]);
     expect(browser.errors).toEqual([]);

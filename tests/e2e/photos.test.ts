@@ -152,19 +152,19 @@ describe('photos on an entry', () => {
 
       await page.keyboard.press('ArrowRight');
       await expect.poll(() => viewer.getByTestId('viewer-counter').textContent()).toBe('2 / 2');
+      // At the last photo ArrowRight does nothing. The click after it is handled after it, so once
+      // the click has shown its effect the counter says what the key did.
       await page.keyboard.press('ArrowRight');
-      expect(await viewer.getByTestId('viewer-counter').textContent()).toBe('2 / 2');
-      await page.keyboard.press('ArrowLeft');
-      await expect.poll(() => viewer.getByTestId('viewer-counter').textContent()).toBe('1 / 2');
 
       // On a thin link: thumbnails only, until the reader asks for the full image.
       await viewer.getByTestId('viewer-thumbnails-only').click();
       await viewer.getByTestId('viewer-load-full').waitFor();
+      expect(await viewer.getByTestId('viewer-counter').textContent()).toBe('2 / 2');
       expect(await viewer.getByTestId('viewer-display').count()).toBe(0);
       const thumbSrc = await viewer.getByTestId('viewer-thumb').getAttribute('src');
       expect(thumbSrc).toMatch(/size=thumb$/);
-      await page.keyboard.press('ArrowRight');
-      await expect.poll(() => viewer.getByTestId('viewer-counter').textContent()).toBe('2 / 2');
+      await page.keyboard.press('ArrowLeft');
+      await expect.poll(() => viewer.getByTestId('viewer-counter').textContent()).toBe('1 / 2');
       expect(await viewer.getByTestId('viewer-display').count()).toBe(0);
       await viewer.getByTestId('viewer-load-full').click();
       await viewer.getByTestId('viewer-display').waitFor({ state: 'attached' });
