@@ -4,6 +4,8 @@
  */
 import { z } from 'zod';
 
+import { observationFilterQuerySchema } from './core';
+
 /** Licences a lead may publish the campaign's data under (Creative Commons identifiers as SPDX spells them). */
 export const exportLicences = ['CC0-1.0', 'CC-BY-4.0', 'CC-BY-NC-4.0'] as const;
 export type ExportLicence = (typeof exportLicences)[number];
@@ -43,3 +45,16 @@ export const exportSummarySchema = z.object({
   cards: z.array(exportCardSchema),
 });
 export type ExportSummary = z.infer<typeof exportSummarySchema>;
+
+/**
+ * The CSV of a list takes the dive log's filters and order, and optionally one dive (without it,
+ * the whole campaign).
+ */
+export const exportCsvQuerySchema = observationFilterQuerySchema
+  .extend({
+    diveId: z.string().min(1).max(100).optional(),
+    sort: z.enum(['time', 'depth', 'kind', 'author']).default('time'),
+    order: z.enum(['asc', 'desc']).optional(),
+  })
+  .strict();
+export type ExportCsvQuery = z.infer<typeof exportCsvQuerySchema>;
