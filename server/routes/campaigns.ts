@@ -1,9 +1,11 @@
 import { Router, type RequestHandler } from 'express';
 
+import { quickMarkInputSchema, tagCreateSchema, tagUpdateSchema } from '../../lib/schemas';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { accessOf, byCampaign, requireCampaignRole, type CampaignResolver } from '../middleware/campaign-access';
 import { requireSession, userOf } from '../middleware/session';
+import { validate } from '../middleware/validate';
 import { getCampaign, listCampaigns, listMembers, listTags, me } from '../services/campaigns';
 import { listDives } from '../services/dives';
 import { nextFindNumber } from '../services/record';
@@ -54,27 +56,31 @@ export function campaignRoutes({ db, auth }: AppContext): Router {
     signedIn,
     requireCampaignRole(db, resolve, ['lead'], action),
   ];
+  const newTag = validate(tagCreateSchema);
+  const tagChange = validate(tagUpdateSchema);
+  const newQuickMark = validate(quickMarkInputSchema);
+  const quickMarkChange = validate(quickMarkInputSchema.partial());
   const byTag: CampaignResolver = (d, req) => tagCampaign(d, req.params.tagId as string);
   const byQuickMark: CampaignResolver = (d, req) => quickMarkCampaign(d, req.params.quickMarkId as string);
 
-  r.post('/campaigns/:campaignId/tags', ...lead(byCampaign, 'change the tag vocabulary'), (req, res) => {
-    res.status(201).json(createTag(db, accessOf(req).campaignId, accessOf(req).userId, req.body));
+  r.post('/campaigns/:campaignId/tags', ...lead(byCampaign, 'change the tag vocabulary'), newTag, (req, res) => {
+    res.status(201).json(createTag(db, accessOf(req).campaignId, accessOf(req).userId, newTag.of(req)));
   });
 
-  r.patch('/tags/:tagId', ...lead(byTag, 'change the tag vocabulary'), (req, res) => {
-    res.json(updateTag(db, req.params.tagId as string, accessOf(req).userId, req.body));
+  r.patch('/tags/:tagId', ...lead(byTag, 'change the tag vocabulary'), tagChange, (req, res) => {
+    res.json(updateTag(db, req.params.tagId as string, accessOf(req).userId, tagChange.of(req)));
   });
 
   r.get('/campaigns/:campaignId/quick-marks', ...member, (req, res) => {
     res.json(listQuickMarks(db, accessOf(req).campaignId));
   });
 
-  r.post('/campaigns/:campaignId/quick-marks', ...lead(byCampaign, 'define quick marks'), (req, res) => {
-    res.status(201).json(createQuickMark(db, accessOf(req).campaignId, req.body));
+  r.post('/campaigns/:campaignId/quick-marks', ...lead(byCampaign, 'define quick marks'), newQuickMark, (req, res) => {
+    res.status(201).json(createQuickMark(db, accessOf(req).campaignId, newQuickMark.of(req)));
   });
 
-  r.patch('/quick-marks/:quickMarkId', ...lead(byQuickMark, 'define quick marks'), (req, res) => {
-    res.json(updateQuickMark(db, req.params.quickMarkId as string, req.body));
+  r.patch('/quick-marks/:quickMarkId', ...lead(byQuickMark, 'define quick marks'), quickMarkChange, (req, res) => {
+    res.json(updateQuickMark(db, req.params.quickMarkId as string, quickMarkChange.of(req)));
   });
 
   r.delete('/quick-marks/:quickMarkId', ...lead(byQuickMark, 'define quick marks'), (req, res) => {

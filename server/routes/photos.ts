@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import { Router, type RequestHandler } from 'express';
 
 import { photos } from '../../db/schema';
-import { photoFileQuerySchema, photoUpdateSchema } from '../../lib/schemas';
+import { galleryQuerySchema, photoFileQuerySchema, photoUpdateSchema, photoUploadFieldsSchema } from '../../lib/schemas';
 import { validate } from '../middleware/validate';
 import type { AppContext } from '../context';
 import { accessOf, byDive, byObservation, requireCampaignRole, type CampaignResolver } from '../middleware/campaign-access';
@@ -23,6 +23,8 @@ export function photoRoutes({ db, auth, env, live }: AppContext): Router {
   const signedIn = requireSession(auth);
   const photoMember: RequestHandler[] = [signedIn, requireCampaignRole(db, byPhoto)];
   const photoChange = validate(photoUpdateSchema);
+  const galleryQuery = validate(galleryQuerySchema, 'query');
+  const uploadFields = validate(photoUploadFieldsSchema);
 
   // Who may upload is settled before the body is read, so a refused caller never sends megabytes.
   const mayUpload: RequestHandler = (req, _res, next) => {
@@ -34,17 +36,25 @@ export function photoRoutes({ db, auth, env, live }: AppContext): Router {
     next();
   };
 
-  r.post('/observations/:id/photos', signedIn, requireCampaignRole(db, byObservation), mayUpload, readPhotoUpload, async (req, res) => {
-    const { campaignId, userId } = accessOf(req);
-    const observationId = req.params.id as string;
-    const result = await uploadPhotos(db, live, storage, { observationId, campaignId, userId }, uploadedFiles(req), req.body);
-    const { created, ...body } = result;
-    if (created === 1 && result.photos.length === 1) res.location(`/api/photos/${result.photos[0]!.id}`);
-    res.status(created > 0 ? 201 : 200).json(body);
-  });
+  r.post(
+    '/observations/:id/photos',
+    signedIn,
+    requireCampaignRole(db, byObservation),
+    mayUpload,
+    readPhotoUpload,
+    uploadFields,
+    async (req, res) => {
+      const { campaignId, userId } = accessOf(req);
+      const observationId = req.params.id as string;
+      const result = await uploadPhotos(db, live, storage, { observationId, campaignId, userId }, uploadedFiles(req), uploadFields.of(req));
+      const { created, ...body } = result;
+      if (created === 1 && result.photos.length === 1) res.location(`/api/photos/${result.photos[0]!.id}`);
+      res.status(created > 0 ? 201 : 200).json(body);
+    },
+  );
 
-  r.get('/dives/:diveId/photos', signedIn, requireCampaignRole(db, byDive), (req, res) => {
-    res.json(galleryOf(db, req.params.diveId as string, req.query));
+  r.get('/dives/:diveId/photos', signedIn, requireCampaignRole(db, byDive), galleryQuery, (req, res) => {
+    res.json(galleryOf(db, req.params.diveId as string, galleryQuery.of(req)));
   });
 
   r.get('/photos/:photoId', ...photoMember, async (req, res) => {

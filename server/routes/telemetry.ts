@@ -1,9 +1,11 @@
 import { Router, type RequestHandler } from 'express';
 
+import { telemetryAtQuerySchema, telemetryQuerySchema } from '../../lib/schemas';
 import type { AppContext } from '../context';
 import { fieldError } from '../errors';
 import { accessOf, byDive, requireCampaignRole } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
+import { validate } from '../middleware/validate';
 import { diveSummary, telemetryAt, telemetrySamples } from '../services/telemetry';
 import { importTelemetryLog } from '../services/telemetry-import';
 import { discardUpload, receiveLog } from '../services/telemetry-upload';
@@ -13,6 +15,8 @@ export function telemetryRoutes({ db, auth, live }: AppContext): Router {
   const r = Router();
   const signedIn = requireSession(auth);
   const member: RequestHandler[] = [signedIn, requireCampaignRole(db, byDive)];
+  const samplesQuery = validate(telemetryQuerySchema, 'query');
+  const atQuery = validate(telemetryAtQuerySchema, 'query');
   const importer: RequestHandler[] = [signedIn, requireCampaignRole(db, byDive, ['lead', 'pilot'], 'import telemetry logs')];
 
   r.post('/dives/:diveId/telemetry', ...importer, receiveLog, async (req, res) => {
@@ -33,12 +37,12 @@ export function telemetryRoutes({ db, auth, live }: AppContext): Router {
     }
   });
 
-  r.get('/dives/:diveId/telemetry', ...member, (req, res) => {
-    res.json(telemetrySamples(db, req.params.diveId as string, req.query));
+  r.get('/dives/:diveId/telemetry', ...member, samplesQuery, (req, res) => {
+    res.json(telemetrySamples(db, req.params.diveId as string, samplesQuery.of(req)));
   });
 
-  r.get('/dives/:diveId/at', ...member, (req, res) => {
-    res.json(telemetryAt(db, req.params.diveId as string, req.query));
+  r.get('/dives/:diveId/at', ...member, atQuery, (req, res) => {
+    res.json(telemetryAt(db, req.params.diveId as string, atQuery.of(req)));
   });
 
   r.get('/dives/:diveId/summary', ...member, (req, res) => {

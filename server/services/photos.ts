@@ -1,15 +1,15 @@
 import { createHash } from 'node:crypto';
 
-import { and, asc, count, eq, inArray, max, sql } from 'drizzle-orm';
+import { and, asc, count, eq, inArray, max } from 'drizzle-orm';
 
 import type { z } from 'zod';
 
 import type { Db, Executor } from '../../db/client';
-import { campaigns, observations, observationTags, photos, tags, user } from '../../db/schema';
+import { campaigns, observations, photos, user } from '../../db/schema';
 import {
-  galleryQuerySchema,
+  type galleryQuerySchema,
   type photoUpdateSchema,
-  photoUploadFieldsSchema,
+  type photoUploadFieldsSchema,
   type GalleryPage,
   type Photo,
   type PhotoSize,
@@ -18,7 +18,8 @@ import {
 import { fieldError, forbidden, notFound } from '../errors';
 import type { CampaignAccess } from '../middleware/campaign-access';
 import type { LiveHub, StageEvent } from './live';
-import { getObservation } from './observations/hydrate';
+import { observationFilters } from './observations/filters';
+import { getObservation, tagsOf } from './observations/hydrate';
 import { processPhoto, type ProcessedPhoto } from './photo-processing';
 import { newPhotoKey, type PhotoStorage } from './photo-storage';
 
@@ -109,12 +110,11 @@ export async function uploadPhotos(
   storage: PhotoStorage,
   target: { observationId: string; campaignId: string; userId: string },
   files: UploadedFile[],
-  rawFields: unknown,
+  fields: z.output<typeof photoUploadFieldsSchema>,
 ): Promise<PhotoUploadResult & { created: number }> {
   if (files.length === 0) {
     throw fieldError('photo', 'No file was sent', 'Attach at least one photo in the field "photo".');
   }
-  const fields = photoUploadFieldsSchema.parse(rawFields ?? {});
   const campaign = db.select({ keep: campaigns.keepPhotoPositions }).from(campaigns).where(eq(campaigns.id, target.campaignId)).get();
   const keepPositions = campaign?.keep ?? false;
 
@@ -291,18 +291,12 @@ const decodeCursor = (cursor: string | undefined): number => {
 };
 
 /** A dive's photos in the order of its entries (oldest first), then each entry's own order. */
-export function galleryOf(db: Db, diveId: string, rawQuery: unknown): GalleryPage {
-  const q = galleryQuerySchema.parse(rawQuery);
+export function galleryOf(db: Db, diveId: string, q: z.output<typeof galleryQuerySchema>): GalleryPage {
   const offset = decodeCursor(q.cursor);
-  const conditions = [eq(observations.diveId, diveId), eq(observations.retired, false), eq(photos.retired, false)];
-  if (q.kind) conditions.push(eq(observations.kind, q.kind));
-  if (q.tag) {
-    conditions.push(
-      sql`exists (select 1 from ${observationTags} ot join ${tags} t on t.id = ot.tag_id
-        where ot.observation_id = ${observations.id} and lower(t.name) = lower(${q.tag}))`,
-    );
-  }
-  const where = and(...conditions);
+  const where = and(
+    ...observationFilters({ diveId, ...(q.kind ? { kinds: [q.kind] } : {}), ...(q.tag ? { tags: [q.tag] } : {}) }),
+    eq(photos.retired, false),
+  );
   const total = db
     .select({ n: count() })
     .from(photos)
@@ -319,19 +313,7 @@ export function galleryOf(db: Db, diveId: string, rawQuery: unknown): GalleryPag
     .limit(q.limit)
     .offset(offset)
     .all();
-  const entryIds = [...new Set(rows.map((r) => r.entry.id))];
-  const tagRows =
-    entryIds.length === 0
-      ? []
-      : db
-          .select({ observationId: observationTags.observationId, name: tags.name })
-          .from(observationTags)
-          .innerJoin(tags, eq(tags.id, observationTags.tagId))
-          .where(inArray(observationTags.observationId, entryIds))
-          .orderBy(tags.name)
-          .all();
-  const tagsBy = new Map<string, string[]>();
-  for (const t of tagRows) tagsBy.set(t.observationId, [...(tagsBy.get(t.observationId) ?? []), t.name]);
+  const tagsBy = tagsOf(db, [...new Set(rows.map((r) => r.entry.id))]);
   const next = offset + rows.length;
   return {
     items: rows.map((r) => ({

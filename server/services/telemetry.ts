@@ -1,14 +1,15 @@
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, desc, eq } from 'drizzle-orm';
+import type { z } from 'zod';
 
 import type { Db } from '../../db/client';
-import { campaigns, dives, finds, observations, observationTags, tags, telemetryImports, user } from '../../db/schema';
+import { campaigns, dives, observations, telemetryImports, user } from '../../db/schema';
 import { diveStats } from '../../lib/dive-stats';
 import { lttbIndices } from '../../lib/downsample';
 import { toLocalEN, type LatLon } from '../../lib/geodesy';
 import { buildTelemetrySeries, sampleAt, type TelemetryRow, type TelemetrySeries } from '../../lib/interpolate';
 import {
-  telemetryAtQuerySchema,
-  telemetryQuerySchema,
+  type telemetryAtQuerySchema,
+  type telemetryQuerySchema,
   type DiveSummary,
   type NoTelemetryReason,
   type TelemetryAt,
@@ -17,6 +18,7 @@ import {
   type TelemetrySpan,
 } from '../../lib/schemas';
 import { notFound } from '../errors';
+import { findNumbersOf, tagsOf } from './observations/hydrate';
 import { cachedLog, logOf, STORED_CHANNELS } from './telemetry-series';
 
 export type TelemetryValues = { depth: number | null; lat: number | null; lon: number | null; temperature: number | null };
@@ -107,8 +109,7 @@ export function telemetryValuesAt(db: Db, diveId: string, atMs: number): Telemet
 }
 
 /** `GET /api/dives/:diveId/at`: the log's values at an instant, or why there are none. */
-export function telemetryAt(db: Db, diveId: string, rawQuery: unknown): TelemetryAt {
-  const { t } = telemetryAtQuerySchema.parse(rawQuery);
+export function telemetryAt(db: Db, diveId: string, { t }: z.output<typeof telemetryAtQuerySchema>): TelemetryAt {
   const atMs = new Date(t).getTime();
   const values = telemetryValuesAt(db, diveId, atMs);
   let noTelemetry: NoTelemetryReason | null = null;
@@ -169,8 +170,7 @@ export function importHistory(db: Db, diveId: string): TelemetryImportSummary[] 
 }
 
 /** `GET /api/dives/:diveId/telemetry`: the log thinned for the depth profile and the site plan. */
-export function telemetrySamples(db: Db, diveId: string, rawQuery: unknown): TelemetrySamples {
-  const { points: wanted } = telemetryQuerySchema.parse(rawQuery);
+export function telemetrySamples(db: Db, diveId: string, { points: wanted }: z.output<typeof telemetryQuerySchema>): TelemetrySamples {
   const facts = diveFacts(db, diveId);
   const { series, times } = logOf(db, diveId);
   const { depth, temperature } = series.scalars;
@@ -234,25 +234,8 @@ export function diveSummary(db: Db, diveId: string): DiveSummary {
     .orderBy(asc(observations.observedAt), asc(observations.id))
     .all();
   const ids = rows.map((r) => r.id);
-  const tagsBy = new Map<string, string[]>();
-  const findBy = new Map<string, string>();
-  if (ids.length > 0) {
-    for (const t of db
-      .select({ id: observationTags.observationId, name: tags.name })
-      .from(observationTags)
-      .innerJoin(tags, eq(tags.id, observationTags.tagId))
-      .where(inArray(observationTags.observationId, ids))
-      .all()) {
-      tagsBy.set(t.id, [...(tagsBy.get(t.id) ?? []), t.name]);
-    }
-    for (const f of db
-      .select({ id: finds.observationId, number: finds.findNumber })
-      .from(finds)
-      .where(inArray(finds.observationId, ids))
-      .all()) {
-      findBy.set(f.id, f.number);
-    }
-  }
+  const tagsBy = tagsOf(db, ids);
+  const findBy = findNumbersOf(db, ids);
 
   const stats = diveStats(
     facts.phases,

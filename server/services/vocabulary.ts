@@ -2,7 +2,20 @@ import { and, asc, count, eq, ne, sql } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../db/client';
 import { observations, observationTags, quickMarks, tags } from '../../db/schema';
-import { quickMarkInputSchema, SAMPLE_TAG, tagCreateSchema, tagUpdateSchema, type QuickMark, type Tag } from '../../lib/schemas';
+import type { z } from 'zod';
+
+import {
+  SAMPLE_TAG,
+  type quickMarkInputSchema,
+  type QuickMark,
+  type Tag,
+  type tagCreateSchema,
+  type tagUpdateSchema,
+} from '../../lib/schemas';
+
+export type TagCreateInput = z.output<typeof tagCreateSchema>;
+export type TagUpdateInput = z.output<typeof tagUpdateSchema>;
+export type QuickMarkInput = z.output<typeof quickMarkInputSchema>;
 import { conflict, fieldError, notFound } from '../errors';
 import { audit } from './audit';
 
@@ -44,8 +57,7 @@ function retagQuickMarks(tx: Executor, campaignId: string, from: string, to: str
 
 const toTag = (db: Executor, t: typeof tags.$inferSelect): Tag => ({ id: t.id, name: t.name, retired: t.retired, usage: usage(db, t.id) });
 
-export function createTag(db: Db, campaignId: string, actorId: string, body: unknown): Tag {
-  const { name } = tagCreateSchema.parse(body);
+export function createTag(db: Db, campaignId: string, actorId: string, { name }: TagCreateInput): Tag {
   const existing = tagByName(db, campaignId, name);
   if (existing) throw conflict('duplicate_tag', `The vocabulary already has "${existing.name}".`);
   const row = db.insert(tags).values({ campaignId, name }).returning().get();
@@ -57,8 +69,7 @@ export function createTag(db: Db, campaignId: string, actorId: string, body: unk
  * Renames, retires or merges a tag. A merge moves every entry of this tag to the other one and
  * retires this one, so nothing that was tagged loses its tag.
  */
-export function updateTag(db: Db, tagId: string, actorId: string, body: unknown): Tag {
-  const input = tagUpdateSchema.parse(body);
+export function updateTag(db: Db, tagId: string, actorId: string, input: TagUpdateInput): Tag {
   return db.transaction((tx) => {
     const tag = tx.select().from(tags).where(eq(tags.id, tagId)).get();
     if (!tag) throw notFound();
@@ -128,16 +139,14 @@ export function listQuickMarks(db: Db, campaignId: string): QuickMark[] {
     .map(toQuickMark);
 }
 
-export function createQuickMark(db: Db, campaignId: string, body: unknown): QuickMark {
-  const input = quickMarkInputSchema.parse(body);
+export function createQuickMark(db: Db, campaignId: string, input: QuickMarkInput): QuickMark {
   const position = input.position ?? listQuickMarks(db, campaignId).length;
   return toQuickMark(
     db.insert(quickMarks).values({ campaignId, label: input.label, kind: input.kind, tags: input.tags, position }).returning().get(),
   );
 }
 
-export function updateQuickMark(db: Db, id: string, body: unknown): QuickMark {
-  const input = quickMarkInputSchema.partial().parse(body);
+export function updateQuickMark(db: Db, id: string, input: Partial<QuickMarkInput>): QuickMark {
   const row = db
     .update(quickMarks)
     .set({ ...input })
