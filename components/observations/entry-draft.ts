@@ -142,3 +142,33 @@ export function changes(draft: Draft, base: Observation, version: number): Obser
   if (changed.includes('tags')) body.tags = result.body.tags ?? [];
   return body;
 }
+
+/** The form's fields as the merge weighs them: a position is one value, never half of each person's. */
+const mergeUnits: (keyof Draft)[][] = [['kind'], ['title'], ['time'], ['depth'], ['lat', 'lon'], ['temperature'], ['note'], ['tags']];
+
+const same = (a: Draft, b: Draft, unit: (keyof Draft)[]) => unit.every((k) => JSON.stringify(a[k]) === JSON.stringify(b[k]));
+
+/**
+ * A three-way merge of an edit with someone else's save: `base` is the entry as the edit began,
+ * `theirs` as it is now. What only one side changed is taken from that side; what both changed
+ * to different values is a clash for the editor to choose (`merged` holds theirs there until then).
+ * Without a base (a draft kept by an earlier version of the app), every difference is a clash.
+ */
+export function mergeEdit(base: Draft | undefined, theirs: Draft, mine: Draft): { merged: Draft; clashes: (keyof Draft)[] } {
+  const merged: Draft = { ...theirs };
+  const clashes: (keyof Draft)[] = [];
+  for (const unit of mergeUnits) {
+    const mineChanged = !base || !same(mine, base, unit);
+    const theirsChanged = !base || !same(theirs, base, unit);
+    if (mineChanged && !theirsChanged) for (const k of unit) Object.assign(merged, { [k]: mine[k] });
+    if (mineChanged && theirsChanged && !same(mine, theirs, unit)) clashes.push(...unit);
+  }
+  return { merged, clashes };
+}
+
+/** The merged edit once the editor has chosen each clash: their value where they chose theirs, else their own. */
+export function resolveClashes(merged: Draft, mine: Draft, clashes: (keyof Draft)[], takeTheirs: ReadonlySet<keyof Draft>): Draft {
+  const out: Draft = { ...merged };
+  for (const k of clashes) if (!takeTheirs.has(k)) Object.assign(out, { [k]: mine[k] });
+  return out;
+}

@@ -12,7 +12,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatUtc, parseUtcInput, toUtcInput } from '@/lib/format';
 import { SAMPLE_TAG, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { RecordConflict, useEditBase } from './record-conflict';
+import { ConflictSlot, useVersionedSave, VersionedSaveRow } from './record-conflict';
 
 type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
 
@@ -83,57 +83,47 @@ const stateLabel = { 'in-situ': 'in situ', recovered: 'recovered' } as const;
  * "Keep mine" saves it over theirs knowingly, "Use theirs" drops the typing.
  */
 function FindForm({ observation: o, onDone, onDiscard }: { observation: ObservationDetail; onDone: () => void; onDiscard: () => void }) {
-  const { colors } = useTheme();
   const current = o.find;
-  const { baseVersion, setBaseVersion, typing } = useEditBase(o.version);
-  // The version a refused save started from; the panel shows once the entry has been fetched again.
-  const [refusedFrom, setRefusedFrom] = useState<number | null>(null);
   const proposal = useQuery({ ...nextFindNumberQuery(o.campaignId), enabled: !current });
   const [number, setNumber] = useState(current?.findNumber ?? '');
   const [objectType, setObjectType] = useState(current?.objectType ?? '');
   const [material, setMaterial] = useState(current?.material ?? '');
   const [condition, setCondition] = useState(current?.condition ?? '');
   const [state, setState] = useState<'in-situ' | 'recovered'>(current?.state ?? 'in-situ');
-  const save = useSetFind(o.id);
   const value = number || proposal.data?.findNumber || '';
-  const issue = (path: string) => (save.error instanceof ApiError ? save.error.issues.find((i) => i.path === path)?.message : undefined);
-  const send = (version: number) => {
-    setBaseVersion(version);
-    save.mutate(
-      { version, findNumber: value, objectType: objectType || null, material: material || null, condition: condition || null, state },
-      {
-        onSuccess: onDone,
-        onError: (err) => setRefusedFrom(err instanceof ApiError && err.code === 'stale_version' ? version : null),
-      },
-    );
-  };
-  const theirs = refusedFrom !== null && o.version !== refusedFrom ? o : null;
-  const tf = theirs?.find;
+  const flow = useVersionedSave(
+    o.version,
+    useSetFind(o.id),
+    (version) => ({
+      version,
+      findNumber: value,
+      objectType: objectType || null,
+      material: material || null,
+      condition: condition || null,
+      state,
+    }),
+    onDone,
+  );
+  const { typing } = flow;
+  const tf = o.find;
   return (
     <View style={styles.form}>
-      {theirs ? (
-        <RecordConflict
-          what="find"
-          testID="find-conflict"
-          theirVersion={theirs.version}
-          baseVersion={refusedFrom ?? baseVersion}
-          busy={save.isPending}
-          onKeepMine={() => send(theirs.version)}
-          onTakeTheirs={onDiscard}
-          fields={[
-            { key: 'findNumber', label: 'Find number', theirs: tf?.findNumber ?? 'not registered', mine: value.trim() },
-            { key: 'objectType', label: 'Object type', theirs: tf?.objectType ?? '', mine: objectType.trim() },
-            { key: 'material', label: 'Material', theirs: tf?.material ?? '', mine: material.trim() },
-            { key: 'condition', label: 'Condition', theirs: tf?.condition ?? '', mine: condition.trim() },
-            { key: 'state', label: 'State', theirs: tf ? stateLabel[tf.state] : '', mine: stateLabel[state] },
-          ]}
-        />
-      ) : refusedFrom !== null ? (
-        <View style={styles.row}>
-          <Text muted>Someone else changed this entry; fetching their version…</Text>
-          <Button label="Cancel" tone="ghost" compact onPress={onDiscard} />
-        </View>
-      ) : null}
+      <ConflictSlot
+        flow={flow}
+        onDiscard={onDiscard}
+        what="find"
+        testID="find-conflict"
+        theirVersion={o.version}
+        onKeepMine={() => flow.send(o.version)}
+        onTakeTheirs={onDiscard}
+        fields={[
+          { key: 'findNumber', label: 'Find number', theirs: tf?.findNumber ?? 'not registered', mine: value.trim() },
+          { key: 'objectType', label: 'Object type', theirs: tf?.objectType ?? '', mine: objectType.trim() },
+          { key: 'material', label: 'Material', theirs: tf?.material ?? '', mine: material.trim() },
+          { key: 'condition', label: 'Condition', theirs: tf?.condition ?? '', mine: condition.trim() },
+          { key: 'state', label: 'State', theirs: tf ? stateLabel[tf.state] : '', mine: stateLabel[state] },
+        ]}
+      />
       <Field
         label="Find number"
         testID="field-find-number"
@@ -142,7 +132,7 @@ function FindForm({ observation: o, onDone, onDiscard }: { observation: Observat
         mono
         autoCapitalize="characters"
         hint={!current && proposal.data ? 'The next free number is proposed.' : undefined}
-        error={issue('findNumber')}
+        error={flow.issue('findNumber')}
       />
       <Field label="Object type" value={objectType} onChangeText={typing(setObjectType)} placeholder="amphora, bowl, timber…" />
       <Field label="Material" value={material} onChangeText={typing(setMaterial)} placeholder="ceramic, lead, wood…" />
@@ -158,17 +148,7 @@ function FindForm({ observation: o, onDone, onDiscard }: { observation: Observat
         testID="field-find-state"
       />
       {state === 'recovered' ? <RecoveryCaution /> : null}
-      {save.error instanceof ApiError && save.error.issues.length === 0 && save.error.code !== 'stale_version' ? (
-        <Text color={colors.danger} role="alert" testID="find-error">
-          {save.error.message}
-        </Text>
-      ) : null}
-      {refusedFrom === null ? (
-        <View style={styles.row}>
-          <Button label="Save find" testID="save-find" busy={save.isPending} onPress={() => send(baseVersion)} />
-          {current ? <Button label="Cancel" tone="ghost" onPress={onDone} /> : null}
-        </View>
-      ) : null}
+      <VersionedSaveRow flow={flow} label="Save find" testID="save-find" errorTestID="find-error" onCancel={current ? onDone : undefined} />
     </View>
   );
 }

@@ -11,7 +11,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatScientificName, formatUtc } from '@/lib/format';
 import { identificationConfidences, identificationQualifiers, taxonRanks, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { RecordConflict, useEditBase } from './record-conflict';
+import { ConflictSlot, useVersionedSave, VersionedSaveRow } from './record-conflict';
 
 type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
 
@@ -127,81 +127,64 @@ type FormProps = { observation: ObservationDetail; onDone: () => void; onDiscard
  * typed here: "Keep mine" saves it over theirs knowingly, "Use theirs" drops the typing.
  */
 function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
-  const { colors } = useTheme();
   const current = o.identificationDetail;
-  const { baseVersion, setBaseVersion, typing } = useEditBase(o.version);
-  // The version a refused save started from; the panel shows once the entry has been fetched again.
-  const [refusedFrom, setRefusedFrom] = useState<number | null>(null);
   const [name, setName] = useState(current?.scientificName ?? '');
   const [rank, setRank] = useState<(typeof taxonRanks)[number] | undefined>(current?.taxonRank ?? undefined);
   const [qualifier, setQualifier] = useState<(typeof identificationQualifiers)[number] | 'none'>(current?.qualifier ?? 'none');
   const [confidence, setConfidence] = useState<(typeof identificationConfidences)[number] | undefined>(current?.confidence ?? undefined);
   const [taxonId, setTaxonId] = useState(current?.taxonId ?? '');
-  const save = useSetIdentification(o.id);
-  const issue = (path: string) => (save.error instanceof ApiError ? save.error.issues.find((i) => i.path === path)?.message : undefined);
-  const send = (version: number) => {
-    setBaseVersion(version);
-    save.mutate(
-      {
-        version,
-        scientificName: name,
-        taxonRank: rank ?? null,
-        qualifier: qualifier === 'none' ? null : qualifier,
-        confidence: confidence ?? null,
-        taxonId: taxonId.trim() || null,
-      },
-      {
-        onSuccess: onDone,
-        onError: (err) => setRefusedFrom(err instanceof ApiError && err.code === 'stale_version' ? version : null),
-      },
-    );
-  };
-  const theirs = refusedFrom !== null && o.version !== refusedFrom ? o : null;
-  const ti = theirs?.identificationDetail;
+  const flow = useVersionedSave(
+    o.version,
+    useSetIdentification(o.id),
+    (version) => ({
+      version,
+      scientificName: name,
+      taxonRank: rank ?? null,
+      qualifier: qualifier === 'none' ? null : qualifier,
+      confidence: confidence ?? null,
+      taxonId: taxonId.trim() || null,
+    }),
+    onDone,
+  );
+  const { typing } = flow;
+  const ti = o.identificationDetail;
   const mineName = formatScientificName(name, qualifier === 'none' ? null : qualifier);
   const keepsVerdict = !!ti && ti.scientificName === name.trim() && ti.qualifier === (qualifier === 'none' ? null : qualifier);
   return (
     <View style={styles.form}>
-      {theirs ? (
-        <RecordConflict
-          what="identification"
-          testID="identification-conflict"
-          theirVersion={theirs.version}
-          baseVersion={refusedFrom ?? baseVersion}
-          busy={save.isPending}
-          onKeepMine={() => send(theirs.version)}
-          onTakeTheirs={onDiscard}
-          fields={[
-            {
-              key: 'name',
-              label: 'Scientific name',
-              theirs: ti ? formatScientificName(ti.scientificName, ti.qualifier) : 'no identification',
-              mine: mineName,
-            },
-            { key: 'rank', label: 'Rank', theirs: ti?.taxonRank ?? '', mine: rank ?? '' },
-            { key: 'confidence', label: 'Confidence', theirs: ti?.confidence ?? '', mine: confidence ?? '' },
-            { key: 'taxonId', label: 'Taxon identifier', theirs: ti?.taxonId ?? '', mine: taxonId.trim() },
-            {
-              key: 'verification',
-              label: 'Verification',
-              theirs: ti ? statusLabel[ti.verificationStatus] : '',
-              mine: ti && keepsVerdict ? statusLabel[ti.verificationStatus] : statusLabel.unverified,
-            },
-          ]}
-        />
-      ) : refusedFrom !== null ? (
-        <View style={styles.row}>
-          <Text muted>Someone else changed this entry; fetching their version…</Text>
-          <Button label="Cancel" tone="ghost" compact onPress={onDiscard} />
-        </View>
-      ) : null}
+      <ConflictSlot
+        flow={flow}
+        onDiscard={onDiscard}
+        what="identification"
+        testID="identification-conflict"
+        theirVersion={o.version}
+        onKeepMine={() => flow.send(o.version)}
+        onTakeTheirs={onDiscard}
+        fields={[
+          {
+            key: 'name',
+            label: 'Scientific name',
+            theirs: ti ? formatScientificName(ti.scientificName, ti.qualifier) : 'no identification',
+            mine: mineName,
+          },
+          { key: 'rank', label: 'Rank', theirs: ti?.taxonRank ?? '', mine: rank ?? '' },
+          { key: 'confidence', label: 'Confidence', theirs: ti?.confidence ?? '', mine: confidence ?? '' },
+          { key: 'taxonId', label: 'Taxon identifier', theirs: ti?.taxonId ?? '', mine: taxonId.trim() },
+          {
+            key: 'verification',
+            label: 'Verification',
+            theirs: ti ? statusLabel[ti.verificationStatus] : '',
+            mine: ti && keepsVerdict ? statusLabel[ti.verificationStatus] : statusLabel.unverified,
+          },
+        ]}
+      />
       <Field
         label="Scientific name"
         testID="field-scientific-name"
         value={name}
         onChangeText={typing(setName)}
         placeholder="e.g. Desmophyllum pertusum"
-        error={issue('scientificName')}
+        error={flow.issue('scientificName')}
         autoCapitalize="sentences"
       />
       <Segmented
@@ -224,17 +207,9 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
         placeholder="urn:lsid:… or a link"
         mono
         autoCapitalize="none"
-        error={issue('taxonId')}
+        error={flow.issue('taxonId')}
       />
-      {save.error instanceof ApiError && save.error.issues.length === 0 && save.error.code !== 'stale_version' ? (
-        <Text color={colors.danger}>{save.error.message}</Text>
-      ) : null}
-      {refusedFrom === null ? (
-        <View style={styles.row}>
-          <Button label="Save identification" testID="save-identification" busy={save.isPending} onPress={() => send(baseVersion)} />
-          {current ? <Button label="Cancel" tone="ghost" onPress={onDone} /> : null}
-        </View>
-      ) : null}
+      <VersionedSaveRow flow={flow} label="Save identification" testID="save-identification" onCancel={current ? onDone : undefined} />
     </View>
   );
 }

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
@@ -7,14 +7,17 @@ import { Text } from '@/components/ui/text';
 import { ApiError } from '@/hooks/api';
 import { useDraft } from '@/hooks/draft';
 import { useFollowDive } from '@/hooks/live';
-import { useObservation, useUpdateObservation } from '@/hooks/observations';
+import { useObservation, useRevisions, useUpdateObservation } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import type { ObservationDetail } from '@/lib/schemas';
-import { changes, differing, draftFromObservation, draftLabels, type Draft, type FormErrors } from './entry-draft';
-import { RecordConflict } from './record-conflict';
+import { changes, draftFromObservation, draftLabels, mergeEdit, resolveClashes, type Draft, type FormErrors } from './entry-draft';
+import { RecordConflict, type ConflictField, type FieldChoice } from './record-conflict';
 import { errorsFromServer, formStyles, ObservationFields } from './observation-form';
 
-type EditDraft = Draft & { baseVersion: number };
+/** The form as typed, the version the edit is based on, and the entry as it stood at that version. */
+type EditDraft = Draft & { baseVersion: number; base?: Base };
+type Base = { version: number; fields: Draft };
+const baseOf = (o: ObservationDetail): Base => ({ version: o.version, fields: draftFromObservation(o) });
 
 export function ObservationEditor({ id, onDone }: { id: string; onDone: () => void }) {
   const observation = useObservation(id);
@@ -24,23 +27,39 @@ export function ObservationEditor({ id, onDone }: { id: string; onDone: () => vo
   return <Editor key={observation.data.id} current={observation.data} refetch={() => observation.refetch()} onDone={onDone} />;
 }
 
+type EditorProps = { current: ObservationDetail; refetch: () => Promise<{ data?: ObservationDetail }>; onDone: () => void };
+
 /**
- * Editing keeps the version it started from. If someone else saved in between, the server
- * refuses with 409 and this shows both versions, field by field, to choose from: nothing is
+ * Editing keeps the entry as it stood when the edit began (`base`). When someone else saves in
+ * between (seen live, or on a save the server refused as stale), their save is merged three ways:
+ * what only they changed comes into the form, what only this editor changed stays, and only a
+ * field both changed to different values is offered as a choice, each on its own. Nothing is
  * overwritten without the editor seeing what they would overwrite.
  */
-function Editor({ current, refetch, onDone }: { current: ObservationDetail; refetch: () => Promise<unknown>; onDone: () => void }) {
+function Editor({ current, refetch, onDone }: EditorProps) {
   const { colors } = useTheme();
   const draft = useDraft<EditDraft>(`bathynote.edit.${current.id}`, () => ({
     ...draftFromObservation(current),
     baseVersion: current.version,
+    base: baseOf(current),
   }));
   const [errors, setErrors] = useState<FormErrors>({});
+  const [takeTheirs, setTakeTheirs] = useState<ReadonlySet<keyof Draft>>(new Set());
   const save = useUpdateObservation(current.id);
-  const { baseVersion, ...value } = draft.value;
+  const { baseVersion, base: kept, ...value } = draft.value;
+  // A draft kept by an earlier version of the app has no base of its own to merge from.
+  const base = kept?.version === baseVersion ? kept.fields : undefined;
+  const theirs = draftFromObservation(current);
+  const moved = current.version !== baseVersion;
+  const { merged, clashes } = moved ? mergeEdit(base, theirs, value) : { merged: value, clashes: [] as (keyof Draft)[] };
+  const asking = clashes.length > 0;
+  const revisions = useRevisions(current.id, asking);
+  const latest = revisions.data?.find((r) => r.version === current.version);
+  const update = draft.update;
 
-  const submit = (version = baseVersion, base: ObservationDetail = current) => {
-    const body = changes(value, base, version);
+  /** Saves `d`, an edit of `from` (the entry as `d` was based on it), over the version `against`. */
+  const send = (d: Draft, from: Draft | undefined, against: ObservationDetail) => {
+    const body = changes(d, against, against.version);
     if (!('version' in body)) {
       setErrors(body);
       return;
@@ -52,22 +71,57 @@ function Editor({ current, refetch, onDone }: { current: ObservationDetail; refe
         onDone();
       },
       onError: (err) => {
-        // A stale version: fetching the entry again brings the other person's version into view.
-        if (err instanceof ApiError && err.code === 'stale_version') void refetch();
-        else setErrors(errorsFromServer(err));
+        if (!(err instanceof ApiError && err.code === 'stale_version')) return setErrors(errorsFromServer(err));
+        // Someone saved first: their version is fetched and merged; with nothing to choose, the
+        // merged edit goes out again at once, otherwise the panel asks.
+        void refetch().then(({ data: fresh }) => {
+          if (!fresh || fresh.version === against.version) return;
+          const next = mergeEdit(from, draftFromObservation(fresh), d);
+          if (next.clashes.length > 0) return;
+          update({ ...next.merged, baseVersion: fresh.version, base: baseOf(fresh) });
+          send(next.merged, draftFromObservation(fresh), fresh);
+        });
       },
     });
   };
 
-  // The cached entry moves on when someone else saves (seen live or on a refused save).
-  const theirs = current.version !== baseVersion ? current : null;
-  const mine = value;
-  const theirDraft = theirs ? draftFromObservation(theirs) : null;
-  const clashes = theirDraft ? differing(mine, theirDraft) : [];
+  // A save seen live that needs no choice comes into the form, which is now based on that version.
+  useEffect(() => {
+    if (moved && !asking) update({ ...merged, baseVersion: current.version, base: baseOf(current) });
+  });
+
+  const resolve = () => {
+    const chosen = resolveClashes(merged, value, clashes, takeTheirs);
+    update({ ...chosen, baseVersion: current.version, base: baseOf(current) });
+    setTakeTheirs(new Set());
+    send(chosen, theirs, current);
+  };
+  const choose = (keys: (keyof Draft)[]) => (choice: FieldChoice) =>
+    setTakeTheirs((prev) => {
+      const next = new Set(prev);
+      for (const k of keys) {
+        if (choice === 'theirs') next.add(k);
+        else next.delete(k);
+      }
+      return next;
+    });
+  const fields: ConflictField[] = [];
+  for (const k of clashes) {
+    if (k === 'lon') continue;
+    const keys: (keyof Draft)[] = k === 'lat' ? ['lat', 'lon'] : [k];
+    fields.push({
+      key: k === 'lat' ? 'position' : k,
+      label: k === 'lat' ? 'Position' : draftLabels[k],
+      theirs: keys.map((x) => shown(theirs[x])).join(', '),
+      mine: keys.map((x) => shown(value[x])).join(', '),
+      choice: takeTheirs.has(k) ? 'theirs' : 'mine',
+      onChoose: choose(keys),
+    });
+  }
 
   return (
     <View style={formStyles.form} testID="observation-editor">
-      {draft.wasRestored && !theirs ? (
+      {draft.wasRestored && !asking ? (
         <View style={[formStyles.notice, { backgroundColor: colors.surfaceAlt }]}>
           <Text variant="caption" style={formStyles.flex}>
             Your unsaved changes were restored.
@@ -75,19 +129,20 @@ function Editor({ current, refetch, onDone }: { current: ObservationDetail; refe
           <Button label="Discard changes" tone="ghost" compact onPress={draft.clear} />
         </View>
       ) : null}
-      {theirs && theirDraft ? (
+      {asking ? (
         <RecordConflict
           what="edit"
           testID="edit-conflict"
-          theirVersion={theirs.version}
+          theirVersion={current.version}
           baseVersion={baseVersion}
+          changedBy={latest ? { name: latest.editedByName, at: latest.editedAt } : null}
           busy={save.isPending}
-          onKeepMine={() => submit(theirs.version, theirs)}
+          onKeepMine={resolve}
           onTakeTheirs={() => {
             draft.clear();
             onDone();
           }}
-          fields={clashes.map((k) => ({ key: k, label: draftLabels[k], theirs: shown(theirDraft[k]), mine: shown(mine[k]) }))}
+          fields={fields}
         />
       ) : null}
       <ObservationFields
@@ -96,14 +151,27 @@ function Editor({ current, refetch, onDone }: { current: ObservationDetail; refe
         value={value}
         update={draft.update}
         errors={errors}
-        onSubmit={() => submit()}
+        onSubmit={() => send(value, base, current)}
       />
       {save.error instanceof ApiError && save.error.issues.length === 0 && save.error.code !== 'stale_version' ? (
         <Text color={colors.danger} role="alert" testID="form-error">
           {save.error.message}
         </Text>
       ) : null}
-      {theirs ? null : <Button label="Save changes" testID="save-observation" busy={save.isPending} onPress={() => submit()} />}
+      {asking ? null : (
+        <View style={formStyles.actions}>
+          <Button label="Save changes" testID="save-observation" busy={save.isPending} onPress={() => send(value, base, current)} />
+          <Button
+            label="Cancel"
+            tone="ghost"
+            testID="cancel-edit"
+            onPress={() => {
+              draft.clear();
+              onDone();
+            }}
+          />
+        </View>
+      )}
     </View>
   );
 }

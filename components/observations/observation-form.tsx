@@ -285,6 +285,7 @@ export function NewObservationForm({ diveId, campaignId, onCreated }: NewProps) 
 
 export const formStyles = StyleSheet.create({
   form: { gap: space.lg },
+  actions: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' },
   notice: { flexDirection: 'row', alignItems: 'center', borderRadius: radius.md, paddingHorizontal: space.md },
   flex: { flex: 1 },
 });

@@ -1,6 +1,14 @@
 import { describe, expect, it } from 'vitest';
 
-import { changes, draftFromObservation, readNumber, toPayload, type Draft } from '@/components/observations/entry-draft';
+import {
+  changes,
+  draftFromObservation,
+  mergeEdit,
+  readNumber,
+  resolveClashes,
+  toPayload,
+  type Draft,
+} from '@/components/observations/entry-draft';
 import type { Observation } from '@/lib/schemas';
 
 const draft = (patch: Partial<Draft> = {}): Draft => ({
@@ -114,5 +122,41 @@ describe('an edit from the form', () => {
     const result = changes({ ...draftFromObservation(stored), time: '2026-02-30 10:00' }, stored, 3);
     expect(result).not.toHaveProperty('version');
     expect(result).toHaveProperty('observedAt');
+  });
+});
+
+describe('merging an edit with a save made meanwhile (three-way: base, theirs, mine)', () => {
+  const base = draftFromObservation({ ...stored, depthSource: 'manual' });
+
+  it('takes what only one side changed from that side, and asks nothing', () => {
+    const theirs = { ...base, depth: '530' };
+    const mine = { ...base, note: 'Pale, about 25 cm.' };
+    const { merged, clashes } = mergeEdit(base, theirs, mine);
+    expect(clashes).toEqual([]);
+    expect(merged).toEqual({ ...base, depth: '530', note: 'Pale, about 25 cm.' });
+  });
+
+  it('asks only about a field both changed to different values', () => {
+    const theirs = { ...base, title: 'Vase sponge', depth: '530' };
+    const mine = { ...base, title: 'Glass sponge', note: 'Pale.' };
+    const { merged, clashes } = mergeEdit(base, theirs, mine);
+    expect(clashes).toEqual(['title']);
+    expect(resolveClashes(merged, mine, clashes, new Set())).toEqual({ ...base, title: 'Glass sponge', depth: '530', note: 'Pale.' });
+    expect(resolveClashes(merged, mine, clashes, new Set(['title'] as const)).title).toBe('Vase sponge');
+  });
+
+  it('does not ask when both made the same change', () => {
+    const same = { ...base, tags: ['sponge', 'stern'] };
+    expect(mergeEdit(base, same, { ...same }).clashes).toEqual([]);
+  });
+
+  it('keeps a position whole: one side moving the latitude and the other the longitude is a clash, not a mix', () => {
+    const theirs = { ...base, lat: '36.2' };
+    const mine = { ...base, lon: '-7.5' };
+    expect(mergeEdit(base, theirs, mine).clashes).toEqual(['lat', 'lon']);
+  });
+
+  it('without a base, treats every difference as a clash', () => {
+    expect(mergeEdit(undefined, { ...base, depth: '530' }, { ...base, note: 'x' }).clashes).toEqual(['depth', 'note']);
   });
 });
