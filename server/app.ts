@@ -11,6 +11,7 @@ import { sameOrigin } from './middleware/same-origin';
 import { serverTiming } from './middleware/timing';
 import { campaignRoutes } from './routes/campaigns';
 import { diveRoutes } from './routes/dives';
+import { mailRoutes } from './routes/mail';
 import { observationRoutes } from './routes/observations';
 import { photoRoutes } from './routes/photos';
 import { teamRoutes } from './routes/team';
@@ -83,6 +84,7 @@ export function createApp(ctx: AppContext): Express {
     res.json({ ok: true, version: ctx.version });
   });
   app.use('/api', campaignRoutes(ctx), teamRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
+  app.use('/api', mailRoutes(ctx));
   app.use('/api', apiNotFound);
 
   app.use(...web.handlers);

@@ -8,6 +8,8 @@ import type { Env } from './env';
 import { LiveHub } from './services/live';
 import { createLogger } from './services/logger';
 import { createMailer } from './services/mail';
+import { createMailSender } from './services/mail-queue';
+import { invitationMailHandler } from './services/team';
 import { projectRoot } from '../db/root';
 
 const packageVersion = (): string => {
@@ -21,14 +23,26 @@ export async function createContext(env: Env): Promise<AppContext> {
   migrateDatabase(db);
   const log = createLogger(env.LOG_LEVEL);
   const postbox = new MagicLinkPostbox();
-  return {
+  const mailer = await createMailer(db, log, env.SMTP_URL);
+  const ctx: AppContext = {
     env,
     db,
     auth: createAuth(env, db, postbox),
     log,
     live: new LiveHub(db),
-    mailer: await createMailer(db, log, env.SMTP_URL),
+    mailer,
+    mail: createMailSender(db, mailer, log, { attempts: env.MAIL_ATTEMPTS, retryBaseMs: env.MAIL_RETRY_BASE_MS }),
     postbox,
     version: packageVersion(),
   };
+  ctx.mail.handle('invitation', invitationMailHandler(ctx));
+  ctx.mail.start();
+  return ctx;
+}
+
+/** Stops what runs in the background (the mail sender), closes the mail transport and the database. */
+export async function closeContext(ctx: AppContext): Promise<void> {
+  await ctx.mail.stop();
+  await ctx.mailer.close();
+  ctx.db.$client.close();
 }

@@ -4,6 +4,7 @@ import type { Env } from './env';
 import type { LiveHub } from './services/live';
 import type { Logger } from './services/logger';
 import type { Mailer } from './services/mail';
+import type { MailSender } from './services/mail-queue';
 
 /** Everything a request handler may need, built once at start (or per test). */
 export type AppContext = {
@@ -13,6 +14,8 @@ export type AppContext = {
   log: Logger;
   live: LiveHub;
   mailer: Mailer;
+  /** The mail queue's sender: `kick()` it after a transaction that queued mail has committed. */
+  mail: MailSender;
   postbox: MagicLinkPostbox;
   version: string;
 };

@@ -27,6 +27,10 @@ const envSchema = z.object({
   /** How often a live stream sends a keep-alive and checks that its session still stands. */
   STREAM_HEARTBEAT_MS: z.coerce.number().int().min(100).max(25_000).default(20_000),
   LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
+  /** Attempts at sending one mail before it is marked failed. */
+  MAIL_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(5),
+  /** The wait before a mail's second attempt; each later wait is four times longer (30 s, 2 min, 8 min, 32 min). */
+  MAIL_RETRY_BASE_MS: z.coerce.number().int().min(10).default(30_000),
 });
 
 export type Env = z.infer<typeof envSchema> & {

@@ -2,7 +2,7 @@ import { createServer, type RequestListener } from 'node:http';
 
 import { demoSignIns, DEMO_PASSWORD, seedDemo } from '../db/seed';
 import { createApp } from './app';
-import { createContext } from './bootstrap';
+import { closeContext, createContext } from './bootstrap';
 import { loadEnv } from './env';
 import { errorBody } from './errors';
 
@@ -47,7 +47,7 @@ async function main() {
     '',
     `  Bathynote ${ctx.version} is running at ${env.PUBLIC_URL}`,
     `  database: ${env.DATABASE_PATH}   uploads: ${env.UPLOADS_DIR}`,
-    `  mail: ${ctx.mailer.catching ? 'caught by the built-in mail catcher (site administrators read it under Admin → Outbox)' : 'sent through SMTP_URL'}`,
+    `  mail: ${ctx.mailer.catching ? 'caught by the built-in mail catcher (site administrators read it under Admin → Mail log)' : 'sent through SMTP_URL'}`,
   ];
   if (env.BATHYNOTE_DEMO) {
     lines.push('', `  Demo sign-ins (password "${DEMO_PASSWORD}" for all):`);
@@ -59,10 +59,7 @@ async function main() {
   const shutdown = (signal: string) => {
     ctx.log.info('shutting down', { signal });
     server.close(() => {
-      void ctx.mailer.close().finally(() => {
-        ctx.db.$client.close();
-        process.exit(0);
-      });
+      void closeContext(ctx).finally(() => process.exit(0));
     });
     server.closeAllConnections();
     // Connections that will not close are cut after five seconds.

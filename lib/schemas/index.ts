@@ -1,5 +1,7 @@
 /** The HTTP contract, one file per area; import from `@/lib/schemas`. */
 export * from './core';
+export * from './digests';
+export * from './mail';
 export * from './exports';
 export * from './photos';
 export * from './record';

@@ -1,8 +1,6 @@
 /** Mail the server sends (invitations, digests): the queue's states and the site administrator's mail log. */
 import { z } from 'zod';
 
-import { caughtMailSchema } from './team';
-
 /** queued: waiting for its (next) attempt; sending: being handed to the mail server; sent; failed (with the reason); cancelled: no longer wanted. */
 export const mailStates = ['queued', 'sending', 'sent', 'failed', 'cancelled'] as const;
 export type MailState = (typeof mailStates)[number];
@@ -32,6 +30,18 @@ export const mailLogItemSchema = mailStatusSchema.extend({
   createdAt: z.string(),
 });
 export type MailLogItem = z.infer<typeof mailLogItemSchema>;
+
+export const caughtMailSchema = z.object({
+  id: z.string(),
+  to: z.string(),
+  from: z.string(),
+  subject: z.string(),
+  text: z.string(),
+  html: z.string(),
+  headers: z.record(z.string(), z.string()),
+  receivedAt: z.string(),
+});
+export type CaughtMailItem = z.infer<typeof caughtMailSchema>;
 
 /** `GET /api/admin/mail`: the queue's mail newest first, with counts per state, and what the built-in catcher caught (null when mail goes out through SMTP_URL). */
 export const mailLogSchema = z.object({

@@ -1,6 +1,8 @@
 /** The campaign team: campaigns as the site administrator creates them, members and invitations. */
 import { z } from 'zod';
 
+import { mailStatusSchema } from './mail';
+
 import { exportLicences, publicPositionModes } from './exports';
 
 const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
@@ -88,19 +90,9 @@ export const invitationSchema = z.object({
   expiresAt: z.string(),
   sentAt: z.string().nullable(),
   acceptedAt: z.string().nullable(),
+  /** Where the invitation's newest mail stands (queued, sent, failed with the reason). */
+  mail: mailStatusSchema.nullable(),
 });
 export type Invitation = z.infer<typeof invitationSchema>;
 
 export const memberUpdateSchema = z.object({ role: z.enum(campaignRoles) }).strict();
-
-export const caughtMailSchema = z.object({
-  id: z.string(),
-  to: z.string(),
-  from: z.string(),
-  subject: z.string(),
-  text: z.string(),
-  html: z.string(),
-  headers: z.record(z.string(), z.string()),
-  receivedAt: z.string(),
-});
-export type CaughtMailItem = z.infer<typeof caughtMailSchema>;

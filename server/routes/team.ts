@@ -1,10 +1,8 @@
 import { fromNodeHeaders } from 'better-auth/node';
 import { Router, type RequestHandler } from 'express';
-import { z } from 'zod';
-
 import { invitationSchema } from '../../lib/schemas';
 import type { AppContext } from '../context';
-import { forbidden, notFound } from '../errors';
+import { forbidden } from '../errors';
 import { accessOf, byCampaign, requireCampaignRole, type CampaignResolver } from '../middleware/campaign-access';
 import { requireSession, userOf } from '../middleware/session';
 import { getCampaign, listMembers } from '../services/campaigns';
@@ -22,7 +20,7 @@ import {
 } from '../services/team';
 
 export function teamRoutes(ctx: AppContext): Router {
-  const { db, auth, mailer } = ctx;
+  const { db, auth } = ctx;
   const r = Router();
   const signedIn = requireSession(auth);
   const siteAdmin: RequestHandler = (req, _res, next) => {
@@ -36,12 +34,13 @@ export function teamRoutes(ctx: AppContext): Router {
   ];
   const actor = (req: Parameters<RequestHandler>[0]) => ({ id: userOf(req).id, name: userOf(req).name });
 
-  r.post('/campaigns', signedIn, siteAdmin, async (req, res) => {
-    const { campaignId, leadInvited } = await createCampaign(ctx, actor(req), req.body);
+  // The lead's invitation mail is queued with the campaign: `leadInvitation.mail` says where it is.
+  r.post('/campaigns', signedIn, siteAdmin, (req, res) => {
+    const { campaignId, leadInvitation } = createCampaign(ctx, actor(req), req.body);
     res
       .status(201)
       .location(`/api/campaigns/${campaignId}`)
-      .json({ ...getCampaign(db, campaignId, 'admin')!, leadInvited });
+      .json({ ...getCampaign(db, campaignId, 'admin')!, leadInvited: !!leadInvitation, leadInvitation });
   });
 
   r.patch('/campaigns/:campaignId', ...lead(byCampaign, 'change the campaign'), (req, res) => {
@@ -54,13 +53,14 @@ export function teamRoutes(ctx: AppContext): Router {
     res.json(listInvitations(ctx, accessOf(req).campaignId));
   });
 
-  r.post('/campaigns/:campaignId/invitations', ...lead(byCampaign, 'invite people'), async (req, res) => {
-    const invitation = invitationSchema.parse(await invite(ctx, accessOf(req).campaignId, actor(req), req.body));
+  r.post('/campaigns/:campaignId/invitations', ...lead(byCampaign, 'invite people'), (req, res) => {
+    const invitation = invitationSchema.parse(invite(ctx, accessOf(req).campaignId, actor(req), req.body));
     res.status(201).json(invitation);
   });
 
-  r.post('/invitations/:invitationId/resend', ...lead(byInvitation, 'resend invitations'), async (req, res) => {
-    res.json(await resendInvitation(ctx, req.params.invitationId as string, actor(req)));
+  // Also "send again" for an invitation whose mail failed.
+  r.post('/invitations/:invitationId/resend', ...lead(byInvitation, 'resend invitations'), (req, res) => {
+    res.json(resendInvitation(ctx, req.params.invitationId as string, actor(req)));
   });
 
   r.delete('/invitations/:invitationId', ...lead(byInvitation, 'revoke invitations'), (req, res) => {
@@ -87,12 +87,6 @@ export function teamRoutes(ctx: AppContext): Router {
     const { campaignId } = accessOf(req);
     removeMember(ctx, campaignId, req.params.userId as string, userOf(req).id);
     res.json(listMembers(db, campaignId));
-  });
-
-  const outboxQuery = z.object({ limit: z.coerce.number().int().min(1).max(500).default(100) }).strict();
-  r.get('/dev/outbox', signedIn, siteAdmin, (req, res) => {
-    if (!mailer.catching) throw notFound('Mail goes out through SMTP_URL; there is no outbox to read.');
-    res.json(mailer.outbox(outboxQuery.parse(req.query).limit));
   });
 
   return r;

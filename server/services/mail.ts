@@ -9,7 +9,15 @@ import type { Db } from '../../db/client';
 import { caughtMail } from '../../db/schema';
 import type { Logger } from './logger';
 
-export type OutgoingMail = { to: string; toName?: string; subject: string; text: string; html: string };
+export type OutgoingMail = {
+  to: string;
+  toName?: string;
+  subject: string;
+  text: string;
+  html: string;
+  /** Extra headers (a digest's List-Unsubscribe); their values are kept to one line like the others. */
+  headers?: Record<string, string>;
+};
 
 export type CaughtMail = {
   id: string;
@@ -26,7 +34,8 @@ export type Mailer = {
   send(mail: OutgoingMail): Promise<void>;
   /** True while the built-in mail catcher stands in for a real mail server. */
   readonly catching: boolean;
-  outbox(limit?: number): CaughtMail[];
+  /** What the built-in catcher caught, newest first (empty when mail goes out through SMTP_URL). */
+  caught(limit?: number): CaughtMail[];
   close(): Promise<void>;
 };
 
@@ -38,7 +47,7 @@ export const headerSafe = (value: string) => value.replace(/[\r\n\u2028\u2029]+/
 /**
  * Mail goes out through `SMTP_URL` when it is set. Otherwise a local SMTP server on 127.0.0.1
  * (smtp-server) catches every message, parses it (mailparser) and keeps it in the database, so
- * invitations and digests can be read on the outbox screen and checked by tests.
+ * invitations and digests can be read in the site administrator's mail log and checked by tests.
  */
 export async function createMailer(db: Db, log: Logger, smtpUrl: string | undefined): Promise<Mailer> {
   let catcher: SMTPServer | undefined;
@@ -92,9 +101,12 @@ export async function createMailer(db: Db, log: Logger, smtpUrl: string | undefi
         subject: headerSafe(mail.subject),
         text: mail.text,
         html: mail.html,
+        ...(mail.headers
+          ? { headers: Object.fromEntries(Object.entries(mail.headers).map(([k, v]) => [headerSafe(k), headerSafe(v)])) }
+          : {}),
       });
     },
-    outbox(limit = 200) {
+    caught(limit = 200) {
       return db
         .select()
         .from(caughtMail)

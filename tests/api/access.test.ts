@@ -28,7 +28,7 @@ const emailOf: Record<Exclude<Actor, 'anonymous'>, string> = {
 
 let t: TestServer;
 let ids: ReturnType<typeof demoIds>;
-const f = {} as Record<'observation' | 'photo' | 'invitation' | 'quickMark' | 'tag' | 'spareMember', string>;
+const f = {} as Record<'observation' | 'photo' | 'invitation' | 'quickMark' | 'tag' | 'spareMember' | 'mail', string>;
 
 let shade = 0;
 /** A small PNG, a different one each time (the same file twice on one entry is kept once). */
@@ -73,6 +73,7 @@ beforeAll(async () => {
   f.quickMark = (await lead.post(`/api/campaigns/${ids.campaign2026}/quick-marks`).send({ label: 'Fixture', kind: 'biology' })).body.id;
   f.tag = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body[0].id;
   f.spareMember = ids.userId(emails.archaeologist);
+  f.mail = t.ctx.db.$client.prepare('select id from mail_queue where ref = ?').pluck().get(f.invitation) as string;
 });
 afterAll(() => t.close());
 
@@ -199,6 +200,8 @@ const table: Record<string, Row> = {
     path: () => freshPhoto(f.observation).then((id) => `/api/photos/${id}`),
   },
   'GET /api/dev/outbox': { expect: siteAdmin, path: () => '/api/dev/outbox' },
+  'GET /api/admin/mail': { expect: siteAdmin, path: () => '/api/admin/mail' },
+  'POST /api/admin/mail/:mailId/retry': { expect: siteAdmin, path: () => `/api/admin/mail/${f.mail}/retry` },
 };
 
 function servedRoutes(app: Express): string[] {

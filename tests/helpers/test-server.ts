@@ -8,7 +8,7 @@ import request from 'supertest';
 
 import { DEMO_PASSWORD, seedDemo } from '@/db/seed';
 import { createApp } from '@/server/app';
-import { createContext } from '@/server/bootstrap';
+import { closeContext, createContext } from '@/server/bootstrap';
 import type { AppContext } from '@/server/context';
 import { loadEnv } from '@/server/env';
 
@@ -98,8 +98,7 @@ export async function startTestServer(options: { seed?: boolean; env?: Record<st
       await new Promise((r) => setTimeout(r, 200));
       server.closeAllConnections();
       await closed;
-      await ctx.mailer.close();
-      ctx.db.$client.close();
+      await closeContext(ctx);
       rmSync(dir, { recursive: true, force: true });
     },
   };

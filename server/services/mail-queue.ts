@@ -1,0 +1,328 @@
+import { and, asc, count, desc, eq, inArray, isNull, lte, or } from 'drizzle-orm';
+
+import type { Db, Executor } from '../../db/client';
+import { mailQueue } from '../../db/schema';
+import type { MailKind, MailLogItem, MailState, MailStatus } from '../../lib/schemas';
+import type { Logger } from './logger';
+import type { Mailer, OutgoingMail } from './mail';
+
+export type MailRow = typeof mailQueue.$inferSelect;
+
+/** A mail to queue: what it is for, to whom, and what the sender needs to write it. */
+export type QueuedMail = {
+  kind: MailKind;
+  ref?: string | null;
+  campaignId?: string | null;
+  to: string;
+  toName?: string | null;
+  subject: string;
+  /** For rendered mails: `{ text, html, headers? }`. For invitations: the values the link is added to. */
+  payload: Record<string, unknown>;
+};
+
+/**
+ * Writes one mail to the queue. Call it inside the transaction of the change that causes the mail,
+ * so both stand or fall together, and `kick()` the sender once that transaction has committed.
+ */
+export function queueMail(tx: Executor, mail: QueuedMail, now = new Date()): string {
+  return tx
+    .insert(mailQueue)
+    .values({
+      kind: mail.kind,
+      ref: mail.ref ?? null,
+      campaignId: mail.campaignId ?? null,
+      to: mail.to,
+      toName: mail.toName ?? null,
+      subject: mail.subject,
+      payload: mail.payload,
+      state: 'queued',
+      nextAttemptAt: now,
+      createdAt: now,
+      updatedAt: now,
+    })
+    .returning({ id: mailQueue.id })
+    .get().id;
+}
+
+/** Cancels the mails of a thing (an invitation) that are still waiting, saying why. */
+export function cancelQueuedMail(tx: Executor, ref: string, reason: string, now = new Date()): void {
+  tx.update(mailQueue)
+    .set({ state: 'cancelled', lastError: reason, nextAttemptAt: null, updatedAt: now })
+    .where(and(eq(mailQueue.ref, ref), or(eq(mailQueue.state, 'queued'), eq(mailQueue.state, 'failed'))))
+    .run();
+}
+
+export const toMailStatus = (row: MailRow): MailStatus => ({
+  id: row.id,
+  state: row.state,
+  attempts: row.attempts,
+  reason: row.state === 'sent' ? null : row.lastError,
+  nextAttemptAt: row.state === 'queued' && row.nextAttemptAt ? row.nextAttemptAt.toISOString() : null,
+  sentAt: row.sentAt ? row.sentAt.toISOString() : null,
+  updatedAt: row.updatedAt.toISOString(),
+});
+
+/** The newest mail of each of these things (invitations, digests), by ref. */
+export function latestMailOf(db: Executor, refs: readonly string[]): Map<string, MailStatus> {
+  const out = new Map<string, MailStatus>();
+  if (refs.length === 0) return out;
+  const rows = db
+    .select()
+    .from(mailQueue)
+    .where(inArray(mailQueue.ref, [...refs]))
+    .orderBy(asc(mailQueue.createdAt))
+    .all();
+  for (const row of rows) if (row.ref) out.set(row.ref, toMailStatus(row));
+  return out;
+}
+
+export function mailById(db: Executor, id: string): MailStatus | null {
+  const row = db.select().from(mailQueue).where(eq(mailQueue.id, id)).get();
+  return row ? toMailStatus(row) : null;
+}
+
+/**
+ * Puts a failed mail back in the queue for a fresh round of attempts (an invitation's mail gets a
+ * new link when it goes). Mail in any other state is left as it is. Undefined when there is no such mail.
+ */
+export function retryMail(db: Executor, id: string, now = new Date()): MailStatus | undefined {
+  db.update(mailQueue)
+    .set({ state: 'queued', attempts: 0, nextAttemptAt: now, updatedAt: now })
+    .where(and(eq(mailQueue.id, id), eq(mailQueue.state, 'failed')))
+    .run();
+  return mailById(db, id) ?? undefined;
+}
+
+/** The site administrator's log: the queue's mail newest first, and how many stand in each state. */
+export function mailLog(db: Db, query: { state?: MailState; kind?: MailKind; limit: number }) {
+  const where = and(query.state ? eq(mailQueue.state, query.state) : undefined, query.kind ? eq(mailQueue.kind, query.kind) : undefined);
+  const items: MailLogItem[] = db
+    .select()
+    .from(mailQueue)
+    .where(where)
+    .orderBy(desc(mailQueue.createdAt))
+    .limit(query.limit)
+    .all()
+    .map((row) => ({
+      ...toMailStatus(row),
+      kind: row.kind,
+      to: row.to,
+      subject: row.subject,
+      campaignId: row.campaignId,
+      createdAt: row.createdAt.toISOString(),
+    }));
+  const counts: Record<MailState, number> = { queued: 0, sending: 0, sent: 0, failed: 0, cancelled: 0 };
+  for (const { state, n } of db.select({ state: mailQueue.state, n: count() }).from(mailQueue).groupBy(mailQueue.state).all()) {
+    counts[state] = n;
+  }
+  return { counts, items };
+}
+
+/**
+ * How one kind of mail is written at the moment it is sent: `send` hands it to the mail server.
+ * Answer `{ cancel }` when the mail is no longer wanted (a revoked invitation).
+ */
+export type MailHandler = (row: MailRow, send: (mail: OutgoingMail) => Promise<void>) => Promise<void | { cancel: string }>;
+
+export type MailSenderOptions = {
+  /** Attempts before a mail is marked failed. */
+  attempts: number;
+  /** The wait before the second attempt; each later wait is four times the one before. */
+  retryBaseMs: number;
+  /** How often the queue is looked at when nobody kicks it (mail queued by another process, retries due). */
+  pollMs?: number;
+  now?: () => Date;
+};
+
+export type MailSender = {
+  /** Registers how a kind of mail is written (invitations need their sign-in link made at send time). */
+  handle(kind: MailKind, handler: MailHandler): void;
+  /** Marks mail left "sending" by a stopped server as failed, then starts sending. */
+  start(): void;
+  /** Looks at the queue now (after a transaction that queued mail has committed). */
+  kick(): void;
+  /** Stops sending; waits for a mail being handed over, up to a few seconds. */
+  stop(): Promise<void>;
+  /** Resolves once nothing is due or being sent (for tests and the benchmark). */
+  settled(): Promise<void>;
+};
+
+/** What a mail server's refusal or a lost connection says, in one line for the log and the team screen. */
+export function failureReason(err: unknown): string {
+  if (!(err instanceof Error)) return 'The mail could not be sent.';
+  const e = err as Error & { code?: string; responseCode?: number; response?: string };
+  const parts = [e.response ?? e.message, e.code && !(e.response ?? e.message).includes(e.code) ? `(${e.code})` : ''];
+  return parts.filter(Boolean).join(' ').replace(/\s+/g, ' ').trim().slice(0, 500);
+}
+
+/** A 5xx answer from the mail server is permanent (no such mailbox, refused): retrying cannot help. */
+const permanent = (err: unknown) => {
+  const code = (err as { responseCode?: number } | null)?.responseCode;
+  return typeof code === 'number' && code >= 500 && code < 600;
+};
+
+export const INTERRUPTED =
+  'The server stopped while this mail was being handed to the mail server, so it may or may not have gone out. Send it again if it did not arrive.';
+
+/**
+ * The one sender of a server process: takes due mail from the queue one at a time, claims it (so a
+ * second process on the same database cannot send it too), writes it with its kind's handler and
+ * hands it to the mailer. A failure is retried with growing waits, then marked failed with the
+ * reason. A mail is never sent twice: one left "sending" by a crash is marked failed, not re-sent.
+ */
+export function createMailSender(db: Db, mailer: Mailer, log: Logger, options: MailSenderOptions): MailSender {
+  const now = options.now ?? (() => new Date());
+  const pollMs = options.pollMs ?? 5000;
+  const handlers = new Map<MailKind, MailHandler>();
+  let started = false;
+  let stopped = false;
+  let timer: NodeJS.Timeout | undefined;
+  let running: Promise<void> | undefined;
+  let again = false;
+  let waiters: (() => void)[] = [];
+
+  const plain: MailHandler = async (row, send) => {
+    const p = row.payload as { text?: string; html?: string; headers?: Record<string, string> };
+    await send({
+      to: row.to,
+      toName: row.toName ?? undefined,
+      subject: row.subject,
+      text: p.text ?? '',
+      html: p.html ?? '',
+      headers: p.headers,
+    });
+  };
+
+  const nextDue = () =>
+    db
+      .select({ at: mailQueue.nextAttemptAt })
+      .from(mailQueue)
+      .where(eq(mailQueue.state, 'queued'))
+      .orderBy(asc(mailQueue.nextAttemptAt))
+      .limit(1)
+      .get()?.at ?? null;
+
+  const schedule = () => {
+    if (stopped || !started) return;
+    clearTimeout(timer);
+    const due = nextDue();
+    const wait = due ? Math.max(0, Math.min(due.getTime() - now().getTime(), pollMs)) : pollMs;
+    timer = setTimeout(kick, wait);
+    timer.unref();
+  };
+
+  const settle = () => {
+    if (running) return;
+    const due = nextDue();
+    if (due && due.getTime() <= now().getTime()) return;
+    const w = waiters;
+    waiters = [];
+    for (const resolve of w) resolve();
+  };
+
+  async function sendOne(row: MailRow) {
+    const at = now();
+    const claimed = db
+      .update(mailQueue)
+      .set({ state: 'sending', attempts: row.attempts + 1, updatedAt: at })
+      .where(and(eq(mailQueue.id, row.id), eq(mailQueue.state, 'queued')))
+      .run();
+    if (claimed.changes !== 1) return;
+    const attempt = row.attempts + 1;
+    try {
+      const outcome = await (handlers.get(row.kind) ?? plain)({ ...row, attempts: attempt }, (mail) => mailer.send(mail));
+      if (outcome && 'cancel' in outcome) {
+        db.update(mailQueue)
+          .set({ state: 'cancelled', lastError: outcome.cancel, nextAttemptAt: null, updatedAt: now() })
+          .where(eq(mailQueue.id, row.id))
+          .run();
+        return;
+      }
+      db.update(mailQueue)
+        .set({ state: 'sent', sentAt: now(), lastError: null, nextAttemptAt: null, updatedAt: now() })
+        .where(eq(mailQueue.id, row.id))
+        .run();
+    } catch (err) {
+      const reason = failureReason(err);
+      const last = attempt >= options.attempts || permanent(err);
+      const wait = options.retryBaseMs * 4 ** (attempt - 1);
+      log.error(last ? 'mail failed' : 'mail attempt failed, will retry', { mail: row.id, kind: row.kind, attempt, reason });
+      db.update(mailQueue)
+        .set(
+          last
+            ? { state: 'failed', lastError: reason, nextAttemptAt: null, updatedAt: now() }
+            : { state: 'queued', lastError: reason, nextAttemptAt: new Date(now().getTime() + wait), updatedAt: now() },
+        )
+        .where(eq(mailQueue.id, row.id))
+        .run();
+    }
+  }
+
+  async function drain() {
+    do {
+      again = false;
+      for (;;) {
+        if (stopped) return;
+        const due = db
+          .select()
+          .from(mailQueue)
+          .where(and(eq(mailQueue.state, 'queued'), or(isNull(mailQueue.nextAttemptAt), lte(mailQueue.nextAttemptAt, now()))))
+          .orderBy(asc(mailQueue.nextAttemptAt))
+          .limit(20)
+          .all();
+        if (due.length === 0) break;
+        for (const row of due) {
+          if (stopped) return;
+          await sendOne(row);
+        }
+      }
+    } while (again && !stopped);
+  }
+
+  function kick() {
+    if (stopped || !started) return;
+    if (running) {
+      again = true;
+      return;
+    }
+    running = drain()
+      .catch((err: unknown) => log.error('mail sender stopped on an error', { err }))
+      .finally(() => {
+        running = undefined;
+        schedule();
+        settle();
+      });
+  }
+
+  return {
+    handle(kind, handler) {
+      handlers.set(kind, handler);
+    },
+    start() {
+      if (started) return;
+      started = true;
+      const interrupted = db
+        .update(mailQueue)
+        .set({ state: 'failed', lastError: INTERRUPTED, nextAttemptAt: null, updatedAt: now() })
+        .where(eq(mailQueue.state, 'sending'))
+        .run();
+      if (interrupted.changes > 0) log.error('mail left half-sent by a stopped server marked failed', { count: interrupted.changes });
+      kick();
+    },
+    kick: () => void setImmediate(kick),
+    async stop() {
+      stopped = true;
+      clearTimeout(timer);
+      if (running) await Promise.race([running, new Promise((r) => setTimeout(r, 5000).unref())]);
+      const w = waiters;
+      waiters = [];
+      for (const resolve of w) resolve();
+    },
+    settled() {
+      return new Promise<void>((resolve) => {
+        waiters.push(resolve);
+        settle();
+      });
+    },
+  };
+}
