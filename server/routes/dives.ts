@@ -7,7 +7,7 @@ import { accessOf, byCampaign, byDive, requirePermission } from '../middleware/c
 import { requireSession } from '../middleware/session';
 import { validate } from '../middleware/validate';
 import { createDive, getDive, setPhase, updateDive } from '../services/dives';
-import { diveStream } from '../services/stream';
+import { diveStream } from './dive-stream';
 
 export function diveRoutes(ctx: AppContext): Router {
   const { db, auth, live } = ctx;

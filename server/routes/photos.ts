@@ -7,7 +7,7 @@ import { validate } from '../middleware/validate';
 import type { AppContext } from '../context';
 import { accessOf, byDive, byObservation, requireCampaignRole, type CampaignResolver } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
-import { readPhotoUpload, sendPhotoFile, uploadedFiles } from '../services/photo-http';
+import { readPhotoUpload, sendPhotoFile, uploadedFiles } from './photo-http';
 import { localFolderStorage } from '../services/photo-storage';
 import { galleryOf, photoFile, photoRow, requirePhotoEditor, retirePhoto, updatePhoto, uploadPhotos } from '../services/photos';
 

@@ -8,7 +8,7 @@ import { requireSession } from '../middleware/session';
 import { validate } from '../middleware/validate';
 import { diveSummary, telemetryAt, telemetrySamples } from '../services/telemetry';
 import { importTelemetryLog } from '../services/telemetry-import';
-import { discardUpload, receiveLog } from '../services/telemetry-upload';
+import { discardUpload, receiveLog } from '../middleware/telemetry-upload';
 
 /** The dive's telemetry log: import, samples for charts, values at an instant, statistics. */
 export function telemetryRoutes({ db, auth, live }: AppContext): Router {

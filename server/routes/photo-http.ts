@@ -4,8 +4,8 @@ import multer, { MulterError } from 'multer';
 
 import { photoLimits } from '../../lib/schemas';
 import { ApiError, fieldError, notFound } from '../errors';
-import type { PhotoFile } from './photos';
-import type { PhotoStorage } from './photo-storage';
+import type { PhotoFile } from '../services/photos';
+import type { PhotoStorage } from '../services/photo-storage';
 
 const MB = 1024 * 1024;
 

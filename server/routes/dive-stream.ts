@@ -5,7 +5,7 @@ import { liveEvents, session } from '../../db/schema';
 import type { AppContext } from '../context';
 import { accessOf, roleIn } from '../middleware/campaign-access';
 import { userOf } from '../middleware/session';
-import { sseFrame } from './live';
+import { sseFrame } from '../services/live';
 
 /** More missed events than this and the reader is told to reload instead. */
 const REPLAY_LIMIT = 2000;
