@@ -11,6 +11,7 @@ import { sameOrigin } from './middleware/same-origin';
 import { serverTiming } from './middleware/timing';
 import { campaignRoutes } from './routes/campaigns';
 import { diveRoutes } from './routes/dives';
+import { exportRoutes } from './routes/exports';
 import { mailRoutes } from './routes/mail';
 import { observationRoutes } from './routes/observations';
 import { photoRoutes } from './routes/photos';
@@ -85,6 +86,7 @@ export function createApp(ctx: AppContext): Express {
   });
   app.use('/api', campaignRoutes(ctx), teamRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
   app.use('/api', mailRoutes(ctx));
+  app.use('/api', exportRoutes(ctx));
   app.use('/api', apiNotFound);
 
   app.use(...web.handlers);

@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 
+import { exportLicences, publicPositionModes } from './publication';
 import { photoSchema } from './photos';
 import { custodyEventSchema, findSchema, identificationSchema, verificationStatuses } from './record';
 
@@ -125,6 +126,8 @@ export const campaignSchema = z.object({
   timeZone: z.string(),
   allowFreeTags: z.boolean(),
   keepPhotoPositions: z.boolean(),
+  exportLicence: z.enum(exportLicences),
+  publicPositions: z.enum(publicPositionModes),
   myRole: z.enum([...campaignRoles, 'admin']),
   diveCount: z.number().int(),
   observationCount: z.number().int(),

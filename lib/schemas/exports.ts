@@ -5,18 +5,9 @@
 import { z } from 'zod';
 
 import { observationFilterQuerySchema } from './core';
+import { exportLicences, publicPositionModes } from './publication';
 
-/** Licences a lead may publish the campaign's data under (Creative Commons identifiers as SPDX spells them). */
-export const exportLicences = ['CC0-1.0', 'CC-BY-4.0', 'CC-BY-NC-4.0'] as const;
-export type ExportLicence = (typeof exportLicences)[number];
-
-/**
- * How positions appear in the exports meant for the public (Darwin Core Archive, GeoJSON):
- * exact, rounded to a 0.01° or 0.1° grid, or left out. The find register always carries exact
- * positions: it goes to the heritage authority, not to the public.
- */
-export const publicPositionModes = ['exact', 'grid-0.01', 'grid-0.1', 'withheld'] as const;
-export type PublicPositionMode = (typeof publicPositionModes)[number];
+export { exportLicences, publicPositionModes, type ExportLicence, type PublicPositionMode } from './publication';
 
 export const exportKinds = ['darwin-core', 'finds', 'geojson', 'csv'] as const;
 export type ExportKind = (typeof exportKinds)[number];

@@ -52,6 +52,8 @@ function toCampaigns(db: Db, rows: { campaign: CampaignRow; role: AccessRole }[]
     timeZone: c.timeZone,
     allowFreeTags: c.allowFreeTags,
     keepPhotoPositions: c.keepPhotoPositions,
+    exportLicence: c.exportLicence,
+    publicPositions: c.publicPositions,
     myRole: role,
     diveCount: diveCounts.get(c.id) ?? 0,
     observationCount: obsCounts.get(c.id) ?? 0,

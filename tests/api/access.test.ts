@@ -148,6 +148,17 @@ const table: Record<string, Row> = {
   'PATCH /api/quick-marks/:quickMarkId': { expect: leadOnly, path: () => `/api/quick-marks/${f.quickMark}`, body: { kind: 'geology' } },
   'DELETE /api/quick-marks/:quickMarkId': { expect: leadOnly, path: () => `/api/quick-marks/${f.quickMark}` },
   'GET /api/campaigns/:campaignId/finds/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/finds/next-number` },
+  'GET /api/campaigns/:campaignId/export/summary': { expect: readers, path: () => `/api/campaigns/${c()}/export/summary` },
+  'GET /api/campaigns/:campaignId/export/darwin-core.zip': { expect: readers, path: () => `/api/campaigns/${c()}/export/darwin-core.zip` },
+  'GET /api/campaigns/:campaignId/export/finds.csv': { expect: readers, path: () => `/api/campaigns/${c()}/export/finds.csv` },
+  'GET /api/campaigns/:campaignId/export/observations.geojson': {
+    expect: readers,
+    path: () => `/api/campaigns/${c()}/export/observations.geojson`,
+  },
+  'GET /api/campaigns/:campaignId/export/observations.csv': {
+    expect: readers,
+    path: () => `/api/campaigns/${c()}/export/observations.csv`,
+  },
   'GET /api/campaigns/:campaignId/dives': { expect: readers, path: () => `/api/campaigns/${c()}/dives` },
   'POST /api/campaigns/:campaignId/dives': { expect: leadAndPilot, path: () => `/api/campaigns/${c()}/dives`, body: {} },
   'GET /api/dives/:diveId': { expect: readers, path: () => `/api/dives/${d()}` },
