@@ -58,3 +58,23 @@ export const telemetryKeys = {
   summary: (diveId: string) => [...telemetryKeys.dive(diveId), 'summary'] as const,
   at: (diveId: string, t: string) => [...telemetryKeys.dive(diveId), 'at', t] as const,
 };
+
+/** Search filters as they stand in the URL: every value a string. */
+export type SearchFilters = {
+  campaignId?: string;
+  diveId?: string;
+  kind?: string;
+  tag?: string;
+  author?: string;
+  hasPhotos?: 'true' | 'false';
+  verification?: string;
+  minDepth?: string;
+  maxDepth?: string;
+  from?: string;
+  to?: string;
+};
+
+export const searchKeys = {
+  root: ['search'] as const,
+  results: (q: string, filters: SearchFilters) => [...searchKeys.root, q, filters] as const,
+};

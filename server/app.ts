@@ -15,6 +15,7 @@ import { exportRoutes } from './routes/exports';
 import { mailRoutes } from './routes/mail';
 import { observationRoutes } from './routes/observations';
 import { photoRoutes } from './routes/photos';
+import { searchRoutes } from './routes/search';
 import { teamRoutes } from './routes/team';
 import { telemetryRoutes } from './routes/telemetry';
 import { webExport } from './services/web';
@@ -87,6 +88,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', campaignRoutes(ctx), teamRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
   app.use('/api', mailRoutes(ctx));
   app.use('/api', exportRoutes(ctx));
+  app.use('/api', searchRoutes(ctx));
   app.use('/api', apiNotFound);
 
   app.use(...web.handlers);

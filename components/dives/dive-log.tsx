@@ -3,6 +3,7 @@ import { ActivityIndicator, FlatList, Pressable, StyleSheet, View } from 'react-
 
 import { ObservationCard } from '@/components/observations/observation-card';
 import { WaitingEntries } from '@/components/observations/waiting-entries';
+import { DiveSearchFallback } from '@/components/search/dive-search-fallback';
 import { Button } from '@/components/ui/button';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
@@ -86,25 +87,8 @@ export function DiveLog({
   if (log.isPending) empty = <LoadingState label="Loading the dive log…" />;
   else if (log.isError) empty = <ErrorState error={log.error} onRetry={() => void log.refetch()} />;
   else if (filters.retired) empty = <EmptyState title="No retired entries" body="Nothing on this dive has been retired." />;
-  else if (searching)
-    empty = (
-      <EmptyState
-        title="Nothing found"
-        body={`No loaded entry has “${search.trim()}” in its title or note.${log.hasNextPage ? ' Older entries are not loaded yet.' : ''}`}
-        action={
-          log.hasNextPage ? (
-            <Button
-              label="Load older entries"
-              tone="secondary"
-              compact
-              busy={log.isFetchingNextPage}
-              onPress={() => void log.fetchNextPage()}
-              testID="load-older"
-            />
-          ) : undefined
-        }
-      />
-    );
+  // Nothing loaded matches: the whole dive is searched on the server instead.
+  else if (searching) empty = <DiveSearchFallback diveId={diveId} q={search} filters={filters} onSelect={onSelect} />;
   else if (Object.values(filters).some((v) => v && v !== 'time' && v !== 'desc'))
     empty = <EmptyState title="No entries match" body="Loosen the filters to see more of the log." />;
   else empty = <EmptyState title="No entries yet" body="Nothing has been logged on this dive. Log the first observation." />;

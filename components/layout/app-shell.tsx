@@ -22,6 +22,14 @@ const campaignsItem: NavItem = {
   match: (p) => p === '/' || p.startsWith('/campaigns') || p.startsWith('/dives') || p.startsWith('/observations'),
 };
 
+const searchItem: NavItem = {
+  id: 'search',
+  href: '/search',
+  label: 'Search',
+  icon: glyph('search'),
+  match: (p) => p.startsWith('/search'),
+};
+
 const accountItem: NavItem = {
   id: 'account',
   href: '/account',
@@ -47,7 +55,7 @@ export function AppShell({ children }: { children: ReactNode }) {
   const path = usePathname();
   const me = useMe().data;
 
-  const shown = me?.siteRole === 'admin' ? [campaignsItem, adminItem, accountItem] : [campaignsItem, accountItem];
+  const shown = me?.siteRole === 'admin' ? [campaignsItem, searchItem, adminItem, accountItem] : [campaignsItem, searchItem, accountItem];
   const links = shown.map((item) => {
     const active = item.match(path);
     const tint = active ? colors.accent : colors.textMuted;

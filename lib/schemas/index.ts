@@ -7,3 +7,4 @@ export * from './photos';
 export * from './record';
 export * from './team';
 export * from './telemetry';
+export * from './search';

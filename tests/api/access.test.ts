@@ -109,6 +109,7 @@ const table: Record<string, Row> = {
   'GET /api/health': { expect: R('ok', 'ok', 'ok', 'ok', 'ok', 'ok', 'ok'), path: () => '/api/health' },
   'GET /api/me': { expect: signedIn, path: () => '/api/me' },
   'GET /api/campaigns': { expect: signedIn, path: () => '/api/campaigns' },
+  'GET /api/search': { expect: signedIn, path: () => '/api/search?q=access' },
   'POST /api/campaigns': { expect: siteAdmin, path: () => '/api/campaigns', body: {} },
   'GET /api/campaigns/:campaignId': { expect: readers, path: () => `/api/campaigns/${c()}` },
   'PATCH /api/campaigns/:campaignId': { expect: leadOnly, path: () => `/api/campaigns/${c()}`, body: { datumLat: 'x' } },

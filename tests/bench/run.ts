@@ -4,6 +4,7 @@
  */
 import { benchLiveLoad } from './live-load';
 import { benchLogWrites } from './log-writes';
+import { benchSearch } from './search';
 import { benchTelemetryImport } from './telemetry-import';
 
 async function main() {
@@ -12,6 +13,7 @@ async function main() {
     ['log-writes', benchLogWrites],
     ['live-load', benchLiveLoad],
     ['telemetry-import', benchTelemetryImport],
+    ['search', benchSearch],
   ];
   for (const [name, run] of benches) {
     if (only && only !== name) continue;

@@ -1,0 +1,65 @@
+/**
+ * From what a person typed to an FTS5 query. Nothing typed reaches FTS5's query syntax: the text
+ * is cut into words exactly as the index cuts it (so quotes, `*`, `-`, `NEAR(`, `OR`, brackets and
+ * column names are separators or plain words), and every word is written as a quoted string. Each
+ * word becomes a group of alternatives (itself and the index's words a typo away) and the groups
+ * must all match; the last word also stands for the most used index words it begins, for the
+ * word still being typed.
+ */
+import { foldTerm, termsOf } from '../../../lib/search-terms';
+import { allowedDistance, type Vocabulary } from './vocabulary';
+
+const MAX_WORDS = 8;
+const MAX_WORD_LENGTH = 64;
+
+export type QueryPlan = {
+  /** The FTS5 MATCH expression, or null when nothing searchable was typed. */
+  match: string | null;
+  /** Folded words to mark as matches in titles and snippets. */
+  terms: Set<string>;
+  /** Whether widening the known words too could find something (a typo that is itself a word). */
+  relaxable: boolean;
+  /** The whole query folded, to recognise an exact find number or scientific name. */
+  whole: string;
+  /** The phrase of all words in the find number and scientific name columns. */
+  exactMatch: string | null;
+};
+
+const quoted = (term: string) => `"${term.replaceAll('"', '""')}"`;
+
+/**
+ * `relaxed` widens every word, known or not; otherwise only the words the index does not know.
+ */
+export function planQuery(typed: string, vocabulary: Vocabulary, options: { relaxed?: boolean } = {}): QueryPlan {
+  const words = termsOf(typed)
+    .filter((w) => w.length <= MAX_WORD_LENGTH)
+    .slice(0, MAX_WORDS);
+  const terms = new Set<string>();
+  const whole = foldTerm(typed.trim().replace(/\s+/g, ' '));
+  if (words.length === 0) return { match: null, terms, relaxable: false, whole, exactMatch: null };
+  const typing = !/\s$/.test(typed);
+  let relaxable = false;
+  const groups = words.map((word, i) => {
+    const alternatives = [word];
+    const known = vocabulary.has(word);
+    if (!known || options.relaxed) alternatives.push(...vocabulary.similar(word));
+    else if (allowedDistance(word) > 0) relaxable = true;
+    if (i === words.length - 1 && typing && word.length >= 2) alternatives.push(...vocabulary.completions(word));
+    const unique = [...new Set(alternatives)];
+    for (const a of unique) terms.add(a);
+    const parts = unique.map(quoted);
+    return parts.length === 1 ? parts[0]! : `(${parts.join(' OR ')})`;
+  });
+  return {
+    match: groups.join(' AND '),
+    terms,
+    relaxable,
+    whole,
+    exactMatch: words.length <= 6 ? `{scientific_name find_number} : ${quoted(words.join(' '))}` : null,
+  };
+}
+
+/** A test for folded terms: one of the words the plan searches for. */
+export function matcherOf(plan: QueryPlan): (term: string) => boolean {
+  return (term) => plan.terms.has(term);
+}
