@@ -5,7 +5,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatUtcTime } from '@/lib/format';
 import type { Dive } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { phaseLabels } from './log-rows';
+import { phaseLabels } from '@/lib/dive-phases';
 
 /** The dive's four phases in a row, the ones not reached yet left blank. */
 export function DivePhases({ dive }: { dive: Dive }) {

@@ -6,7 +6,7 @@ import { ApiError } from '@/hooks/api';
 import { useSetPhase } from '@/hooks/dives';
 import type { Dive } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
-import { phaseSteps } from './log-rows';
+import { phaseSteps } from '@/lib/dive-phases';
 
 /** For the pilot and the lead: mark the next dive phase now, with undo. */
 export function PhaseControls({ dive }: { dive: Dive }) {

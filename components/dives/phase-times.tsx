@@ -10,7 +10,7 @@ import { useSetPhase } from '@/hooks/dives';
 import { formatUtc, parseUtcInput, toUtcInputExact } from '@/lib/format';
 import type { Dive } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
-import { phaseSteps } from './log-rows';
+import { phaseSteps } from '@/lib/dive-phases';
 
 /**
  * The dive's four phase times, which the statistics and the plots are cut by. A phase marked late

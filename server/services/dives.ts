@@ -2,6 +2,7 @@ import { and, asc, count, eq, inArray, sql } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../db/client';
 import { dives, observations } from '../../db/schema';
+import { phaseSteps } from '../../lib/dive-phases';
 import { FRAME_RATES } from '../../lib/timecode';
 import type { z } from 'zod';
 
@@ -125,13 +126,10 @@ export function updateDive(db: Db, live: LiveHub, diveId: string, input: DiveUpd
   });
 }
 
-const phaseColumn: Record<DivePhase, 'launchAt' | 'onBottomAt' | 'offBottomAt' | 'onDeckAt'> = {
-  launch: 'launchAt',
-  'on-bottom': 'onBottomAt',
-  'off-bottom': 'offBottomAt',
-  'on-deck': 'onDeckAt',
-};
-const order: DivePhase[] = ['launch', 'on-bottom', 'off-bottom', 'on-deck'];
+type PhaseColumn = 'launchAt' | 'onBottomAt' | 'offBottomAt' | 'onDeckAt';
+/** Each phase's column: the dive's field with "At" (launch → launchAt, on-bottom → onBottomAt). */
+const phaseColumn = Object.fromEntries(phaseSteps.map((s) => [s.phase, `${s.key}At` as PhaseColumn])) as Record<DivePhase, PhaseColumn>;
+const order: DivePhase[] = phaseSteps.map((s) => s.phase);
 
 /** Marks a dive phase (now, or at a given time). Phases must follow each other in time. */
 export function setPhase(db: Db, live: LiveHub, diveId: string, input: PhaseInput, now = new Date()): Dive {
