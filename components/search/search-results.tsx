@@ -47,7 +47,7 @@ function ResultCard({ item, selected, onOpen }: { item: SearchResult; selected: 
               {item.diveNumber} · {formatUtc(item.observedAt)} · {formatDepth(item.depth)}
             </Text>
           </View>
-          <HighlightedText variant="title" numberOfLines={2} parts={item.titleParts} testID="search-result-title" />
+          <HighlightedText variant="title" numberOfLines={2} parts={item.titleParts} testID="search-title" />
           {item.identification || item.findNumber ? (
             <Text variant="caption" muted>
               {[
