@@ -8,7 +8,8 @@ import type { Express } from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { createApp } from '@/server/app';
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { openSse } from '../helpers/sse';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
@@ -27,7 +28,7 @@ const emailOf: Record<Exclude<Actor, 'anonymous'>, string> = {
 };
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
+let ids: Fixtures;
 const f = {} as Record<'observation' | 'photo' | 'invitation' | 'quickMark' | 'tag' | 'spareMember' | 'mail', string>;
 
 let shade = 0;
@@ -43,7 +44,7 @@ async function freshObservation(): Promise<string> {
   const res = await (
     await t.signIn(emails.biologist)
   )
-    .post(`/api/dives/${ids.dive2026}/observations`)
+    .post(`/api/dives/${ids.dive}/observations`)
     .send({ kind: 'biology', title: 'Access fixture' });
   return res.body.id as string;
 }
@@ -60,18 +61,18 @@ async function freshPhoto(observationId: string): Promise<string> {
 
 beforeAll(async () => {
   t = await startTestServer({ env: { AUTH_RATE_LIMIT: '500' } });
-  ids = demoIds(t.ctx.db);
+  ids = await buildFixtures(t);
   t.ctx.db.$client
     .prepare('insert into memberships (campaign_id, user_id, role, created_at) values (?, ?, ?, ?)')
-    .run(ids.campaign2024, ids.userId(emails.outsider), 'scientist', Date.now());
+    .run(ids.otherCampaign, ids.userId(emails.outsider), 'scientist', Date.now());
   f.observation = await freshObservation();
   f.photo = await freshPhoto(f.observation);
   const lead = await t.signIn(emails.lead);
   f.invitation = (
-    await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email: 'access-fixture@bathynote.test', role: 'guest' })
+    await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email: 'access-fixture@bathynote.test', role: 'guest' })
   ).body.id;
-  f.quickMark = (await lead.post(`/api/campaigns/${ids.campaign2026}/quick-marks`).send({ label: 'Fixture', kind: 'biology' })).body.id;
-  f.tag = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body[0].id;
+  f.quickMark = (await lead.post(`/api/campaigns/${ids.campaign}/quick-marks`).send({ label: 'Fixture', kind: 'biology' })).body.id;
+  f.tag = (await lead.get(`/api/campaigns/${ids.campaign}/tags`)).body[0].id;
   f.spareMember = ids.userId(emails.archaeologist);
   f.mail = t.ctx.db.$client.prepare('select id from mail_queue where ref = ?').pluck().get(f.invitation) as string;
 });
@@ -102,8 +103,8 @@ type Row = {
   fresh?: boolean;
 };
 
-const c = () => ids.campaign2026;
-const d = () => ids.dive2026;
+const c = () => ids.campaign;
+const d = () => ids.dive;
 
 const table: Record<string, Row> = {
   'GET /api/health': { expect: R('ok', 'ok', 'ok', 'ok', 'ok', 'ok', 'ok'), path: () => '/api/health' },

@@ -5,7 +5,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { backupDatabase, restoreDatabase } from '@/db/backup';
 import { openDatabase } from '@/db/client';
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures } from '../helpers/fixtures';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
@@ -16,9 +17,9 @@ afterAll(() => t.close());
 
 describe('backup and restore', () => {
   it('backs up while the server writes, and a restore brings back exactly that state', async () => {
-    const ids = demoIds(t.ctx.db);
+    const ids = await buildFixtures(t);
     const agent = await t.signIn(emails.biologist);
-    const log = (title: string) => agent.post(`/api/dives/${ids.dive2026}/observations`).send({ kind: 'biology', title });
+    const log = (title: string) => agent.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'biology', title });
 
     const kept = await log('Logged before the backup');
     expect(kept.status).toBe(201);

@@ -34,7 +34,15 @@ async function killDuringWrites(script: string | undefined, round: number, dir: 
     .map((c) => c.split(';')[0])
     .join('; ');
   const db = new Database(path.join(dir, 'bathynote.db'), { readonly: true });
-  const diveId = (db.prepare("select id from dives where number = 'VS-02'").get() as { id: string }).id;
+  // Any dive the biologist may log on: the test needs none of the demo's content.
+  const diveId = (
+    db
+      .prepare(
+        `select dives.id from dives join memberships on memberships.campaign_id = dives.campaign_id
+         join user on user.id = memberships.user_id where user.email = 'biologist@bathynote.test' limit 1`,
+      )
+      .get() as { id: string }
+  ).id;
   db.close();
 
   const acknowledged: Sent[] = [];

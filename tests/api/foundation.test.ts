@@ -3,18 +3,19 @@ import { createHash } from 'node:crypto';
 import { count, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { observations } from '@/db/schema';
+import { campaigns, observations } from '@/db/schema';
 import { campaignSchema, diveSchema, meSchema, observationPageSchema, observationSchema } from '@/lib/schemas';
 import { tinyJpeg } from '../fixtures/photos/make';
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures, fixtureEntries, type Fixtures } from '../helpers/fixtures';
 import { FAKE_INDEX, startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
+let ids: Fixtures;
 
 beforeAll(async () => {
   t = await startTestServer();
-  ids = demoIds(t.ctx.db);
+  ids = await buildFixtures(t);
 });
 afterAll(() => t.close());
 
@@ -123,7 +124,7 @@ describe('sign-in', () => {
 
   it('refuses a change posted from another site to any API route, and nothing is stored', async () => {
     const agent = await t.signIn(emails.biologist);
-    const path = `/api/dives/${ids.dive2026}/observations`;
+    const path = `/api/dives/${ids.dive}/observations`;
     const count = async () => observationPageSchema.parse((await agent.get(`${path}?limit=200`)).body).items.length;
     const before = await count();
     const body = { kind: 'biology', title: 'Posted from elsewhere' };
@@ -167,18 +168,18 @@ describe('who sees what', () => {
     for (const path of [
       '/api/me',
       '/api/campaigns',
-      `/api/campaigns/${ids.campaign2026}`,
-      `/api/campaigns/${ids.campaign2026}/dives`,
-      `/api/campaigns/${ids.campaign2026}/members`,
-      `/api/campaigns/${ids.campaign2026}/tags`,
-      `/api/dives/${ids.dive2026}`,
-      `/api/dives/${ids.dive2026}/observations`,
+      `/api/campaigns/${ids.campaign}`,
+      `/api/campaigns/${ids.campaign}/dives`,
+      `/api/campaigns/${ids.campaign}/members`,
+      `/api/campaigns/${ids.campaign}/tags`,
+      `/api/dives/${ids.dive}`,
+      `/api/dives/${ids.dive}/observations`,
     ]) {
       const res = await anon.get(path);
       expect(res.status, path).toBe(401);
       expect(res.body.error.code, path).toBe('unauthorized');
     }
-    const post = await anon.post(`/api/dives/${ids.dive2026}/observations`).send({ kind: 'biology', title: 'x' });
+    const post = await anon.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'biology', title: 'x' });
     expect(post.status).toBe(401);
   });
 
@@ -189,8 +190,8 @@ describe('who sees what', () => {
     expect(me.siteRole).toBe('user');
     expect(me.memberships).toEqual(
       expect.arrayContaining([
-        { campaignId: ids.campaign2026, role: 'scientist' },
-        { campaignId: ids.campaign2024, role: 'scientist' },
+        { campaignId: ids.campaign, role: 'scientist' },
+        { campaignId: ids.otherCampaign, role: 'scientist' },
       ]),
     );
   });
@@ -198,34 +199,39 @@ describe('who sees what', () => {
   it('lists only the campaigns a person belongs to; all of them for the site administrator', async () => {
     const list = async (email: string) =>
       ((await (await t.signIn(email)).get('/api/campaigns')).body as { id: string }[]).map((c) => c.id).sort();
+    // The demo's campaigns are there too; only the tests' own are looked at.
+    const ours = async (email: string) => (await list(email)).filter((id) => id === ids.campaign || id === ids.otherCampaign);
     expect(await list(emails.outsider)).toEqual([]);
-    expect(await list(emails.guest)).toEqual([ids.campaign2026]);
-    expect(await list(emails.biologist)).toEqual([ids.campaign2024, ids.campaign2026].sort());
-    expect(await list(emails.admin)).toEqual([ids.campaign2024, ids.campaign2026].sort());
+    expect(await ours(emails.guest)).toEqual([ids.campaign]);
+    expect(await ours(emails.biologist)).toEqual([ids.otherCampaign, ids.campaign].sort());
+    expect(await ours(emails.admin)).toEqual([ids.otherCampaign, ids.campaign].sort());
+    const every = t.ctx.db.select({ id: campaigns.id }).from(campaigns).all();
+    expect(await list(emails.admin)).toEqual(every.map((c) => c.id).sort());
   });
 
   it('hides a campaign and everything in it from non-members with a 404', async () => {
     const outsider = await t.signIn(emails.outsider);
     const guest = await t.signIn(emails.guest);
-    const someEntry = observationPageSchema.parse((await (await t.signIn(emails.lead)).get(`/api/dives/${ids.dive2024}/observations`)).body)
-      .items[0]!;
+    const someEntry = observationPageSchema.parse(
+      (await (await t.signIn(emails.lead)).get(`/api/dives/${ids.otherDive}/observations`)).body,
+    ).items[0]!;
     const before = observationCount();
     for (const [agent, paths] of [
       [
         outsider,
         [
-          `/api/campaigns/${ids.campaign2026}`,
-          `/api/campaigns/${ids.campaign2026}/dives`,
-          `/api/dives/${ids.dive2026}`,
-          `/api/dives/${ids.dive2026}/observations`,
+          `/api/campaigns/${ids.campaign}`,
+          `/api/campaigns/${ids.campaign}/dives`,
+          `/api/dives/${ids.dive}`,
+          `/api/dives/${ids.dive}/observations`,
         ],
       ],
       [
         guest,
         [
-          `/api/campaigns/${ids.campaign2024}`,
-          `/api/dives/${ids.dive2024}`,
-          `/api/dives/${ids.dive2024}/observations`,
+          `/api/campaigns/${ids.otherCampaign}`,
+          `/api/dives/${ids.otherDive}`,
+          `/api/dives/${ids.otherDive}/observations`,
           `/api/observations/${someEntry.id}`,
         ],
       ],
@@ -236,19 +242,19 @@ describe('who sees what', () => {
         expect(res.body).toEqual((await agent.get('/api/campaigns/no-such-campaign')).body);
       }
     }
-    const post = await guest.post(`/api/dives/${ids.dive2024}/observations`).send({ kind: 'biology', title: 'Sneaky' });
+    const post = await guest.post(`/api/dives/${ids.otherDive}/observations`).send({ kind: 'biology', title: 'Sneaky' });
     expect(post.status).toBe(404);
     expect(observationCount()).toBe(before);
   });
 
   it('answers a member with the campaign, its dives and a dive', async () => {
     const agent = await t.signIn(emails.guest);
-    const campaign = campaignSchema.parse((await agent.get(`/api/campaigns/${ids.campaign2026}`)).body);
-    expect(campaign).toMatchObject({ name: 'Varn Shoal 2026', myRole: 'guest', diveCount: 4 });
-    const dives = (await agent.get(`/api/campaigns/${ids.campaign2026}/dives`)).body.map((d: unknown) => diveSchema.parse(d));
-    expect(dives.map((d: { number: string }) => d.number)).toEqual(['VS-01', 'VS-02', 'VS-03', 'VS-04']);
-    const dive = diveSchema.parse((await agent.get(`/api/dives/${ids.dive2026}`)).body);
-    expect(dive.number).toBe('VS-02');
+    const campaign = campaignSchema.parse((await agent.get(`/api/campaigns/${ids.campaign}`)).body);
+    expect(campaign).toMatchObject({ name: ids.campaignName, myRole: 'guest', diveCount: 1, observationCount: fixtureEntries.length });
+    const dives = (await agent.get(`/api/campaigns/${ids.campaign}/dives`)).body.map((d: unknown) => diveSchema.parse(d));
+    expect(dives.map((d: { number: string }) => d.number)).toEqual(['T-01']);
+    const dive = diveSchema.parse((await agent.get(`/api/dives/${ids.dive}`)).body);
+    expect(dive.number).toBe('T-01');
     expect(dive.phases.launch).toMatch(/Z$/);
   });
 });
@@ -260,7 +266,7 @@ describe('the dive log', () => {
     const times: number[] = [];
     let cursor: string | null = null;
     do {
-      const res = await agent.get(`/api/dives/${ids.dive2026}/observations`).query({ limit: 7, ...(cursor ? { cursor } : {}) });
+      const res = await agent.get(`/api/dives/${ids.dive}/observations`).query({ limit: 7, ...(cursor ? { cursor } : {}) });
       expect(res.status).toBe(200);
       const page = observationPageSchema.parse(res.body);
       seen.push(...page.items.map((o) => o.id));
@@ -274,12 +280,12 @@ describe('the dive log', () => {
 
   it('refuses a forged cursor and nonsense filters with 400', async () => {
     const agent = await t.signIn(emails.biologist);
-    const bad = await agent.get(`/api/dives/${ids.dive2026}/observations`).query({ cursor: 'not-a-cursor' });
+    const bad = await agent.get(`/api/dives/${ids.dive}/observations`).query({ cursor: 'not-a-cursor' });
     expect(bad.status).toBe(400);
     expect(bad.body.error.issues[0].path).toBe('cursor');
-    const kind = await agent.get(`/api/dives/${ids.dive2026}/observations`).query({ kind: "biology' OR 1=1 --" });
+    const kind = await agent.get(`/api/dives/${ids.dive}/observations`).query({ kind: "biology' OR 1=1 --" });
     expect(kind.status).toBe(400);
-    const tag = await agent.get(`/api/dives/${ids.dive2026}/observations`).query({ tag: "x' OR '1'='1" });
+    const tag = await agent.get(`/api/dives/${ids.dive}/observations`).query({ tag: "x' OR '1'='1" });
     expect(tag.status).toBe(200);
     expect(tag.body.items).toEqual([]);
   });
@@ -287,12 +293,12 @@ describe('the dive log', () => {
   it('filters by kind and by tag', async () => {
     const agent = await t.signIn(emails.biologist);
     const bio = observationPageSchema.parse(
-      (await agent.get(`/api/dives/${ids.dive2026}/observations`).query({ kind: 'biology', limit: 200 })).body,
+      (await agent.get(`/api/dives/${ids.dive}/observations`).query({ kind: 'biology', limit: 200 })).body,
     );
     expect(bio.items.length).toBeGreaterThan(0);
     expect(bio.items.every((o) => o.kind === 'biology')).toBe(true);
     const tagged = observationPageSchema.parse(
-      (await agent.get(`/api/dives/${ids.dive2026}/observations`).query({ tag: 'AMPHORA', limit: 200 })).body,
+      (await agent.get(`/api/dives/${ids.dive}/observations`).query({ tag: 'AMPHORA', limit: 200 })).body,
     );
     expect(tagged.items.length).toBeGreaterThan(0);
     expect(tagged.items.every((o) => o.tags.includes('amphora'))).toBe(true);
@@ -301,9 +307,9 @@ describe('the dive log', () => {
   it('filters by photos, verification and author, and sorts by depth, kind and author', async () => {
     const agent = await t.signIn(emails.biologist);
     const list = async (query: Record<string, string>) =>
-      observationPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/observations`).query({ limit: 200, ...query })).body).items;
-    // The demo has no photos: one frame grab on one entry.
-    const framed = (await list({}))[3]!;
+      observationPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/observations`).query({ limit: 200, ...query })).body).items;
+    // The fixtures have no photos: one frame grab on one of the biologist's entries.
+    const framed = (await list({})).find((o) => o.authorId === ids.userId(emails.biologist))!;
     const attached = await agent.post(`/api/observations/${framed.id}/photos`).attach('photo', await tinyJpeg(), {
       filename: 'frame.jpg',
       contentType: 'image/jpeg',
@@ -363,12 +369,12 @@ describe('logging an observation', () => {
       note: 'Filamentous *mat*, about **40 %** cover.',
       tags: ['microbial-mat', 'Hull'],
     };
-    const res = await biologist.post(`/api/dives/${ids.dive2026}/observations`).send(body);
+    const res = await biologist.post(`/api/dives/${ids.dive}/observations`).send(body);
     expect(res.status).toBe(201);
     const created = observationSchema.parse(res.body);
     expect(res.headers.location).toBe(`/api/observations/${created.id}`);
     expect(created).toMatchObject({
-      diveId: ids.dive2026,
+      diveId: ids.dive,
       kind: 'biology',
       title: body.title,
       observedAt: '2026-05-13T21:14:07.250Z',
@@ -382,14 +388,14 @@ describe('logging an observation', () => {
     const lead = await t.signIn(emails.lead);
     const read = observationSchema.parse((await lead.get(`/api/observations/${created.id}`)).body);
     expect(read).toEqual(created);
-    const log = observationPageSchema.parse((await lead.get(`/api/dives/${ids.dive2026}/observations`).query({ limit: 200 })).body);
+    const log = observationPageSchema.parse((await lead.get(`/api/dives/${ids.dive}/observations`).query({ limit: 200 })).body);
     expect(log.items.map((o) => o.id)).toContain(created.id);
   });
 
   it('defaults the time to now, in UTC', async () => {
     const agent = await t.signIn(emails.guest);
     const before = Date.now();
-    const res = await agent.post(`/api/dives/${ids.dive2026}/observations`).send({ kind: 'environment', title: 'Turbidity rising' });
+    const res = await agent.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'environment', title: 'Turbidity rising' });
     expect(res.status).toBe(201);
     const at = Date.parse(res.body.observedAt);
     expect(at).toBeGreaterThanOrEqual(before - 5);
@@ -402,7 +408,7 @@ describe('logging an observation', () => {
   it('reads an offset time as the instant it names', async () => {
     const agent = await t.signIn(emails.biologist);
     const res = await agent
-      .post(`/api/dives/${ids.dive2026}/observations`)
+      .post(`/api/dives/${ids.dive}/observations`)
       .send({ kind: 'biology', title: 'Offset', observedAt: '2026-05-13T23:14:07+02:00' });
     expect(res.status).toBe(201);
     expect(res.body.observedAt).toBe('2026-05-13T21:14:07.000Z');
@@ -424,7 +430,7 @@ describe('logging an observation', () => {
   ])('refuses %s with 400 and stores nothing', async (_name, body, code, path) => {
     const agent = await t.signIn(emails.biologist);
     const before = observationCount();
-    const req = agent.post(`/api/dives/${ids.dive2026}/observations`).set('content-type', 'application/json');
+    const req = agent.post(`/api/dives/${ids.dive}/observations`).set('content-type', 'application/json');
     const res = await req.send(typeof body === 'string' ? body : JSON.stringify(body));
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe(code);
@@ -434,24 +440,22 @@ describe('logging an observation', () => {
 
   it('refuses a body over the size limit with 413', async () => {
     const agent = await t.signIn(emails.biologist);
-    const res = await agent
-      .post(`/api/dives/${ids.dive2026}/observations`)
-      .send({ kind: 'biology', title: 'big', note: 'x'.repeat(300_000) });
+    const res = await agent.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'biology', title: 'big', note: 'x'.repeat(300_000) });
     expect(res.status).toBe(413);
     expect(res.body.error.code).toBe('too_large');
   });
 
   it('keeps a tag unknown to a closed vocabulary out, as a field error', async () => {
-    t.ctx.db.$client.prepare('update campaigns set allow_free_tags = 0 where id = ?').run(ids.campaign2026);
+    t.ctx.db.$client.prepare('update campaigns set allow_free_tags = 0 where id = ?').run(ids.campaign);
     try {
       const agent = await t.signIn(emails.biologist);
       const res = await agent
-        .post(`/api/dives/${ids.dive2026}/observations`)
+        .post(`/api/dives/${ids.dive}/observations`)
         .send({ kind: 'biology', title: 'x', tags: ['coral', 'not-in-vocabulary'] });
       expect(res.status).toBe(400);
       expect(res.body.error.issues).toEqual([expect.objectContaining({ path: 'tags.1' })]);
     } finally {
-      t.ctx.db.$client.prepare('update campaigns set allow_free_tags = 1 where id = ?').run(ids.campaign2026);
+      t.ctx.db.$client.prepare('update campaigns set allow_free_tags = 1 where id = ?').run(ids.campaign);
     }
   });
 
@@ -459,11 +463,11 @@ describe('logging an observation', () => {
     const agent = await t.signIn(emails.biologist);
     const before = observationCount();
     const tagsBefore = t.ctx.db.$client.prepare('select count(*) n from tags').get() as { n: number };
-    t.ctx.db.$client.prepare('update campaigns set allow_free_tags = 0 where id = ?').run(ids.campaign2026);
+    t.ctx.db.$client.prepare('update campaigns set allow_free_tags = 0 where id = ?').run(ids.campaign);
     try {
-      await agent.post(`/api/dives/${ids.dive2026}/observations`).send({ kind: 'biology', title: 'x', tags: ['brand-new-tag'] });
+      await agent.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'biology', title: 'x', tags: ['brand-new-tag'] });
     } finally {
-      t.ctx.db.$client.prepare('update campaigns set allow_free_tags = 1 where id = ?').run(ids.campaign2026);
+      t.ctx.db.$client.prepare('update campaigns set allow_free_tags = 1 where id = ?').run(ids.campaign);
     }
     expect(observationCount()).toBe(before);
     expect(t.ctx.db.$client.prepare('select count(*) n from tags').get()).toEqual(tagsBefore);
@@ -474,7 +478,7 @@ describe('logging an observation', () => {
 
 describe('timing', () => {
   it('tells how long the server took, apart from the link', async () => {
-    const res = await (await t.signIn(emails.biologist)).get(`/api/dives/${ids.dive2026}/observations`);
+    const res = await (await t.signIn(emails.biologist)).get(`/api/dives/${ids.dive}/observations`);
     expect(res.headers['server-timing']).toMatch(/^app;dur=\d+(\.\d)?$/);
   });
 });

@@ -25,17 +25,18 @@ import {
   tinyJpeg,
   webp,
 } from '../fixtures/photos/make';
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { openSse } from '../helpers/sse';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
+let ids: Fixtures;
 let uploadsDir: string;
 
 beforeAll(async () => {
   t = await startTestServer();
-  ids = demoIds(t.ctx.db);
+  ids = await buildFixtures(t);
   uploadsDir = path.join(t.dir, 'uploads');
 });
 afterAll(() => t.close());
@@ -45,7 +46,7 @@ type Agent = Awaited<ReturnType<TestServer['signIn']>>;
 async function newEntry(email: string = emails.biologist, body: Record<string, unknown> = {}): Promise<string> {
   const agent = await t.signIn(email);
   const res = await agent
-    .post(`/api/dives/${ids.dive2026}/observations`)
+    .post(`/api/dives/${ids.dive}/observations`)
     .send({ kind: 'biology', title: 'Sponge field on the stern', tags: ['sponge'], ...body });
   expect(res.status).toBe(201);
   return res.body.id as string;
@@ -309,7 +310,7 @@ describe('what is read from the file', () => {
     expect(kept?.Make).toBeUndefined();
     for (const key of [droppedRow.displayKey, droppedRow.thumbKey]) expect((await sharp(stored(key)).metadata()).exif).toBeUndefined();
 
-    t.ctx.db.update(campaigns).set({ keepPhotoPositions: true }).where(eq(campaigns.id, ids.campaign2026)).run();
+    t.ctx.db.update(campaigns).set({ keepPhotoPositions: true }).where(eq(campaigns.id, ids.campaign)).run();
     try {
       const withPosition = await upload(agent, await newEntry(), [{ data, name: 'grab.jpg' }]);
       expect(withPosition.status).toBe(201);
@@ -318,7 +319,7 @@ describe('what is read from the file', () => {
       const file = stored(rowOf(withPosition.body.photos[0].id).originalKey);
       expect(await exifr.gps(file)).toEqual({ latitude: expect.closeTo(36.145, 5), longitude: expect.closeTo(-7.432, 5) });
     } finally {
-      t.ctx.db.update(campaigns).set({ keepPhotoPositions: false }).where(eq(campaigns.id, ids.campaign2026)).run();
+      t.ctx.db.update(campaigns).set({ keepPhotoPositions: false }).where(eq(campaigns.id, ids.campaign)).run();
     }
   });
 });
@@ -362,7 +363,7 @@ describe('who may upload and see photos', () => {
     const anon = t.anonymous();
     expect((await upload(anon, entry, [{ data: await tinyJpeg(), name: 'a.jpg' }])).status).toBe(401);
     expect((await anon.get(`/api/photos/${photoId}?size=thumb`)).status).toBe(401);
-    expect((await anon.get(`/api/dives/${ids.dive2026}/photos`)).status).toBe(401);
+    expect((await anon.get(`/api/dives/${ids.dive}/photos`)).status).toBe(401);
   });
 
   it('answers 404 to someone outside the campaign, on upload, on the file and on the gallery', async () => {
@@ -377,7 +378,7 @@ describe('who may upload and see photos', () => {
       expect(file.status).toBe(404);
       expect(file.headers['content-type']).toMatch(/json/);
     }
-    expect((await outsider.get(`/api/dives/${ids.dive2026}/photos`)).status).toBe(404);
+    expect((await outsider.get(`/api/dives/${ids.dive}/photos`)).status).toBe(404);
     expect((await outsider.patch(`/api/photos/${photoId}`).send({ caption: 'mine' })).status).toBe(404);
     expect((await outsider.delete(`/api/photos/${photoId}`)).status).toBe(404);
   });
@@ -540,7 +541,7 @@ describe('editing and retiring photos', () => {
     expect(rowOf(id).retired).toBe(true);
     for (const size of ['thumb', 'display', 'original']) expect((await agent.get(`/api/photos/${id}?size=${size}`)).status).toBe(404);
     expect((await agent.get(`/api/observations/${entry}`)).body.photos).toEqual([]);
-    const gallery = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/photos?limit=200`)).body);
+    const gallery = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/photos?limit=200`)).body);
     expect(gallery.items.map((p) => p.id)).not.toContain(id);
     expect((await agent.patch(`/api/photos/${id}`).send({ caption: 'x' })).status).toBe(404);
     // Nothing is hard-deleted: the files stay where they were.
@@ -557,7 +558,7 @@ describe('editing and retiring photos', () => {
     expect(retired.status).toBe(200);
     expect(t.ctx.db.select().from(observations).where(eq(observations.id, entry)).get()!.retired).toBe(true);
     for (const who of [agent, lead]) expect((await who.get(`/api/photos/${id}?size=thumb`)).status).toBe(404);
-    const gallery = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/photos?limit=200`)).body);
+    const gallery = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/photos?limit=200`)).body);
     expect(gallery.items.map((p) => p.id)).not.toContain(id);
     expect((await upload(agent, entry, [{ data: await tinyJpeg('#565656'), name: 'late.jpg' }])).status).toBe(404);
     expect((await agent.patch(`/api/photos/${id}`).send({ caption: 'x' })).status).toBe(404);
@@ -565,7 +566,7 @@ describe('editing and retiring photos', () => {
     const restored = await lead.post(`/api/observations/${entry}/restore`).send({});
     expect(restored.status).toBe(200);
     expect((await agent.get(`/api/photos/${id}?size=thumb`)).status).toBe(200);
-    const back = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/photos?limit=200`)).body);
+    const back = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/photos?limit=200`)).body);
     expect(back.items.map((p) => p.id)).toContain(id);
   });
 });
@@ -578,27 +579,27 @@ describe('the dive gallery', () => {
       { data: await tinyJpeg('#aa1111'), name: 'a1.jpg' },
       { data: await tinyJpeg('#aa2222'), name: 'a2.jpg' },
     ]);
-    const all = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/photos?limit=200`)).body);
+    const all = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/photos?limit=200`)).body);
     expect(all.total).toBe(all.items.length);
     expect(all.items.some((p) => p.observation.id === amphora && p.observation.tags.includes('amphora'))).toBe(true);
 
-    const byKind = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/photos?kind=archaeology&limit=200`)).body);
+    const byKind = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/photos?kind=archaeology&limit=200`)).body);
     expect(byKind.items.length).toBeGreaterThanOrEqual(2);
     expect(byKind.items.every((p) => p.observation.kind === 'archaeology')).toBe(true);
 
-    const byTag = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/photos?tag=AMPHORA&limit=200`)).body);
+    const byTag = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/photos?tag=AMPHORA&limit=200`)).body);
     expect(byTag.items.map((p) => p.observation.id)).toEqual([amphora, amphora]);
     expect(byTag.total).toBe(2);
 
-    const first = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/photos?limit=3`)).body);
+    const first = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/photos?limit=3`)).body);
     expect(first.items).toHaveLength(3);
     expect(first.nextCursor).not.toBeNull();
-    const second = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2026}/photos?limit=3&cursor=${first.nextCursor}`)).body);
+    const second = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive}/photos?limit=3&cursor=${first.nextCursor}`)).body);
     expect(second.items.map((p) => p.id)).toEqual(all.items.slice(3, 6).map((p) => p.id));
 
-    expect((await agent.get(`/api/dives/${ids.dive2026}/photos?cursor=abc`)).status).toBe(400);
-    expect((await agent.get(`/api/dives/${ids.dive2026}/photos?kind=poetry`)).status).toBe(400);
-    const other = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.dive2024}/photos`)).body);
+    expect((await agent.get(`/api/dives/${ids.dive}/photos?cursor=abc`)).status).toBe(400);
+    expect((await agent.get(`/api/dives/${ids.dive}/photos?kind=poetry`)).status).toBe(400);
+    const other = galleryPageSchema.parse((await agent.get(`/api/dives/${ids.otherDive}/photos`)).body);
     expect(other.items).toEqual([]);
   });
 });
@@ -616,14 +617,14 @@ describe('live updates', () => {
     }
     const event = events.find((e) => e.type === 'observation.updated' && (e.payload as { id: string }).id === entry);
     expect(event).toBeDefined();
-    expect(event!.diveId).toBe(ids.dive2026);
+    expect(event!.diveId).toBe(ids.dive);
     expect((event!.payload as { photoCount: number }).photoCount).toBe(1);
   });
 
   it('tells a member watching the dive’s stream of an upload, a caption edit, a move and a removal', async () => {
     const agent = await t.signIn(emails.biologist);
     const entry = await newEntry();
-    const reader = openSse(`${t.url}/api/dives/${ids.dive2026}/stream`, { cookie: await t.sessionCookie(emails.guest) });
+    const reader = openSse(`${t.url}/api/dives/${ids.dive}/stream`, { cookie: await t.sessionCookie(emails.guest) });
     try {
       expect(await reader.status).toBe(200);
       await reader.next((e) => e.event === 'ready', 15_000);
@@ -642,7 +643,7 @@ describe('live updates', () => {
       ]);
       expect(res.status).toBe(201);
       const [first, second] = (res.body.photos as Photo[]).map((p) => p.id);
-      expect(await nextAbout()).toMatchObject({ id: entry, diveId: ids.dive2026, photoCount: 2 });
+      expect(await nextAbout()).toMatchObject({ id: entry, diveId: ids.dive, photoCount: 2 });
 
       expect((await agent.patch(`/api/photos/${first}`).send({ caption: 'Sponge, seen live' })).status).toBe(200);
       expect(await nextAbout()).toMatchObject({ id: entry, photoCount: 2 });
@@ -675,7 +676,7 @@ describe('storage', () => {
     const keys = t.ctx.db
       .select({ o: photos.originalKey, d: photos.displayKey, t: photos.thumbKey })
       .from(photos)
-      .where(eq(photos.campaignId, ids.campaign2026))
+      .where(eq(photos.campaignId, ids.campaign))
       .all()
       .flatMap((r) => [r.o, r.d, r.t]);
     expect(files.sort()).toEqual(keys.sort());

@@ -1,20 +1,21 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { observationDetailSchema, observationPageSchema, observationSchema, revisionSchema } from '@/lib/schemas';
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
+let ids: Fixtures;
 
 beforeAll(async () => {
   t = await startTestServer({ env: { AUTH_RATE_LIMIT: '200' } });
-  ids = demoIds(t.ctx.db);
+  ids = await buildFixtures(t);
 });
 afterAll(() => t.close());
 
 async function logAs(email: string, body: Record<string, unknown>) {
-  const res = await (await t.signIn(email)).post(`/api/dives/${ids.dive2026}/observations`).send(body);
+  const res = await (await t.signIn(email)).post(`/api/dives/${ids.dive}/observations`).send(body);
   expect(res.status).toBe(201);
   return observationSchema.parse(res.body);
 }
@@ -118,7 +119,7 @@ describe('retiring', () => {
     const pilot = await t.signIn(emails.pilot);
     const inLog = async () =>
       observationPageSchema
-        .parse((await pilot.get(`/api/dives/${ids.dive2026}/observations`).query({ limit: 200 })).body)
+        .parse((await pilot.get(`/api/dives/${ids.dive}/observations`).query({ limit: 200 })).body)
         .items.some((o) => o.id === created.id);
     expect(await inLog()).toBe(true);
 
@@ -131,10 +132,10 @@ describe('retiring', () => {
 
     const lead = await t.signIn(emails.lead);
     const list = observationPageSchema.parse(
-      (await lead.get(`/api/dives/${ids.dive2026}/observations`).query({ retired: 'only', limit: 200 })).body,
+      (await lead.get(`/api/dives/${ids.dive}/observations`).query({ retired: 'only', limit: 200 })).body,
     );
     expect(list.items.map((o) => o.id)).toContain(created.id);
-    expect((await pilot.get(`/api/dives/${ids.dive2026}/observations`).query({ retired: 'only' })).status).toBe(403);
+    expect((await pilot.get(`/api/dives/${ids.dive}/observations`).query({ retired: 'only' })).status).toBe(403);
 
     expect((await pilot.post(`/api/observations/${created.id}/restore`)).status).toBe(403);
     expect((await lead.post(`/api/observations/${created.id}/restore`)).status).toBe(200);
@@ -204,7 +205,7 @@ describe('identifications', () => {
     });
 
     const filtered = observationPageSchema.parse(
-      (await bio.get(`/api/dives/${ids.dive2026}/observations`).query({ verification: 'verified', limit: 200 })).body,
+      (await bio.get(`/api/dives/${ids.dive}/observations`).query({ verification: 'verified', limit: 200 })).body,
     );
     expect(filtered.items.map((o) => o.id)).toContain(created.id);
     expect(filtered.items.every((o) => o.identification?.verificationStatus === 'verified')).toBe(true);
@@ -240,11 +241,11 @@ describe('identifications', () => {
 describe('finds and their custody', () => {
   it('numbers finds uniquely in the campaign and proposes the next free number', async () => {
     const arch = await t.signIn(emails.archaeologist);
-    const taken = t.ctx.db.$client.prepare('select find_number from finds where campaign_id = ?').pluck().all(ids.campaign2026) as string[];
-    // The demo's finds run VS26-001, VS26-002, …: the proposal is the next of that series.
-    const highest = Math.max(0, ...taken.map((n) => Number(n.slice(5))));
-    const expected = (n: number) => `VS26-${String(n).padStart(3, '0')}`;
-    const next = (await arch.get(`/api/campaigns/${ids.campaign2026}/finds/next-number`)).body.findNumber;
+    const taken = t.ctx.db.$client.prepare('select find_number from finds where campaign_id = ?').pluck().all(ids.campaign) as string[];
+    // "Test campaign 2026" numbers its finds TC26-001, TC26-002, …: the proposal is the next of that series.
+    const highest = Math.max(0, ...taken.filter((n) => n.startsWith('TC26-')).map((n) => Number(n.slice(5))));
+    const expected = (n: number) => `TC26-${String(n).padStart(3, '0')}`;
+    const next = (await arch.get(`/api/campaigns/${ids.campaign}/finds/next-number`)).body.findNumber;
     expect(next).toBe(expected(highest + 1));
     const a = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Amphora with stopper' });
     const first = await arch
@@ -252,7 +253,7 @@ describe('finds and their custody', () => {
       .send({ version: 1, findNumber: next, objectType: 'amphora', material: 'ceramic', condition: 'complete', state: 'in-situ' });
     expect(first.status).toBe(200);
     expect(first.body.find).toMatchObject({ findNumber: next, state: 'in-situ' });
-    expect((await arch.get(`/api/campaigns/${ids.campaign2026}/finds/next-number`)).body.findNumber).toBe(expected(highest + 2));
+    expect((await arch.get(`/api/campaigns/${ids.campaign}/finds/next-number`)).body.findNumber).toBe(expected(highest + 2));
 
     const b = await logAs(emails.archaeologist, { kind: 'archaeology', title: 'Second amphora' });
     const duplicate = await arch.put(`/api/observations/${b.id}/find`).send({ version: 1, findNumber: next.toLowerCase() });
@@ -294,7 +295,7 @@ describe('finds and their custody', () => {
     expect((await bio.post(`/api/observations/${sampled.id}/custody`).send(step)).status).toBe(201);
 
     const lead = await t.signIn(emails.lead);
-    const vocabulary = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[];
+    const vocabulary = (await lead.get(`/api/campaigns/${ids.campaign}/tags`)).body as { id: string; name: string }[];
     const sample = vocabulary.find((v) => v.name === 'sample')!;
     const other = vocabulary.find((v) => v.name === 'microbial-mat')!;
     for (const change of [{ name: 'samples' }, { retired: true }, { mergeInto: other.id }]) {
@@ -477,19 +478,19 @@ describe('retired tags', () => {
   it('takes a merged tag as the one it went into, keeps new entries whole, and lets no edit add a retired tag', async () => {
     const lead = await t.signIn(emails.lead);
     const bio = await t.signIn(emails.biologist);
-    const plain = (await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'old-survey' })).body as { id: string };
-    const merged = (await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'scleractinia' })).body as { id: string };
+    const plain = (await lead.post(`/api/campaigns/${ids.campaign}/tags`).send({ name: 'old-survey' })).body as { id: string };
+    const merged = (await lead.post(`/api/campaigns/${ids.campaign}/tags`).send({ name: 'scleractinia' })).body as { id: string };
     const tagged = await logAs(emails.biologist, { kind: 'biology', title: 'Tagged before retiring', tags: ['old-survey'] });
 
     expect((await lead.patch(`/api/tags/${plain.id}`).send({ retired: true })).status).toBe(200);
-    const tagList = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[];
+    const tagList = (await lead.get(`/api/campaigns/${ids.campaign}/tags`)).body as { id: string; name: string }[];
     const coral = tagList.find((x) => x.name === 'coral')!;
     expect((await lead.patch(`/api/tags/${merged.id}`).send({ mergeInto: coral.id })).status).toBe(200);
 
     // A new entry (perhaps logged offline before the change) is never refused for its tags: a
     // merged tag stands for the one it went into, a retired one stays.
     const created = await bio
-      .post(`/api/dives/${ids.dive2026}/observations`)
+      .post(`/api/dives/${ids.dive}/observations`)
       .send({ kind: 'biology', title: 'Uses retired tags', tags: ['sponge', 'Old-Survey', 'scleractinia', 'coral'] });
     expect(created.status).toBe(201);
     expect([...created.body.tags].sort()).toEqual(['coral', 'old-survey', 'sponge']);
@@ -516,13 +517,13 @@ describe('dives, phases and the vocabulary', () => {
   it('lets pilots and leads plan dives and mark phases in order', async () => {
     const pilot = await t.signIn(emails.pilot);
     const planned = await pilot
-      .post(`/api/campaigns/${ids.campaign2026}/dives`)
+      .post(`/api/campaigns/${ids.campaign}/dives`)
       .send({ number: 'VS-05', objectives: 'Bow mosaic', plannedMaxDepth: 640 });
     expect(planned.status).toBe(201);
-    expect((await pilot.post(`/api/campaigns/${ids.campaign2026}/dives`).send({ number: 'VS-05' })).status).toBe(409);
-    expect(
-      (await (await t.signIn(emails.biologist)).post(`/api/campaigns/${ids.campaign2026}/dives`).send({ number: 'VS-06' })).status,
-    ).toBe(403);
+    expect((await pilot.post(`/api/campaigns/${ids.campaign}/dives`).send({ number: 'VS-05' })).status).toBe(409);
+    expect((await (await t.signIn(emails.biologist)).post(`/api/campaigns/${ids.campaign}/dives`).send({ number: 'VS-06' })).status).toBe(
+      403,
+    );
 
     const diveId = planned.body.id as string;
     const launch = await pilot.post(`/api/dives/${diveId}/phases`).send({ phase: 'launch', at: '2026-05-17T18:00:00.000Z' });
@@ -537,71 +538,71 @@ describe('dives, phases and the vocabulary', () => {
 
   it('edits a dive with a version; a stale one is a 409', async () => {
     const pilot = await t.signIn(emails.pilot);
-    const dive = (await pilot.get(`/api/dives/${ids.dive2026}`)).body;
+    const dive = (await pilot.get(`/api/dives/${ids.dive}`)).body;
     const ok = await pilot
-      .patch(`/api/dives/${ids.dive2026}`)
+      .patch(`/api/dives/${ids.dive}`)
       .send({ version: dive.version, recordingStartAt: '2026-05-13T17:35:00.000Z', frameRate: '29.97 DF' });
     expect(ok.status).toBe(200);
     expect(ok.body.recording).toEqual({ startAt: '2026-05-13T17:35:00.000Z', frameRate: '29.97 DF' });
-    expect((await pilot.patch(`/api/dives/${ids.dive2026}`).send({ version: dive.version, objectives: 'x' })).status).toBe(409);
-    expect((await pilot.patch(`/api/dives/${ids.dive2026}`).send({ version: ok.body.version, frameRate: '31' })).status).toBe(400);
+    expect((await pilot.patch(`/api/dives/${ids.dive}`).send({ version: dive.version, objectives: 'x' })).status).toBe(409);
+    expect((await pilot.patch(`/api/dives/${ids.dive}`).send({ version: ok.body.version, frameRate: '31' })).status).toBe(400);
   });
 
   it('lets the lead add, rename and merge tags without losing any tagging', async () => {
     const lead = await t.signIn(emails.lead);
-    const added = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'bryozoan' });
+    const added = await lead.post(`/api/campaigns/${ids.campaign}/tags`).send({ name: 'bryozoan' });
     expect(added.status).toBe(201);
-    expect((await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'Bryozoan' })).status).toBe(409);
-    expect((await (await t.signIn(emails.biologist)).post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'x' })).status).toBe(403);
+    expect((await lead.post(`/api/campaigns/${ids.campaign}/tags`).send({ name: 'Bryozoan' })).status).toBe(409);
+    expect((await (await t.signIn(emails.biologist)).post(`/api/campaigns/${ids.campaign}/tags`).send({ name: 'x' })).status).toBe(403);
 
     const tagged = await logAs(emails.biologist, { kind: 'biology', title: 'Lace-like colony', tags: ['bryozoan'] });
     const renamed = await lead.patch(`/api/tags/${added.body.id}`).send({ name: 'bryozoa' });
     expect(renamed.body.name).toBe('bryozoa');
     expect((await detail(tagged.id)).tags).toEqual(['bryozoa']);
 
-    const tagList = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[];
+    const tagList = (await lead.get(`/api/campaigns/${ids.campaign}/tags`)).body as { id: string; name: string }[];
     const coral = tagList.find((x) => x.name === 'coral')!;
     const merged = await lead.patch(`/api/tags/${added.body.id}`).send({ mergeInto: coral.id });
     expect(merged.status).toBe(200);
     expect((await detail(tagged.id)).tags).toEqual(['coral']);
-    const after = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { name: string; retired: boolean }[];
+    const after = (await lead.get(`/api/campaigns/${ids.campaign}/tags`)).body as { name: string; retired: boolean }[];
     expect(after.find((x) => x.name === 'bryozoa')?.retired).toBe(true);
   });
 
   it('keeps quick marks per campaign, defined by the lead', async () => {
     const lead = await t.signIn(emails.lead);
     const made = await lead
-      .post(`/api/campaigns/${ids.campaign2026}/quick-marks`)
+      .post(`/api/campaigns/${ids.campaign}/quick-marks`)
       .send({ label: 'Ripple marks', kind: 'environment', tags: ['sediment'] });
     expect(made.status).toBe(201);
     expect(
-      (await (await t.signIn(emails.pilot)).post(`/api/campaigns/${ids.campaign2026}/quick-marks`).send({ label: 'x', kind: 'operations' }))
+      (await (await t.signIn(emails.pilot)).post(`/api/campaigns/${ids.campaign}/quick-marks`).send({ label: 'x', kind: 'operations' }))
         .status,
     ).toBe(403);
-    const list = (await (await t.signIn(emails.guest)).get(`/api/campaigns/${ids.campaign2026}/quick-marks`)).body;
+    const list = (await (await t.signIn(emails.guest)).get(`/api/campaigns/${ids.campaign}/quick-marks`)).body;
     expect(list).toContainEqual(expect.objectContaining({ label: 'Ripple marks', kind: 'environment', tags: ['sediment'] }));
     expect((await lead.delete(`/api/quick-marks/${made.body.id}`)).status).toBe(204);
-    const after = (await lead.get(`/api/campaigns/${ids.campaign2026}/quick-marks`)).body as { id: string }[];
+    const after = (await lead.get(`/api/campaigns/${ids.campaign}/quick-marks`)).body as { id: string }[];
     expect(after.map((q) => q.id)).not.toContain(made.body.id);
     expect(after.length).toBe(list.length - 1);
   });
 
   it('carries a tag rename, merge or retirement into the quick marks, so a tap never fails on its tags', async () => {
     const lead = await t.signIn(emails.lead);
-    const scour = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'scour-pit' });
-    const ripple = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'ripple-field' });
+    const scour = await lead.post(`/api/campaigns/${ids.campaign}/tags`).send({ name: 'scour-pit' });
+    const ripple = await lead.post(`/api/campaigns/${ids.campaign}/tags`).send({ name: 'ripple-field' });
     const mark = await lead
-      .post(`/api/campaigns/${ids.campaign2026}/quick-marks`)
+      .post(`/api/campaigns/${ids.campaign}/quick-marks`)
       .send({ label: 'Scour at the stern', kind: 'environment', tags: ['scour-pit', 'ripple-field', 'coral'] });
     expect(mark.status).toBe(201);
     const tagsOfMark = async () =>
-      ((await lead.get(`/api/campaigns/${ids.campaign2026}/quick-marks`)).body as { id: string; tags: string[] }[]).find(
+      ((await lead.get(`/api/campaigns/${ids.campaign}/quick-marks`)).body as { id: string; tags: string[] }[]).find(
         (q) => q.id === mark.body.id,
       )!.tags;
 
     expect((await lead.patch(`/api/tags/${scour.body.id}`).send({ name: 'scour' })).status).toBe(200);
     expect(await tagsOfMark()).toEqual(['scour', 'ripple-field', 'coral']);
-    const coral = ((await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[]).find(
+    const coral = ((await lead.get(`/api/campaigns/${ids.campaign}/tags`)).body as { id: string; name: string }[]).find(
       (x) => x.name === 'coral',
     )!;
     expect((await lead.patch(`/api/tags/${scour.body.id}`).send({ mergeInto: coral.id })).status).toBe(200);
@@ -609,7 +610,7 @@ describe('dives, phases and the vocabulary', () => {
     expect((await lead.patch(`/api/tags/${ripple.body.id}`).send({ retired: true })).status).toBe(200);
     expect(await tagsOfMark()).toEqual(['coral']);
     // Nothing merges into a retired tag.
-    const stray = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'stray' });
+    const stray = await lead.post(`/api/campaigns/${ids.campaign}/tags`).send({ name: 'stray' });
     const intoRetired = await lead.patch(`/api/tags/${stray.body.id}`).send({ mergeInto: ripple.body.id });
     expect(intoRetired.status).toBe(400);
     expect(intoRetired.body.error.issues[0].path).toBe('mergeInto');
@@ -618,7 +619,7 @@ describe('dives, phases and the vocabulary', () => {
     const tapped = await (
       await t.signIn(emails.biologist)
     )
-      .post(`/api/dives/${ids.dive2026}/observations`)
+      .post(`/api/dives/${ids.dive}/observations`)
       .send({ kind: 'environment', title: 'Scour at the stern', tags: await tagsOfMark() });
     expect(tapped.status).toBe(201);
   });
@@ -627,7 +628,7 @@ describe('dives, phases and the vocabulary', () => {
 describe('sorting and filtering the log', () => {
   it('sorts by depth, shallowest first, with unknown depths last', async () => {
     const page = observationPageSchema.parse(
-      (await (await t.signIn(emails.lead)).get(`/api/dives/${ids.dive2026}/observations`).query({ sort: 'depth', limit: 200 })).body,
+      (await (await t.signIn(emails.lead)).get(`/api/dives/${ids.dive}/observations`).query({ sort: 'depth', limit: 200 })).body,
     );
     const depths = page.items.map((o) => o.depth);
     const known = depths.filter((d): d is number => d !== null);
@@ -641,7 +642,7 @@ describe('sorting and filtering the log', () => {
     let cursor: string | null = null;
     do {
       const page = observationPageSchema.parse(
-        (await lead.get(`/api/dives/${ids.dive2026}/observations`).query({ sort: 'author', limit: 6, ...(cursor ? { cursor } : {}) })).body,
+        (await lead.get(`/api/dives/${ids.dive}/observations`).query({ sort: 'author', limit: 6, ...(cursor ? { cursor } : {}) })).body,
       );
       seen.push(...page.items.map((o) => o.id));
       cursor = page.nextCursor;
@@ -654,15 +655,15 @@ describe('sending the same entry twice', () => {
   it('stores it once when the device sends it again with the same clientRef', async () => {
     const bio = await t.signIn(emails.biologist);
     const body = { kind: 'biology', title: 'Sent over a dropping link', clientRef: 'device-7f3a9c21-0001' };
-    const first = await bio.post(`/api/dives/${ids.dive2026}/observations`).send(body);
-    const again = await bio.post(`/api/dives/${ids.dive2026}/observations`).send(body);
+    const first = await bio.post(`/api/dives/${ids.dive}/observations`).send(body);
+    const again = await bio.post(`/api/dives/${ids.dive}/observations`).send(body);
     expect(first.status).toBe(201);
     expect(again.status).toBe(200);
     expect(again.body.id).toBe(first.body.id);
     const n = t.ctx.db.$client.prepare("select count(*) from observations where title = 'Sent over a dropping link'").pluck().get();
     expect(n).toBe(1);
     // Another person's device may happen to use the same reference: that is a different entry.
-    const other = await (await t.signIn(emails.guest)).post(`/api/dives/${ids.dive2026}/observations`).send(body);
+    const other = await (await t.signIn(emails.guest)).post(`/api/dives/${ids.dive}/observations`).send(body);
     expect(other.status).toBe(201);
     expect(other.body.id).not.toBe(first.body.id);
   });

@@ -1,23 +1,24 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { openSse } from '../helpers/sse';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
+let ids: Fixtures;
 
 beforeAll(async () => {
   // A short heartbeat, so the tests can see it and see a revoked session noticed on it.
   t = await startTestServer({ env: { AUTH_RATE_LIMIT: '200', STREAM_HEARTBEAT_MS: '300' } });
-  ids = demoIds(t.ctx.db);
+  ids = await buildFixtures(t);
 });
 afterAll(() => t.close());
 
-const streamUrl = () => `${t.url}/api/dives/${ids.dive2026}/stream`;
+const streamUrl = () => `${t.url}/api/dives/${ids.dive}/stream`;
 
 async function log(email: string, title: string) {
-  const res = await (await t.signIn(email)).post(`/api/dives/${ids.dive2026}/observations`).send({ kind: 'biology', title });
+  const res = await (await t.signIn(email)).post(`/api/dives/${ids.dive}/observations`).send({ kind: 'biology', title });
   expect(res.status).toBe(201);
   return res.body as { id: string; version: number };
 }
@@ -46,11 +47,7 @@ describe('the live dive log', () => {
     const retired = await reader.next((e) => e.event === 'observation.retired');
     expect(JSON.parse(retired.data)).toMatchObject({ id: created.id });
 
-    await (
-      await t.signIn(emails.pilot)
-    )
-      .post(`/api/dives/${ids.dive2026}/phases`)
-      .send({ phase: 'on-deck', at: '2026-05-13T23:00:00.000Z' });
+    await (await t.signIn(emails.pilot)).post(`/api/dives/${ids.dive}/phases`).send({ phase: 'on-deck', at: '2026-05-13T23:00:00.000Z' });
     const dive = await reader.next((e) => e.event === 'dive.updated');
     expect(JSON.parse(dive.data).phases.onDeck).toBe('2026-05-13T23:00:00.000Z');
     reader.close();
@@ -91,7 +88,7 @@ describe('the live dive log', () => {
     expect(await anon.status).toBe(401);
     const outsider = openSse(streamUrl(), { cookie: await t.sessionCookie(emails.outsider) });
     expect(await outsider.status).toBe(404);
-    const guest2024 = openSse(`${t.url}/api/dives/${ids.dive2024}/stream`, { cookie: await t.sessionCookie(emails.guest) });
+    const guest2024 = openSse(`${t.url}/api/dives/${ids.otherDive}/stream`, { cookie: await t.sessionCookie(emails.guest) });
     expect(await guest2024.status).toBe(404);
   });
 
@@ -129,13 +126,13 @@ describe('a member removed while following a dive', () => {
   afterAll(() => quiet.close());
 
   it('has their stream closed by the lead removing them, and cannot open it again', async () => {
-    const qids = demoIds(quiet.ctx.db);
-    const url = `${quiet.url}/api/dives/${qids.dive2026}/stream`;
+    const qids = await buildFixtures(quiet);
+    const url = `${quiet.url}/api/dives/${qids.dive}/stream`;
     const cookie = await quiet.sessionCookie(emails.pilot);
     const reader = openSse(url, { cookie });
     await reader.next((e) => e.event === 'ready');
     const lead = await quiet.signIn(emails.lead);
-    const removed = await lead.delete(`/api/campaigns/${qids.campaign2026}/members/${qids.userId(emails.pilot)}`).set('Origin', quiet.url);
+    const removed = await lead.delete(`/api/campaigns/${qids.campaign}/members/${qids.userId(emails.pilot)}`).set('Origin', quiet.url);
     expect(removed.status).toBe(200);
     await reader.ended;
     expect(await openSse(url, { cookie }).status).toBe(404);

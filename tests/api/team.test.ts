@@ -3,15 +3,16 @@ import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 
 import { caughtMailSchema, invitationSchema, meSchema, type Invitation } from '@/lib/schemas';
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
+let ids: Fixtures;
 
 beforeAll(async () => {
   t = await startTestServer({ env: { AUTH_RATE_LIMIT: '500' } });
-  ids = demoIds(t.ctx.db);
+  ids = await buildFixtures(t);
 });
 afterAll(() => t.close());
 
@@ -62,7 +63,7 @@ describe('inviting a guest scientist', () => {
   it('mails a one-time link that signs them in and lands them in the campaign with that role', async () => {
     const lead = await t.signIn(emails.lead);
     const res = await lead
-      .post(`/api/campaigns/${ids.campaign2026}/invitations`)
+      .post(`/api/campaigns/${ids.campaign}/invitations`)
       .send({ email: 'Noor.Halvorsen@bathynote.test', role: 'guest', name: 'Noor Halvorsen' });
     expect(res.status).toBe(201);
     const invitation = invitationSchema.parse(res.body);
@@ -75,9 +76,9 @@ describe('inviting a guest scientist', () => {
     expect(Date.parse(invitation.expiresAt) - Date.now()).toBeGreaterThan(71 * 3600_000);
 
     const mail = await mailTo('noor.halvorsen@bathynote.test');
-    expect(mail.subject).toBe('Ada Lumen invites you to Varn Shoal 2026 in Bathynote');
+    expect(mail.subject).toBe(`Ada Lumen invites you to ${ids.campaignName} in Bathynote`);
     expect(mail.text).toContain('as a guest scientist');
-    expect(mail.html).toContain('Join Varn Shoal 2026');
+    expect(mail.html).toContain(`Join ${ids.campaignName}`);
     expect(mail.headers.from).toContain('Bathynote');
     const link = linkIn(mail.text);
     expect(mail.html).toContain(link.replace(/&/g, '&amp;'));
@@ -88,12 +89,12 @@ describe('inviting a guest scientist', () => {
     expect(stored.some((v) => v.identifier.includes(token) || v.value.includes(token))).toBe(false);
 
     const first = await follow(link);
-    expect(first.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
+    expect(first.last.location).toBe(`/campaigns/${ids.campaign}?welcome=1`);
     const me = meSchema.parse(await (await fetch(`${t.url}/api/me`, { headers: { cookie: first.cookie } })).json());
     expect(me.user.email).toBe('noor.halvorsen@bathynote.test');
     expect(me.user.name).toBe('Noor Halvorsen');
-    expect(me.memberships).toEqual([{ campaignId: ids.campaign2026, role: 'guest' }]);
-    const list = (await lead.get(`/api/campaigns/${ids.campaign2026}/invitations`)).body as { id: string; status: string }[];
+    expect(me.memberships).toEqual([{ campaignId: ids.campaign, role: 'guest' }]);
+    const list = (await lead.get(`/api/campaigns/${ids.campaign}/invitations`)).body as { id: string; status: string }[];
     expect(list.find((i) => i.id === invitation.id)?.status).toBe('accepted');
 
     // The link works once.
@@ -104,14 +105,14 @@ describe('inviting a guest scientist', () => {
 
   it('refuses an expired link with a page that says how to get a new one', async () => {
     const lead = await t.signIn(emails.lead);
-    const res = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email: 'late@bathynote.test', role: 'scientist' });
+    const res = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email: 'late@bathynote.test', role: 'scientist' });
     const link = linkIn((await mailTo('late@bathynote.test')).text);
     t.ctx.db.$client.prepare('update verification set expires_at = ?').run(Date.now() - 1000);
     t.ctx.db.$client.prepare('update invitations set expires_at = ? where id = ?').run(Date.now() - 1000, res.body.id);
     const hop = await follow(link);
     expect(new URL(hop.last.location!, t.url).pathname).toBe('/invitation-problem');
     expect(t.ctx.db.$client.prepare("select count(*) from user where email = 'late@bathynote.test'").pluck().get()).toBe(0);
-    const list = (await lead.get(`/api/campaigns/${ids.campaign2026}/invitations`)).body as { id: string; status: string }[];
+    const list = (await lead.get(`/api/campaigns/${ids.campaign}/invitations`)).body as { id: string; status: string }[];
     expect(list.find((i) => i.id === res.body.id)?.status).toBe('expired');
 
     // A resend makes a new link that works.
@@ -120,7 +121,7 @@ describe('inviting a guest scientist', () => {
     await t.ctx.mail.settled();
     const fresh = (await outbox()).filter((m) => m.to.includes('late@bathynote.test'))[0]!;
     const joined = await follow(linkIn(fresh.text));
-    expect(joined.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
+    expect(joined.last.location).toBe(`/campaigns/${ids.campaign}?welcome=1`);
   });
 
   it('never makes a link, a mail or an account for an address nobody invited', async () => {
@@ -134,7 +135,7 @@ describe('inviting a guest scientist', () => {
 
   it('refuses a revoked invitation', async () => {
     const lead = await t.signIn(emails.lead);
-    const res = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email: 'revoked@bathynote.test', role: 'guest' });
+    const res = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email: 'revoked@bathynote.test', role: 'guest' });
     const link = linkIn((await mailTo('revoked@bathynote.test')).text);
     expect((await lead.delete(`/api/invitations/${res.body.id}`)).body.status).toBe('revoked');
     const hop = await follow(link);
@@ -146,8 +147,8 @@ describe('inviting a guest scientist', () => {
   it('makes an earlier link stop working when an invitation is resent, leaving other invitations’ links alone', async () => {
     const lead = await t.signIn(emails.lead);
     const email = 'resent@bathynote.test';
-    const first = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' });
-    const other = await lead.post(`/api/campaigns/${ids.campaign2024}/invitations`).send({ email, role: 'scientist' });
+    const first = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email, role: 'guest' });
+    const other = await lead.post(`/api/campaigns/${ids.otherCampaign}/invitations`).send({ email, role: 'scientist' });
     expect([first.status, other.status]).toEqual([201, 201]);
     await t.ctx.mail.settled();
     const mails = () => outbox().then((all) => all.filter((m) => m.to.includes(email)));
@@ -162,15 +163,15 @@ describe('inviting a guest scientist', () => {
     expect(t.ctx.db.$client.prepare('select count(*) from user where email = ?').pluck().get(email)).toBe(0);
 
     const fresh = await follow(linkIn(resentMail.text));
-    expect(fresh.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
+    expect(fresh.last.location).toBe(`/campaigns/${ids.campaign}?welcome=1`);
     const joined = await follow(linkIn(otherMail!.text));
-    expect(joined.last.location).toBe(`/campaigns/${ids.campaign2024}?welcome=1`);
+    expect(joined.last.location).toBe(`/campaigns/${ids.otherCampaign}?welcome=1`);
   });
 
   it('keeps the earlier link working when the resent mail cannot be sent', async () => {
     const lead = await t.signIn(emails.lead);
     const email = 'no-link-at-sea@bathynote.test';
-    const res = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' });
+    const res = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email, role: 'guest' });
     const link = linkIn((await mailTo(email)).text);
     const send = vi.spyOn(t.ctx.mailer, 'send').mockRejectedValueOnce(new Error('connection refused'));
     try {
@@ -180,8 +181,12 @@ describe('inviting a guest scientist', () => {
       expect(invitationSchema.parse(resent.body).mail?.state).toBe('queued');
       await vi.waitFor(
         async () => {
-          const list = (await lead.get(`/api/campaigns/${ids.campaign2026}/invitations`)).body as Invitation[];
-          expect(list.find((i) => i.id === res.body.id)?.mail).toMatchObject({ state: 'queued', attempts: 1, reason: 'connection refused' });
+          const list = (await lead.get(`/api/campaigns/${ids.campaign}/invitations`)).body as Invitation[];
+          expect(list.find((i) => i.id === res.body.id)?.mail).toMatchObject({
+            state: 'queued',
+            attempts: 1,
+            reason: 'connection refused',
+          });
         },
         { timeout: 5000 },
       );
@@ -189,15 +194,15 @@ describe('inviting a guest scientist', () => {
       send.mockRestore();
     }
     const joined = await follow(link);
-    expect(joined.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
+    expect(joined.last.location).toBe(`/campaigns/${ids.campaign}?welcome=1`);
   });
 
   it('mails two invitations of one address, sent at once, each with its own link', async () => {
     const lead = await t.signIn(emails.lead);
     const email = 'both-seasons@bathynote.test';
     const [a, b] = await Promise.all([
-      lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' }),
-      lead.post(`/api/campaigns/${ids.campaign2024}/invitations`).send({ email, role: 'scientist' }),
+      lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email, role: 'guest' }),
+      lead.post(`/api/campaigns/${ids.otherCampaign}/invitations`).send({ email, role: 'scientist' }),
     ]);
     expect([a.status, b.status]).toEqual([201, 201]);
     await t.ctx.mail.settled();
@@ -205,7 +210,7 @@ describe('inviting a guest scientist', () => {
     expect(mails).toHaveLength(2);
     for (const mail of mails) {
       const token = new URL(linkIn(mail.text)).searchParams.get('token')!;
-      const forCampaign = mail.subject.includes('2026') ? a.body.id : b.body.id;
+      const forCampaign = mail.subject.includes(`to ${ids.campaignName} `) ? a.body.id : b.body.id;
       expect(token.startsWith(`${forCampaign}.`)).toBe(true);
     }
   });
@@ -213,7 +218,7 @@ describe('inviting a guest scientist', () => {
   it('still takes a link mailed before links carried their invitation', async () => {
     const lead = await t.signIn(emails.lead);
     const email = 'mailed-last-week@bathynote.test';
-    const res = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' });
+    const res = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email, role: 'guest' });
     expect(res.status).toBe(201);
     // A link as the earlier release stored it: better-auth's plain SHA-256 of a token without a key.
     const token = 'LegacyTokenWithoutAnyInvitationKey0123456789';
@@ -230,13 +235,13 @@ describe('inviting a guest scientist', () => {
     const accept = `${t.url}/api/invitations/${res.body.id}/accept`;
     const link = `${t.url}/api/auth/magic-link/verify?token=${token}&callbackURL=${encodeURIComponent(accept)}&newUserCallbackURL=${encodeURIComponent(accept)}`;
     const joined = await follow(link);
-    expect(joined.last.location).toBe(`/campaigns/${ids.campaign2026}?welcome=1`);
+    expect(joined.last.location).toBe(`/campaigns/${ids.campaign}?welcome=1`);
   });
 
   it('makes no account from a link whose invitation closed, even if the link were left behind', async () => {
     const lead = await t.signIn(emails.lead);
     const email = 'left-behind@bathynote.test';
-    const res = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email, role: 'guest' });
+    const res = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email, role: 'guest' });
     const link = linkIn((await mailTo(email)).text);
     // Close the invitation behind the service's back, leaving its link in place.
     t.ctx.db.$client.prepare("update invitations set status = 'revoked' where id = ?").run(res.body.id);
@@ -252,20 +257,18 @@ describe('inviting a guest scientist', () => {
     [{ email: 'x@bathynote.test', role: 'captain' }, 400, 'role'],
     [{ email: 'x@bathynote.test', role: 'guest', campaignId: 'other' }, 400, '(body)'],
   ])('refuses %j with %i', async (body, status, path) => {
-    const res = await (await t.signIn(emails.lead)).post(`/api/campaigns/${ids.campaign2026}/invitations`).send(body);
+    const res = await (await t.signIn(emails.lead)).post(`/api/campaigns/${ids.campaign}/invitations`).send(body);
     expect(res.status).toBe(status);
     expect(res.body.error.issues.map((i: { path: string }) => i.path)).toContain(path);
   });
 
   it('says clearly when the address is already a member or already invited', async () => {
     const lead = await t.signIn(emails.lead);
-    const member = await lead
-      .post(`/api/campaigns/${ids.campaign2026}/invitations`)
-      .send({ email: 'BIOLOGIST@bathynote.test', role: 'guest' });
+    const member = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email: 'BIOLOGIST@bathynote.test', role: 'guest' });
     expect(member.status).toBe(409);
     expect(member.body.error).toMatchObject({ code: 'already_member' });
-    await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email: 'twice@bathynote.test', role: 'guest' });
-    const twice = await lead.post(`/api/campaigns/${ids.campaign2026}/invitations`).send({ email: 'twice@bathynote.test', role: 'pilot' });
+    await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email: 'twice@bathynote.test', role: 'guest' });
+    const twice = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email: 'twice@bathynote.test', role: 'pilot' });
     expect(twice.status).toBe(409);
     expect(twice.body.error.code).toBe('already_invited');
   });
@@ -275,7 +278,7 @@ describe('inviting a guest scientist', () => {
       const res = await (
         await t.signIn(email)
       )
-        .post(`/api/campaigns/${ids.campaign2026}/invitations`)
+        .post(`/api/campaigns/${ids.campaign}/invitations`)
         .send({ email: 'y@bathynote.test', role: 'guest' });
       expect(res.status, email).toBe(403);
     }
@@ -284,7 +287,7 @@ describe('inviting a guest scientist', () => {
         await (
           await t.signIn(emails.outsider)
         )
-          .post(`/api/campaigns/${ids.campaign2026}/invitations`)
+          .post(`/api/campaigns/${ids.campaign}/invitations`)
           .send({ email: 'y@bathynote.test', role: 'guest' })
       ).status,
     ).toBe(404);
@@ -293,7 +296,7 @@ describe('inviting a guest scientist', () => {
   it('keeps a line break in a name out of the mail headers', async () => {
     const lead = await t.signIn(emails.lead);
     const res = await lead
-      .post(`/api/campaigns/${ids.campaign2026}/invitations`)
+      .post(`/api/campaigns/${ids.campaign}/invitations`)
       .send({ email: 'header@bathynote.test', role: 'guest', name: 'Eve\r\nBcc: spy@evil.example' });
     expect(res.status).toBe(201);
     const mail = await mailTo('header@bathynote.test');
@@ -308,51 +311,43 @@ describe('the team', () => {
     const lead = await t.signIn(emails.lead);
     const pilotId = ids.userId(emails.pilot);
     const pilot = await t.freshSignIn(emails.pilot);
-    expect((await pilot.post(`/api/dives/${ids.dive2026}/phases`).send({ phase: 'launch', at: '2026-05-13T17:40:00.000Z' })).status).toBe(
-      200,
-    );
-    const demoted = await lead.patch(`/api/campaigns/${ids.campaign2026}/members/${pilotId}`).send({ role: 'guest' });
+    expect((await pilot.post(`/api/dives/${ids.dive}/phases`).send({ phase: 'launch', at: '2026-05-13T17:40:00.000Z' })).status).toBe(200);
+    const demoted = await lead.patch(`/api/campaigns/${ids.campaign}/members/${pilotId}`).send({ role: 'guest' });
     expect(demoted.status).toBe(200);
     expect(demoted.body.find((m: { userId: string }) => m.userId === pilotId).role).toBe('guest');
-    expect((await pilot.post(`/api/dives/${ids.dive2026}/phases`).send({ phase: 'launch', at: '2026-05-13T17:40:00.000Z' })).status).toBe(
-      403,
-    );
+    expect((await pilot.post(`/api/dives/${ids.dive}/phases`).send({ phase: 'launch', at: '2026-05-13T17:40:00.000Z' })).status).toBe(403);
 
-    expect((await lead.delete(`/api/campaigns/${ids.campaign2026}/members/${pilotId}`)).status).toBe(200);
-    expect((await pilot.get(`/api/campaigns/${ids.campaign2026}`)).status).toBe(404);
-    expect((await pilot.get(`/api/dives/${ids.dive2026}/observations`)).status).toBe(404);
+    expect((await lead.delete(`/api/campaigns/${ids.campaign}/members/${pilotId}`)).status).toBe(200);
+    expect((await pilot.get(`/api/campaigns/${ids.campaign}`)).status).toBe(404);
+    expect((await pilot.get(`/api/dives/${ids.dive}/observations`)).status).toBe(404);
 
     // Put the pilot back for the other tests.
     t.ctx.db.$client
       .prepare('insert into memberships (campaign_id, user_id, role, created_at) values (?, ?, ?, ?)')
-      .run(ids.campaign2026, pilotId, 'pilot', Date.now());
+      .run(ids.campaign, pilotId, 'pilot', Date.now());
   });
 
   it('keeps at least one lead', async () => {
     const lead = await t.signIn(emails.lead);
     const leadId = ids.userId(emails.lead);
-    const demote = await lead.patch(`/api/campaigns/${ids.campaign2026}/members/${leadId}`).send({ role: 'scientist' });
+    const demote = await lead.patch(`/api/campaigns/${ids.campaign}/members/${leadId}`).send({ role: 'scientist' });
     expect(demote.status).toBe(409);
     expect(demote.body.error.code).toBe('last_lead');
-    expect((await lead.delete(`/api/campaigns/${ids.campaign2026}/members/${leadId}`)).status).toBe(409);
-    expect((await lead.patch(`/api/campaigns/${ids.campaign2026}/members/${leadId}`).send({ role: 'owner' })).status).toBe(400);
+    expect((await lead.delete(`/api/campaigns/${ids.campaign}/members/${leadId}`)).status).toBe(409);
+    expect((await lead.patch(`/api/campaigns/${ids.campaign}/members/${leadId}`).send({ role: 'owner' })).status).toBe(400);
   });
 
   it('lets the lead edit the campaign, with a real time zone', async () => {
     const lead = await t.signIn(emails.lead);
     const ok = await lead
-      .patch(`/api/campaigns/${ids.campaign2026}`)
+      .patch(`/api/campaigns/${ids.campaign}`)
       .send({ permitRef: 'VS-2026-PERMIT-07 rev. B', timeZone: 'Atlantic/Azores' });
     expect(ok.status).toBe(200);
     expect(ok.body).toMatchObject({ permitRef: 'VS-2026-PERMIT-07 rev. B', timeZone: 'Atlantic/Azores' });
-    expect((await lead.patch(`/api/campaigns/${ids.campaign2026}`).send({ timeZone: 'Mars/Olympus' })).status).toBe(400);
-    expect((await lead.patch(`/api/campaigns/${ids.campaign2026}`).send({ startDate: '2026-05-20', endDate: '2026-05-10' })).status).toBe(
-      400,
-    );
-    expect((await (await t.signIn(emails.biologist)).patch(`/api/campaigns/${ids.campaign2026}`).send({ permitRef: 'x' })).status).toBe(
-      403,
-    );
-    await lead.patch(`/api/campaigns/${ids.campaign2026}`).send({ timeZone: 'Europe/Lisbon' });
+    expect((await lead.patch(`/api/campaigns/${ids.campaign}`).send({ timeZone: 'Mars/Olympus' })).status).toBe(400);
+    expect((await lead.patch(`/api/campaigns/${ids.campaign}`).send({ startDate: '2026-05-20', endDate: '2026-05-10' })).status).toBe(400);
+    expect((await (await t.signIn(emails.biologist)).patch(`/api/campaigns/${ids.campaign}`).send({ permitRef: 'x' })).status).toBe(403);
+    await lead.patch(`/api/campaigns/${ids.campaign}`).send({ timeZone: 'Europe/Lisbon' });
   });
 });
 

@@ -8,29 +8,29 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { campaigns } from '@/db/schema';
 import { telemetryImportReportSchema, telemetrySamplesSchema } from '@/lib/schemas';
-import { MAX_LOG_BYTES } from '@/server/services/telemetry-upload';
-import { demoIds, emails } from '../helpers/demo';
+import { MAX_LOG_BYTES } from '@/server/middleware/telemetry-upload';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 import { csv, htmlPage, iso, linearLog, pngBytes } from '../fixtures/telemetry/logs';
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
+let ids: Fixtures;
 
 beforeAll(async () => {
   t = await startTestServer();
-  ids = demoIds(t.ctx.db);
+  ids = await buildFixtures(t, { telemetry: true });
 });
 afterAll(() => t.close());
 
-/** 2026-05-13T18:00:00Z, during the descent of demo dive VS-02. */
+/** 2026-05-13T18:00:00Z, during the descent of the fixture dive. */
 const T0 = Date.UTC(2026, 4, 13, 18, 0, 0);
 
-const samples = () =>
-  t.ctx.db.$client.prepare('select count(*) from telemetry_samples where dive_id = ?').pluck().get(ids.dive2026) as number;
+const samples = () => t.ctx.db.$client.prepare('select count(*) from telemetry_samples where dive_id = ?').pluck().get(ids.dive) as number;
 const stored = () =>
   t.ctx.db.$client
     .prepare('select t, depth, pressure, lat, lon, heading, temperature from telemetry_samples where dive_id = ? order by t')
-    .all(ids.dive2026) as {
+    .all(ids.dive) as {
     t: number;
     depth: number | null;
     pressure: number | null;
@@ -40,7 +40,7 @@ const stored = () =>
     temperature: number | null;
   }[];
 const importCount = () =>
-  t.ctx.db.$client.prepare('select count(*) from telemetry_imports where dive_id = ?').pluck().get(ids.dive2026) as number;
+  t.ctx.db.$client.prepare('select count(*) from telemetry_imports where dive_id = ?').pluck().get(ids.dive) as number;
 
 async function upload(
   file: Buffer | string,
@@ -48,7 +48,7 @@ async function upload(
   options: { as?: string; name?: string; type?: string } = {},
 ) {
   const agent = await t.signIn(options.as ?? emails.pilot);
-  const req = agent.post(`/api/dives/${ids.dive2026}/telemetry`);
+  const req = agent.post(`/api/dives/${ids.dive}/telemetry`);
   for (const [k, v] of Object.entries(fields)) void req.field(k, v);
   return req.attach('file', file, { filename: options.name ?? 'skerry-nav.csv', contentType: options.type ?? 'text/csv' });
 }
@@ -60,7 +60,7 @@ async function imported(file: Buffer, fields: Record<string, string> = {}) {
 }
 
 describe('a good log', () => {
-  it('takes an ISO 8601 comma-separated log, replacing the demo log, and records the import', async () => {
+  it('takes an ISO 8601 comma-separated log, replacing the log before it, and records the import', async () => {
     const before = importCount();
     const report = await imported(linearLog(T0, 10, 10));
     expect(report).toMatchObject({
@@ -82,7 +82,7 @@ describe('a good log', () => {
     expect(stored()[3]).toMatchObject({ t: T0 + 30_000, depth: 590.3, lat: 36.145003, lon: -7.432003, temperature: 10.803 });
     expect(importCount()).toBe(before + 1);
 
-    const history = telemetrySamplesSchema.parse((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive2026}/telemetry`)).body);
+    const history = telemetrySamplesSchema.parse((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive}/telemetry`)).body);
     expect(history.imports[0]).toMatchObject({
       id: report.importId,
       fileName: 'skerry-nav.csv',
@@ -220,7 +220,7 @@ describe('a good log', () => {
   });
 
   describe('depth from pressure', () => {
-    const setDatumLat = (lat: number) => t.ctx.db.update(campaigns).set({ datumLat: lat }).where(eq(campaigns.id, ids.campaign2026)).run();
+    const setDatumLat = (lat: number) => t.ctx.db.update(campaigns).set({ datumLat: lat }).where(eq(campaigns.id, ids.campaign)).run();
 
     it('computes depth by UNESCO 1983 at the datum latitude from a pressure-only log', async () => {
       setDatumLat(30);
@@ -316,7 +316,7 @@ describe('a good log', () => {
     const noChannel = await upload(file, { mapping: JSON.stringify({ Zeit: 'depth_ft' }) });
     expect(noChannel.status).toBe(400);
     expect(noChannel.body.error.issues[0].path).toMatch(/^mapping/);
-    const unknown = await upload(file, { campaignId: ids.campaign2024 });
+    const unknown = await upload(file, { campaignId: ids.otherCampaign });
     expect(unknown.status).toBe(400);
     const badMode = await upload(file, { mode: 'merge' });
     expect(badMode.status).toBe(400);
@@ -330,7 +330,7 @@ describe('a bad log leaves the dive as it was', () => {
     const before = stored();
     const imports = importCount();
     const entries = () =>
-      t.ctx.db.$client.prepare('select id, depth, depth_source from observations where dive_id = ? order by id').all(ids.dive2026);
+      t.ctx.db.$client.prepare('select id, depth, depth_source from observations where dive_id = ? order by id').all(ids.dive);
     const entriesBefore = entries();
     // The disk fills up (or anything else goes wrong inside SQLite) at the 900th row of 1,000.
     const failAt = T0 + 899 * 2000;
@@ -483,13 +483,13 @@ describe('a bad log leaves the dive as it was', () => {
 
   it('refuses a request without a file, and a second file', async () => {
     const agent = await t.signIn(emails.pilot);
-    const none = await agent.post(`/api/dives/${ids.dive2026}/telemetry`).field('mode', 'replace');
+    const none = await agent.post(`/api/dives/${ids.dive}/telemetry`).field('mode', 'replace');
     expect(none.status).toBe(400);
     expect(none.body.error.issues[0].path).toBe('file');
-    const json = await agent.post(`/api/dives/${ids.dive2026}/telemetry`).send({ file: 'time,depth\n' });
+    const json = await agent.post(`/api/dives/${ids.dive}/telemetry`).send({ file: 'time,depth\n' });
     expect(json.status).toBe(400);
     const two = await agent
-      .post(`/api/dives/${ids.dive2026}/telemetry`)
+      .post(`/api/dives/${ids.dive}/telemetry`)
       .attach('file', linearLog(T0, 1, 2), 'a.csv')
       .attach('file', linearLog(T0, 1, 2), 'b.csv');
     expect(two.status).toBe(400);

@@ -6,13 +6,14 @@ import { toLocalEN } from '@/lib/geodesy';
 import { diveSummarySchema, observationSchema, telemetryAtSchema, telemetrySamplesSchema, type Observation } from '@/lib/schemas';
 import type { LiveEvent } from '@/server/services/live';
 import { restampDive } from '@/server/services/telemetry-stamp';
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 import { csv, iso, linearLog, linearSample } from '../fixtures/telemetry/logs';
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
-/** Five minutes after demo dive VS-02 reached the bottom, to the second. */
+let ids: Fixtures;
+/** Five minutes after the fixture dive reached the bottom, to the second. */
 let T0: number;
 
 const STEP_S = 10;
@@ -22,20 +23,20 @@ const inGap = (k: number) => k > 48 && k < 60;
 
 beforeAll(async () => {
   t = await startTestServer();
-  ids = demoIds(t.ctx.db);
-  const dive = t.ctx.db.select().from(dives).where(eq(dives.id, ids.dive2026)).get()!;
+  ids = await buildFixtures(t, { telemetry: true });
+  const dive = t.ctx.db.select().from(dives).where(eq(dives.id, ids.dive)).get()!;
   T0 = Math.floor(dive.onBottomAt!.getTime() / 1000) * 1000 + 5 * 60_000;
 });
 afterAll(() => t.close());
 
 async function importAs(email: string, file: Buffer, fields: Record<string, string> = {}) {
-  const req = (await t.signIn(email)).post(`/api/dives/${ids.dive2026}/telemetry`);
+  const req = (await t.signIn(email)).post(`/api/dives/${ids.dive}/telemetry`);
   for (const [k, v] of Object.entries(fields)) void req.field(k, v);
   return req.attach('file', file, 'skerry-nav.csv');
 }
 
 async function log(body: Record<string, unknown>): Promise<Observation> {
-  const res = await (await t.signIn(emails.biologist)).post(`/api/dives/${ids.dive2026}/observations`).send(body);
+  const res = await (await t.signIn(emails.biologist)).post(`/api/dives/${ids.dive}/observations`).send(body);
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return observationSchema.parse(res.body);
 }
@@ -50,7 +51,7 @@ describe('stamping entries from the log', () => {
   const events: LiveEvent[] = [];
 
   beforeAll(async () => {
-    // Logged while the demo log covers the dive, so they start with its values.
+    // Logged while the fixture log covers the dive, so they start with its values.
     a = await log({ kind: 'biology', title: 'Sponge', observedAt: iso(T0 + 125_000) });
     inTheGap = await log({ kind: 'archaeology', title: 'Amphora neck', observedAt: iso(T0 + 540_000) });
     typedDepth = await log({ kind: 'biology', title: 'Coral', observedAt: iso(T0 + 305_000), depth: 600 });
@@ -111,7 +112,7 @@ describe('stamping entries from the log', () => {
     expect(byId.get(inTheGap.id)).toMatchObject({ depth: null, depthSource: null });
     expect(byId.has(typedDepth.id)).toBe(true);
     expect(byId.has(allTyped.id)).toBe(false);
-    expect(events.every((e) => e.diveId === ids.dive2026 && e.campaignId === ids.campaign2026)).toBe(true);
+    expect(events.every((e) => e.diveId === ids.dive && e.campaignId === ids.campaign)).toBe(true);
   });
 
   it('stamps a new entry from the log, and leaves one in a gap without values', async () => {
@@ -130,7 +131,7 @@ describe('stamping entries from the log', () => {
       .run();
     const seen: LiveEvent[] = [];
     const stop = t.ctx.live.subscribeAll((e) => seen.push(e));
-    const result = restampDive(t.ctx.db, t.ctx.live, ids.dive2026);
+    const result = restampDive(t.ctx.db, t.ctx.live, ids.dive);
     stop();
     expect(result.updated).toBe(1);
     expect(row(a.id)).toMatchObject({ depth: null, depthSource: null, version: 1 });
@@ -140,14 +141,14 @@ describe('stamping entries from the log', () => {
       .set({ observedAt: new Date(T0 + 125_000) })
       .where(eq(observations.id, a.id))
       .run();
-    restampDive(t.ctx.db, t.ctx.live, ids.dive2026);
+    restampDive(t.ctx.db, t.ctx.live, ids.dive);
     expect(row(a.id).depthSource).toBe('telemetry');
   });
 });
 
 describe('values at an instant', () => {
   const at = async (t0: number | string) =>
-    (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive2026}/at`).query({ t: typeof t0 === 'number' ? iso(t0) : t0 });
+    (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive}/at`).query({ t: typeof t0 === 'number' ? iso(t0) : t0 });
 
   it('interpolates inside the log', async () => {
     const res = await at(T0 + 125_000);
@@ -184,13 +185,13 @@ describe('values at an instant', () => {
     const noZone = await at('2026-05-13T18:00:00');
     expect(noZone.status).toBe(400);
     expect(noZone.body.error.issues[0].path).toBe('t');
-    expect((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive2026}/at`)).status).toBe(400);
+    expect((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive}/at`)).status).toBe(400);
   });
 });
 
 describe('the summary and the chart samples', () => {
   it('gives the statistics, with the deepest depth of the log', async () => {
-    const res = await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive2026}/summary`);
+    const res = await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive}/summary`);
     expect(res.status).toBe(200);
     const s = diveSummarySchema.parse(res.body);
     // The linear log's deepest sample is the last: 590 + 0.1 × 120 m.
@@ -208,8 +209,8 @@ describe('the summary and the chart samples', () => {
 
   it('places entries on the site plan in metres from the datum, with their find numbers', async () => {
     const entry = await log({ kind: 'archaeology', title: 'Amphora toe', observedAt: iso(T0 + 125_000) });
-    t.ctx.db.insert(finds).values({ observationId: entry.id, campaignId: ids.campaign2026, findNumber: 'VS26-F-014' }).run();
-    const s = diveSummarySchema.parse((await (await t.signIn(emails.lead)).get(`/api/dives/${ids.dive2026}/summary`)).body);
+    t.ctx.db.insert(finds).values({ observationId: entry.id, campaignId: ids.campaign, findNumber: 'VS26-F-014' }).run();
+    const s = diveSummarySchema.parse((await (await t.signIn(emails.lead)).get(`/api/dives/${ids.dive}/summary`)).body);
     const placed = s.observations.find((o) => o.id === entry.id)!;
     const expected = toLocalEN(s.datum, { lat: row(entry.id).lat!, lon: row(entry.id).lon! });
     expect(placed.east).toBeCloseTo(expected.eastM, 9);
@@ -224,7 +225,7 @@ describe('the summary and the chart samples', () => {
   });
 
   it('thins the log to at most N points for charts, keeping the first and the last', async () => {
-    const res = await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive2026}/telemetry`).query({ points: 20 });
+    const res = await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive}/telemetry`).query({ points: 20 });
     expect(res.status).toBe(200);
     const body = telemetrySamplesSchema.parse(res.body);
     expect(body.sampleCount).toBe(COUNT - 11);
@@ -245,12 +246,12 @@ describe('the summary and the chart samples', () => {
     const rows = Array.from({ length: 6000 }, (_, k) => [iso(T0 + k * 1000), (500 + 50 * Math.sin(k / 300)).toFixed(2)]);
     expect((await importAs(emails.lead, csv(['time', 'depth_m'], rows))).status).toBe(201);
     const body = telemetrySamplesSchema.parse(
-      (await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive2026}/telemetry`).query({ points: 100 })).body,
+      (await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive}/telemetry`).query({ points: 100 })).body,
     );
     expect(body.points).toHaveLength(100);
     expect(body.points[0]!.t).toBe(iso(T0));
     expect(body.points.at(-1)!.t).toBe(iso(T0 + 5999_000));
-    const all = telemetrySamplesSchema.parse((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive2026}/telemetry`)).body);
+    const all = telemetrySamplesSchema.parse((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive}/telemetry`)).body);
     expect(all.points).toHaveLength(1000);
     await importAs(emails.pilot, linearLog(T0, STEP_S, COUNT, inGap));
   });
@@ -258,16 +259,16 @@ describe('the summary and the chart samples', () => {
   it('refuses a number of points out of range', async () => {
     const guest = await t.signIn(emails.guest);
     for (const points of ['2', '5001', 'many']) {
-      const res = await guest.get(`/api/dives/${ids.dive2026}/telemetry`).query({ points });
+      const res = await guest.get(`/api/dives/${ids.dive}/telemetry`).query({ points });
       expect(res.status, points).toBe(400);
       expect(res.body.error.issues[0].path).toBe('points');
     }
-    expect((await guest.get(`/api/dives/${ids.dive2026}/telemetry`).query({ limit: 5 })).status).toBe(400);
+    expect((await guest.get(`/api/dives/${ids.dive}/telemetry`).query({ limit: 5 })).status).toBe(400);
   });
 
   it('answers a dive without a log with empty samples and "no telemetry"', async () => {
     const guest = await t.signIn(emails.lead);
-    const created = await guest.post(`/api/campaigns/${ids.campaign2026}/dives`).send({ number: 'VS-09', objectives: 'Spare' });
+    const created = await guest.post(`/api/campaigns/${ids.campaign}/dives`).send({ number: 'VS-09', objectives: 'Spare' });
     expect(created.status, JSON.stringify(created.body)).toBe(201);
     const diveId = created.body.id as string;
     const samples = telemetrySamplesSchema.parse((await guest.get(`/api/dives/${diveId}/telemetry`)).body);
@@ -281,9 +282,9 @@ describe('the summary and the chart samples', () => {
 describe('who may do what', () => {
   const file = () => linearLog(T0, STEP_S, COUNT, inGap);
   const paths = () => [
-    `/api/dives/${ids.dive2026}/telemetry`,
-    `/api/dives/${ids.dive2026}/at?t=${encodeURIComponent(iso(T0))}`,
-    `/api/dives/${ids.dive2026}/summary`,
+    `/api/dives/${ids.dive}/telemetry`,
+    `/api/dives/${ids.dive}/at?t=${encodeURIComponent(iso(T0))}`,
+    `/api/dives/${ids.dive}/summary`,
   ];
 
   it('lets only the lead and the pilot import', async () => {
@@ -303,12 +304,12 @@ describe('who may do what', () => {
     expect(res.status).toBe(404);
     expect(JSON.stringify(res.body)).not.toContain('Varn');
     // The 2024 campaign's dive is out of reach of the guest of 2026 alone.
-    expect((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive2024}/summary`)).status).toBe(404);
+    expect((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.otherDive}/summary`)).status).toBe(404);
   });
 
   it('asks anonymous callers to sign in', async () => {
     for (const p of paths()) expect((await t.anonymous().get(p)).status, p).toBe(401);
-    const res = await t.anonymous().post(`/api/dives/${ids.dive2026}/telemetry`).attach('file', file(), 'x.csv');
+    const res = await t.anonymous().post(`/api/dives/${ids.dive}/telemetry`).attach('file', file(), 'x.csv');
     expect(res.status).toBe(401);
   });
 
