@@ -12,7 +12,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatUtc, parseUtcInput, toUtcInput } from '@/lib/format';
 import { SAMPLE_TAG, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { ConflictSlot, useVersionedSave, VersionedSaveRow } from './record-conflict';
+import { useFormToggle, useVersionedSave, VersionedForm, type ConflictField } from './record-conflict';
 
 type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
 
@@ -33,9 +33,7 @@ export function RecoveryCaution() {
 /** An archaeology entry's find: its number in the campaign's register, and where it is now. */
 export function FindPanel({ observation: o, myRole, myId }: Props) {
   const { colors } = useTheme();
-  const [editing, setEditing] = useState(false);
-  // A new key starts the form afresh when its typing is thrown away for someone else's version.
-  const [formKey, setFormKey] = useState(0);
+  const { editing, open, formKey, formProps } = useFormToggle();
   const mayEdit = myRole === 'lead' || myRole === 'scientist' || o.authorId === myId;
   const find = o.find;
   return (
@@ -51,18 +49,10 @@ export function FindPanel({ observation: o, myRole, myId }: Props) {
               .filter(Boolean)
               .join(' · ')}
           </Text>
-          {mayEdit ? <Button label="Correct the find" tone="ghost" compact onPress={() => setEditing(true)} /> : null}
+          {mayEdit ? <Button label="Correct the find" tone="ghost" compact onPress={open} /> : null}
         </>
       ) : mayEdit ? (
-        <FindForm
-          key={formKey}
-          observation={o}
-          onDone={() => setEditing(false)}
-          onDiscard={() => {
-            setEditing(false);
-            setFormKey((k) => k + 1);
-          }}
-        />
+        <FindForm key={formKey} observation={o} {...formProps} />
       ) : (
         <Text muted>Not registered as a find.</Text>
       )}
@@ -106,24 +96,21 @@ function FindForm({ observation: o, onDone, onDiscard }: { observation: Observat
   );
   const { typing } = flow;
   const tf = o.find;
+  const conflictFields: ConflictField[] = [
+    { key: 'findNumber', label: 'Find number', theirs: tf?.findNumber ?? 'not registered', mine: value.trim() },
+    { key: 'objectType', label: 'Object type', theirs: tf?.objectType ?? '', mine: objectType.trim() },
+    { key: 'material', label: 'Material', theirs: tf?.material ?? '', mine: material.trim() },
+    { key: 'condition', label: 'Condition', theirs: tf?.condition ?? '', mine: condition.trim() },
+    { key: 'state', label: 'State', theirs: tf ? stateLabel[tf.state] : '', mine: stateLabel[state] },
+  ];
   return (
-    <View style={styles.form}>
-      <ConflictSlot
-        flow={flow}
-        onDiscard={onDiscard}
-        what="find"
-        testID="find-conflict"
-        theirVersion={o.version}
-        onKeepMine={() => flow.send(o.version)}
-        onTakeTheirs={onDiscard}
-        fields={[
-          { key: 'findNumber', label: 'Find number', theirs: tf?.findNumber ?? 'not registered', mine: value.trim() },
-          { key: 'objectType', label: 'Object type', theirs: tf?.objectType ?? '', mine: objectType.trim() },
-          { key: 'material', label: 'Material', theirs: tf?.material ?? '', mine: material.trim() },
-          { key: 'condition', label: 'Condition', theirs: tf?.condition ?? '', mine: condition.trim() },
-          { key: 'state', label: 'State', theirs: tf ? stateLabel[tf.state] : '', mine: stateLabel[state] },
-        ]}
-      />
+    <VersionedForm
+      flow={flow}
+      what="find"
+      conflictFields={conflictFields}
+      onDiscard={onDiscard}
+      save={{ label: 'Save find', testID: 'save-find', errorTestID: 'find-error', onCancel: current ? onDone : undefined }}
+    >
       <Field
         label="Find number"
         testID="field-find-number"
@@ -148,8 +135,7 @@ function FindForm({ observation: o, onDone, onDiscard }: { observation: Observat
         testID="field-find-state"
       />
       {state === 'recovered' ? <RecoveryCaution /> : null}
-      <VersionedSaveRow flow={flow} label="Save find" testID="save-find" errorTestID="find-error" onCancel={current ? onDone : undefined} />
-    </View>
+    </VersionedForm>
   );
 }
 

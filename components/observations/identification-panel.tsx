@@ -11,7 +11,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatScientificName, formatUtc } from '@/lib/format';
 import { identificationConfidences, identificationQualifiers, taxonRanks, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { ConflictSlot, useVersionedSave, VersionedSaveRow } from './record-conflict';
+import { useFormToggle, useVersionedSave, VersionedForm, type ConflictField } from './record-conflict';
 
 type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
 
@@ -21,9 +21,7 @@ const statusLabel = { unverified: 'Not verified yet', verified: 'Verified', disp
 export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
   const { colors } = useTheme();
   const ident = o.identificationDetail;
-  const [editing, setEditing] = useState(false);
-  // A new key starts the form afresh when its typing is thrown away for someone else's version.
-  const [formKey, setFormKey] = useState(0);
+  const { editing, open, formKey, formProps } = useFormToggle();
   const verify = useVerifyIdentification(o.id);
   const mayPropose = myRole === 'lead' || myRole === 'scientist' || o.authorId === myId;
   // Nobody verifies a name they proposed or an entry they wrote, leads included (as the server rules).
@@ -83,9 +81,7 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
                 />
               </>
             ) : null}
-            {mayPropose ? (
-              <Button label="Change name" tone="ghost" compact onPress={() => setEditing(true)} testID="edit-identification" />
-            ) : null}
+            {mayPropose ? <Button label="Change name" tone="ghost" compact onPress={open} testID="edit-identification" /> : null}
           </View>
           {verify.error instanceof ApiError ? (
             <Text color={colors.danger} role="alert" testID="verify-error">
@@ -97,15 +93,7 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
         </>
       ) : mayPropose ? (
         editing || !ident ? (
-          <IdentificationForm
-            key={formKey}
-            observation={o}
-            onDone={() => setEditing(false)}
-            onDiscard={() => {
-              setEditing(false);
-              setFormKey((k) => k + 1);
-            }}
-          />
+          <IdentificationForm key={formKey} observation={o} {...formProps} />
         ) : null
       ) : (
         <Text muted>No identification yet.</Text>
@@ -150,34 +138,31 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
   const ti = o.identificationDetail;
   const mineName = formatScientificName(name, qualifier === 'none' ? null : qualifier);
   const keepsVerdict = !!ti && ti.scientificName === name.trim() && ti.qualifier === (qualifier === 'none' ? null : qualifier);
+  const conflictFields: ConflictField[] = [
+    {
+      key: 'name',
+      label: 'Scientific name',
+      theirs: ti ? formatScientificName(ti.scientificName, ti.qualifier) : 'no identification',
+      mine: mineName,
+    },
+    { key: 'rank', label: 'Rank', theirs: ti?.taxonRank ?? '', mine: rank ?? '' },
+    { key: 'confidence', label: 'Confidence', theirs: ti?.confidence ?? '', mine: confidence ?? '' },
+    { key: 'taxonId', label: 'Taxon identifier', theirs: ti?.taxonId ?? '', mine: taxonId.trim() },
+    {
+      key: 'verification',
+      label: 'Verification',
+      theirs: ti ? statusLabel[ti.verificationStatus] : '',
+      mine: ti && keepsVerdict ? statusLabel[ti.verificationStatus] : statusLabel.unverified,
+    },
+  ];
   return (
-    <View style={styles.form}>
-      <ConflictSlot
-        flow={flow}
-        onDiscard={onDiscard}
-        what="identification"
-        testID="identification-conflict"
-        theirVersion={o.version}
-        onKeepMine={() => flow.send(o.version)}
-        onTakeTheirs={onDiscard}
-        fields={[
-          {
-            key: 'name',
-            label: 'Scientific name',
-            theirs: ti ? formatScientificName(ti.scientificName, ti.qualifier) : 'no identification',
-            mine: mineName,
-          },
-          { key: 'rank', label: 'Rank', theirs: ti?.taxonRank ?? '', mine: rank ?? '' },
-          { key: 'confidence', label: 'Confidence', theirs: ti?.confidence ?? '', mine: confidence ?? '' },
-          { key: 'taxonId', label: 'Taxon identifier', theirs: ti?.taxonId ?? '', mine: taxonId.trim() },
-          {
-            key: 'verification',
-            label: 'Verification',
-            theirs: ti ? statusLabel[ti.verificationStatus] : '',
-            mine: ti && keepsVerdict ? statusLabel[ti.verificationStatus] : statusLabel.unverified,
-          },
-        ]}
-      />
+    <VersionedForm
+      flow={flow}
+      what="identification"
+      conflictFields={conflictFields}
+      onDiscard={onDiscard}
+      save={{ label: 'Save identification', testID: 'save-identification', onCancel: current ? onDone : undefined }}
+    >
       <Field
         label="Scientific name"
         testID="field-scientific-name"
@@ -209,8 +194,7 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
         autoCapitalize="none"
         error={flow.issue('taxonId')}
       />
-      <VersionedSaveRow flow={flow} label="Save identification" testID="save-identification" onCancel={current ? onDone : undefined} />
-    </View>
+    </VersionedForm>
   );
 }
 

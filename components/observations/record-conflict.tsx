@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useState, type ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
@@ -53,6 +53,7 @@ export function useVersionedSave<I>(version: number, save: SaveMutation<I>, body
   };
   const failure = save.error instanceof ApiError && save.error.issues.length === 0 && !isStale(save.error) ? save.error.message : null;
   return {
+    version,
     typing,
     send,
     baseVersion: refusedFrom ?? baseVersion,
@@ -66,14 +67,82 @@ export function useVersionedSave<I>(version: number, save: SaveMutation<I>, body
 
 type Flow = ReturnType<typeof useVersionedSave>;
 
-/** Above the form: the conflict panel once their version is here, a waiting line until then. */
-export function ConflictSlot({ flow, onDiscard, ...panel }: { flow: Flow; onDiscard: () => void } & Omit<Props, 'baseVersion' | 'busy'>) {
-  if (flow.theirsArrived) return <RecordConflict {...panel} baseVersion={flow.baseVersion} busy={flow.busy} />;
+/**
+ * Above the form: the conflict panel once their version is here ("Keep mine" saves over it, "Use
+ * theirs" drops the typing), a waiting line until then.
+ */
+export function ConflictSlot({
+  flow,
+  what,
+  fields,
+  onDiscard,
+}: {
+  flow: Flow;
+  what: string;
+  fields: ConflictField[];
+  onDiscard: () => void;
+}) {
+  if (flow.theirsArrived) {
+    return (
+      <RecordConflict
+        what={what}
+        testID={`${what}-conflict`}
+        theirVersion={flow.version}
+        baseVersion={flow.baseVersion}
+        fields={fields}
+        busy={flow.busy}
+        onKeepMine={() => flow.send(flow.version)}
+        onTakeTheirs={onDiscard}
+      />
+    );
+  }
   if (!flow.refused) return null;
   return (
     <View style={styles.row}>
       <Text muted>Someone else changed this entry; fetching their version…</Text>
       <Button label="Cancel" tone="ghost" compact onPress={onDiscard} />
+    </View>
+  );
+}
+
+/**
+ * Whether a panel's form is open, and the props that open form takes: done closes it; discard
+ * closes it and starts the next one afresh (a new key), its typing thrown away for someone else's version.
+ */
+export function useFormToggle() {
+  const [editing, setEditing] = useState(false);
+  const [formKey, setFormKey] = useState(0);
+  const formProps = {
+    onDone: () => setEditing(false),
+    onDiscard: () => {
+      setEditing(false);
+      setFormKey((k) => k + 1);
+    },
+  };
+  return { editing, open: () => setEditing(true), formKey, formProps };
+}
+
+/** A versioned form: the conflict slot above its fields, the save row below. */
+export function VersionedForm({
+  flow,
+  what,
+  conflictFields,
+  onDiscard,
+  save,
+  children,
+}: {
+  flow: Flow;
+  what: string;
+  conflictFields: ConflictField[];
+  onDiscard: () => void;
+  save: { label: string; testID: string; errorTestID?: string; onCancel?: () => void };
+  children: ReactNode;
+}) {
+  return (
+    <View style={styles.form}>
+      <ConflictSlot flow={flow} what={what} fields={conflictFields} onDiscard={onDiscard} />
+      {children}
+      <VersionedSaveRow flow={flow} {...save} />
     </View>
   );
 }
@@ -200,4 +269,5 @@ const styles = StyleSheet.create({
   sides: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
   side: { flex: 1, minWidth: 140, borderWidth: 1, borderRadius: radius.md, padding: space.sm, gap: 2 },
   row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' },
+  form: { gap: space.md },
 });
