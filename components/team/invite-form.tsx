@@ -11,7 +11,7 @@ import { useInvite } from '@/hooks/team';
 import { useTheme } from '@/hooks/theme';
 import type { CampaignRole } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { roleDescriptions, roleLabels, roleOrder } from './roles';
+import { roleDescriptions, roleLabels, roleOrder } from '@/lib/permissions';
 
 /** The lead's form for inviting someone by e-mail with the role they will have. */
 export function InviteForm({ campaignId }: { campaignId: string }) {

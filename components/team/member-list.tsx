@@ -12,7 +12,7 @@ import { useChangeRole, useRemoveMember } from '@/hooks/team';
 import { useTheme } from '@/hooks/theme';
 import type { CampaignRole, Member } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { roleLabels, roleOrder, roleWithArticle } from './roles';
+import { roleLabels, roleOrder, roleWithArticle } from '@/lib/permissions';
 
 type Props = { campaignId: string; campaignName: string; members: Member[]; meId: string | undefined; manage: boolean };
 

@@ -5,7 +5,7 @@ import { Text } from '@/components/ui/text';
 import { useTheme } from '@/hooks/theme';
 import type { Campaign } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { roleDescriptions, roleWithArticle } from './roles';
+import { roleDescriptions, roleWithArticle } from '@/lib/permissions';
 
 /** Shown once on arrival from an invitation link: where you are now and what you may do. */
 export function WelcomeNotice({ campaign, onDismiss }: { campaign: Campaign; onDismiss: () => void }) {
