@@ -7,17 +7,17 @@ import { z } from 'zod';
 
 import {
   campaignSchema,
-  caughtMailSchema,
   invitationSchema,
+  mailLogSchema,
+  mailStatusSchema,
   memberSchema,
-  type Campaign,
   type CampaignCreate,
   type CampaignRole,
   type CampaignUpdate,
   type InvitationCreate,
   type Member,
 } from '@/lib/schemas';
-import { ApiError, request } from './api';
+import { request } from './api';
 import { campaignKeys, campaignMembersQuery } from './campaigns';
 import { meQuery, sessionKeys } from './session';
 
@@ -30,7 +30,7 @@ export const teamKeys = {
 export const adminKeys = {
   root: ['admin'] as const,
   users: () => [...adminKeys.root, 'users'] as const,
-  outbox: () => [...adminKeys.root, 'outbox'] as const,
+  mailLog: () => [...adminKeys.root, 'mail-log'] as const,
 };
 
 /* ---- members ---- */
@@ -81,9 +81,16 @@ export const invitationsQuery = (campaignId: string) =>
     queryFn: () => request(`${path(campaignId)}/invitations`, z.array(invitationSchema)),
   });
 
-/** Only a lead may read the invitations, so the query waits until the caller is known to be one. */
+/**
+ * Only a lead may read the invitations, so the query waits until the caller is known to be one.
+ * While a mail is still on its way the list is asked again every few seconds, to show it sent or failed.
+ */
 export const useInvitations = (campaignId: string | undefined, isLead: boolean) =>
-  useQuery({ ...invitationsQuery(campaignId ?? ''), enabled: !!campaignId && isLead });
+  useQuery({
+    ...invitationsQuery(campaignId ?? ''),
+    enabled: !!campaignId && isLead,
+    refetchInterval: (q) => (q.state.data?.some((i) => i.mail?.state === 'queued' || i.mail?.state === 'sending') ? 4000 : false),
+  });
 
 export function useInvite(campaignId: string) {
   const qc = useQueryClient();
@@ -124,8 +131,8 @@ export function useUpdateCampaign(campaignId: string) {
   });
 }
 
-const createdCampaignSchema = campaignSchema.extend({ leadInvited: z.boolean() });
-export type CreatedCampaign = Campaign & { leadInvited: boolean };
+const createdCampaignSchema = campaignSchema.extend({ leadInvited: z.boolean(), leadInvitation: invitationSchema.nullable() });
+export type CreatedCampaign = z.infer<typeof createdCampaignSchema>;
 
 export function useCreateCampaign() {
   const qc = useQueryClient();
@@ -133,28 +140,30 @@ export function useCreateCampaign() {
     mutationFn: (input: CampaignCreate): Promise<CreatedCampaign> => request('/api/campaigns', createdCampaignSchema, { body: input }),
     onSuccess: () => {
       void qc.invalidateQueries({ queryKey: campaignKeys.list() });
-      void qc.invalidateQueries({ queryKey: adminKeys.outbox() });
+      void qc.invalidateQueries({ queryKey: adminKeys.mailLog() });
     },
   });
 }
 
-/* ---- caught mail ---- */
+/* ---- the mail log ---- */
 
-/** The mail the built-in catcher holds, newest first; null when mail really goes out by SMTP. */
-export const mailOutboxQuery = queryOptions({
-  queryKey: adminKeys.outbox(),
-  queryFn: async () => {
-    try {
-      return await request('/api/dev/outbox?limit=200', z.array(caughtMailSchema));
-    } catch (err) {
-      if (err instanceof ApiError && err.status === 404) return null;
-      throw err;
-    }
-  },
+/** The queue's mail (queued, sent, failed with the reason) and what the built-in catcher caught (null when mail goes out through SMTP). */
+export const mailLogQuery = queryOptions({
+  queryKey: adminKeys.mailLog(),
+  queryFn: () => request('/api/admin/mail?limit=200', mailLogSchema),
   staleTime: 0,
 });
 
-export const useMailOutbox = () => useQuery(mailOutboxQuery);
+export const useMailLog = () => useQuery(mailLogQuery);
+
+/** Puts a failed mail back in the queue (a new campaign's lead cannot resend their own invitation). */
+export function useRetryMail() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (mailId: string) => request(`/api/admin/mail/${encodeURIComponent(mailId)}/retry`, mailStatusSchema, { body: {} }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: adminKeys.mailLog() }),
+  });
+}
 
 /* ---- accounts (better-auth's admin endpoints) ---- */
 

@@ -42,7 +42,7 @@ export function NewCampaignForm({ onDone }: { onDone: () => void }) {
         onSuccess: (c) => {
           toast(
             c.leadInvited
-              ? `${c.name} created; the invitation to lead it went to ${leadEmail.trim()}.`
+              ? `${c.name} created; the invitation to lead it is on its way to ${leadEmail.trim()} (the mail log shows when it has gone).`
               : `${c.name} created; ${leadEmail.trim()} leads it from now on.`,
           );
           onDone();

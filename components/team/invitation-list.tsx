@@ -11,9 +11,14 @@ import { useTheme } from '@/hooks/theme';
 import { formatUtc } from '@/lib/format';
 import type { Invitation } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { invitationStatusLabels, roleLabels } from './roles';
+import { roleLabels } from '@/lib/permissions';
 
-/** Open invitations (pending or expired) first, with their actions; answered ones below. */
+import { invitationStatusLabels } from './roles';
+
+/**
+ * Open invitations (pending or expired) first, with their actions and where their mail stands (a
+ * mail the server could not send shows why, with "Send again"); answered ones below.
+ */
 export function InvitationList({ campaignId }: { campaignId: string }) {
   const invitations = useInvitations(campaignId, true);
   if (invitations.isPending) return <LoadingState label="Loading invitations…" />;
@@ -52,6 +57,8 @@ function InvitationRow({ campaignId, invitation: i, testID }: { campaignId: stri
   const revoke = useRevokeInvitation(campaignId);
   const tint = { pending: colors.accent, expired: colors.warning, accepted: colors.success, revoked: colors.textMuted }[i.status];
   const open = i.status === 'pending' || i.status === 'expired';
+  const mailFailed = i.mail?.state === 'failed';
+  const mailWaiting = i.mail?.state === 'queued' || i.mail?.state === 'sending';
   const error = resend.error ?? revoke.error;
   const detail = {
     pending: `Invited by ${i.invitedByName} · the link works until ${formatUtc(i.expiresAt).slice(0, 16)}Z`,
@@ -74,18 +81,32 @@ function InvitationRow({ campaignId, invitation: i, testID }: { campaignId: stri
       <Text variant="caption" muted>
         {`${roleLabels[i.role]} · ${detail}`}
       </Text>
+      {open && mailFailed ? (
+        <Text color={colors.danger} variant="caption" role="alert" testID="invitation-mail-failed">
+          {`The mail could not be sent: ${i.mail?.reason ?? 'no reason given'}. Send it again once the mail server is back.`}
+        </Text>
+      ) : null}
+      {open && mailWaiting ? (
+        <Text variant="caption" muted testID="invitation-mail-waiting">
+          {i.mail?.attempts
+            ? `The mail is waiting for another try (${i.mail.reason ?? 'the mail server did not take it'}).`
+            : 'The mail is queued and goes out in a moment.'}
+        </Text>
+      ) : null}
       {open ? (
         <View style={styles.actions}>
           <Button
-            label="Resend"
+            label={mailFailed ? 'Send again' : 'Resend'}
             tone="secondary"
             compact
-            testID="invitation-resend"
+            testID={mailFailed ? 'invitation-send-again' : 'invitation-resend'}
             busy={resend.isPending}
             disabled={revoke.isPending}
             onPress={() => {
               revoke.reset();
-              resend.mutate(i.id, { onSuccess: () => toast(`A new link went to ${i.email}; the old one no longer works.`) });
+              resend.mutate(i.id, {
+                onSuccess: () => toast(`A new link is on its way to ${i.email}; the old one stops working once it has gone.`),
+              });
             }}
           />
           <Button

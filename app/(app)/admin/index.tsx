@@ -15,7 +15,7 @@ export default function AdminScreen() {
         subtitle="Campaigns, their leads and accounts"
         right={
           isAdmin ? (
-            <Button label="Outbox" tone="secondary" compact testID="admin-outbox" onPress={() => router.push('/admin/outbox')} />
+            <Button label="Mail log" tone="secondary" compact testID="admin-outbox" onPress={() => router.push('/admin/mail')} />
           ) : null
         }
       />

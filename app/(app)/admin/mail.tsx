@@ -1,14 +1,14 @@
 import { AdminOnly } from '@/components/admin/admin-panel';
-import { MailOutbox } from '@/components/admin/mail-outbox';
+import { MailLog } from '@/components/admin/mail-log';
 import { Screen, ScreenBody, ScreenHeader } from '@/components/ui/screen';
 import { useMe } from '@/hooks/session';
 
-export default function OutboxScreen() {
+export default function MailLogScreen() {
   const isAdmin = useMe().data?.siteRole === 'admin';
   return (
     <Screen>
-      <ScreenHeader title="Outbox" subtitle="Mail this server caught instead of sending" back="/admin" />
-      <ScreenBody>{isAdmin ? <MailOutbox /> : <AdminOnly />}</ScreenBody>
+      <ScreenHeader title="Mail log" subtitle="What this server sent, is sending, or could not send" back="/admin" />
+      <ScreenBody>{isAdmin ? <MailLog /> : <AdminOnly />}</ScreenBody>
     </Screen>
   );
 }
