@@ -1,5 +1,6 @@
 import { ScrollView, StyleSheet, View } from 'react-native';
 
+import { ListCsvButton } from '@/components/exports/list-csv-button';
 import { Chip } from '@/components/ui/chip';
 import { Text } from '@/components/ui/text';
 import { useCampaignTags } from '@/hooks/campaigns';
@@ -129,6 +130,7 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
           ) : null}
         </View>
       ) : null}
+      <ListCsvButton campaignId={campaignId} filters={filters} />
     </View>
   );
 }

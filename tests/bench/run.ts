@@ -2,6 +2,7 @@
  * `npm run bench`: the speed and memory figures. Each benchmark prints its numbers; none of
  * them asserts a time (machines differ), the targets are printed beside the figures.
  */
+import { benchExports } from './exports';
 import { benchLiveLoad } from './live-load';
 import { benchLogWrites } from './log-writes';
 import { benchSearch } from './search';
@@ -13,6 +14,7 @@ async function main() {
     ['log-writes', benchLogWrites],
     ['live-load', benchLiveLoad],
     ['telemetry-import', benchTelemetryImport],
+    ['exports', benchExports],
     ['search', benchSearch],
   ];
   for (const [name, run] of benches) {

@@ -26,6 +26,13 @@ export default function CampaignScreen() {
         testID="campaign-settings"
         onPress={() => router.push(`/campaigns/${campaignId}/settings`)}
       />
+      <Button
+        label="Exports"
+        tone="secondary"
+        compact
+        testID="campaign-exports"
+        onPress={() => router.push(`/campaigns/${campaignId}/exports`)}
+      />
     </View>
   ) : null;
   // A phone's title bar has no room for two buttons beside the campaign's name.
