@@ -8,6 +8,7 @@ import { z } from 'zod';
 import { exportLicences, publicPositionModes } from './publication';
 import { photoSchema } from './photos';
 import { custodyEventSchema, findSchema, identificationSchema, verificationStatuses } from './record';
+import { multiLine, oneLine } from './text';
 
 export const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
 export type CampaignRole = (typeof campaignRoles)[number];
@@ -165,15 +166,13 @@ export type Dive = z.infer<typeof diveSchema>;
 
 /* ---- observations ---- */
 
-const title = z.string().trim().min(1, 'A title is needed').max(200, 'At most 200 characters');
-const note = z.string().max(20_000, 'Notes are limited to 20,000 characters');
+const title = oneLine().min(1, 'A title is needed').max(200, 'At most 200 characters');
+const note = multiLine().max(20_000, 'Notes are limited to 20,000 characters');
 const depth = z.number().finite().min(-10, 'Depth is in metres below the surface').max(11_000, 'Deeper than any ocean');
 const lat = z.number().finite().min(-90, 'Latitude is between -90 and 90').max(90, 'Latitude is between -90 and 90');
 const lon = z.number().finite().min(-180, 'Longitude is between -180 and 180').max(180, 'Longitude is between -180 and 180');
 const temperature = z.number().finite().min(-3, 'Colder than sea water gets').max(400, 'Hotter than any vent');
-const tagName = z
-  .string()
-  .trim()
+const tagName = oneLine()
   .min(1)
   .max(40, 'Tags are at most 40 characters')
   .regex(/^[^,#\r\n]+$/, 'Tags may not contain commas, # or line breaks');
@@ -319,7 +318,7 @@ export const diveCreateSchema = z
       .min(1)
       .max(40)
       .regex(/^[\w./-]+$/, 'Letters, digits and . / - _ only'),
-    objectives: z.string().trim().max(4000).default(''),
+    objectives: multiLine().trim().max(4000).default(''),
     plannedMaxDepth: z.number().finite().min(0).max(11_000).nullable().optional(),
     plannedStartAt: instant.nullable().optional(),
   })
@@ -328,7 +327,7 @@ export const diveCreateSchema = z
 export const diveUpdateSchema = z
   .object({
     version: z.number().int().min(1),
-    objectives: z.string().trim().max(4000).optional(),
+    objectives: multiLine().trim().max(4000).optional(),
     plannedMaxDepth: z.number().finite().min(0).max(11_000).nullable().optional(),
     plannedStartAt: instant.nullable().optional(),
     recordingStartAt: instant.nullable().optional(),
@@ -355,7 +354,7 @@ export const tagUpdateSchema = z
 
 export const quickMarkInputSchema = z
   .object({
-    label: z.string().trim().min(1).max(80),
+    label: oneLine().min(1).max(80),
     kind: z.enum(observationKinds),
     tags: z.array(tagName).max(10).default([]),
     position: z.number().int().min(0).max(1000).optional(),

@@ -1,6 +1,8 @@
 /** Photos and frame grabs on observations. */
 import { z } from 'zod';
 
+import { oneLine } from './text';
+
 export const photoSizes = ['thumb', 'display', 'original'] as const;
 export type PhotoSize = (typeof photoSizes)[number];
 
@@ -56,8 +58,8 @@ export const photoUploadResultSchema = z.object({
 });
 export type PhotoUploadResult = z.infer<typeof photoUploadResultSchema>;
 
-const caption = z.string().trim().max(500, 'Captions are at most 500 characters');
-const credit = z.string().trim().max(200, 'Credits are at most 200 characters');
+const caption = oneLine().max(500, 'Captions are at most 500 characters');
+const credit = oneLine().max(200, 'Credits are at most 200 characters');
 
 /** Text fields an upload may carry beside its files; they apply to every file of the request. */
 export const photoUploadFieldsSchema = z

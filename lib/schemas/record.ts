@@ -5,8 +5,11 @@
  */
 import { z } from 'zod';
 
+import { multiLine, oneLine } from './text';
+
 const instant = z.iso.datetime({ offset: true, message: 'Expected an ISO 8601 time with a zone, e.g. 2026-05-14T21:14:07.250Z' });
-const text = (max: number) => z.string().trim().max(max);
+const text = (max: number) => oneLine().max(max);
+const longText = (max: number) => multiLine().trim().max(max);
 /**
  * The entry's `version` the writer was looking at (the same one `PATCH` carries): a stale one is
  * a 409 `stale_version` and nothing is overwritten.
@@ -47,7 +50,7 @@ export const verificationInputSchema = z
   .object({
     version,
     status: z.enum(['verified', 'disputed']),
-    note: text(2000).optional(),
+    note: longText(2000).optional(),
   })
   .strict();
 export type VerificationInput = z.input<typeof verificationInputSchema>;
@@ -101,7 +104,7 @@ export const custodyInputSchema = z
     since: instant,
     location: text(200).min(1, 'Where is it kept?'),
     container: text(200).nullable().optional(),
-    note: text(2000).nullable().optional(),
+    note: longText(2000).nullable().optional(),
   })
   .strict();
 

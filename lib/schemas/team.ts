@@ -2,13 +2,14 @@
 import { z } from 'zod';
 
 import { mailStatusSchema } from './mail';
+import { oneLine } from './text';
 
 import { exportLicences, publicPositionModes } from './exports';
 
 const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
 const invitationStatuses = ['pending', 'accepted', 'expired', 'revoked'] as const;
 const date = z.iso.date({ message: 'Use a date like 2026-05-10' });
-const text = (max: number) => z.string().trim().max(max);
+const text = (max: number) => oneLine().max(max);
 
 /** An IANA time-zone name the runtime knows (Europe/Lisbon, UTC, Pacific/Chatham…). */
 export const timeZone = z
