@@ -15,8 +15,8 @@ import {
   type PhotoSize,
   type PhotoUploadResult,
 } from '../../lib/schemas';
-import { fieldError, forbidden, notFound } from '../errors';
-import type { CampaignAccess } from '../middleware/campaign-access';
+import { fieldError, notFound } from '../errors';
+import { assertCan, type CampaignAccess } from '../middleware/campaign-access';
 import type { LiveHub, StageEvent } from './live';
 import { observationFilters } from './observations/filters';
 import { getObservation, tagsOf } from './observations/hydrate';
@@ -73,9 +73,7 @@ export function requirePhotoEditor(db: Db, access: CampaignAccess, observationId
     .where(eq(observations.id, observationId))
     .get();
   if (!entry || entry.retired) throw notFound();
-  if (access.role !== 'lead' && entry.authorId !== access.userId) {
-    throw forbidden('Only the author of this entry and the campaign lead may change its photos.');
-  }
+  assertCan(access.role, 'photo.edit', { isAuthor: entry.authorId === access.userId });
   return entry;
 }
 
