@@ -5,8 +5,9 @@
  * find number weighted above the note. The entry filters are the dive log's own
  * (`observationFilters`), so a filter means the same everywhere.
  */
-import { and, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
-import { integer, sqliteTable } from 'drizzle-orm/sqlite-core';
+import { and, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { integer, sqliteTable, SQLiteSyncDialect } from 'drizzle-orm/sqlite-core';
+import type { Statement } from 'better-sqlite3';
 import { z } from 'zod';
 
 import type { Db } from '../../../db/client';
@@ -27,6 +28,7 @@ const searchEntries = sqliteTable('search_entries', { rowid: integer('rowid') })
 /** bm25 weights in the FTS table's column order: title, tags, scientific name, find number, note. */
 const score = sql<number>`bm25(search_entries, 10.0, 6.0, 8.0, 8.0, 1.0)`;
 const entryRowid = sql`${observations}.rowid`;
+const dialect = new SQLiteSyncDialect();
 
 const searchCursorSchema = offsetCursorSchema.extend({ w: z.literal(1).optional() });
 
@@ -40,6 +42,23 @@ export class SearchIndex {
     readonly start: IndexStart,
   ) {
     this.vocabulary = new Vocabulary(db);
+  }
+
+  private readonly statements = new Map<string, Statement>();
+
+  /**
+   * Runs a query through a prepared statement kept by its text: a search asks the same few
+   * shapes of query over and over, and preparing them anew each time costs as much as running them.
+   */
+  private all<T>(query: SQL): T[] {
+    const { sql: text, params } = dialect.sqlToQuery(query);
+    let statement = this.statements.get(text);
+    if (!statement) {
+      if (this.statements.size >= 500) this.statements.clear();
+      statement = this.db.$client.prepare(text);
+      this.statements.set(text, statement);
+    }
+    return statement.all(...params) as T[];
   }
 
   /** Opens (or builds) the index beside the database and keeps it current from now on. */
@@ -82,35 +101,28 @@ export class SearchIndex {
   }
 
   private count(plan: QueryPlan, filters: SQL[]): number {
-    return (
-      this.db
-        .select({ n: sql<number>`count(*)` })
-        .from(searchEntries)
-        .innerJoin(observations, sql`${entryRowid} = ${searchEntries}.rowid`)
-        .where(and(sql`${searchEntries} match ${plan.match}`, ...filters))
-        .get()?.n ?? 0
-    );
+    const row = this.all<{ n: number }>(sql`
+      select count(*) as n from ${searchEntries} join ${observations} on ${entryRowid} = ${searchEntries}.rowid
+      where ${and(sql`${searchEntries} match ${plan.match}`, ...filters)}`)[0];
+    return row?.n ?? 0;
   }
 
   /** Entries whose find number or scientific name is exactly what was typed. */
   private exactRowids(plan: QueryPlan, filters: SQL[]): number[] {
     if (!plan.exactMatch) return [];
-    return this.db
-      .select({ rowid: sql<number>`${entryRowid}` })
-      .from(searchEntries)
-      .innerJoin(observations, sql`${entryRowid} = ${searchEntries}.rowid`)
-      .leftJoin(finds, eq(finds.observationId, observations.id))
-      .leftJoin(identifications, eq(identifications.observationId, observations.id))
-      .where(
-        and(
-          sql`${searchEntries} match ${plan.exactMatch}`,
-          sql`(lower(${finds.findNumber}) = ${plan.whole} or lower(${identifications.scientificName}) = ${plan.whole})`,
-          ...filters,
-        ),
-      )
-      .limit(50)
-      .all()
-      .map((r) => r.rowid);
+    return this.all<{ rowid: number }>(
+      sql`
+      select ${entryRowid} as rowid
+      from ${searchEntries} join ${observations} on ${entryRowid} = ${searchEntries}.rowid
+        left join ${finds} on ${finds.observationId} = ${observations.id}
+        left join ${identifications} on ${identifications.observationId} = ${observations.id}
+      where ${and(
+        sql`${searchEntries} match ${plan.exactMatch}`,
+        sql`(lower(${finds.findNumber}) = ${plan.whole} or lower(${identifications.scientificName}) = ${plan.whole})`,
+        ...filters,
+      )}
+      limit 50`,
+    ).map((r) => r.rowid);
   }
 
   private ranked(plan: QueryPlan, filters: SQL[], exact: number[], limit: number, offset: number) {
@@ -118,7 +130,7 @@ export class SearchIndex {
     if (exact.length > 0) order.push(sql`rowid in (${sql.join(exact, sql`, `)}) desc`);
     order.push(sql`score`, sql`at desc`, sql`id`);
     // bm25() cannot sit beside a window function, so the matches are gathered first and counted after.
-    return this.db.all<{ rowid: number; id: string; score: number; total: number }>(sql`
+    return this.all<{ rowid: number; id: string; score: number; total: number }>(sql`
       with hits as materialized (
         select ${entryRowid} as rowid, ${observations.id} as id, ${observations.observedAt} as at, ${score} as score
         from ${searchEntries} join ${observations} on ${entryRowid} = ${searchEntries}.rowid
@@ -134,25 +146,18 @@ export class SearchIndex {
     if (rows.length === 0) return [];
     const ids = rows.map((r) => r.id);
     const entries = new Map(observationsByIds(this.db, ids).map((o) => [o.id, o]));
-    const diveRows = this.db
-      .select({ id: dives.id, number: dives.number, campaignName: campaigns.name })
-      .from(dives)
-      .innerJoin(campaigns, eq(campaigns.id, dives.campaignId))
-      .where(
-        inArray(
-          dives.id,
-          [...entries.values()].map((o) => o.diveId),
-        ),
-      )
-      .all();
+    const diveIds = [...new Set([...entries.values()].map((o) => o.diveId))];
+    const diveRows = this.all<{ id: string; number: string; campaignName: string }>(sql`
+      select ${dives.id} as id, ${dives.number} as number, ${campaigns.name} as campaignName
+      from ${dives} join ${campaigns} on ${campaigns.id} = ${dives.campaignId}
+      where ${inArray(dives.id, diveIds)}`);
     const diveOf = new Map(diveRows.map((d) => [d.id, d]));
+    // The first photo by position (the query lists them last-first, so the first one stays).
     const thumbs = new Map<string, string>();
-    for (const p of this.db
-      .select({ observationId: photos.observationId, id: photos.id })
-      .from(photos)
-      .where(and(inArray(photos.observationId, ids), eq(photos.retired, false)))
-      .orderBy(desc(photos.position), desc(photos.createdAt))
-      .all()) {
+    for (const p of this.all<{ observationId: string; id: string }>(sql`
+      select ${photos.observationId} as observationId, ${photos.id} as id from ${photos}
+      where ${and(inArray(photos.observationId, ids), eq(photos.retired, false))}
+      order by ${photos.position} desc, ${photos.createdAt} desc`)) {
       thumbs.set(p.observationId, p.id);
     }
     const matches = matcherOf(plan);
