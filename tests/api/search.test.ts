@@ -290,6 +290,39 @@ describe('retired entries', () => {
   });
 });
 
+describe('the index follows every change', () => {
+  it('a tag merged into another is found under the name it went into', async () => {
+    const entry = await log(emails.lead, ids.dive2026, { kind: 'biology', title: 'Sea pen', tags: ['plovantic'] });
+    const lead = await t.signIn(emails.lead);
+    const created = await lead.post(`/api/campaigns/${ids.campaign2026}/tags`).send({ name: 'grellwort' });
+    expect(created.status).toBe(201);
+    const tags = (await lead.get(`/api/campaigns/${ids.campaign2026}/tags`)).body as { id: string; name: string }[];
+    const from = tags.find((x) => x.name === 'plovantic')!;
+    expect((await lead.patch(`/api/tags/${from.id}`).send({ mergeInto: created.body.id })).status).toBe(200);
+    expect((await search(emails.lead, { q: 'grellwort' })).items.map((i) => i.id)).toEqual([entry.id]);
+    expect((await search(emails.lead, { q: 'plovantic' })).total).toBe(0);
+  });
+
+  it('a scientific name given or changed later is found, and a word first seen after the first search is found through a typo', async () => {
+    // The index's words are read into memory by this first search …
+    await search(emails.lead, { q: 'anything' });
+    const entry = await log(emails.biologist, ids.dive2026, { kind: 'biology', title: 'Pale stalked form' });
+    const bio = await t.signIn(emails.biologist);
+    expect(
+      (await bio.put(`/api/observations/${entry.id}/identification`).send({ version: 1, scientificName: 'Quassimora velutina' })).status,
+    ).toBe(200);
+    // … and words that came later are found by a typo too.
+    expect((await search(emails.lead, { q: 'quasimora' })).items.map((i) => i.id)).toEqual([entry.id]);
+    expect(
+      (await bio.put(`/api/observations/${entry.id}/identification`).send({ version: 2, scientificName: 'Trellicaria velutina' })).status,
+    ).toBe(200);
+    expect((await search(emails.lead, { q: 'quassimora' })).total).toBe(0);
+    const page = await search(emails.lead, { q: 'trelicaria velutina' });
+    expect(page.items.map((i) => i.id)).toEqual([entry.id]);
+    expect(page.items[0]!.matchedFields).toEqual(['scientificName']);
+  });
+});
+
 describe('hostile input', () => {
   it('SQL and FTS5 syntax are harmless: normal results or 400, never 500, schema intact', async () => {
     await log(emails.lead, ids.dive2026, { kind: 'biology', title: 'Quorraline "quoted" - starred* entry', note: 'NEAR( OR AND NOT' });
