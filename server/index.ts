@@ -1,10 +1,11 @@
-import { createServer, type RequestListener } from 'node:http';
+import type { RequestListener } from 'node:http';
 
 import { demoSignIns, DEMO_PASSWORD, seedDemo } from '../db/seed';
 import { createApp } from './app';
 import { closeContext, createContext } from './bootstrap';
 import { loadEnv } from './env';
 import { errorBody } from './errors';
+import { createHttpServer } from './http-server';
 
 /** Until the database is open and migrated, every request is told to come back in a moment. */
 const starting: RequestListener = (_req, res) => {
@@ -22,7 +23,7 @@ async function main() {
   // The port is taken first, so that nothing started below (the mail catcher takes a free port of
   // its own) can land on it, and so that a port already in use is reported before any work is done.
   let handle = starting;
-  const server = createServer((req, res) => handle(req, res));
+  const server = createHttpServer((req, res) => handle(req, res));
   await new Promise<void>((resolve, reject) => {
     const failed = (err: NodeJS.ErrnoException) =>
       reject(

@@ -74,8 +74,10 @@ export const errorCodes = [
   'too_many_pixels',
   'unsupported_type',
   'unsupported_encoding',
-  // 429, 5xx
+  // 408, 429, 431, 5xx
+  'request_timeout',
   'rate_limited',
+  'headers_too_large',
   'internal',
   'starting',
 ] as const;

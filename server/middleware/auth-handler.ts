@@ -2,7 +2,7 @@ import type { Request as ExpressRequest, RequestHandler, Response as ExpressResp
 import { z } from 'zod';
 
 import type { Auth } from '../auth';
-import { ApiError, notFound } from '../errors';
+import { ApiError, errorBody, notFound } from '../errors';
 import { zodIssues } from './errors';
 import { sessionCacheFor, sessionCookieOf } from './session';
 
@@ -86,6 +86,13 @@ async function send(res: ExpressResponse, response: Response) {
   const cookies = response.headers.getSetCookie();
   if (cookies.length > 0) res.setHeader('set-cookie', cookies);
   const text = await response.text();
+  if (response.status === 429) {
+    // better-auth says when to come back in a header of its own; clients and proxies read the standard one.
+    const wait = Number(response.headers.get('x-retry-after'));
+    res.setHeader('retry-after', String(Number.isFinite(wait) && wait > 0 ? Math.ceil(wait) : 60));
+    res.json(errorBody('rate_limited', 'Too many sign-in attempts; wait a moment and try again.'));
+    return;
+  }
   if (response.status >= 400 && (response.headers.get('content-type') ?? '').includes('json')) {
     const json = safeJson(text) as { code?: string; message?: string; error?: unknown } | undefined;
     if (json && typeof json === 'object' && !('error' in json && typeof json.error === 'object')) {

@@ -164,14 +164,34 @@ class LogParser extends Parser {
     super(options);
   }
 
+  /** Where the last record ended, and how many empty and comment lines had been skipped by then. */
+  private lastEnd = 0;
+  private skippedAtLastEnd = 0;
+
   // csv-parse's per-record info objects cost more than the parsing itself on a long log, while
   // its running line count is exact at the moment a record is pushed.
   override push(chunk: unknown): boolean {
     if (chunk === null) return super.push(null);
+    this.lastEnd = this.info.lines;
+    this.skippedAtLastEnd = this.info.empty_lines + this.info.comment_lines;
     if (!this.destroyed) this.onRecord(chunk as string[], this.info.lines);
     return true;
   }
+
+  /**
+   * The line the record being read began on: the one after the last record, past the empty and
+   * comment lines skipped since (a quote left open runs on over the lines after it).
+   */
+  recordStart(): number {
+    return this.lastEnd + 1 + (this.info.empty_lines + this.info.comment_lines - this.skippedAtLastEnd);
+  }
 }
+
+/** A header line too long to be one: nothing can be read without the column names. */
+const headerTooLong = (line: number) =>
+  new ApiError(400, 'record_too_long', `The header (line ${line}) runs past ${MAX_RECORD_SIZE} characters; nothing was imported.`, [
+    { path: `file.line.${line}`, message: 'The first line must name the columns, e.g. time,depth_m,lat,lon' },
+  ]);
 
 /**
  * Whether a log needs csv-parse: it holds a double quote somewhere (a quoted field may hold a
@@ -360,13 +380,16 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
           const line = (err as { lines?: number } | undefined)?.lines ?? lastLine + 1;
           if (err?.code === 'CSV_MAX_RECORD_SIZE') {
             // csv-parse reads no further after this error, so the rest of the log would be lost unsaid.
+            const start = parser.recordStart();
             parser.destroy(
-              new ApiError(
-                400,
-                'record_too_long',
-                `Line ${line} of the log runs past ${MAX_RECORD_SIZE} characters; nothing was imported.`,
-                [{ path: `file.line.${line}`, message: 'Look for a double quote that is never closed, or a line that is not telemetry' }],
-              ),
+              !headers
+                ? headerTooLong(start)
+                : new ApiError(
+                    400,
+                    'record_too_long',
+                    `The record starting on line ${start} of the log runs past ${MAX_RECORD_SIZE} characters (to line ${line}); nothing was imported.`,
+                    [{ path: `file.line.${start}`, message: 'Look for a double quote on that line that is never closed' }],
+                  ),
             );
             return;
           }
@@ -384,9 +407,10 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
     const sink = new Writable({ objectMode: true, write: (_chunk, _enc, done) => done() });
     await pipeline(createReadStream(filePath, { highWaterMark: 1024 * 1024 }), parser, sink);
   } else {
-    await readPlainRecords(filePath, s, onRecord, (line) =>
-      reject(line, 'bad-csv', null, `not valid CSV: the record is longer than ${MAX_RECORD_SIZE} characters`),
-    );
+    await readPlainRecords(filePath, s, onRecord, (line) => {
+      if (!headers) throw headerTooLong(line);
+      reject(line, 'bad-csv', null, `not valid CSV: the record is longer than ${MAX_RECORD_SIZE} characters`);
+    });
   }
 
   if (!headers || !recognition) {

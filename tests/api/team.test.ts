@@ -480,7 +480,7 @@ describe('sign-in rate limit', () => {
         .set('Origin', s.url)
         .send({ email: emails.biologist, password: 'wrong-password' });
       expect(limited.status).toBe(429);
-      expect(limited.body.error.code).toBe('auth_error');
+      expect(limited.body.error.code).toBe('rate_limited');
     } finally {
       await s.close();
     }

@@ -215,7 +215,10 @@ describe('a good log', () => {
     const before = stored();
     const res = await upload(log(`"${long}`));
     expect(res.status).toBe(400);
-    expect(res.body.error).toMatchObject({ code: 'record_too_long', message: expect.stringMatching(/Line 3 .*nothing was imported/) });
+    expect(res.body.error).toMatchObject({
+      code: 'record_too_long',
+      message: expect.stringMatching(/starting on line 3 .*nothing was imported/),
+    });
     expect(stored()).toEqual(before);
   });
 

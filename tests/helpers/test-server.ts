@@ -1,5 +1,5 @@
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { createServer, type Server } from 'node:http';
+import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -11,6 +11,7 @@ import { createApp } from '@/server/app';
 import { closeContext, createContext } from '@/server/bootstrap';
 import type { AppContext } from '@/server/context';
 import { loadEnv } from '@/server/env';
+import { createHttpServer } from '@/server/http-server';
 
 export type TestServer = {
   url: string;
@@ -38,7 +39,7 @@ export async function startTestServer(options: { seed?: boolean; env?: Record<st
   const webDir = path.join(dir, 'web');
   mkdirSync(webDir);
   writeFileSync(path.join(webDir, 'index.html'), FAKE_INDEX);
-  const server: Server = createServer();
+  const server: Server = createHttpServer();
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const { port } = server.address() as AddressInfo;
   const url = `http://127.0.0.1:${port}`;
