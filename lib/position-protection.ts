@@ -33,6 +33,20 @@ export function snapToGrid(value: number, step: number): number {
  * degrees centred on it): every position that rounds to the point lies within it.
  */
 export function cellRadiusM(lat: number, lon: number, step: number): number {
+  // The cell's shape depends only on its latitude and size, and exports ask for the same few cells
+  // over and over, so each is measured once.
+  const key = `${lat}/${step}`;
+  const known = radiusCache.get(key);
+  if (known !== undefined) return known;
+  const radius = farthestCorner(lat, lon, step);
+  if (radiusCache.size > 10_000) radiusCache.clear();
+  radiusCache.set(key, radius);
+  return radius;
+}
+
+const radiusCache = new Map<string, number>();
+
+function farthestCorner(lat: number, lon: number, step: number): number {
   const half = step / 2;
   let far = 0;
   for (const dLat of [-half, half]) {

@@ -3,15 +3,34 @@
  * the entries themselves a batch at a time with everything a file needs, so that a campaign of
  * any size is never held in memory whole.
  */
-import { and, asc, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, sql, type SQL } from 'drizzle-orm';
 
 import type { Db } from '../../../db/client';
-import { custodyEvents, dives, finds, identifications, observations, observationTags, photos, tags, user } from '../../../db/schema';
-import { SAMPLE_TAG } from '../../../lib/schemas';
+import { finds, observations, user } from '../../../db/schema';
+import { SAMPLE_TAG, type DepthSource, type ObservationKind } from '../../../lib/schemas';
 
 type Row = typeof observations.$inferSelect;
 
-export type ExportEntry = Row & {
+export type ExportEntry = Pick<
+  Row,
+  | 'id'
+  | 'diveId'
+  | 'campaignId'
+  | 'observedAt'
+  | 'kind'
+  | 'title'
+  | 'note'
+  | 'depth'
+  | 'depthSource'
+  | 'lat'
+  | 'lon'
+  | 'positionSource'
+  | 'temperature'
+  | 'authorId'
+  | 'version'
+  | 'createdAt'
+  | 'updatedAt'
+> & {
   diveNumber: string;
   authorName: string;
   tags: string[];
@@ -38,8 +57,8 @@ export const BATCH = 500;
 
 export type EntryOrder = { sort: 'time' | 'depth' | 'kind' | 'author'; ascending: boolean };
 
-/** The ids of the entries matching `conditions`, in the file's order. */
-export function entryIds(db: Db, conditions: SQL[], order: EntryOrder = { sort: 'time', ascending: true }): string[] {
+/** The ids of the entries matching `conditions`, in the file's order (the first `limit` of them, for a sample). */
+export function entryIds(db: Db, conditions: SQL[], order: EntryOrder = { sort: 'time', ascending: true }, limit?: number): string[] {
   const dir = order.ascending ? asc : desc;
   const key =
     order.sort === 'time'
@@ -54,6 +73,7 @@ export function entryIds(db: Db, conditions: SQL[], order: EntryOrder = { sort: 
     .from(observations)
     .where(and(...conditions))
     .orderBy(...key, dir(observations.observedAt), dir(observations.id))
+    .limit(limit ?? -1)
     .all()
     .map((r) => r.id);
 }
@@ -79,68 +99,114 @@ function groupBy<T, V>(items: T[], key: (t: T) => string, value: (t: T) => V): M
   return out;
 }
 
-/** Reads entries by id a batch at a time, keeping the names and dive numbers it has already looked up. */
+type Statement = { all(...params: unknown[]): unknown[] };
+
+type RawEntry = {
+  id: string;
+  dive_id: string;
+  campaign_id: string;
+  observed_at: number;
+  kind: ObservationKind;
+  title: string;
+  note: string;
+  depth: number | null;
+  depth_source: DepthSource | null;
+  lat: number | null;
+  lon: number | null;
+  position_source: DepthSource | null;
+  temperature: number | null;
+  author_id: string;
+  version: number;
+  created_at: number;
+  updated_at: number;
+};
+
+/** A batch's ids as one JSON parameter, so each statement is prepared once whatever the batch size. */
+const IN_BATCH = 'in (select value from json_each(?))';
+
+/**
+ * Reads entries by id a batch at a time, keeping the names and dive numbers it has already looked
+ * up. Plain prepared statements rather than the query builder: an export runs them thousands of
+ * times, and building and preparing each query again cost more than running it.
+ */
 export class EntryReader {
   private names = new Map<string, string>();
   private diveNumbers = new Map<string, string>();
+  private statements: Record<'entries' | 'tags' | 'photos' | 'identifications' | 'finds' | 'custody' | 'names' | 'dives', Statement>;
 
-  constructor(private db: Db) {}
-
-  private nameOf(ids: string[]) {
-    const wanted = [...new Set(ids)].filter((id) => !this.names.has(id));
-    if (wanted.length > 0) {
-      for (const u of this.db.select({ id: user.id, name: user.name }).from(user).where(inArray(user.id, wanted)).all()) {
-        this.names.set(u.id, u.name);
-      }
-    }
-    return (id: string) => this.names.get(id) ?? 'Unknown';
+  constructor(db: Db) {
+    const prepare = (text: string) => db.$client.prepare(text) as unknown as Statement;
+    this.statements = {
+      entries: prepare(
+        `select id, dive_id, campaign_id, observed_at, kind, title, note, depth, depth_source, lat, lon, position_source, temperature,
+          author_id, version, created_at, updated_at from observations where id ${IN_BATCH}`,
+      ),
+      tags: prepare(
+        `select ot.observation_id as id, t.name as name from observation_tags ot join tags t on t.id = ot.tag_id
+          where ot.observation_id ${IN_BATCH} order by t.name`,
+      ),
+      photos: prepare(
+        `select id, observation_id from photos where retired = 0 and observation_id ${IN_BATCH} order by position, created_at`,
+      ),
+      identifications: prepare(
+        `select observation_id, scientific_name, taxon_rank, qualifier, taxon_id, verification_status, identified_by
+          from identifications where observation_id ${IN_BATCH}`,
+      ),
+      finds: prepare(
+        `select observation_id, find_number, object_type, material, condition, state from finds where observation_id ${IN_BATCH}`,
+      ),
+      custody: prepare(
+        `select observation_id as id, holder, location, container from custody_events where observation_id ${IN_BATCH} order by since, created_at`,
+      ),
+      names: prepare(`select id, name from user where id ${IN_BATCH}`),
+      dives: prepare(`select id, number from dives where id ${IN_BATCH}`),
+    };
   }
 
-  private diveOf(ids: string[]) {
-    const wanted = [...new Set(ids)].filter((id) => !this.diveNumbers.has(id));
+  private lookUp(cache: Map<string, string>, statement: Statement, ids: string[]) {
+    const wanted = [...new Set(ids)].filter((id) => !cache.has(id));
     if (wanted.length > 0) {
-      for (const d of this.db.select({ id: dives.id, number: dives.number }).from(dives).where(inArray(dives.id, wanted)).all()) {
-        this.diveNumbers.set(d.id, d.number);
+      for (const row of statement.all(JSON.stringify(wanted)) as { id: string; name?: string; number?: string }[]) {
+        cache.set(row.id, row.name ?? row.number ?? '');
       }
     }
-    return (id: string) => this.diveNumbers.get(id) ?? '';
   }
 
   /** The entries of `ids`, in the order of `ids`. */
   read(ids: string[], parts: { custody?: boolean } = {}): ExportEntry[] {
     if (ids.length === 0) return [];
-    const db = this.db;
-    const rows = db.select().from(observations).where(inArray(observations.id, ids)).all();
-    const tagRows = db
-      .select({ id: observationTags.observationId, name: tags.name })
-      .from(observationTags)
-      .innerJoin(tags, eq(tags.id, observationTags.tagId))
-      .where(inArray(observationTags.observationId, ids))
-      .orderBy(tags.name)
-      .all();
-    const photoRows = db
-      .select({ id: photos.id, observationId: photos.observationId })
-      .from(photos)
-      .where(and(inArray(photos.observationId, ids), eq(photos.retired, false)))
-      .orderBy(photos.position, photos.createdAt)
-      .all();
-    const idents = db.select().from(identifications).where(inArray(identifications.observationId, ids)).all();
-    const findRows = db.select().from(finds).where(inArray(finds.observationId, ids)).all();
+    const batch = JSON.stringify(ids);
+    const st = this.statements;
+    const rows = st.entries.all(batch) as RawEntry[];
+    const tagRows = st.tags.all(batch) as { id: string; name: string }[];
+    const photoRows = st.photos.all(batch) as { id: string; observation_id: string }[];
+    const idents = st.identifications.all(batch) as {
+      observation_id: string;
+      scientific_name: string;
+      taxon_rank: string | null;
+      qualifier: string | null;
+      taxon_id: string | null;
+      verification_status: string;
+      identified_by: string;
+    }[];
+    const findRows = st.finds.all(batch) as {
+      observation_id: string;
+      find_number: string;
+      object_type: string | null;
+      material: string | null;
+      condition: string | null;
+      state: 'in-situ' | 'recovered';
+    }[];
     const custodyRows = parts.custody
-      ? db
-          .select({
-            id: custodyEvents.observationId,
-            holder: custodyEvents.holder,
-            location: custodyEvents.location,
-            container: custodyEvents.container,
-          })
-          .from(custodyEvents)
-          .where(inArray(custodyEvents.observationId, ids))
-          .orderBy(custodyEvents.since, custodyEvents.createdAt)
-          .all()
+      ? (st.custody.all(batch) as { id: string; holder: string; location: string; container: string | null }[])
       : [];
-    const name = this.nameOf([...rows.map((r) => r.authorId), ...idents.map((i) => i.identifiedBy)]);
-    const dive = this.diveOf(rows.map((r) => r.diveId));
+    this.lookUp(this.names, st.names, [...rows.map((r) => r.author_id), ...idents.map((i) => i.identified_by)]);
+    this.lookUp(
+      this.diveNumbers,
+      st.dives,
+      rows.map((r) => r.dive_id),
+    );
+    const name = (id: string) => this.names.get(id) ?? 'Unknown';
     const tagsBy = groupBy(
       tagRows,
       (t) => t.id,
@@ -148,7 +214,7 @@ export class EntryReader {
     );
     const photosBy = groupBy(
       photoRows,
-      (p) => p.observationId,
+      (p) => p.observation_id,
       (p) => p.id,
     );
     const custodyBy = groupBy(
@@ -156,32 +222,48 @@ export class EntryReader {
       (c) => c.id,
       (c) => ({ holder: c.holder, location: c.location, container: c.container }),
     );
-    const identBy = new Map(idents.map((i) => [i.observationId, i]));
-    const findBy = new Map(findRows.map((f) => [f.observationId, f]));
+    const identBy = new Map(idents.map((i) => [i.observation_id, i]));
+    const findBy = new Map(findRows.map((f) => [f.observation_id, f]));
     const byId = new Map<string, ExportEntry>();
     for (const r of rows) {
       const ident = identBy.get(r.id);
       const find = findBy.get(r.id);
       byId.set(r.id, {
-        ...r,
-        diveNumber: dive(r.diveId),
-        authorName: name(r.authorId),
+        id: r.id,
+        diveId: r.dive_id,
+        campaignId: r.campaign_id,
+        observedAt: new Date(r.observed_at),
+        kind: r.kind,
+        title: r.title,
+        note: r.note,
+        depth: r.depth,
+        depthSource: r.depth_source,
+        lat: r.lat,
+        lon: r.lon,
+        positionSource: r.position_source,
+        temperature: r.temperature,
+        authorId: r.author_id,
+        version: r.version,
+        createdAt: new Date(r.created_at),
+        updatedAt: new Date(r.updated_at),
+        diveNumber: this.diveNumbers.get(r.dive_id) ?? '',
+        authorName: name(r.author_id),
         tags: tagsBy.get(r.id) ?? [],
         photoIds: photosBy.get(r.id) ?? [],
         identification: ident
           ? {
-              scientificName: ident.scientificName,
-              taxonRank: ident.taxonRank,
+              scientificName: ident.scientific_name,
+              taxonRank: ident.taxon_rank,
               qualifier: ident.qualifier,
-              taxonId: ident.taxonId,
-              verificationStatus: ident.verificationStatus,
-              identifiedByName: name(ident.identifiedBy),
+              taxonId: ident.taxon_id,
+              verificationStatus: ident.verification_status,
+              identifiedByName: name(ident.identified_by),
             }
           : null,
         find: find
           ? {
-              findNumber: find.findNumber,
-              objectType: find.objectType,
+              findNumber: find.find_number,
+              objectType: find.object_type,
               material: find.material,
               condition: find.condition,
               state: find.state,

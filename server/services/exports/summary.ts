@@ -46,7 +46,7 @@ function card(
 export function exportSummary(db: Db, campaignId: string, publicUrl: string): ExportSummary {
   const campaign = exportCampaign(db, campaignId);
   const reader = new EntryReader(db);
-  const head = (conditions: SQL[]): ExportEntry[] => reader.read(entryIds(db, conditions).slice(0, SAMPLE), { custody: true });
+  const head = (conditions: SQL[]): ExportEntry[] => reader.read(entryIds(db, conditions, undefined, SAMPLE), { custody: true });
   const mode = campaign.publicPositions;
 
   // Darwin Core: the occurrence rows compressed as the archive compresses them.
