@@ -116,7 +116,11 @@ export function windowCounter() {
   };
 }
 
-export function createAuth(env: Env, db: Db, postbox: MagicLinkPostbox) {
+/**
+ * `onSessionEnded` hears of every session that ends, whichever way: sign-out, a revoked session,
+ * revoking the others, a password change, a ban, an account removed. Its live streams close then.
+ */
+export function createAuth(env: Env, db: Db, postbox: MagicLinkPostbox, onSessionEnded: (token: string) => void = () => undefined) {
   const origin = new URL(env.PUBLIC_URL);
   return betterAuth({
     appName: 'Bathynote',
@@ -164,7 +168,23 @@ export function createAuth(env: Env, db: Db, postbox: MagicLinkPostbox) {
     },
     telemetry: { enabled: false },
     databaseHooks: {
+      session: {
+        delete: {
+          // Removing an account deletes its sessions and its password first: refuse before any of it.
+          before: (doomed, ctx) => (ctx?.path === REMOVE_USER ? refuseRemovalOfRecordHolder(db, doomed.userId) : Promise.resolve()),
+          after: (ended) => {
+            onSessionEnded(ended.token);
+            return Promise.resolve();
+          },
+        },
+      },
+      account: {
+        delete: {
+          before: (doomed, ctx) => (ctx?.path === REMOVE_USER ? refuseRemovalOfRecordHolder(db, doomed.userId) : Promise.resolve()),
+        },
+      },
       user: {
+        delete: { before: (doomed) => refuseRemovalOfRecordHolder(db, doomed.id) },
         create: {
           // A link makes an account only while its invitation is open (links are deleted on revoke
           // and resend; this holds even if one were left behind).
@@ -193,6 +213,44 @@ export function createAuth(env: Env, db: Db, postbox: MagicLinkPostbox) {
 }
 
 export type Auth = ReturnType<typeof createAuth>;
+
+const restrictingColumns = new WeakMap<Db, { table: string; column: string }[]>();
+
+const REMOVE_USER = '/admin/remove-user';
+
+/**
+ * Nothing in the record is ever deleted, so an account that wrote any of it stays; the site
+ * administrator disables it instead. An account that wrote nothing may go.
+ */
+function refuseRemovalOfRecordHolder(db: Db, userId: string): Promise<void> {
+  const holder = recordsHeldBy(db, userId);
+  if (holder) {
+    throw new APIError('CONFLICT', {
+      code: 'ACCOUNT_HOLDS_RECORDS',
+      message: `This account is named in the record (${holder}), which is never deleted: disable the account instead.`,
+    });
+  }
+  return Promise.resolve();
+}
+
+/** The first table whose rows name the user and keep the account from being deleted, if any. */
+function recordsHeldBy(db: Db, userId: string): string | undefined {
+  let columns = restrictingColumns.get(db);
+  if (!columns) {
+    const tables = db.$client
+      .prepare("select name from sqlite_master where type = 'table' and name not like 'sqlite_%'")
+      .pluck()
+      .all() as string[];
+    columns = tables.flatMap((table) =>
+      (db.$client.pragma(`foreign_key_list("${table}")`) as { table: string; from: string; on_delete: string }[])
+        .filter((fk) => fk.table === 'user' && fk.on_delete === 'RESTRICT')
+        .map((fk) => ({ table, column: fk.from })),
+    );
+    restrictingColumns.set(db, columns);
+  }
+  return columns.find(({ table, column }) => db.$client.prepare(`select 1 from "${table}" where "${column}" = ? limit 1`).get(userId))
+    ?.table;
+}
 
 /** The page may be opened as localhost or 127.0.0.1 at the same port; both are this server. */
 export function trustedOriginsFor(origin: URL): string[] {

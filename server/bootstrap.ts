@@ -5,9 +5,11 @@ import { migrateDatabase, openDatabase } from '../db/client';
 import { createAuth, MagicLinkPostbox } from './auth';
 import type { AppContext } from './context';
 import type { Env } from './env';
+import { sessionCacheFor } from './middleware/session';
 import { LiveHub } from './services/live';
 import { createLogger } from './services/logger';
 import { createMailer } from './services/mail';
+import { createDigestScheduler, digestMailHandler } from './services/digests';
 import { createMailSender } from './services/mail-queue';
 import { invitationMailHandler } from './services/team';
 import { projectRoot } from '../db/root';
@@ -24,24 +26,32 @@ export async function createContext(env: Env): Promise<AppContext> {
   const log = createLogger(env.LOG_LEVEL);
   const postbox = new MagicLinkPostbox();
   const mailer = await createMailer(db, log, env.SMTP_URL);
+  const live = new LiveHub(db);
+  const auth = createAuth(env, db, postbox, (token) => live.endSession(token));
+  // A session that ended is refused on its next request, not only once its cached check runs out.
+  live.onSessionEnded((token) => sessionCacheFor(auth).forgetToken(token));
   const ctx: AppContext = {
     env,
     db,
-    auth: createAuth(env, db, postbox),
+    auth,
     log,
-    live: new LiveHub(db),
+    live,
     mailer,
     mail: createMailSender(db, mailer, log, { attempts: env.MAIL_ATTEMPTS, retryBaseMs: env.MAIL_RETRY_BASE_MS }),
+    digests: createDigestScheduler({ db, publicUrl: env.PUBLIC_URL, secret: env.AUTH_SECRET }, log, () => ctx.mail.kick()),
     postbox,
     version: packageVersion(),
   };
   ctx.mail.handle('invitation', invitationMailHandler(ctx));
+  ctx.mail.handle('digest', digestMailHandler(db));
   ctx.mail.start();
+  ctx.digests.start();
   return ctx;
 }
 
-/** Stops what runs in the background (the mail sender), closes the mail transport and the database. */
+/** Stops what runs in the background (the digest schedule, the mail sender), closes the mail transport and the database. */
 export async function closeContext(ctx: AppContext): Promise<void> {
+  ctx.digests.stop();
   await ctx.mail.stop();
   await ctx.mailer.close();
   ctx.db.$client.close();

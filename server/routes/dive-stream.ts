@@ -74,8 +74,10 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
       }),
     );
     cleanups.push(
+      // Removed or given another role: the stream closes either way, and a reader still allowed
+      // opens it again under its new role.
       live.onMembershipChanged((change) => {
-        if (change.userId === user.id && change.campaignId === campaignId && !stillAllowed()) close();
+        if (change.userId === user.id && change.campaignId === campaignId) close();
       }),
     );
     const heartbeat = setInterval(() => {
