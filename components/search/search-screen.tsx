@@ -2,6 +2,7 @@ import { useRouter } from 'expo-router';
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { ScrollView, StyleSheet, TextInput, View, type NativeSyntheticEvent, type TextInputKeyPressEventData } from 'react-native';
 
+import { saveFile } from '@/components/exports/save-file';
 import { ObservationDetail } from '@/components/observations/observation-detail';
 import { Button } from '@/components/ui/button';
 import { Chip } from '@/components/ui/chip';
@@ -145,11 +146,20 @@ export function SearchScreen({ q, filters, entryId }: Props) {
   } else {
     body = (
       <View style={styles.results}>
-        <Text variant="caption" muted testID="search-total" role="status">
-          {first?.total === 1 ? '1 entry' : `${first?.total ?? items.length} entries`}
-          {first?.widened ? ' · close spellings included' : ''}
-          {search.isFetching && !search.isFetchingNextPage ? ' · updating…' : ''}
-        </Text>
+        <View style={styles.summary}>
+          <Text variant="caption" muted testID="search-total" role="status" style={styles.fill}>
+            {first?.total === 1 ? '1 entry' : `${first?.total ?? items.length} entries`}
+            {first?.widened ? ' · close spellings included' : ''}
+            {search.isFetching && !search.isFetchingNextPage ? ' · updating…' : ''}
+          </Text>
+          <Button
+            label="Download as CSV"
+            tone="secondary"
+            compact
+            testID="search-download-csv"
+            onPress={() => saveFile(`/api/search/export.csv?${new URLSearchParams({ q, ...filters }).toString()}`)}
+          />
+        </View>
         <SearchResults items={items} selectedId={splitView ? entryId : cursor} onOpen={open} />
         {search.hasNextPage ? (
           <Button
@@ -227,6 +237,7 @@ const styles = StyleSheet.create({
   },
   input: { flex: 1, fontSize: 16, paddingVertical: space.sm },
   results: { gap: space.md },
+  summary: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   recent: { gap: space.sm },
   recentHead: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between' },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },

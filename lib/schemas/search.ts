@@ -22,6 +22,10 @@ export const searchQuerySchema = observationFilterQuerySchema
   })
   .strict();
 export type SearchQuery = z.infer<typeof searchQuerySchema>;
+/** A search's results as CSV: the same query and filters, every page at once (up to a limit). */
+export const searchExportQuerySchema = searchQuerySchema.omit({ cursor: true, limit: true });
+export const SEARCH_EXPORT_MAX = 10_000;
+
 /** The query as the app builds it (everything a string, as in a URL). */
 export type SearchParams = z.input<typeof searchQuerySchema>;
 

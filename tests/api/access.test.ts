@@ -111,6 +111,7 @@ const table: Record<string, Row> = {
   'GET /api/me': { expect: signedIn, path: () => '/api/me' },
   'GET /api/campaigns': { expect: signedIn, path: () => '/api/campaigns' },
   'GET /api/search': { expect: signedIn, path: () => '/api/search?q=access' },
+  'GET /api/search/export.csv': { expect: signedIn, path: () => '/api/search/export.csv?q=access' },
   'POST /api/campaigns': { expect: siteAdmin, path: () => '/api/campaigns', body: {} },
   'GET /api/campaigns/:campaignId': { expect: readers, path: () => `/api/campaigns/${c()}` },
   'PATCH /api/campaigns/:campaignId': { expect: leadOnly, path: () => `/api/campaigns/${c()}`, body: { datumLat: 'x' } },

@@ -261,6 +261,47 @@ describe('filters', () => {
   });
 });
 
+describe('download', () => {
+  it('gives the same results as CSV, best first, and only of the caller’s campaigns', async () => {
+    const lead = await t.signIn(emails.lead);
+    const res = await lead
+      .get('/api/search/export.csv')
+      .query({ q: 'gorvellic', kind: 'biology' })
+      .buffer(true)
+      .parse((r, done) => {
+        let text = '';
+        r.setEncoding('utf8');
+        r.on('data', (c: string) => (text += c));
+        r.on('end', () => done(null, text));
+      });
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toMatch(/^text\/csv/);
+    expect(res.headers['content-disposition']).toMatch(/^attachment; filename="bathynote-search-/);
+    const lines = (res.body as string)
+      .replace(/^\uFEFF/, '')
+      .trim()
+      .split(/\r?\n/);
+    const page = await search(emails.lead, { q: 'gorvellic', kind: 'biology', limit: '50' });
+    expect(lines).toHaveLength(1 + page.total);
+    for (const [i, item] of page.items.entries()) expect(lines[i + 1]).toContain(item.id);
+    // A guest of the 2026 campaign gets its rows only.
+    const guest = await (
+      await t.signIn(emails.guest)
+    )
+      .get('/api/search/export.csv')
+      .query({ q: 'gorvellic' })
+      .buffer(true)
+      .parse((r, done) => {
+        let text = '';
+        r.setEncoding('utf8');
+        r.on('data', (c: string) => (text += c));
+        r.on('end', () => done(null, text));
+      });
+    expect((guest.body as string).trim().split(/\r?\n/)).toHaveLength(1 + 3);
+    expect((await lead.get('/api/search/export.csv').query({ q: 'gorvellic', limit: '5' })).status).toBe(400);
+  });
+});
+
 describe('retired entries', () => {
   it('are never found, and a restored one is found again', async () => {
     const entry = await log(emails.lead, ids.dive2026, { kind: 'operations', title: 'Tramblewick clamp adjusted', tags: ['tramblewick'] });

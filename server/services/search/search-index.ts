@@ -67,14 +67,28 @@ export class SearchIndex {
   }
 
   search(caller: SearchCaller, q: SearchQuery): SearchPage {
-    const empty: SearchPage = { items: [], nextCursor: null, total: 0, terms: [], widened: false };
+    const cursor = q.cursor ? cursorCodec.decode(searchCursorSchema, q.cursor) : { o: 0 };
+    const found = this.find(caller, q, q.limit + 1, cursor.o, cursor.w === 1);
+    if (!found) return { items: [], nextCursor: null, total: 0, terms: [], widened: false };
+    const { plan, rows, exact, widened, filters } = found;
+    const items = this.results(plan, rows.slice(0, q.limit), new Set(exact));
+    const next = rows.length > q.limit ? cursorCodec.encode({ o: cursor.o + q.limit, ...(widened ? { w: 1 } : {}) }) : null;
+    const total = rows[0]?.total ?? (cursor.o > 0 ? this.count(plan, filters) : 0);
+    return { items, nextCursor: next, total, terms: [...plan.terms], widened };
+  }
+
+  /** The ids of the best `max` matches in rank order, for a download of the results. */
+  rankedIds(caller: SearchCaller, q: Omit<SearchQuery, 'cursor' | 'limit'>, max: number): string[] {
+    return this.find(caller, q, max, 0, false)?.rows.map((r) => r.id) ?? [];
+  }
+
+  private find(caller: SearchCaller, q: Omit<SearchQuery, 'cursor' | 'limit'>, limit: number, offset: number, widenedBefore: boolean) {
     const member = memberCampaignIds(this.db, caller);
     const campaignIds = q.campaignId ? member.filter((id) => id === q.campaignId) : member;
-    if (campaignIds.length === 0) return empty;
+    if (campaignIds.length === 0) return null;
     this.vocabulary.refresh();
-    const cursor = q.cursor ? cursorCodec.decode(searchCursorSchema, q.cursor) : { o: 0 };
     const strict = planQuery(q.q, this.vocabulary);
-    if (!strict.match) return empty;
+    if (!strict.match) return null;
     const filters = observationFilters({
       ...filtersFromQuery(q),
       campaignIds,
@@ -84,20 +98,16 @@ export class SearchIndex {
     const exact = this.exactRowids(strict, filters);
 
     // A typo can make another real word, which is then not widened; when the words as typed find
-    // nothing at all, every word is widened.
+    // nothing at all, every word is widened (and stays so on the following pages).
     let plan = strict;
-    let widened = cursor.w === 1;
-    let rows = widened ? [] : this.ranked(strict, filters, exact, q.limit + 1, cursor.o);
-    if (!widened && cursor.o === 0 && rows.length === 0 && strict.relaxable) widened = true;
+    let widened = widenedBefore;
+    let rows = widened ? [] : this.ranked(strict, filters, exact, limit, offset);
+    if (!widened && offset === 0 && rows.length === 0 && strict.relaxable) widened = true;
     if (widened) {
       plan = planQuery(q.q, this.vocabulary, { relaxed: true });
-      rows = this.ranked(plan, filters, exact, q.limit + 1, cursor.o);
+      rows = this.ranked(plan, filters, exact, limit, offset);
     }
-    const page = rows.slice(0, q.limit);
-    const items = this.results(plan, page, new Set(exact));
-    const next = rows.length > q.limit ? cursorCodec.encode({ o: cursor.o + q.limit, ...(widened ? { w: 1 } : {}) }) : null;
-    const total = rows[0]?.total ?? (cursor.o > 0 ? this.count(plan, filters) : 0);
-    return { items, nextCursor: next, total, terms: [...plan.terms], widened };
+    return { plan, rows, exact, widened, filters };
   }
 
   private count(plan: QueryPlan, filters: SQL[]): number {
