@@ -17,10 +17,11 @@ import { strFromU8, unzipSync } from 'fflate';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { validateXML } from 'xmllint-wasm';
 
-import { campaigns, dives, finds, observations } from '@/db/schema';
+import { campaigns, dives, finds, observations, user } from '@/db/schema';
 import { naturalCompare } from '@/lib/natural-sort';
 import { exportSummarySchema } from '@/lib/schemas';
-import { demoIds, emails } from '../helpers/demo';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 const fixtures = path.join(__dirname, '..', 'fixtures');
@@ -32,12 +33,42 @@ const tdwgTerms = new Set(
 );
 
 let t: TestServer;
-let ids: ReturnType<typeof demoIds>;
+let ids: Fixtures;
 const cookies = new Map<string, string>();
 
 beforeAll(async () => {
   t = await startTestServer({ env: { AUTH_RATE_LIMIT: '200' } });
-  ids = demoIds(t.ctx.db);
+  // Positions, depths and temperatures come from the fixture dive's vehicle log.
+  ids = await buildFixtures(t, { telemetry: true });
+  const lead = await t.signIn(emails.lead);
+  expect((await lead.patch(`/api/campaigns/${ids.campaign}`).send({ vehicle: 'ROV Test', permitRef: 'P-TEST-1' })).status).toBeLessThan(
+    300,
+  );
+  // Three finds, one recovered with a custody trail of two holders.
+  const log = (await lead.get(`/api/dives/${ids.dive}/observations?kind=archaeology&order=asc&limit=200`)).body as {
+    items: { id: string; version: number }[];
+  };
+  const numbered: [string, 'in-situ' | 'recovered'][] = [
+    ['T-2', 'in-situ'],
+    ['T-1', 'recovered'],
+    ['T-3', 'in-situ'],
+  ];
+  for (const [i, [findNumber, state]] of numbered.entries()) {
+    const item = log.items[i]!;
+    const res = await lead
+      .put(`/api/observations/${item.id}/find`)
+      .send({ version: item.version, findNumber, objectType: 'amphora', state });
+    expect(res.status).toBeLessThan(300);
+    if (state === 'recovered') {
+      for (const [holder, location, since] of [
+        ['Pilot on watch', 'Vehicle basket', '2026-05-13T20:00:00.000Z'],
+        ['Conservator', 'Wet lab', '2026-05-13T23:30:00.000Z'],
+      ] as const) {
+        const custody = await lead.post(`/api/observations/${item.id}/custody`).send({ holder, location, since, container: 'Tank 1' });
+        expect(custody.status).toBe(201);
+      }
+    }
+  }
 });
 afterAll(() => t.close());
 
@@ -51,11 +82,11 @@ async function download(email: string | null, p: string) {
   return { status: res.status, headers: res.headers, bytes: new Uint8Array(await res.arrayBuffer()) };
 }
 
-const exportPath = (name: string) => `/api/campaigns/${ids.campaign2026}/export/${name}`;
+const exportPath = (name: string) => `/api/campaigns/${ids.campaign}/export/${name}`;
 const text = (bytes: Uint8Array) => new TextDecoder('utf-8', { ignoreBOM: true }).decode(bytes);
 
 async function setPositions(publicPositions: string) {
-  const res = await (await t.signIn(emails.lead)).patch(`/api/campaigns/${ids.campaign2026}`).send({ publicPositions });
+  const res = await (await t.signIn(emails.lead)).patch(`/api/campaigns/${ids.campaign}`).send({ publicPositions });
   expect(res.status).toBeLessThan(300);
 }
 
@@ -64,9 +95,7 @@ function liveEntries(kind?: 'biology') {
   return db
     .select()
     .from(observations)
-    .where(
-      and(eq(observations.campaignId, ids.campaign2026), eq(observations.retired, false), ...(kind ? [eq(observations.kind, kind)] : [])),
-    )
+    .where(and(eq(observations.campaignId, ids.campaign), eq(observations.retired, false), ...(kind ? [eq(observations.kind, kind)] : [])))
     .all();
 }
 
@@ -92,7 +121,7 @@ describe('Darwin Core Archive', () => {
   it('holds meta.xml valid against tdwg_dwc_text.xsd, eml.xml and occurrence.txt with a row per live biology entry', async () => {
     // An entry retired before the export never appears in it.
     const bio = await t.signIn(emails.biologist);
-    const retired = (await bio.post(`/api/dives/${ids.dive2026}/observations`).send({ kind: 'biology', title: 'Logged by mistake' })).body
+    const retired = (await bio.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'biology', title: 'Logged by mistake' })).body
       .id as string;
     expect((await bio.delete(`/api/observations/${retired}`)).status).toBeLessThan(300);
 
@@ -126,10 +155,10 @@ describe('Darwin Core Archive', () => {
       expect(['HumanObservation', 'MaterialSample']).toContain(r.basisOfRecord);
       expect(r.eventDate).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}\.\d{3}Z$/);
       expect(r.minimumDepthInMeters).toBe(r.maximumDepthInMeters);
-      expect(r.parentEventID).toBe(`urn:uuid:${ids.campaign2026}`);
+      expect(r.parentEventID).toBe(`urn:uuid:${ids.campaign}`);
       expect(r.license).toMatch(/^https:\/\/creativecommons\.org\//);
     }
-    // The demo's sampled microbial mat is a material sample.
+    // The fixture's push core of the mat carries the sample tag: a material sample.
     expect(rows.some((r) => r.basisOfRecord === 'MaterialSample')).toBe(true);
   });
 
@@ -141,23 +170,24 @@ describe('Darwin Core Archive', () => {
 
   it('carries EML with the lead as creator and contact, the licence the lead chose, and the vehicle in the methods', async () => {
     const lead = await t.signIn(emails.lead);
-    expect((await lead.patch(`/api/campaigns/${ids.campaign2026}`).send({ exportLicence: 'CC-BY-NC-4.0' })).status).toBeLessThan(300);
+    expect((await lead.patch(`/api/campaigns/${ids.campaign}`).send({ exportLicence: 'CC-BY-NC-4.0' })).status).toBeLessThan(300);
     const eml = strFromU8((await archive())['eml.xml']!);
     expect(eml).toContain('<contact>');
-    expect(eml).toMatch(/<creator>[\s\S]*<surName>Lumen<\/surName>/);
+    const leadName = t.ctx.db.select({ name: user.name }).from(user).where(eq(user.email, emails.lead)).get()!.name;
+    expect(eml).toMatch(new RegExp(`<creator>[\\s\\S]*<surName>${leadName.split(' ').pop()!}</surName>`));
     expect(eml).toContain('url="https://creativecommons.org/licenses/by-nc/4.0/legalcode"');
-    expect(eml).toMatch(/<methods>[\s\S]*Skerry[\s\S]*<\/methods>/);
+    expect(eml).toMatch(/<methods>[\s\S]*ROV Test[\s\S]*<\/methods>/);
     expect(readOccurrences(await archive()).every((r) => r.license === 'https://creativecommons.org/licenses/by-nc/4.0/legalcode')).toBe(
       true,
     );
-    expect((await lead.patch(`/api/campaigns/${ids.campaign2026}`).send({ exportLicence: 'MIT' })).status).toBe(400);
+    expect((await lead.patch(`/api/campaigns/${ids.campaign}`).send({ exportLicence: 'MIT' })).status).toBe(400);
   });
 });
 
 describe('protected positions', () => {
   /** Every way an exact position could be written: as stored, and to 3–5 decimals. */
   function exactForms(): string[] {
-    const campaign = t.ctx.db.select().from(campaigns).where(eq(campaigns.id, ids.campaign2026)).get()!;
+    const campaign = t.ctx.db.select().from(campaigns).where(eq(campaigns.id, ids.campaign)).get()!;
     const values = [campaign.datumLat, campaign.datumLon];
     for (const e of liveEntries()) if (e.lat !== null && e.lon !== null) values.push(e.lat, e.lon);
     const forms = new Set<string>();
@@ -216,7 +246,7 @@ describe('protected positions', () => {
       .select({ n: finds.findNumber, lat: observations.lat })
       .from(finds)
       .innerJoin(observations, eq(observations.id, finds.observationId))
-      .where(and(eq(finds.campaignId, ids.campaign2026), isNotNull(observations.lat)))
+      .where(and(eq(finds.campaignId, ids.campaign), isNotNull(observations.lat)))
       .all();
     expect(exact.length).toBeGreaterThan(0);
     for (const f of exact) expect(Number(register.find((r) => r['Find number'] === f.n)!['Latitude (exact, WGS 84)'])).toBe(f.lat);
@@ -241,8 +271,8 @@ describe('find register', () => {
   it('has a row per live find in natural find-number order, with custody, dive and permit, as UTF-8 with a BOM', async () => {
     const lead = await t.signIn(emails.lead);
     // Two finds whose numbers sort differently as text and as numbers.
-    for (const n of ['VS26-10', 'VS26-9']) {
-      const id = (await lead.post(`/api/dives/${ids.dive2026}/observations`).send({ kind: 'archaeology', title: `Sherd ${n}` })).body
+    for (const n of ['T-10', 'T-9']) {
+      const id = (await lead.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'archaeology', title: `Sherd ${n}` })).body
         .id as string;
       expect((await lead.put(`/api/observations/${id}/find`).send({ version: 1, findNumber: n, objectType: 'sherd' })).status).toBeLessThan(
         300,
@@ -259,16 +289,27 @@ describe('find register', () => {
       .select({ n: finds.findNumber })
       .from(finds)
       .innerJoin(observations, eq(observations.id, finds.observationId))
-      .where(and(eq(finds.campaignId, ids.campaign2026), eq(observations.retired, false)))
+      .where(and(eq(finds.campaignId, ids.campaign), eq(observations.retired, false)))
       .all();
     expect(numbers).toHaveLength(live.length);
     expect(numbers).toEqual([...numbers].sort(naturalCompare));
-    expect(numbers.indexOf('VS26-9')).toBeLessThan(numbers.indexOf('VS26-10'));
-    const campaign = t.ctx.db.select().from(campaigns).where(eq(campaigns.id, ids.campaign2026)).get()!;
+    expect(numbers.indexOf('T-9')).toBeLessThan(numbers.indexOf('T-10'));
+    expect(numbers.slice(0, 3)).toEqual(['T-1', 'T-2', 'T-3']);
+    const campaign = t.ctx.db.select().from(campaigns).where(eq(campaigns.id, ids.campaign)).get()!;
     expect(rows.every((r) => r['Permit reference'] === (campaign.permitRef ?? ''))).toBe(true);
     const recovered = rows.find((r) => r['In situ or recovered'] === 'recovered');
-    expect(recovered?.['Current holder']).toBeTruthy();
-    expect(Number(recovered?.['Hand-overs'])).toBeGreaterThanOrEqual(0);
+    expect(recovered).toMatchObject({
+      'Find number': 'T-1',
+      'Current holder': 'Conservator',
+      'Kept at': 'Wet lab',
+      Container: 'Tank 1',
+      'Hand-overs': '1',
+    });
+    expect(rows.find((r) => r['Find number'] === 'T-2')).toMatchObject({
+      'In situ or recovered': 'in situ',
+      'Current holder': '',
+      'Hand-overs': '0',
+    });
     expect(rows.every((r) => /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}\.\d{3}Z$/.test(r['Time (UTC)']!))).toBe(true);
   });
 });
@@ -279,7 +320,7 @@ describe('GeoJSON', () => {
     const bio = await t.signIn(emails.biologist);
     // lat 36.1, lon −7.4 must come out as [-7.4, 36.1]; an entry with no position is counted, not drawn.
     const placed = (
-      await bio.post(`/api/dives/${ids.dive2026}/observations`).send({ kind: 'biology', title: 'Placed', lat: 36.1, lon: -7.4, depth: 530 })
+      await bio.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'biology', title: 'Placed', lat: 36.1, lon: -7.4, depth: 530 })
     ).body.id as string;
     const res = await download(emails.guest, exportPath('observations.geojson'));
     expect(res.headers.get('content-type')).toMatch(/^application\/geo\+json/);
@@ -304,7 +345,7 @@ describe('CSV of a list', () => {
     const bio = await t.signIn(emails.biologist);
     const hostile = (
       await bio
-        .post(`/api/dives/${ids.dive2026}/observations`)
+        .post(`/api/dives/${ids.dive}/observations`)
         .send({ kind: 'biology', title: '=cmd|" /C calc"!A0', note: '@SUM(1+1)\nsecond line, "quoted"' })
     ).body.id as string;
     const res = await download(emails.pilot, exportPath('observations.csv'));
@@ -320,12 +361,12 @@ describe('CSV of a list', () => {
   });
 
   it('takes the dive log filters and a dive, and lists exactly what the log lists, in its order', async () => {
-    const q = `diveId=${ids.dive2026}&kind=biology&sort=time&order=asc`;
+    const q = `diveId=${ids.dive}&kind=biology&sort=time&order=asc`;
     const rows = parse<Record<string, string>>(text((await download(emails.biologist, exportPath(`observations.csv?${q}`))).bytes), {
       bom: true,
       columns: true,
     });
-    const log = (await (await t.signIn(emails.biologist)).get(`/api/dives/${ids.dive2026}/observations?kind=biology&order=asc&limit=200`))
+    const log = (await (await t.signIn(emails.biologist)).get(`/api/dives/${ids.dive}/observations?kind=biology&order=asc&limit=200`))
       .body as {
       items: { id: string }[];
     };
@@ -336,7 +377,7 @@ describe('CSV of a list', () => {
   it('refuses a bad filter with 400 and a dive of another campaign with 404', async () => {
     expect((await download(emails.lead, exportPath('observations.csv?kind=geology'))).status).toBe(400);
     expect((await download(emails.lead, exportPath('observations.csv?limit=5'))).status).toBe(400);
-    expect((await download(emails.lead, exportPath(`observations.csv?diveId=${ids.dive2024}`))).status).toBe(404);
+    expect((await download(emails.lead, exportPath(`observations.csv?diveId=${ids.otherDive}`))).status).toBe(404);
   });
 });
 
@@ -364,7 +405,7 @@ describe('summary', () => {
     const byKind = Object.fromEntries(summary.cards.map((c) => [c.kind, c]));
     expect(byKind['darwin-core']!.rows).toBe(liveEntries('biology').length);
     expect(byKind.csv!.rows).toBe(liveEntries().length);
-    const diveCount = t.ctx.db.select().from(dives).where(eq(dives.campaignId, ids.campaign2026)).all().length;
+    const diveCount = t.ctx.db.select().from(dives).where(eq(dives.campaignId, ids.campaign)).all().length;
     expect(byKind.csv!.dives).toBeLessThanOrEqual(diveCount);
     // The estimate is within a factor of two of the real download.
     const real = (await download(emails.guest, exportPath('observations.csv'))).bytes.length;
