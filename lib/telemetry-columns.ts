@@ -44,7 +44,18 @@ const ALIASES: Readonly<Record<TelemetryChannel, readonly string[]>> = {
   lon: ['lon', 'longitude', 'long'],
   heading: ['heading'],
   altitude: ['altitude_m', 'altitude'],
-  temperature: ['temperature_c', 'temperature', 'temp'],
+  // The unit run into the name as loggers often write it (common practice): temp_c, temp_degc, water_temp.
+  temperature: [
+    'temperature_c',
+    'temperature_degc',
+    'temperature',
+    'temp',
+    'temp_c',
+    'temp_degc',
+    'water_temp',
+    'water_temp_c',
+    'water_temperature',
+  ],
   salinity: ['salinity'],
 };
 

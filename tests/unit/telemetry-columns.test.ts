@@ -42,6 +42,10 @@ describe('recogniseHeaders', () => {
       ['altitude', 'altitude'],
       ['temperature', 'temperature'],
       ['temp', 'temperature'],
+      ['temp_c', 'temperature'],
+      ['Temp_DegC', 'temperature'],
+      ['water_temp', 'temperature'],
+      ['Water temp', 'temperature'],
     ];
     for (const [header, channel] of cases) {
       expect(recogniseHeaders([header]).mapping, header).toEqual({ [channel]: 0 });
