@@ -19,6 +19,7 @@ import { useDiveLive } from '@/hooks/live';
 import { useDiveLog, type DiveLogFilters } from '@/hooks/observations';
 import { useSendQueueFlush } from '@/hooks/send-queue';
 import { useTheme } from '@/hooks/theme';
+import { can } from '@/lib/permissions';
 import type { Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { DiveLog, READING_OFFSET } from './dive-log';
@@ -28,6 +29,7 @@ import { LiveStatusBadge } from './live-status';
 import { LogFilters } from './log-filters';
 import { matchesSearch } from './log-rows';
 import { PhaseControls } from './phase-controls';
+import { DivePlanForm } from './dive-plan-form';
 import { QuickMarkBar } from './quick-mark-bar';
 
 /** A dive: its phases and its live log, with the selected entry beside the list on wide screens. */
@@ -41,6 +43,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const campaign = useCampaign(dive.data?.campaignId);
   const [filters, setFilters] = useState<DiveLogFilters>({});
   const [showFilters, setShowFilters] = useState(false);
+  const [editingPlan, setEditingPlan] = useState(false);
   const [view, setView] = useState<'cards' | 'table'>('cards');
   const [search, setSearch] = useState('');
   const searchBox = useRef<TextInput>(null);
@@ -95,11 +98,25 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
     <View style={styles.listHeader}>
       <DivePhases dive={dive.data} />
       {role === 'lead' || role === 'pilot' ? <PhaseControls dive={dive.data} /> : null}
-      {dive.data.objectives ? (
-        <Text variant="caption" muted>
-          {dive.data.objectives}
-        </Text>
-      ) : null}
+      {editingPlan ? (
+        <DivePlanForm
+          campaignId={dive.data.campaignId}
+          dive={dive.data}
+          onDone={() => setEditingPlan(false)}
+          onCancel={() => setEditingPlan(false)}
+        />
+      ) : (
+        <View style={styles.plan}>
+          {dive.data.objectives ? (
+            <Text variant="caption" muted style={styles.planText}>
+              {dive.data.objectives}
+            </Text>
+          ) : null}
+          {can(role, 'dive.plan') ? (
+            <Button label="Edit plan" tone="ghost" compact onPress={() => setEditingPlan(true)} testID="edit-dive-plan" />
+          ) : null}
+        </View>
+      )}
       {role && role !== 'admin' ? <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} /> : null}
       <View style={styles.tools}>
         <Button
@@ -222,6 +239,8 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
 }
 
 const styles = StyleSheet.create({
+  plan: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+  planText: { flexShrink: 1 },
   listHeader: { gap: space.sm, marginBottom: space.md, padding: 0 },
   tools: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: space.sm },
   viewSwitch: { minWidth: 200 },
