@@ -80,12 +80,13 @@ export function useUpdateObservation(id: string) {
   });
 }
 
-export function useRetireObservation(id: string) {
+/** Retires any entry by its id (the undo of a quick mark names the entry it just logged). */
+export function useRetireEntry() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: () => request(`/api/observations/${encodeURIComponent(id)}`, observationDetailSchema, { method: 'DELETE' }),
+    mutationFn: (id: string) => request(`/api/observations/${encodeURIComponent(id)}`, observationDetailSchema, { method: 'DELETE' }),
     onSuccess: (retired) => {
-      qc.setQueryData(observationKeys.detail(id), retired);
+      qc.setQueryData(observationKeys.detail(retired.id), retired);
       afterEntryRetired(qc, retired);
     },
   });

@@ -106,13 +106,13 @@ export function useWaitingEntries(diveId?: string): WaitingEntry[] {
 
 /**
  * Logs an entry: sent at once when the link is up, otherwise kept in the send queue and sent later.
- * Resolves with the stored entry, or with `{ queued: true }` when it waits in the queue.
+ * Resolves with the stored entry, or with `{ queued: true, clientRef }` when it waits in the queue.
  */
 export function useLogEntry(diveId: string) {
   const qc = useQueryClient();
   const authorId = useMe().data?.user.id;
   return useCallback(
-    async (body: ObservationCreate): Promise<{ queued: false; observation: Observation } | { queued: true }> => {
+    async (body: ObservationCreate): Promise<{ queued: false; observation: Observation } | { queued: true; clientRef: string }> => {
       const entry = { clientRef: newClientRef(), diveId, body: { ...body, observedAt: body.observedAt ?? new Date().toISOString() } };
       try {
         const observation = await send(entry);
@@ -121,7 +121,7 @@ export function useLogEntry(diveId: string) {
       } catch (err) {
         if (!retryable(err)) throw err;
         write([...read(), { ...entry, authorId, queuedAt: new Date().toISOString(), attempts: 1, lastError: (err as Error).message }]);
-        return { queued: true };
+        return { queued: true, clientRef: entry.clientRef };
       }
     },
     [authorId, diveId, qc],

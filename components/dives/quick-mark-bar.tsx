@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useRef, useState } from 'react';
 import { ScrollView, StyleSheet, View } from 'react-native';
 import { useRouter } from 'expo-router';
 
@@ -7,14 +7,32 @@ import { Text } from '@/components/ui/text';
 import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useQuickMarks } from '@/hooks/campaigns';
-import { useLogEntry } from '@/hooks/send-queue';
+import { useRetireEntry } from '@/hooks/observations';
+import { discardWaiting, useLogEntry } from '@/hooks/send-queue';
 import { useTheme } from '@/hooks/theme';
 import type { QuickMark } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 
+/** A second tap of the same mark this soon after the first is the same tap (a double tap), not a second entry. */
+export const DOUBLE_TAP_MS = 600;
+/** Taps of the same mark while its notice is still up count together ("Coral ×2"). */
+const RUN_MS = 8000;
+
+type LastTap = { markId: string; at: number; count: number } | null;
+
+const clock = () => Date.now();
+
+/** Which tap in a row of the same mark this one is, or null when it only repeats a tap just made (a double tap). */
+export function tapCount(last: LastTap, markId: string, now: number): number | null {
+  const prev = last?.markId === markId ? last : null;
+  if (prev && now - prev.at < DOUBLE_TAP_MS) return null;
+  return prev && now - prev.at < RUN_MS ? prev.count + 1 : 1;
+}
+
 /**
- * One tap logs an entry now with the mark's kind and tags; the toast offers to complete it.
- * With the entry button, that is the two taps a thumb needs during a dive.
+ * One tap logs an entry now with the mark's kind and tags; the toast offers to undo it or complete
+ * it. With the entry button, that is the two taps a thumb needs during a dive. Each logged tap
+ * sends its own `clientRef`, so a send retried over a dropping link is still stored once.
  */
 export function QuickMarkBar({ diveId, campaignId }: { diveId: string; campaignId: string }) {
   const { colors } = useTheme();
@@ -22,20 +40,57 @@ export function QuickMarkBar({ diveId, campaignId }: { diveId: string; campaignI
   const toast = useToast();
   const marks = useQuickMarks(campaignId).data ?? [];
   const log = useLogEntry(diveId);
+  const retire = useRetireEntry();
   const [busy, setBusy] = useState<string | null>(null);
+  // The last tap that logged, and how many in a row of the same mark.
+  const last = useRef<LastTap>(null);
 
   if (marks.length === 0) return null;
 
   const tap = async (mark: QuickMark) => {
+    const now = clock();
+    const count = tapCount(last.current, mark.id, now);
+    if (count === null) return;
+    last.current = { markId: mark.id, at: now, count };
+    const name = count > 1 ? `${mark.label} ×${count}` : `${mark.label} logged`;
     setBusy(mark.id);
     try {
-      const result = await log({ kind: mark.kind, title: mark.label, tags: mark.tags, observedAt: new Date().toISOString() });
-      if (result.queued) toast('No link: the entry is kept on this device and will be sent.', { tone: 'danger' });
-      else {
+      const result = await log({ kind: mark.kind, title: mark.label, tags: mark.tags, observedAt: new Date(now).toISOString() });
+      const undone = () => {
+        if (last.current?.markId === mark.id) last.current = { ...last.current, count: last.current.count - 1 };
+      };
+      if (result.queued) {
+        toast(`${name}: no link, kept on this device and sent later.`, {
+          tone: 'danger',
+          actions: [
+            {
+              label: 'Undo',
+              testID: 'toast-undo',
+              run: () => {
+                discardWaiting(result.clientRef);
+                undone();
+              },
+            },
+          ],
+        });
+      } else {
         const id = result.observation.id;
-        toast(`Logged “${mark.label}”`, { action: { label: 'Add details', run: () => router.push(`/observations/${id}/edit`) } });
+        toast(name, {
+          actions: [
+            {
+              label: 'Undo',
+              testID: 'toast-undo',
+              run: () => {
+                retire.mutate(id, { onError: (err) => toast(err.message, { tone: 'danger' }) });
+                undone();
+              },
+            },
+            { label: 'Add details', testID: 'toast-action', run: () => router.push(`/observations/${id}/edit`) },
+          ],
+        });
       }
     } catch (err) {
+      last.current = null;
       toast(err instanceof ApiError ? err.message : 'Could not log that.', { tone: 'danger' });
     } finally {
       setBusy(null);

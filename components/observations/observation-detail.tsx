@@ -12,7 +12,7 @@ import { ApiError } from '@/hooks/api';
 import { useCampaign } from '@/hooks/campaigns';
 import { useDive } from '@/hooks/dives';
 import { useFollowDive } from '@/hooks/live';
-import { useObservation, useRestoreObservation, useRetireObservation } from '@/hooks/observations';
+import { useObservation, useRestoreObservation, useRetireEntry } from '@/hooks/observations';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { formatDepth, formatInZone, formatLatLon, formatTemperature, formatUtc } from '@/lib/format';
@@ -120,12 +120,12 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
 function EntryActions({ observation: o, mayEdit, isLead }: { observation: Detail; mayEdit: boolean; isLead: boolean }) {
   const router = useRouter();
   const toast = useToast();
-  const retire = useRetireObservation(o.id);
+  const retire = useRetireEntry();
   const restore = useRestoreObservation(o.id);
   const [confirming, setConfirming] = useState(false);
   const fail = (err: unknown) => toast(err instanceof ApiError ? err.message : 'That did not work.', { tone: 'danger' });
   const doRetire = () =>
-    retire.mutate(undefined, {
+    retire.mutate(o.id, {
       onSuccess: () => {
         setConfirming(false);
         if (isLead) toast('Entry retired', { action: { label: 'Undo', run: () => restore.mutate(undefined, { onError: fail }) } });

@@ -6,8 +6,10 @@ import { radius, space } from '@/lib/tokens';
 import { Button } from './button';
 import { Text } from './text';
 
-type Toast = { id: number; message: string; action?: { label: string; run: () => void }; tone?: 'info' | 'danger' };
-type Show = (message: string, options?: { action?: Toast['action']; tone?: Toast['tone']; ms?: number }) => void;
+type Action = { label: string; run: () => void; testID?: string };
+type Toast = { id: number; message: string; actions: Action[]; tone?: 'info' | 'danger' };
+/** `action` is the usual one; `actions` where a notice offers more than one (e.g. Undo and Add details). */
+type Show = (message: string, options?: { action?: Action; actions?: Action[]; tone?: Toast['tone']; ms?: number }) => void;
 
 const ToastContext = createContext<Show | null>(null);
 
@@ -20,7 +22,7 @@ export function ToastProvider({ children }: { children: ReactNode }) {
   const show = useCallback<Show>((message, options = {}) => {
     clearTimeout(timer.current);
     const id = next.current++;
-    setToast({ id, message, action: options.action, tone: options.tone });
+    setToast({ id, message, actions: options.actions ?? (options.action ? [options.action] : []), tone: options.tone });
     timer.current = setTimeout(() => setToast((t) => (t?.id === id ? null : t)), options.ms ?? 8000);
   }, []);
   useEffect(() => () => clearTimeout(timer.current), []);
@@ -38,18 +40,19 @@ export function ToastProvider({ children }: { children: ReactNode }) {
             <Text color={colors.bg} style={styles.message}>
               {toast.message}
             </Text>
-            {toast.action ? (
+            {toast.actions.map((action) => (
               <Button
-                label={toast.action.label}
+                key={action.label}
+                label={action.label}
                 tone="ghost"
                 compact
-                testID="toast-action"
+                testID={action.testID ?? 'toast-action'}
                 onPress={() => {
-                  toast.action?.run();
+                  action.run();
                   setToast(null);
                 }}
               />
-            ) : null}
+            ))}
           </View>
         </View>
       ) : null}

@@ -192,7 +192,7 @@ describe('logging fast and over a failing link', () => {
       await signIn(bio.page, 'biologist@bathynote.test');
       await openDive(bio.page, 'VS-03');
       await bio.page.getByTestId('quick-mark-Rusticle drip').click();
-      await bio.page.getByTestId('toast').getByText('Logged “Rusticle drip”').waitFor();
+      await bio.page.getByTestId('toast').getByText('Rusticle drip logged').waitFor();
       const logged = bio.page.getByTestId('dive-log').locator('[data-testid^="observation-"]').filter({ hasText: 'Rusticle drip' }).first();
       await logged.waitFor();
       await logged.getByText('#hull').waitFor();
