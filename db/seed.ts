@@ -371,6 +371,13 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
           .run(),
       );
       for (const [key, role] of members) tx.insert(s.memberships).values({ campaignId: campaign.id, userId: ids[key], role }).run();
+      // Guests ashore follow the campaign through the digest after each dive, as invited guests do.
+      for (const [key, role] of members) {
+        if (role !== 'guest') continue;
+        tx.insert(s.subscriptions)
+          .values({ campaignId: campaign.id, userId: ids[key], frequency: 'after-each-dive', unsubscribeNonce: crypto.randomUUID() })
+          .run();
+      }
       const tagIds = new Map<string, string>();
       for (const name of vocabulary2026) {
         tagIds.set(name, tx.insert(s.tags).values({ campaignId: campaign.id, name }).returning().get().id);

@@ -10,6 +10,7 @@ import { LiveHub } from './services/live';
 import { createLogger } from './services/logger';
 import { createMailer } from './services/mail';
 import { createDigestScheduler, digestMailHandler } from './services/digests';
+import { createDigestScheduler, digestMailHandler } from './services/digests';
 import { createMailSender } from './services/mail-queue';
 import { invitationMailHandler } from './services/team';
 import { projectRoot } from '../db/root';
@@ -19,8 +20,11 @@ const packageVersion = (): string => {
   return pkg.version;
 };
 
-/** Opens and migrates the database and builds the services a request needs. */
-export async function createContext(env: Env): Promise<AppContext> {
+/**
+ * Opens and migrates the database and builds the services a request needs. `now` is the clock of
+ * the digest schedule (tests set it to cross a daylight-saving change).
+ */
+export async function createContext(env: Env, options: { now?: () => Date } = {}): Promise<AppContext> {
   const db = openDatabase(env.DATABASE_PATH);
   migrateDatabase(db);
   const log = createLogger(env.LOG_LEVEL);
@@ -38,7 +42,7 @@ export async function createContext(env: Env): Promise<AppContext> {
     live,
     mailer,
     mail: createMailSender(db, mailer, log, { attempts: env.MAIL_ATTEMPTS, retryBaseMs: env.MAIL_RETRY_BASE_MS }),
-    digests: createDigestScheduler({ db, publicUrl: env.PUBLIC_URL, secret: env.AUTH_SECRET }, log, () => ctx.mail.kick()),
+    digests: createDigestScheduler({ db, publicUrl: env.PUBLIC_URL, secret: env.AUTH_SECRET }, log, () => ctx.mail.kick(), options.now),
     postbox,
     version: packageVersion(),
   };

@@ -4,6 +4,7 @@ import type { Env } from './env';
 import type { LiveHub } from './services/live';
 import type { Logger } from './services/logger';
 import type { Mailer } from './services/mail';
+import type { DigestScheduler } from './services/digests';
 import type { MailSender } from './services/mail-queue';
 
 /** Everything a request handler may need, built once at start (or per test). */
@@ -16,6 +17,8 @@ export type AppContext = {
   mailer: Mailer;
   /** The mail queue's sender: `kick()` it after a transaction that queued mail has committed. */
   mail: MailSender;
+  /** The daily digests' schedule (`tick(now)` runs it at a given instant). */
+  digests: DigestScheduler;
   postbox: MagicLinkPostbox;
   version: string;
 };

@@ -6,6 +6,7 @@ import { notFound } from '../errors';
 import { accessOf, byCampaign, byDive, requirePermission } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
 import { validate } from '../middleware/validate';
+import { queueDigests } from '../services/digests';
 import { createDive, getDive, setPhase, updateDive } from '../services/dives';
 import { diveStream } from './dive-stream';
 
@@ -34,7 +35,12 @@ export function diveRoutes(ctx: AppContext): Router {
   });
 
   r.post('/dives/:diveId/phases', signedIn, requirePermission(db, byDive, 'dive.run'), phase, (req, res) => {
-    res.json(setPhase(db, live, diveId(req), phase.of(req)));
+    const digests = { publicUrl: ctx.env.PUBLIC_URL, secret: ctx.env.AUTH_SECRET };
+    const dive = setPhase(db, live, diveId(req), phase.of(req), undefined, (tx, d) =>
+      queueDigests(tx, digests, d.campaignId, { trigger: 'after-dive', diveId: d.id }),
+    );
+    ctx.mail.kick();
+    res.json(dive);
   });
 
   r.get('/dives/:diveId/stream', signedIn, requirePermission(db, byDive, 'campaign.read'), diveStream(ctx));

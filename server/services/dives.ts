@@ -131,8 +131,18 @@ type PhaseColumn = 'launchAt' | 'onBottomAt' | 'offBottomAt' | 'onDeckAt';
 const phaseColumn = Object.fromEntries(phaseSteps.map((s) => [s.phase, `${s.key}At` as PhaseColumn])) as Record<DivePhase, PhaseColumn>;
 const order: DivePhase[] = phaseSteps.map((s) => s.phase);
 
-/** Marks a dive phase (now, or at a given time). Phases must follow each other in time. */
-export function setPhase(db: Db, live: LiveHub, diveId: string, input: PhaseInput, now = new Date()): Dive {
+/**
+ * Marks a dive phase (now, or at a given time). Phases must follow each other in time.
+ * `onDeck` runs inside the same transaction when the dive first comes on deck (the after-dive digests).
+ */
+export function setPhase(
+  db: Db,
+  live: LiveHub,
+  diveId: string,
+  input: PhaseInput,
+  now = new Date(),
+  onDeck?: (tx: Executor, dive: Dive) => void,
+): Dive {
   const at = input.at === null ? null : input.at ? new Date(input.at) : now;
   const row = db.select().from(dives).where(eq(dives.id, diveId)).get();
   if (!row) throw notFound();
@@ -157,6 +167,7 @@ export function setPhase(db: Db, live: LiveHub, diveId: string, input: PhaseInpu
       .run();
     const dive = getDive(tx, diveId)!;
     stage(dive.campaignId, dive.id, 'dive.updated', dive);
+    if (input.phase === 'on-deck' && at && !row.onDeckAt) onDeck?.(tx, dive);
     return dive;
   });
 }

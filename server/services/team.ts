@@ -1,9 +1,7 @@
-import { randomBytes } from 'node:crypto';
-
 import { and, count, desc, eq, sql } from 'drizzle-orm';
 
 import type { Executor } from '../../db/client';
-import { campaigns, invitations, mailQueue, memberships, subscriptions, user } from '../../db/schema';
+import { campaigns, invitations, mailQueue, memberships, user } from '../../db/schema';
 import {
   campaignCreateSchema,
   campaignUpdateSchema,
@@ -17,6 +15,7 @@ import { forgetInvitationLinks, INVITATION_LINK_SECONDS, invitationLinks } from 
 import type { AppContext } from '../context';
 import { ApiError, conflict } from '../errors';
 import { audit } from './audit';
+import { subscribeGuest } from './digests';
 import { cancelQueuedMail, latestMailOf, queueMail, type MailHandler, type MailRow } from './mail-queue';
 import { renderMail } from './mail-templates';
 
@@ -265,17 +264,7 @@ export function acceptInvitation(
     tx.update(invitations).set({ status: 'accepted', acceptedAt: new Date(), acceptedBy: signedIn.id }).where(eq(invitations.id, id)).run();
     tx.update(user).set({ emailVerified: true }).where(eq(user.id, signedIn.id)).run();
     // Guests ashore follow the campaign through the digest: after each dive unless they change it.
-    if (row.role === 'guest') {
-      tx.insert(subscriptions)
-        .values({
-          campaignId: row.campaignId,
-          userId: signedIn.id,
-          frequency: 'after-each-dive',
-          unsubscribeNonce: randomBytes(16).toString('base64url'),
-        })
-        .onConflictDoNothing()
-        .run();
-    }
+    if (row.role === 'guest') subscribeGuest(tx, row.campaignId, signedIn.id);
     audit(tx, { campaignId: row.campaignId, actorId: signedIn.id, action: 'invitation.accepted', target: id, detail: { role: row.role } });
   });
   ctx.live.membershipChanged(row.campaignId, signedIn.id);

@@ -216,6 +216,12 @@ const table: Record<string, Row> = {
   'GET /api/dev/outbox': { expect: siteAdmin, path: () => '/api/dev/outbox' },
   'GET /api/admin/mail': { expect: siteAdmin, path: () => '/api/admin/mail' },
   'POST /api/admin/mail/:mailId/retry': { expect: siteAdmin, path: () => `/api/admin/mail/${f.mail}/retry` },
+  'GET /api/campaigns/:campaignId/subscription': { expect: members, path: () => `/api/campaigns/${c()}/subscription` },
+  'PUT /api/campaigns/:campaignId/subscription': { expect: members, path: () => `/api/campaigns/${c()}/subscription`, body: {} },
+  'GET /api/campaigns/:campaignId/digests': { expect: leadOnly, path: () => `/api/campaigns/${c()}/digests` },
+  'POST /api/campaigns/:campaignId/digests': { expect: leadOnly, path: () => `/api/campaigns/${c()}/digests`, body: {} },
+  // Anyone may post a one-click unsubscribe; a link that is not a signed one finds nothing.
+  'POST /api/unsubscribe/:token': { expect: R(404, 404, 404, 404, 404, 404, 404), path: () => '/api/unsubscribe/not-a-token' },
 };
 
 function servedRoutes(app: Express): string[] {
