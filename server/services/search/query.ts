@@ -23,6 +23,8 @@ export type QueryPlan = {
   whole: string;
   /** The phrase of all words in the find number and scientific name columns. */
   exactMatch: string | null;
+  /** The words as a phrase in the title (each as typed, or its likeliest correction or completion). */
+  phraseMatch: string | null;
 };
 
 const quoted = (term: string) => `"${term.replaceAll('"', '""')}"`;
@@ -36,15 +38,19 @@ export function planQuery(typed: string, vocabulary: Vocabulary, options: { rela
     .slice(0, MAX_WORDS);
   const terms = new Set<string>();
   const whole = foldTerm(typed.trim().replace(/\s+/g, ' '));
-  if (words.length === 0) return { match: null, terms, relaxable: false, whole, exactMatch: null };
+  if (words.length === 0) return { match: null, terms, relaxable: false, whole, exactMatch: null, phraseMatch: null };
   const typing = !/\s$/.test(typed);
   let relaxable = false;
+  const likeliest: string[] = [];
   const groups = words.map((word, i) => {
     const alternatives = [word];
     const known = vocabulary.has(word);
-    if (!known || options.relaxed) alternatives.push(...vocabulary.similar(word));
-    else if (allowedDistance(word) > 0) relaxable = true;
-    if (i === words.length - 1 && typing && word.length >= 2) alternatives.push(...vocabulary.completions(word));
+    const similar = !known || options.relaxed ? vocabulary.similar(word) : [];
+    alternatives.push(...similar);
+    if (known && !options.relaxed && allowedDistance(word) > 0) relaxable = true;
+    const completions = i === words.length - 1 && typing && word.length >= 2 ? vocabulary.completions(word) : [];
+    alternatives.push(...completions);
+    likeliest.push(known ? word : (similar[0] ?? completions[0] ?? word));
     const unique = [...new Set(alternatives)];
     for (const a of unique) terms.add(a);
     const parts = unique.map(quoted);
@@ -56,6 +62,7 @@ export function planQuery(typed: string, vocabulary: Vocabulary, options: { rela
     relaxable,
     whole,
     exactMatch: words.length <= 6 ? `{scientific_name find_number} : ${quoted(words.join(' '))}` : null,
+    phraseMatch: words.length >= 2 ? `{title} : ${quoted(likeliest.join(' '))}` : null,
   };
 }
 

@@ -96,16 +96,17 @@ export class SearchIndex {
       retired: false,
     });
     const exact = this.exactRowids(strict, filters);
+    const phrased = this.phraseRowids(strict, filters);
 
     // A typo can make another real word, which is then not widened; when the words as typed find
     // nothing at all, every word is widened (and stays so on the following pages).
     let plan = strict;
     let widened = widenedBefore;
-    let rows = widened ? [] : this.ranked(strict, filters, exact, limit, offset);
+    let rows = widened ? [] : this.ranked(strict, filters, exact, phrased, limit, offset);
     if (!widened && offset === 0 && rows.length === 0 && strict.relaxable) widened = true;
     if (widened) {
       plan = planQuery(q.q, this.vocabulary, { relaxed: true });
-      rows = this.ranked(plan, filters, exact, limit, offset);
+      rows = this.ranked(plan, filters, exact, phrased, limit, offset);
     }
     return { plan, rows, exact, widened, filters };
   }
@@ -135,9 +136,25 @@ export class SearchIndex {
     ).map((r) => r.rowid);
   }
 
-  private ranked(plan: QueryPlan, filters: SQL[], exact: number[], limit: number, offset: number) {
+  /**
+   * Entries whose title holds the words in the order typed, side by side: someone who types a few
+   * words of a title as they stand means that entry more than one with the words scattered.
+   */
+  private phraseRowids(plan: QueryPlan, filters: SQL[]): number[] {
+    if (!plan.phraseMatch) return [];
+    return this.all<{ rowid: number }>(
+      sql`
+      select ${entryRowid} as rowid
+      from ${searchEntries} join ${observations} on ${entryRowid} = ${searchEntries}.rowid
+      where ${and(sql`${searchEntries} match ${plan.phraseMatch}`, ...filters)}
+      limit 200`,
+    ).map((r) => r.rowid);
+  }
+
+  private ranked(plan: QueryPlan, filters: SQL[], exact: number[], phrased: number[], limit: number, offset: number) {
     const order: SQL[] = [];
     if (exact.length > 0) order.push(sql`rowid in (${sql.join(exact, sql`, `)}) desc`);
+    if (phrased.length > 0) order.push(sql`rowid in (${sql.join(phrased, sql`, `)}) desc`);
     order.push(sql`score`, sql`at desc`, sql`id`);
     // bm25() cannot sit beside a window function, so the matches are gathered first and counted after.
     return this.all<{ rowid: number; id: string; score: number; total: number }>(sql`
