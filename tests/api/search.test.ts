@@ -182,6 +182,18 @@ describe('typos and ranking', () => {
     expect(partial.items.map((i) => i.id)).toEqual([nameInTitle.id]);
   });
 
+  it('a title holding the typed words side by side comes before one with them scattered', async () => {
+    const scattered = await log(emails.lead, ids.dive2026, { kind: 'biology', title: 'Sculpin sculpin, ledge marrowfin ledge marrowfin' });
+    const phrase = await log(emails.lead, ids.dive2026, {
+      kind: 'biology',
+      title: 'Marrowfin ledge sculpin resting under a plank of the hull',
+    });
+    expect((await search(emails.lead, { q: 'sculpin marrowfin' })).items[0]!.id).toBe(scattered.id);
+    expect((await search(emails.lead, { q: 'marrowfin ledge sculpin' })).items.map((i) => i.id)).toEqual([phrase.id, scattered.id]);
+    // Also through a typo.
+    expect((await search(emails.lead, { q: 'marowfin ledge sculpin' })).items.map((i) => i.id)).toEqual([phrase.id, scattered.id]);
+  });
+
   it('an exact find number comes first', async () => {
     const page = await search(emails.lead, { q: 'qx-7731' });
     expect(page.items.map((i) => i.id)).toEqual([byFind.id, findInTitle.id]);
