@@ -10,7 +10,6 @@ import { apiNotFound, errorHandler } from './middleware/errors';
 import { sameOrigin } from './middleware/same-origin';
 import { serverTiming } from './middleware/timing';
 import { campaignRoutes } from './routes/campaigns';
-import { digestRoutes, unsubscribeRoutes } from './routes/digests';
 import { diveRoutes } from './routes/dives';
 import { exportRoutes } from './routes/exports';
 import { mailRoutes } from './routes/mail';
@@ -19,6 +18,7 @@ import { photoRoutes } from './routes/photos';
 import { searchRoutes } from './routes/search';
 import { teamRoutes } from './routes/team';
 import { telemetryRoutes } from './routes/telemetry';
+import { refusedLinkReason } from './services/invitation-links';
 import { webExport } from './services/web';
 
 /** Builds the whole HTTP app: API, sign-in and the web export, on one origin. */
@@ -66,11 +66,14 @@ export function createApp(ctx: AppContext): Express {
   });
   app.all(
     '/api/auth/*splat',
-    authHandler(auth, env.PUBLIC_URL, (token) => ctx.live.endSession(token)),
+    authHandler(
+      auth,
+      env.PUBLIC_URL,
+      (token) => ctx.live.endSession(token),
+      (token) => refusedLinkReason(ctx.db, token),
+    ),
   );
 
-  // Authorised by its signed link alone, posted by mail providers from their own servers.
-  app.use('/api', unsubscribeRoutes(ctx));
   app.use('/api', sameOrigin(env.PUBLIC_URL));
   app.use('/api', express.json({ limit: '256kb' }));
   app.use(
@@ -89,7 +92,7 @@ export function createApp(ctx: AppContext): Express {
     res.json({ ok: true, version: ctx.version });
   });
   app.use('/api', campaignRoutes(ctx), teamRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
-  app.use('/api', mailRoutes(ctx), digestRoutes(ctx));
+  app.use('/api', mailRoutes(ctx));
   app.use('/api', exportRoutes(ctx));
   app.use('/api', searchRoutes(ctx));
   app.use('/api', apiNotFound);

@@ -32,6 +32,12 @@ const reasons: Record<string, Explanation> = {
     body: 'The campaign lead revoked it, so its link no longer opens the campaign.',
     next: 'If you should still join, ask your campaign lead to invite you again.',
   },
+  replaced: {
+    key: 'replaced',
+    title: 'A newer invitation mail replaced this link',
+    body: 'Your campaign lead sent the invitation again, and only the link in the newest mail works.',
+    next: 'Open the link in the most recent invitation mail from Bathynote.',
+  },
   'not-yours': {
     key: 'not-yours',
     title: 'This invitation is for someone else',

@@ -29,8 +29,15 @@ const preChecks: Record<string, z.ZodType> = {
 /**
  * Runs better-auth's fetch handler behind Express, with a body limit of our own, and rewrites
  * its error bodies (`{code, message}`) into the contract's `{error: {code, message}}` shape.
+ * A sign-in link it refuses is sent to the invitation problem page with the reason
+ * `refusedLinkReason` finds (used, revoked, expired, replaced) instead of its generic code.
  */
-export function authHandler(auth: Auth, publicUrl: string, onSignedOut: (sessionToken: string) => void): RequestHandler {
+export function authHandler(
+  auth: Auth,
+  publicUrl: string,
+  onSignedOut: (sessionToken: string) => void,
+  refusedLinkReason: (token: string) => string | undefined = () => undefined,
+): RequestHandler {
   return async (req, res) => {
     const body = req.method === 'GET' || req.method === 'HEAD' ? undefined : await readBody(req);
     const pathname = req.originalUrl.split('?')[0] ?? '';
@@ -53,6 +60,15 @@ export function authHandler(auth: Auth, publicUrl: string, onSignedOut: (session
     const response = await auth.handler(
       new Request(url, { method: req.method, headers, body: body && body.length > 0 ? new Uint8Array(body) : undefined }),
     );
+    if (pathname === '/api/auth/magic-link/verify' && response.status >= 300 && response.status < 400) {
+      const refused = new URL(response.headers.get('location') ?? '/', publicUrl).searchParams.has('error');
+      const token = new URL(req.originalUrl, publicUrl).searchParams.get('token');
+      const reason = refused && token ? refusedLinkReason(token) : undefined;
+      if (reason) {
+        res.redirect(302, `${publicUrl}/invitation-problem?reason=${encodeURIComponent(reason)}`);
+        return;
+      }
+    }
     if (pathname === '/api/auth/sign-out' && response.ok) {
       const token = sessionCookieOf(req.headers.cookie)?.split('.')[0];
       if (token) {
