@@ -28,14 +28,19 @@ export function sessionCookieOf(cookieHeader: string | undefined): string | unde
 type Cached = { user: SessionUser; token: string; expiresAt: number; until: number };
 
 /**
- * Sessions better-auth has checked, kept for a few seconds so that a busy dive does not pay for
- * the same check on every request. Signing out forgets the session at once, and any other change
- * made through the auth routes (a ban, a password change, revoked sessions) forgets them all.
+ * Sessions better-auth has checked, kept for a few minutes so that a busy dive does not pay for
+ * the same check on every request, and so that a crowd of requests whose check ran out does not
+ * queue behind better-auth one after another (one check serves every request waiting on the same
+ * cookie). Every way a session ends (sign-out, revoke, a password change, a ban, an account
+ * removed) forgets it at once through better-auth's session hook, and any other change made
+ * through the auth routes forgets them all.
  */
 export class SessionCache {
   private readonly entries = new Map<string, Cached>();
+  /** Checks under way, by cookie. */
+  readonly pending = new Map<string, Promise<Omit<Cached, 'until'> | null>>();
 
-  constructor(private readonly ttlMs = 5000) {}
+  constructor(private readonly ttlMs = 5 * 60_000) {}
 
   get(cookie: string): Cached | undefined {
     const hit = this.entries.get(cookie);
@@ -50,11 +55,16 @@ export class SessionCache {
     this.entries.set(cookie, { ...entry, until: Date.now() + this.ttlMs });
   }
 
+  /** Moves on whenever a session is forgotten, so a check that began before cannot bring it back. */
+  epoch = 0;
+
   forgetToken(token: string) {
+    this.epoch++;
     for (const [cookie, entry] of this.entries) if (entry.token === token) this.entries.delete(cookie);
   }
 
   clear() {
+    this.epoch++;
     this.entries.clear();
   }
 }
@@ -82,16 +92,34 @@ export function requireSession(auth: Auth): RequestHandler {
       req.sessionToken = hit.token;
       return next();
     }
-    const result = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
-    if (!result || result.user.banned) throw unauthorized();
-    req.user = {
-      id: result.user.id,
-      name: result.user.name,
-      email: result.user.email,
-      siteRole: result.user.role === 'admin' ? 'admin' : 'user',
+    const check = async () => {
+      const result = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
+      if (!result || result.user.banned) return null;
+      const user: SessionUser = {
+        id: result.user.id,
+        name: result.user.name,
+        email: result.user.email,
+        siteRole: result.user.role === 'admin' ? 'admin' : 'user',
+      };
+      return { user, token: result.session.token, expiresAt: result.session.expiresAt.getTime() };
     };
-    req.sessionToken = result.session.token;
-    if (cookie) cache.set(cookie, { user: req.user, token: result.session.token, expiresAt: result.session.expiresAt.getTime() });
+    let checked: Omit<Cached, 'until'> | null;
+    if (cookie) {
+      let pending = cache.pending.get(cookie);
+      if (!pending) {
+        pending = check().finally(() => cache.pending.delete(cookie));
+        cache.pending.set(cookie, pending);
+      }
+      const epoch = cache.epoch;
+      checked = await pending;
+      // A session that ended while it was being checked is not kept.
+      if (checked && cache.epoch === epoch) cache.set(cookie, checked);
+    } else {
+      checked = await check();
+    }
+    if (!checked) throw unauthorized();
+    req.user = checked.user;
+    req.sessionToken = checked.token;
     next();
   };
 }

@@ -69,14 +69,12 @@ export function observationRoutes({ db, auth, live }: AppContext): Router {
     res.json(listObservations(db, req.params.diveId as string, query));
   });
 
-  r.post('/dives/:diveId/observations', signedIn, requirePermission(db, byDive, 'entry.create'), newEntry, (req, res) => {
+  r.post('/dives/:diveId/observations', signedIn, requirePermission(db, byDive, 'entry.create'), newEntry, async (req, res) => {
     const { campaignId, userId } = accessOf(req);
-    const { observation, repeated } = createObservation(
-      db,
-      live,
-      { diveId: req.params.diveId as string, campaignId, authorId: userId },
-      newEntry.of(req),
-    );
+    const target = { diveId: req.params.diveId as string, campaignId, authorId: userId };
+    const input = newEntry.of(req);
+    // New entries arrive in bursts (a crowd pressing send at once): they share commits.
+    const { observation, repeated } = await live.inGroupCommit(() => createObservation(db, live, target, input));
     // A repeated send of the same entry answers 200 with the entry that was stored the first time.
     res
       .status(repeated ? 200 : 201)

@@ -64,6 +64,53 @@ export class LiveHub {
     return result;
   }
 
+  /** How many group commits ran and how many changes they held (for tests and benchmarks). */
+  readonly groupCommits = { groups: 0, changes: 0 };
+
+  /** Changes waiting for the next group commit, in the order they arrived. */
+  private waiting: { work: () => unknown; settle: (outcome: { value: unknown } | { error: unknown }) => void }[] = [];
+
+  /**
+   * Group commit: a change handed here waits for the rest of this turn of the event loop, and all
+   * the changes that arrived meanwhile are committed together in one transaction, so one disk
+   * flush (synchronous=FULL) serves them all. Each runs in a savepoint of its own (its
+   * `withEvents` nests), so one that fails rolls back only its own work and rejects only its own
+   * promise. Every promise settles after the commit that holds its change, so a request is
+   * answered only once its change is on disk; the events are told after that commit too.
+   */
+  inGroupCommit<T>(work: () => T): Promise<T> {
+    return new Promise<T>((resolve, reject) => {
+      this.waiting.push({
+        work,
+        settle: (o) => ('error' in o ? reject(o.error instanceof Error ? o.error : new Error(String(o.error))) : resolve(o.value as T)),
+      });
+      if (this.waiting.length === 1) setImmediate(() => this.commitGroup());
+    });
+  }
+
+  private commitGroup(): void {
+    const group = this.waiting;
+    this.waiting = [];
+    this.groupCommits.groups++;
+    this.groupCommits.changes += group.length;
+    const outcomes: ({ value: unknown } | { error: unknown })[] = [];
+    try {
+      this.withEvents(() => {
+        for (const { work } of group) {
+          try {
+            outcomes.push({ value: work() });
+          } catch (error) {
+            outcomes.push({ error });
+          }
+        }
+      });
+    } catch (error) {
+      for (const { settle } of group) settle({ error });
+      return;
+    }
+    group.forEach(({ settle }, i) => settle(outcomes[i]!));
+  }
+
   private write(db: Executor, campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at: Date): LiveEvent {
     const row = db.insert(liveEvents).values({ campaignId, diveId, type, payload, at }).returning({ id: liveEvents.id }).get();
     return { id: row.id, campaignId, diveId, type, payload, at, frame: sseFrame(row.id, type, payload) };
