@@ -105,6 +105,12 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
   const refetchAll = () => afterDiveResync(qc, diveId);
   on('ready', refetchAll);
   on('resync', refetchAll);
+  // The server closed this stream to make room for a newer one of the same person (another tab):
+  // reconnecting would only close that one in turn, so this one stays closed.
+  on('stream.closed', () => {
+    source?.close();
+    setStatus('offline');
+  });
   // A new entry, or one a lead restored, appears in the log: at once, or held back while the
   // reader is scrolled away from the top.
   const appeared = (data: string) => {

@@ -26,6 +26,10 @@ const envSchema = z.object({
   API_RATE_LIMIT: z.coerce.number().int().min(1).default(6000),
   /** How often a live stream sends a keep-alive and checks that its session still stands. */
   STREAM_HEARTBEAT_MS: z.coerce.number().int().min(100).max(25_000).default(20_000),
+  /** Live streams open at once per session and per person (a newer one closes the oldest), and in all (more is a 429). */
+  STREAM_MAX_PER_SESSION: z.coerce.number().int().min(1).default(4),
+  STREAM_MAX_PER_PERSON: z.coerce.number().int().min(1).default(24),
+  STREAM_MAX_TOTAL: z.coerce.number().int().min(1).default(4000),
   LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
   /** Attempts at sending one mail before it is marked failed. */
   MAIL_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(5),

@@ -77,6 +77,7 @@ export const errorCodes = [
   // 408, 429, 431, 5xx
   'request_timeout',
   'rate_limited',
+  'too_many_streams',
   'headers_too_large',
   'internal',
   'starting',

@@ -5,7 +5,9 @@ import { liveEvents, session } from '../../db/schema';
 import type { AppContext } from '../context';
 import { accessOf, roleIn } from '../middleware/campaign-access';
 import { userOf } from '../middleware/session';
+import { ApiError } from '../errors';
 import { sseFrame } from '../services/live';
+import { streamRegistry } from '../services/stream-caps';
 
 /** More missed events than this and the reader is told to reload instead. */
 const REPLAY_LIMIT = 2000;
@@ -18,20 +20,17 @@ const MAX_BUFFERED_BYTES = 4 * 1024 * 1024;
  * stream closes when its session ends or its member loses access to the campaign.
  */
 export function diveStream({ db, live, env }: AppContext): RequestHandler {
+  const streams = streamRegistry({
+    perSession: env.STREAM_MAX_PER_SESSION,
+    perPerson: env.STREAM_MAX_PER_PERSON,
+    total: env.STREAM_MAX_TOTAL,
+  });
   return (req, res) => {
     const user = userOf(req);
     const { campaignId } = accessOf(req);
     const diveId = req.params.diveId as string;
     const token = req.sessionToken;
     const lastSeen = Number(req.get('last-event-id') ?? req.query.lastEventId ?? NaN);
-
-    res.status(200);
-    res.setHeader('Content-Type', 'text/event-stream; charset=utf-8');
-    res.setHeader('Cache-Control', 'no-cache, no-transform');
-    res.setHeader('X-Accel-Buffering', 'no');
-    res.flushHeaders();
-    req.socket.setNoDelay(true);
-    res.write('retry: 3000\n\n');
 
     let closed = false;
     const cleanups: (() => void)[] = [];
@@ -46,6 +45,26 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
       res.write(chunk);
       if (res.writableLength > MAX_BUFFERED_BYTES) close();
     };
+    const admitted = streams.admit({
+      sessionToken: token ?? '',
+      userId: user.id,
+      // Its last event says why, so the reader stops instead of reconnecting and closing the newer one.
+      displace: (why) => {
+        send(`event: stream.closed\ndata: ${JSON.stringify(why)}\n\n`);
+        close();
+      },
+    });
+    if (!admitted)
+      throw new ApiError(429, 'too_many_streams', 'The server has as many live streams open as it may; try again in a minute.');
+    cleanups.push(admitted.release);
+
+    res.status(200);
+    res.setHeader('Content-Type', 'text/event-stream; charset=utf-8');
+    res.setHeader('Cache-Control', 'no-cache, no-transform');
+    res.setHeader('X-Accel-Buffering', 'no');
+    res.flushHeaders();
+    req.socket.setNoDelay(true);
+    res.write('retry: 3000\n\n');
 
     if (Number.isInteger(lastSeen) && lastSeen >= 0) {
       const missed = db

@@ -20,7 +20,14 @@ const HERD_ROUNDS = 10;
  * readers ashore follow its live stream. The server runs in its own process, as in production.
  */
 export async function benchLiveLoad(): Promise<void> {
-  const server = await startServerProcess({ LOG_LEVEL: 'silent', AUTH_RATE_LIMIT: '10000', API_RATE_LIMIT: '10000000' });
+  // Its readers share a few sessions, far past the per-session and per-person stream caps.
+  const server = await startServerProcess({
+    LOG_LEVEL: 'silent',
+    AUTH_RATE_LIMIT: '10000',
+    API_RATE_LIMIT: '10000000',
+    STREAM_MAX_PER_SESSION: '10000',
+    STREAM_MAX_PER_PERSON: '10000',
+  });
   let readers: ReturnType<typeof spawn> | undefined;
   try {
     const db = new Database(path.join(server.dir, 'bathynote.db'));
