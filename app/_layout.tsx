@@ -46,6 +46,8 @@ function Gate() {
         </Stack.Protected>
         {/* An invitation link can fail for someone signed in or not, so neither guard holds it. */}
         <Stack.Screen name="invitation-problem" />
+        {/* A digest's unsubscribe link works without signing in. */}
+        <Stack.Screen name="unsubscribe/[token]" />
         <Stack.Screen name="+not-found" />
       </Stack>
     </>

@@ -16,6 +16,11 @@ export function WelcomeNotice({ campaign, onDismiss }: { campaign: Campaign; onD
       <View style={styles.text}>
         <Text variant="title">{`You joined ${campaign.name} as ${roleWithArticle[campaign.myRole]}.`}</Text>
         <Text muted>{roleDescriptions[campaign.myRole]}</Text>
+        {campaign.myRole === 'guest' ? (
+          <Text muted testID="welcome-digest">
+            You will get a digest mail after each dive with what was logged on it. Change or stop it under Digest.
+          </Text>
+        ) : null}
       </View>
       <Button label="Got it" tone="secondary" compact testID="welcome-dismiss" onPress={onDismiss} />
     </View>

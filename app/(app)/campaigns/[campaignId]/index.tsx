@@ -33,6 +33,15 @@ export default function CampaignScreen() {
         testID="campaign-exports"
         onPress={() => router.push(`/campaigns/${campaignId}/exports`)}
       />
+      {campaign.data.myRole !== 'admin' ? (
+        <Button
+          label="Digest"
+          tone="secondary"
+          compact
+          testID="campaign-digest"
+          onPress={() => router.push(`/campaigns/${campaignId}/digest`)}
+        />
+      ) : null}
     </View>
   ) : null;
   // A phone's title bar has no room for two buttons beside the campaign's name.
