@@ -4,7 +4,15 @@ import { z } from 'zod';
 
 import { diveSchema, observationSchema, type Observation } from '@/lib/schemas';
 import { ApiError, apiUrl, request } from './api';
-import { afterDiveChanged, afterDiveResync, afterEntryChanged, afterEntryRetired, isInDiveLogs, mergeIntoDiveLogs } from './cache-effects';
+import {
+  afterDiveChanged,
+  afterDiveResync,
+  afterEntryChanged,
+  afterEntryRetired,
+  afterTelemetryImported,
+  isInDiveLogs,
+  mergeIntoDiveLogs,
+} from './cache-effects';
 import { sessionKeys, telemetryKeys } from './query-keys';
 
 export type LiveStatus = 'connecting' | 'live' | 'offline';
@@ -136,6 +144,12 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
     summaryChanged();
     for (const f of followers) f.onRetired?.(r.id);
     afterEntryRetired(qc, r, 'stream');
+  });
+  // A telemetry log stamped the dive's entries again: one event however many changed, and what
+  // is shown of the dive is fetched again.
+  on('dive.restamped', () => {
+    summaryChanged();
+    void afterTelemetryImported(qc, diveId);
   });
   on('dive.updated', (data) => {
     const dive = parse(diveSchema, data);

@@ -597,7 +597,7 @@ export async function importTelemetryLog(db: Db, live: LiveHub, req: ImportReque
           importedAt,
         })
         .run();
-      announceStamped(tx, stage, facts.campaignId, req.diveId, result.changed);
+      announceStamped(stage, facts.campaignId, req.diveId, result.changed);
     });
     rememberLog(db, req.diveId, log);
     return report;

@@ -3,32 +3,19 @@
  * entries changed. Kept apart from telemetry.ts because the announcement needs the observation
  * service, which itself asks telemetry.ts for values.
  */
-import type { Db, Executor } from '../../db/client';
+import type { Db } from '../../db/client';
 import type { LiveHub, StageEvent } from './live';
-import { observationsByIds } from './observations';
 import { diveFacts, stampDiveObservations, type StampResult } from './telemetry';
 import { logOf } from './telemetry-series';
 
-/** Entries read back per query when announcing; far below SQLite's limit on parameters. */
-const ANNOUNCE_BATCH = 500;
-
 /**
- * Stages re-stamped entries as `observation.updated`, one event each, inside the transaction that
- * re-stamped them (see `LiveHub.withEvents`).
+ * Stages one `dive.restamped` event for entries stamped again from the log (however many), inside
+ * the transaction that stamped them (see `LiveHub.withEvents`): readers fetch again what they
+ * show of the dive, rather than taking one event per entry across the link.
  */
-export function announceStamped(
-  tx: Executor,
-  stage: StageEvent,
-  campaignId: string,
-  diveId: string,
-  changed: StampResult['changed'],
-): void {
-  const visible = changed.filter((c) => !c.retired).map((c) => c.id);
-  for (let i = 0; i < visible.length; i += ANNOUNCE_BATCH) {
-    for (const observation of observationsByIds(tx, visible.slice(i, i + ANNOUNCE_BATCH))) {
-      stage(campaignId, diveId, 'observation.updated', observation);
-    }
-  }
+export function announceStamped(stage: StageEvent, campaignId: string, diveId: string, changed: StampResult['changed']): void {
+  const updated = changed.filter((c) => !c.retired).length;
+  if (updated > 0) stage(campaignId, diveId, 'dive.restamped', { diveId, updated });
 }
 
 /**
@@ -38,9 +25,9 @@ export function announceStamped(
 export function restampDive(db: Db, live: LiveHub, diveId: string): { updated: number; noTelemetry: number } {
   const facts = diveFacts(db, diveId);
   const { series } = logOf(db, diveId);
-  return live.withEvents((tx, stage) => {
+  return live.withEvents((_tx, stage) => {
     const result = stampDiveObservations(db, diveId, series, facts.gapMs);
-    announceStamped(tx, stage, facts.campaignId, diveId, result.changed);
+    announceStamped(stage, facts.campaignId, diveId, result.changed);
     return { updated: result.changed.length, noTelemetry: result.noTelemetry };
   });
 }

@@ -132,7 +132,7 @@ export async function benchTelemetryImport(): Promise<void> {
     const stamped = t.ctx.live.withEvents((tx, stage) => {
       const result = stampDiveObservations(db, dive, series, facts.gapMs);
       stampMs = performance.now() - began;
-      announceStamped(tx, stage, ids.campaign2026, dive, result.changed);
+      announceStamped(stage, ids.campaign2026, dive, result.changed);
       return result;
     });
     const announceMs = performance.now() - began - stampMs;
@@ -147,7 +147,7 @@ export async function benchTelemetryImport(): Promise<void> {
         `  bare insert  ${(bareMs / 1000).toFixed(2)} s for the same rows (better-sqlite3 loop, one transaction)   import/bare ${(imported.ms / bareMs).toFixed(1)}x`,
         `stamping 10,000 entries from that log`,
         `  stamp        ${stampMs.toFixed(0)} ms for ${stamped.changed.length} changed entries   (target <= 100 ms; CPU ${stampCpuMs.toFixed(0)} ms)`,
-        `  announce     ${announceMs.toFixed(0)} ms more to stage and send their observation.updated events`,
+        `  announce     ${announceMs.toFixed(0)} ms more to stage and send their dive.restamped event`,
         '',
       ].join('\n'),
     );
