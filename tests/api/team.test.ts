@@ -249,7 +249,8 @@ describe('inviting a guest scientist', () => {
     t.ctx.db.$client.prepare("update invitations set status = 'revoked' where id = ?").run(res.body.id);
     const hop = await follow(link);
     const landed = new URL(hop.last.location!, t.url);
-    expect([landed.pathname, landed.searchParams.get('error')]).toEqual(['/invitation-problem', 'INVITATION_CLOSED']);
+    // The page is told which way it closed, not the sign-in service's general refusal.
+    expect([landed.pathname, landed.searchParams.get('reason')]).toEqual(['/invitation-problem', 'revoked']);
     expect(hop.cookie).toBe('');
     expect(t.ctx.db.$client.prepare('select count(*) from user where email = ?').pluck().get(email)).toBe(0);
   });
