@@ -1,7 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
 
-import { ApiError } from '../errors';
+import { ApiError, notFound } from '../errors';
 import type { Logger } from '../services/logger';
 
 export function zodIssues(error: ZodError) {
@@ -13,7 +13,7 @@ export function zodIssues(error: ZodError) {
 }
 
 export const apiNotFound: RequestHandler = (req, _res, next) => {
-  next(new ApiError(404, 'not_found', `No such endpoint: ${req.method} ${req.path}`));
+  next(notFound(`No such endpoint: ${req.method} ${req.path}`));
 };
 
 /** Turns every failure into the contract's JSON error shape; never a stack trace or an HTML page. */
