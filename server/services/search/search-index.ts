@@ -63,7 +63,10 @@ export class SearchIndex {
 
   /** Opens (or builds) the index beside the database and keeps it current from now on. */
   static open(db: Db, databasePath: string): SearchIndex {
-    return new SearchIndex(db, openIndexStore(db, databasePath));
+    const index = new SearchIndex(db, openIndexStore(db, databasePath));
+    // The word list is read at start, so the first person to search does not wait for it.
+    index.vocabulary.refresh();
+    return index;
   }
 
   search(caller: SearchCaller, q: SearchQuery): SearchPage {

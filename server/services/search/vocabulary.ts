@@ -146,10 +146,10 @@ export class Vocabulary {
   }
 
   /**
-   * Known terms within the allowed edit distance of a word, nearest first and then the most used;
-   * at most `limit` of them.
+   * The known terms nearest to a word within the allowed edit distance (all at the same, smallest
+   * distance), the most used first; at most `limit` of them.
    */
-  similar(word: string, limit = 24): string[] {
+  similar(word: string, limit = 10): string[] {
     const max = allowedDistance(word);
     if (max === 0) return [];
     const mask = letterMask(word);
@@ -168,7 +168,13 @@ export class Vocabulary {
         if (d <= max) found.push({ term, d, docs: this.docs.get(term) ?? 0 });
       }
     }
-    found.sort((a, b) => a.d - b.d || b.docs - a.docs);
-    return found.slice(0, limit).map((f) => f.term);
+    // Only the nearest: a slip of one letter is far likelier than two, and every extra word
+    // widens the matches (and the ranking's work) for nothing.
+    const nearest = Math.min(...found.map((f) => f.d));
+    return found
+      .filter((f) => f.d === nearest)
+      .sort((a, b) => b.docs - a.docs)
+      .slice(0, limit)
+      .map((f) => f.term);
   }
 }
