@@ -1,8 +1,8 @@
 /**
  * Search over every entry a person may read: the index file (store.ts), its words in memory for
  * typos (vocabulary.ts), the typed query made safe (query.ts), and the ranking: an exact find
- * number or scientific name first, then FTS5's bm25 with the title, tags, scientific name and
- * find number weighted above the note. The entry filters are the dive log's own
+ * number or scientific name first, then titles holding the typed words side by side, then FTS5's
+ * bm25 with the title, tags, scientific name and find number weighted above the note. The entry filters are the dive log's own
  * (`observationFilters`), so a filter means the same everywhere.
  */
 import { and, eq, inArray, sql, type SQL } from 'drizzle-orm';
