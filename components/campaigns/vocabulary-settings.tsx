@@ -91,7 +91,7 @@ function QuickMarks({ campaignId, editable }: { campaignId: string; editable: bo
       {editable ? (
         <View style={styles.form}>
           {editing ? <Text variant="label">Changing “{editing.label}”</Text> : null}
-          <Field label="Label" testID="field-quick-mark-label" value={label} onChangeText={setLabel} placeholder="Microbial mat" />
+          <Field label="Label" testID="field-quick-mark-label" value={label} onChangeText={setLabel} hint="What the chip says, short" />
           <Segmented
             label="Kind"
             value={kind}

@@ -39,24 +39,45 @@ export const blankDraft = (): Draft => ({
   tags: [],
 });
 
-const typedOnly = (value: number | null, source: Observation['depthSource']) => (source === 'manual' && value != null ? String(value) : '');
+const shownNumber = (value: number | null) => (value == null ? '' : String(value));
 
 /**
- * What the form shows for an existing entry. Only typed values are editable as numbers: a value
- * from telemetry stays empty here, and stays linked to the telemetry log.
+ * What the form shows for an existing entry: every value it has, typed or from the telemetry log
+ * (the form says which). An edit sends only what was changed, so a value from telemetry left as
+ * it is stays linked to the log; a cleared one falls back to the log.
  */
 export function draftFromObservation(o: Observation): Draft {
   return {
     kind: o.kind,
     title: o.title,
     time: toUtcInputExact(o.observedAt),
-    depth: typedOnly(o.depth, o.depthSource),
-    lat: typedOnly(o.lat, o.positionSource),
-    lon: typedOnly(o.lon, o.positionSource),
-    temperature: typedOnly(o.temperature, o.temperatureSource),
+    depth: shownNumber(o.depth),
+    lat: shownNumber(o.lat),
+    lon: shownNumber(o.lon),
+    temperature: shownNumber(o.temperature),
     note: o.note,
     tags: o.tags,
   };
+}
+
+/** The form field each error belongs to. */
+const fieldOfError: Partial<Record<keyof FormErrors, keyof Draft>> = { observedAt: 'time' };
+
+/**
+ * The errors still to show after the form changed: an error of a field that was changed goes
+ * as soon as the field reads well (or takes the new message while it still does not); the others stay.
+ */
+export function errorsAfterChange(shown: FormErrors, changed: readonly (keyof Draft)[], next: Draft): FormErrors {
+  const fresh = toPayload(next);
+  const now = fresh.ok ? {} : fresh.errors;
+  const out: FormErrors = {};
+  for (const key of Object.keys(shown) as (keyof FormErrors)[]) {
+    const field = fieldOfError[key] ?? (key as keyof Draft);
+    const touched = changed.includes(field) || (key === 'lon' && changed.includes('lat')) || (key === 'lat' && changed.includes('lon'));
+    if (!touched) out[key] = shown[key];
+    else if (now[key]) out[key] = now[key];
+  }
+  return out;
 }
 
 /** A typed number (a decimal comma is read as a point): null when empty, NaN when not a number. */

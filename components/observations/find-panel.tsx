@@ -121,9 +121,9 @@ function FindForm({ observation: o, onDone, onDiscard }: { observation: Observat
         hint={!current && proposal.data ? 'The next free number is proposed.' : undefined}
         error={flow.issue('findNumber')}
       />
-      <Field label="Object type" value={objectType} onChangeText={typing(setObjectType)} placeholder="amphora, bowl, timber…" />
-      <Field label="Material" value={material} onChangeText={typing(setMaterial)} placeholder="ceramic, lead, wood…" />
-      <Field label="Condition" value={condition} onChangeText={typing(setCondition)} placeholder="complete, rim chipped…" />
+      <Field label="Object type" value={objectType} onChangeText={typing(setObjectType)} hint="What it is: an amphora, a bowl, a timber…" />
+      <Field label="Material" value={material} onChangeText={typing(setMaterial)} hint="What it is made of" />
+      <Field label="Condition" value={condition} onChangeText={typing(setCondition)} hint="Whole, broken, worn…" />
       <Segmented
         label="State"
         value={state}
@@ -198,9 +198,9 @@ export function CustodyPanel({ observation: o, myRole, myId }: Props) {
             testID="field-custody-location"
             value={location}
             onChangeText={setLocation}
-            placeholder="Wet lab, tank 2"
+            hint="The room, tank or store it is in"
           />
-          <Field label="Container or label" value={container} onChangeText={setContainer} placeholder="Bag 14" />
+          <Field label="Container or label" value={container} onChangeText={setContainer} hint="The bag, box or label it carries" />
           {add.error instanceof ApiError ? <Text color={colors.danger}>{add.error.message}</Text> : null}
           <Button
             label="Add to the trail"

@@ -168,7 +168,7 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
         testID="field-scientific-name"
         value={name}
         onChangeText={typing(setName)}
-        placeholder="e.g. Desmophyllum pertusum"
+        hint="The name as taxonomists write it, genus first"
         error={flow.issue('scientificName')}
         autoCapitalize="sentences"
       />
@@ -189,7 +189,7 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
         label="Taxon identifier (optional)"
         value={taxonId}
         onChangeText={typing(setTaxonId)}
-        placeholder="urn:lsid:… or a link"
+        hint="An LSID (urn:lsid:…) or a link to the name in a checklist"
         mono
         autoCapitalize="none"
         error={flow.issue('taxonId')}

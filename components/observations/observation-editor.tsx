@@ -10,7 +10,16 @@ import { useFollowDive } from '@/hooks/live';
 import { useObservation, useRevisions, useUpdateObservation } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import type { ObservationDetail } from '@/lib/schemas';
-import { changes, draftFromObservation, draftLabels, mergeEdit, resolveClashes, type Draft, type FormErrors } from './entry-draft';
+import {
+  changes,
+  draftFromObservation,
+  draftLabels,
+  errorsAfterChange,
+  mergeEdit,
+  resolveClashes,
+  type Draft,
+  type FormErrors,
+} from './entry-draft';
 import { RecordConflict, type ConflictField, type FieldChoice } from './record-conflict';
 import { errorsFromServer, formStyles, ObservationFields } from './observation-form';
 
@@ -148,8 +157,12 @@ function Editor({ current, refetch, onDone }: EditorProps) {
       <ObservationFields
         campaignId={current.campaignId}
         diveId={current.diveId}
+        editing={current}
         value={value}
-        update={draft.update}
+        update={(patch) => {
+          update(patch);
+          setErrors((shown) => errorsAfterChange(shown, Object.keys(patch) as (keyof Draft)[], { ...value, ...patch }));
+        }}
         errors={errors}
         onSubmit={() => send(value, base, current)}
       />

@@ -15,10 +15,11 @@ import { useLayout } from '@/hooks/layout';
 import { useLogEntry } from '@/hooks/send-queue';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
-import { formatInZone, parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
-import { observationKinds, type Observation } from '@/lib/schemas';
+import { isOutsideDive } from '@/lib/dive-window';
+import { formatInZone, formatUtc, parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
+import { observationKinds, type Dive, type Observation } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
-import { blankDraft, toPayload, type Draft, type FormErrors } from './entry-draft';
+import { blankDraft, errorsAfterChange, toPayload, type Draft, type FormErrors } from './entry-draft';
 import { kindLabels } from './kind-badge';
 import { NoteView } from './note-view';
 import { TagInput } from './tag-input';
@@ -31,6 +32,8 @@ export function errorsFromServer(err: unknown): FormErrors {
 
 type FieldsProps = {
   campaignId: string;
+  /** The entry being edited: each measured value's field says where the value came from. */
+  editing?: Observation;
   /** The entry's dive: once its recording clock is set, the time can be typed as a video time code. */
   diveId: string;
   value: Draft;
@@ -40,7 +43,21 @@ type FieldsProps = {
 };
 
 /** The fields of an entry, shared by logging a new one and editing one. */
-export function ObservationFields({ campaignId, diveId, value: d, update, errors, onSubmit }: FieldsProps) {
+const shown = (n: number | null | undefined) => (n == null ? '' : String(n));
+
+/**
+ * Under a measured value in the edit form: where the value shown came from. `typed` and
+ * `stored` are the field(s) as shown now and as the entry has them.
+ */
+function sourceHint(typed: string[], stored: (number | null)[], source: Observation['depthSource']): string {
+  const unchanged = typed.every((t, i) => t.trim() === shown(stored[i]));
+  if (!unchanged) return typed.every((t) => t.trim() === '') ? 'Left empty, it comes from the telemetry log.' : 'Typed by hand.';
+  if (source === 'telemetry') return 'From the telemetry log. Type over it to set it by hand.';
+  if (source === 'manual') return 'Typed by hand. Empty it to take the telemetry log’s value.';
+  return 'No value yet, and none in the telemetry log.';
+}
+
+export function ObservationFields({ campaignId, diveId, editing, value: d, update, errors, onSubmit }: FieldsProps) {
   const { colors } = useTheme();
   const { previewBeside } = useLayout();
   const [preview, setPreview] = useState(false);
@@ -112,6 +129,7 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
           <Button label="Now" tone="secondary" testID="time-now" onPress={() => update({ time: toUtcInput(new Date().toISOString()) })} />
         </View>
       </View>
+      {dive ? <DiveWindowNote dive={dive} typed={d.time} /> : null}
       {dive ? <TimecodeEntry dive={dive} onTime={(iso) => update({ time: toUtcInputExact(iso) })} /> : null}
       <Field
         label="Depth (m)"
@@ -121,7 +139,8 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
         inputMode="decimal"
         keyboardType="decimal-pad"
         mono
-        placeholder="from telemetry when left empty"
+        placeholder={editing ? undefined : 'from telemetry when left empty'}
+        hint={editing ? sourceHint([d.depth], [editing.depth], editing.depthSource) : undefined}
         error={errors.depth}
       />
       <View style={styles.block}>
@@ -136,7 +155,7 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
               // A decimal keypad on iOS has no minus key, and south and west are negative.
               keyboardType="numbers-and-punctuation"
               mono
-              placeholder="from telemetry"
+              placeholder={editing ? undefined : 'from telemetry'}
               error={errors.lat}
             />
           </View>
@@ -149,13 +168,15 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
               // A decimal keypad on iOS has no minus key, and south and west are negative.
               keyboardType="numbers-and-punctuation"
               mono
-              placeholder="from telemetry"
+              placeholder={editing ? undefined : 'from telemetry'}
               error={errors.lon}
             />
           </View>
         </View>
-        <Text variant="caption" muted>
-          South and west are negative. Left empty, both come from telemetry.
+        <Text variant="caption" muted testID="position-source">
+          {editing
+            ? `${sourceHint([d.lat, d.lon], [editing.lat, editing.lon], editing.positionSource)} South and west are negative.`
+            : 'South and west are negative. Left empty, both come from telemetry.'}
         </Text>
       </View>
       <Field
@@ -165,7 +186,8 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
         onChangeText={(temperature) => update({ temperature })}
         keyboardType="numbers-and-punctuation"
         mono
-        placeholder="from telemetry when left empty"
+        placeholder={editing ? undefined : 'from telemetry when left empty'}
+        hint={editing ? sourceHint([d.temperature], [editing.temperature], editing.temperatureSource) : undefined}
         error={errors.temperature}
       />
       <TagInput campaignId={campaignId} value={d.tags} onChange={(tags) => update({ tags })} error={errors.tags} />
@@ -206,6 +228,36 @@ export function ObservationFields({ campaignId, diveId, value: d, update, errors
   );
 }
 
+/**
+ * Below the time: when the dive is not under way, its window (so a time is typed for the right
+ * day), and a warning once the typed time falls outside it. The entry is still taken, marked
+ * "outside the dive" in the log: logging from the video after the dive is real work.
+ */
+function DiveWindowNote({ dive, typed }: { dive: Dive; typed: string }) {
+  const { colors } = useTheme();
+  const at = parseUtcInput(typed);
+  const outside = at !== null && isOutsideDive(dive, at);
+  const { launch, onDeck } = dive.phases;
+  const span = launch
+    ? `launched ${formatUtc(launch)}${onDeck ? `, on deck ${formatUtc(onDeck)}` : ', still under way'}`
+    : dive.plannedStartAt
+      ? `planned to start ${formatUtc(dive.plannedStartAt)}`
+      : null;
+  if (!outside && (!span || (launch && !onDeck))) return null;
+  return (
+    <Text
+      variant="caption"
+      color={outside ? colors.warning : colors.textMuted}
+      role={outside ? 'alert' : undefined}
+      testID={outside ? 'time-outside-dive' : 'dive-window'}
+    >
+      {outside
+        ? `This time is outside dive ${dive.number} (${span ?? 'no times yet'}). The entry will be kept and marked “outside the dive”; check the date.`
+        : `Dive ${dive.number}: ${span}.`}
+    </Text>
+  );
+}
+
 type NewProps = { diveId: string; campaignId: string; onCreated: (o: Observation | null) => void };
 
 /** Under the UTC time as it is typed: the same instant in the campaign's display zone. */
@@ -230,6 +282,10 @@ export function NewObservationForm({ diveId, campaignId, onCreated }: NewProps) 
   const [sending, setSending] = useState(false);
   const [failure, setFailure] = useState<string | null>(null);
   const log = useLogEntry(diveId);
+  const update = (patch: Partial<Draft>) => {
+    draft.update(patch);
+    setErrors((shown) => errorsAfterChange(shown, Object.keys(patch) as (keyof Draft)[], { ...draft.value, ...patch }));
+  };
 
   const submit = async () => {
     if (sending) return;
@@ -269,7 +325,7 @@ export function NewObservationForm({ diveId, campaignId, onCreated }: NewProps) 
         campaignId={campaignId}
         diveId={diveId}
         value={draft.value}
-        update={draft.update}
+        update={update}
         errors={errors}
         onSubmit={() => void submit()}
       />

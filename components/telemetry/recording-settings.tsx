@@ -111,7 +111,7 @@ export function RecordingSettings({ dive, mayEdit }: { dive: Dive; mayEdit: bool
         label="Recording started (UTC)"
         value={form.startAt}
         onChangeText={(startAt) => change({ startAt })}
-        placeholder="2026-05-13 17:35:00"
+        hint="year-month-day hours:minutes:seconds, in UTC"
         mono
         autoCapitalize="none"
         error={errors.startAt}

@@ -31,8 +31,7 @@ export function TimecodeEntry({ dive, onTime }: { dive: Pick<Dive, 'recording'>;
           value={label}
           onChangeText={setLabel}
           onSubmitEditing={apply}
-          placeholder={dropFrame ? '01:02:03;04' : '01:02:03:04'}
-          hint="Sets the time to the frame on screen"
+          hint={`hours:minutes:seconds${dropFrame ? ';' : ':'}frames; sets the time to the frame on screen`}
           error={error}
           mono
           autoCapitalize="none"

@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   changes,
   draftFromObservation,
+  errorsAfterChange,
   mergeEdit,
   readNumber,
   resolveClashes,
@@ -102,13 +103,18 @@ describe('a new entry from the form', () => {
 });
 
 describe('an edit from the form', () => {
-  it('shows only typed values as numbers: a telemetry value stays linked to the log', () => {
+  it('shows every value, typed or from the telemetry log', () => {
     const d = draftFromObservation(stored);
-    expect(d).toMatchObject({ time: '2026-05-14 21:14:07.250', depth: '', lat: '36.1452', lon: '-7.4318', temperature: '' });
+    expect(d).toMatchObject({ time: '2026-05-14 21:14:07.250', depth: '512.4', lat: '36.1452', lon: '-7.4318', temperature: '4.1' });
   });
 
-  it('sends nothing but the version when nothing was changed (the milliseconds survive)', () => {
+  it('sends nothing but the version when nothing was changed: a telemetry value left as shown stays linked to the log', () => {
     expect(changes(draftFromObservation(stored), stored, 3)).toEqual({ version: 3 });
+  });
+
+  it('sends a telemetry value typed over as a typed one, and an emptied one as null (back to the log)', () => {
+    expect(changes({ ...draftFromObservation(stored), depth: '515' }, stored, 3)).toEqual({ version: 3, depth: 515 });
+    expect(changes({ ...draftFromObservation(stored), temperature: '' }, stored, 3)).toEqual({ version: 3, temperature: null });
   });
 
   it('sends only the changed fields, a position as a pair, and a cleared value as null', () => {
@@ -158,5 +164,23 @@ describe('merging an edit with a save made meanwhile (three-way: base, theirs, m
 
   it('without a base, treats every difference as a clash', () => {
     expect(mergeEdit(undefined, { ...base, depth: '530' }, { ...base, note: 'x' }).clashes).toEqual(['depth', 'note']);
+  });
+});
+
+describe('field errors as the form is corrected', () => {
+  it('drops the error of a field once it reads well, keeps it while it does not, and leaves other fields’ errors', () => {
+    const typed = draft({ time: '2026-13-01 10:00', depth: 'deep' });
+    const shown = { observedAt: 'Type a UTC time', depth: 'Depth is a number of metres' };
+    const stillWrong = errorsAfterChange(shown, ['time'], { ...typed, time: '2026-13-01 10:0' });
+    expect(Object.keys(stillWrong).sort()).toEqual(['depth', 'observedAt']);
+    const fixed = errorsAfterChange(shown, ['time'], { ...typed, time: '2026-12-01 10:00' });
+    expect(fixed).toEqual({ depth: 'Depth is a number of metres' });
+  });
+
+  it('re-checks the other half of a position with the half that was changed', () => {
+    const typed = draft({ lat: '36.1' });
+    const shown = { lon: 'Give both latitude and longitude, or neither' };
+    expect(errorsAfterChange(shown, ['lon'], { ...typed, lon: '-7.4' })).toEqual({});
+    expect(errorsAfterChange(shown, ['lat'], { ...typed, lat: '' })).toEqual({});
   });
 });

@@ -1,0 +1,115 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+
+import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { startServerProcess, type ServerProcess } from '../helpers/server-process';
+
+let server: ServerProcess;
+
+beforeAll(async () => {
+  server = await startServerProcess();
+});
+afterAll(async () => {
+  await server?.stop();
+});
+
+function api<T>(page: Page, path: string, method = 'GET', body?: unknown): Promise<T> {
+  return page.evaluate(
+    async ({ path, method, body }) => {
+      const res = await fetch(path, {
+        method,
+        headers: body ? { 'content-type': 'application/json' } : {},
+        body: body ? JSON.stringify(body) : undefined,
+      });
+      return (await res.json()) as T;
+    },
+    { path, method, body },
+  );
+}
+
+describe('the entry form at phone size', () => {
+  let bio: Browser;
+  let diveId: string;
+
+  beforeAll(async () => {
+    bio = await openBrowser(viewports.phone);
+    await signInAs(bio.page, server.url, 'biologist@bathynote.test');
+    await bio.page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+    await bio.page.getByTestId('dive-VS-02').click();
+    await bio.page.getByTestId('dive-log').waitFor();
+    diveId = /\/dives\/([^/?#]+)/.exec(bio.page.url())![1]!;
+  });
+  afterAll(async () => {
+    await bio?.close();
+  });
+
+  it('takes a field’s error away as soon as the field is fixed', async () => {
+    const page = bio.page;
+    await page.goto(`${server.url}/dives/${diveId}/new`);
+    await page.getByTestId('field-kind-biology').click();
+    await page.getByTestId('field-title').fill('Holothurian on the mound');
+    await page.getByTestId('field-time').fill('2026-13-13 19:00:00');
+    await page.getByTestId('field-depth').fill('deep');
+    await page.getByTestId('save-observation').click();
+    await page.getByTestId('field-time-error').waitFor();
+    await page.getByTestId('field-depth-error').waitFor();
+    await page.getByTestId('field-time').fill('2026-05-13 19:00:00');
+    expect(await page.getByTestId('field-time-error').count()).toBe(0);
+    // The other field's error stays until that field is fixed.
+    expect(await page.getByTestId('field-depth-error').count()).toBe(1);
+    await page.getByTestId('field-depth').fill('597');
+    expect(await page.getByTestId('field-depth-error').count()).toBe(0);
+  });
+
+  it('shows the current measured values in the edit form and where they came from, with Cancel', async () => {
+    const page = bio.page;
+    // Logged inside the dive with no depth of its own: the server fills it from the telemetry log.
+    const entry = await api<{ id: string; depth: number | null; depthSource: string | null }>(
+      page,
+      `/api/dives/${diveId}/observations`,
+      'POST',
+      {
+        kind: 'biology',
+        title: 'Brittle star on a jar',
+        observedAt: '2026-05-13T19:30:00.000Z',
+      },
+    );
+    expect(entry.depthSource).toBe('telemetry');
+    await page.goto(`${server.url}/observations/${entry.id}`);
+    await page.getByTestId('edit').click();
+    await page.getByTestId('observation-editor').waitFor();
+    expect(await page.getByTestId('field-depth').inputValue()).toBe(String(entry.depth));
+    expect(await page.getByTestId('field-depth-hint').textContent()).toContain('From the telemetry log');
+    await page.getByTestId('field-depth').fill('600');
+    expect(await page.getByTestId('field-depth-hint').textContent()).toBe('Typed by hand.');
+    await page.getByTestId('cancel-edit').click();
+    await page.getByTestId('observation-detail').waitFor();
+    const stored = await api<{ depth: number; depthSource: string }>(page, `/api/observations/${entry.id}`);
+    expect(stored).toMatchObject({ depth: entry.depth, depthSource: 'telemetry' });
+    expect(bio.errors).toEqual([]);
+  });
+
+  it('warns of a time outside the dive, keeps the entry and marks it, with its date, in the log', async () => {
+    const page = bio.page;
+    await page.goto(`${server.url}/dives/${diveId}/new`);
+    await page.getByTestId('field-kind-biology').click();
+    await page.getByTestId('field-title').fill('Logged from the video months later');
+    await page.getByTestId('field-time').fill('2026-11-30 09:15:00');
+    await page.getByTestId('time-outside-dive').waitFor();
+    // Back inside the dive's window, the warning goes and the window is shown instead.
+    await page.getByTestId('field-time').fill('2026-05-13 19:15:00');
+    expect(await page.getByTestId('time-outside-dive').count()).toBe(0);
+    await page.getByTestId('dive-window').waitFor();
+    await page.getByTestId('field-time').fill('2026-11-30 09:15:00');
+    await page.getByTestId('save-observation').click();
+    const card = page
+      .getByTestId('dive-log')
+      .locator('[data-testid^="observation-"]')
+      .filter({ hasText: 'Logged from the video months later' })
+      .first();
+    await card.waitFor();
+    await card.getByTestId('observation-outside-dive').waitFor();
+    expect(await card.getByTestId('observation-time').first().textContent()).toBe('2026-11-30 09:15:00Z');
+    expect(bio.errors).toEqual([]);
+  });
+});
