@@ -24,6 +24,8 @@ type Props = {
   phases?: Dive['phases'];
   /** The dive's video clock: each entry shows its time code once it is set. */
   recording?: Dive['recording'];
+  /** The dive's phases and plan, to show dates and mark entries outside the dive's window. */
+  timing?: Pick<Dive, 'phases' | 'plannedStartAt'>;
   onFiltersChange: (f: DiveLogFilters) => void;
   view: 'cards' | 'table';
   selectedId?: string;
@@ -49,6 +51,7 @@ export function DiveLog({
   search,
   phases,
   recording,
+  timing,
   onFiltersChange,
   view,
   selectedId,
@@ -75,12 +78,12 @@ export function DiveLog({
       if (item.type === 'phase') return <PhaseDivider label={item.label} at={item.at} table={view === 'table'} phase={item.phase} />;
       const o = item.observation;
       return view === 'table' ? (
-        <LogTableRow observation={o} recording={recording} selected={o.id === selectedId} onPress={() => onSelect(o)} />
+        <LogTableRow observation={o} recording={recording} timing={timing} selected={o.id === selectedId} onPress={() => onSelect(o)} />
       ) : (
-        <ObservationCard observation={o} recording={recording} selected={o.id === selectedId} onPress={() => onSelect(o)} />
+        <ObservationCard observation={o} recording={recording} timing={timing} selected={o.id === selectedId} onPress={() => onSelect(o)} />
       );
     },
-    [onSelect, recording, selectedId, view],
+    [onSelect, recording, selectedId, timing, view],
   );
 
   let empty: React.ReactElement;

@@ -172,6 +172,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       search={search}
       phases={dive.data?.phases}
       recording={dive.data?.recording}
+      timing={dive.data}
       onFiltersChange={setFilters}
       view={roomy ? view : 'cards'}
       selectedId={splitView ? entryId : undefined}

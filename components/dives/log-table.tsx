@@ -4,6 +4,7 @@ import { timecodeOf } from '@/components/telemetry/timecode-label';
 import { Text } from '@/components/ui/text';
 import type { DiveLogFilters } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
+import { isOtherDay, isOutsideDive } from '@/lib/dive-window';
 import { formatDepth, formatUtcTime } from '@/lib/format';
 import type { Dive, Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
@@ -11,6 +12,7 @@ import { kindLabels } from '../observations/kind-badge';
 
 type Sort = NonNullable<DiveLogFilters['sort']>;
 const columns: { key: string; label: string; sort?: Sort; flex: number; mono?: boolean }[] = [
+  { key: 'date', label: 'Date', flex: 0.9, mono: true },
   { key: 'time', label: 'Time (UTC)', sort: 'time', flex: 1.1, mono: true },
   { key: 'kind', label: 'Kind', sort: 'kind', flex: 1 },
   { key: 'title', label: 'Title', flex: 3 },
@@ -52,9 +54,16 @@ export function LogTableHeader({ filters, onSort }: { filters: DiveLogFilters; o
   );
 }
 
-type RowProps = { observation: Observation; selected: boolean; onPress: () => void; recording?: Dive['recording'] };
+type RowProps = {
+  observation: Observation;
+  selected: boolean;
+  onPress: () => void;
+  recording?: Dive['recording'];
+  /** The dive's phases and plan: an entry outside its window is marked. */
+  timing?: Pick<Dive, 'phases' | 'plannedStartAt'>;
+};
 
-export function LogTableRow({ observation: o, selected, onPress, recording }: RowProps) {
+export function LogTableRow({ observation: o, selected, onPress, recording, timing }: RowProps) {
   const { colors } = useTheme();
   const tc = recording ? timecodeOf({ recording }, o.observedAt)?.label : null;
   return (
@@ -65,6 +74,16 @@ export function LogTableRow({ observation: o, selected, onPress, recording }: Ro
       onPress={onPress}
       style={[styles.row, { borderBottomColor: colors.border, backgroundColor: selected ? colors.surfaceAlt : 'transparent' }]}
     >
+      <View style={{ flex: 0.9 }}>
+        <Text variant="monoSmall" muted={!!timing && !isOtherDay(timing, o.observedAt)}>
+          {o.observedAt.slice(0, 10)}
+        </Text>
+        {timing && isOutsideDive(timing, o.observedAt) ? (
+          <Text variant="caption" color={colors.warning} testID="observation-outside-dive">
+            outside the dive
+          </Text>
+        ) : null}
+      </View>
       <View style={{ flex: 1.1 }}>
         <Text variant="monoSmall">{formatUtcTime(o.observedAt)}</Text>
         {tc ? (

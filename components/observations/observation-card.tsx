@@ -3,31 +3,40 @@ import { StyleSheet, View } from 'react-native';
 import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/hooks/theme';
-import { formatDepth, formatScientificName, formatUtcTime } from '@/lib/format';
+import { isOtherDay, isOutsideDive } from '@/lib/dive-window';
+import { formatDepth, formatScientificName, formatUtc, formatUtcTime } from '@/lib/format';
 import type { Dive, Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { timecodeOf } from '@/components/telemetry/timecode-label';
 import { KindBadge } from './kind-badge';
 import { TagLabel } from './tag-label';
 
-type Props = { observation: Observation; onPress: () => void; selected?: boolean; recording?: Dive['recording'] };
+type Props = {
+  observation: Observation;
+  onPress: () => void;
+  selected?: boolean;
+  recording?: Dive['recording'];
+  /** The dive's phases and plan: the date shows when the entry is not on the launch day, and an entry outside the window is marked. */
+  timing?: Pick<Dive, 'phases' | 'plannedStartAt'>;
+};
 
-export function ObservationCard({ observation: o, onPress, selected, recording }: Props) {
+export function ObservationCard({ observation: o, onPress, selected, recording, timing }: Props) {
   const { colors } = useTheme();
   const tc = recording ? timecodeOf({ recording }, o.observedAt)?.label : null;
+  const time = timing && isOtherDay(timing, o.observedAt) ? formatUtc(o.observedAt) : formatUtcTime(o.observedAt);
+  const outside = !!timing && isOutsideDive(timing, o.observedAt);
   return (
-    <Card
-      testID={`observation-${o.id}`}
-      onPress={onPress}
-      selected={selected}
-      accent={colors.kind[o.kind]}
-      label={`${formatUtcTime(o.observedAt)} ${o.title}`}
-    >
+    <Card testID={`observation-${o.id}`} onPress={onPress} selected={selected} accent={colors.kind[o.kind]} label={`${time} ${o.title}`}>
       <View style={styles.top}>
         <Text variant="mono" testID="observation-time">
-          {formatUtcTime(o.observedAt)}
+          {time}
         </Text>
         <KindBadge kind={o.kind} />
+        {outside ? (
+          <Text variant="caption" color={colors.warning} testID="observation-outside-dive">
+            outside the dive
+          </Text>
+        ) : null}
         <View style={styles.flex} />
         <Text variant="monoSmall" muted testID="observation-depth">
           {formatDepth(o.depth)}
