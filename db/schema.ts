@@ -177,6 +177,12 @@ export const observations = sqliteTable(
     positionSource: text('position_source').$type<DepthSource>(),
     temperature: real('temperature'),
     temperatureSource: text('temperature_source').$type<DepthSource>(),
+    /** The vehicle's heading, degrees clockwise from true north, [0, 360). */
+    heading: real('heading'),
+    headingSource: text('heading_source').$type<DepthSource>(),
+    /** The vehicle's height above the seabed in metres. */
+    altitude: real('altitude'),
+    altitudeSource: text('altitude_source').$type<DepthSource>(),
     authorId: text('author_id')
       .notNull()
       .references(() => user.id, { onDelete: 'restrict' }),
