@@ -1,14 +1,15 @@
 import { Router, type RequestHandler } from 'express';
 
-import { quickMarkInputSchema, tagCreateSchema, tagUpdateSchema } from '../../lib/schemas';
+import { campaignCreateSchema, campaignUpdateSchema, quickMarkInputSchema, tagCreateSchema, tagUpdateSchema } from '../../lib/schemas';
 import type { AppContext } from '../context';
-import { notFound } from '../errors';
-import { accessOf, byCampaign, requireCampaignRole, type CampaignResolver } from '../middleware/campaign-access';
+import { forbidden, notFound } from '../errors';
+import { accessOf, byCampaign, requireCampaignRole, requirePermission, type CampaignResolver } from '../middleware/campaign-access';
 import { requireSession, userOf } from '../middleware/session';
 import { validate } from '../middleware/validate';
 import { getCampaign, listCampaigns, listMembers, listTags, me } from '../services/campaigns';
 import { listDives } from '../services/dives';
 import { nextFindNumber } from '../services/record';
+import { createCampaign, updateCampaign } from '../services/team';
 import {
   createQuickMark,
   createTag,
@@ -20,10 +21,17 @@ import {
   updateTag,
 } from '../services/vocabulary';
 
-export function campaignRoutes({ db, auth }: AppContext): Router {
+export function campaignRoutes(ctx: AppContext): Router {
+  const { db, auth } = ctx;
   const r = Router();
   const signedIn = requireSession(auth);
   const member: RequestHandler[] = [signedIn, requireCampaignRole(db, byCampaign)];
+  const siteAdmin: RequestHandler = (req, _res, next) => {
+    if (userOf(req).siteRole !== 'admin') throw forbidden('Only the site administrator may do this.');
+    next();
+  };
+  const newCampaign = validate(campaignCreateSchema);
+  const campaignChange = validate(campaignUpdateSchema);
 
   r.get('/me', signedIn, (req, res) => {
     res.json(me(db, userOf(req)));
@@ -31,6 +39,22 @@ export function campaignRoutes({ db, auth }: AppContext): Router {
 
   r.get('/campaigns', signedIn, (req, res) => {
     res.json(listCampaigns(db, userOf(req)));
+  });
+
+  // The site administrator creates a campaign and names its first lead, whose invitation mail is
+  // queued with it (`leadInvitation.mail` says where it is).
+  r.post('/campaigns', signedIn, siteAdmin, newCampaign, (req, res) => {
+    const { campaignId, leadInvitation } = createCampaign(ctx, { id: userOf(req).id, name: userOf(req).name }, newCampaign.of(req));
+    res
+      .status(201)
+      .location(`/api/campaigns/${campaignId}`)
+      .json({ ...getCampaign(db, campaignId, 'admin')!, leadInvited: !!leadInvitation, leadInvitation });
+  });
+
+  r.patch('/campaigns/:campaignId', signedIn, requirePermission(db, byCampaign, 'campaign.edit'), campaignChange, (req, res) => {
+    const { campaignId, role } = accessOf(req);
+    updateCampaign(ctx, campaignId, userOf(req).id, campaignChange.of(req));
+    res.json(getCampaign(db, campaignId, role));
   });
 
   r.get('/campaigns/:campaignId', ...member, (req, res) => {

@@ -1,12 +1,13 @@
+import type { z } from 'zod';
 import { and, count, desc, eq, sql } from 'drizzle-orm';
 
 import type { Executor } from '../../db/client';
 import { campaigns, invitations, mailQueue, memberships, user } from '../../db/schema';
 import {
-  campaignCreateSchema,
-  campaignUpdateSchema,
-  invitationCreateSchema,
-  memberUpdateSchema,
+  type campaignCreateSchema,
+  type campaignUpdateSchema,
+  type invitationCreateSchema,
+  type memberUpdateSchema,
   type CampaignRole,
   type Invitation,
   type InvitationCreate,
@@ -195,8 +196,12 @@ function openInvitation(tx: Executor, campaignId: string, inviter: Actor, input:
  * Writes the invitation and queues its mail in one transaction: the invitation stands even while
  * the mail server is unreachable, and the answer's `mail` says where its mail is.
  */
-export function invite(ctx: AppContext, campaignId: string, inviter: Actor, body: unknown): Invitation {
-  const input = invitationCreateSchema.parse(body);
+export type InvitationInput = z.output<typeof invitationCreateSchema>;
+export type CampaignCreateInput = z.output<typeof campaignCreateSchema>;
+export type CampaignUpdateInput = z.output<typeof campaignUpdateSchema>;
+export type MemberUpdateInput = z.output<typeof memberUpdateSchema>;
+
+export function invite(ctx: AppContext, campaignId: string, inviter: Actor, input: InvitationInput): Invitation {
   const row = ctx.db.transaction((tx) => openInvitation(tx, campaignId, inviter, input));
   ctx.mail.kick();
   return listInvitations(ctx, campaignId).find((i) => i.id === row.id)!;
@@ -292,8 +297,7 @@ function membership(ctx: AppContext, campaignId: string, userId: string) {
 }
 
 /** A campaign always keeps at least one lead. */
-export function changeRole(ctx: AppContext, campaignId: string, userId: string, actorId: string, body: unknown) {
-  const { role } = memberUpdateSchema.parse(body);
+export function changeRole(ctx: AppContext, campaignId: string, userId: string, actorId: string, { role }: MemberUpdateInput) {
   const current = membership(ctx, campaignId, userId);
   if (current.role === 'lead' && role !== 'lead' && leadCount(ctx, campaignId) <= 1) {
     throw conflict('last_lead', 'A campaign keeps at least one lead: make someone else lead first.');
@@ -325,8 +329,11 @@ export function removeMember(ctx: AppContext, campaignId: string, userId: string
  * as lead at once, anyone else is invited by mail. The campaign, the lead's invitation and its
  * mail are one transaction, so a campaign is never left without its lead's invitation.
  */
-export function createCampaign(ctx: AppContext, admin: Actor, body: unknown): { campaignId: string; leadInvitation: Invitation | null } {
-  const { leadEmail, leadName, ...fields } = campaignCreateSchema.parse(body);
+export function createCampaign(
+  ctx: AppContext,
+  admin: Actor,
+  { leadEmail, leadName, ...fields }: CampaignCreateInput,
+): { campaignId: string; leadInvitation: Invitation | null } {
   const email = leadEmail.toLowerCase();
   const { campaignId, invited } = ctx.db.transaction((tx) => {
     const existing = tx
@@ -354,8 +361,7 @@ export function createCampaign(ctx: AppContext, admin: Actor, body: unknown): { 
   return { campaignId, leadInvitation: listInvitations(ctx, campaignId).find((i) => i.id === invited)! };
 }
 
-export function updateCampaign(ctx: AppContext, campaignId: string, actorId: string, body: unknown) {
-  const input = campaignUpdateSchema.parse(body);
+export function updateCampaign(ctx: AppContext, campaignId: string, actorId: string, input: CampaignUpdateInput) {
   ctx.db
     .update(campaigns)
     .set({ ...input, updatedAt: new Date() })
