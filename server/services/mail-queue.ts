@@ -161,6 +161,10 @@ const permanent = (err: unknown) => {
   return typeof code === 'number' && code >= 500 && code < 600;
 };
 
+/** Mail claimed at once, and handed to the mail server at once (its pooled connections). */
+const BATCH = 20;
+const PARALLEL = 4;
+
 export const INTERRUPTED =
   'The server stopped while this mail was being handed to the mail server, so it may or may not have gone out. Send it again if it did not arrive.';
 
@@ -220,44 +224,54 @@ export function createMailSender(db: Db, mailer: Mailer, log: Logger, options: M
     for (const resolve of w) resolve();
   };
 
-  async function sendOne(row: MailRow) {
-    const at = now();
-    const claimed = db
-      .update(mailQueue)
-      .set({ state: 'sending', attempts: row.attempts + 1, updatedAt: at })
-      .where(and(eq(mailQueue.id, row.id), eq(mailQueue.state, 'queued')))
-      .run();
-    if (claimed.changes !== 1) return;
-    const attempt = row.attempts + 1;
+  /** What became of one attempt, written back with the others of its batch. */
+  type Outcome = { row: MailRow; attempt: number } & ({ sent: true } | { cancel: string } | { err: unknown });
+
+  async function attemptOne(row: MailRow, attempt: number): Promise<Outcome> {
     try {
       const outcome = await (handlers.get(row.kind) ?? plain)({ ...row, attempts: attempt }, (mail) => mailer.send(mail));
-      if (outcome && 'cancel' in outcome) {
-        db.update(mailQueue)
-          .set({ state: 'cancelled', lastError: outcome.cancel, nextAttemptAt: null, updatedAt: now() })
-          .where(eq(mailQueue.id, row.id))
-          .run();
-        return;
-      }
-      db.update(mailQueue)
-        .set({ state: 'sent', sentAt: now(), lastError: null, nextAttemptAt: null, updatedAt: now() })
-        .where(eq(mailQueue.id, row.id))
-        .run();
+      return outcome && 'cancel' in outcome ? { row, attempt, cancel: outcome.cancel } : { row, attempt, sent: true };
     } catch (err) {
-      const reason = failureReason(err);
-      const last = attempt >= options.attempts || permanent(err);
-      const wait = options.retryBaseMs * 4 ** (attempt - 1);
-      log.error(last ? 'mail failed' : 'mail attempt failed, will retry', { mail: row.id, kind: row.kind, attempt, reason });
-      db.update(mailQueue)
-        .set(
-          last
-            ? { state: 'failed', lastError: reason, nextAttemptAt: null, updatedAt: now() }
-            : { state: 'queued', lastError: reason, nextAttemptAt: new Date(now().getTime() + wait), updatedAt: now() },
-        )
-        .where(eq(mailQueue.id, row.id))
-        .run();
+      return { row, attempt, err };
     }
   }
 
+  function record(o: Outcome) {
+    const at = now();
+    if ('sent' in o) {
+      db.update(mailQueue)
+        .set({ state: 'sent', sentAt: at, lastError: null, nextAttemptAt: null, updatedAt: at })
+        .where(eq(mailQueue.id, o.row.id))
+        .run();
+      return;
+    }
+    if ('cancel' in o) {
+      db.update(mailQueue)
+        .set({ state: 'cancelled', lastError: o.cancel, nextAttemptAt: null, updatedAt: at })
+        .where(eq(mailQueue.id, o.row.id))
+        .run();
+      return;
+    }
+    const reason = failureReason(o.err);
+    const last = o.attempt >= options.attempts || permanent(o.err);
+    const wait = options.retryBaseMs * 4 ** (o.attempt - 1);
+    log.error(last ? 'mail failed' : 'mail attempt failed, will retry', { mail: o.row.id, kind: o.row.kind, attempt: o.attempt, reason });
+    db.update(mailQueue)
+      .set(
+        last
+          ? { state: 'failed', lastError: reason, nextAttemptAt: null, updatedAt: at }
+          : { state: 'queued', lastError: reason, nextAttemptAt: new Date(at.getTime() + wait), updatedAt: at },
+      )
+      .where(eq(mailQueue.id, o.row.id))
+      .run();
+  }
+
+  /**
+   * Due mail goes in batches: claimed in one transaction, handed over a few at a time on the
+   * transport's pooled connections, and the outcomes written in one transaction, so a batch costs
+   * two commits to disk rather than two per mail. A crash between handing over and writing the
+   * outcome leaves the mail "sending", which the next start marks failed, never re-sent.
+   */
   async function drain() {
     do {
       again = false;
@@ -268,13 +282,24 @@ export function createMailSender(db: Db, mailer: Mailer, log: Logger, options: M
           .from(mailQueue)
           .where(and(eq(mailQueue.state, 'queued'), or(isNull(mailQueue.nextAttemptAt), lte(mailQueue.nextAttemptAt, now()))))
           .orderBy(asc(mailQueue.nextAttemptAt))
-          .limit(20)
+          .limit(BATCH)
           .all();
         if (due.length === 0) break;
-        for (const row of due) {
-          if (stopped) return;
-          await sendOne(row);
+        const claimed = db.transaction(() =>
+          due.filter(
+            (row) =>
+              db
+                .update(mailQueue)
+                .set({ state: 'sending', attempts: row.attempts + 1, updatedAt: now() })
+                .where(and(eq(mailQueue.id, row.id), eq(mailQueue.state, 'queued')))
+                .run().changes === 1,
+          ),
+        );
+        const outcomes: Outcome[] = [];
+        for (let i = 0; i < claimed.length; i += PARALLEL) {
+          outcomes.push(...(await Promise.all(claimed.slice(i, i + PARALLEL).map((row) => attemptOne(row, row.attempts + 1)))));
         }
+        db.transaction(() => outcomes.forEach(record));
       }
     } while (again && !stopped);
   }

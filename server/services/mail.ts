@@ -53,7 +53,11 @@ export async function createMailer(db: Db, log: Logger, smtpUrl: string | undefi
   let catcher: SMTPServer | undefined;
   let transport: Transporter;
   if (smtpUrl) {
-    transport = nodemailer.createTransport(smtpUrl);
+    // Pooled: a digest run hands hundreds of mails over a few kept connections, not one each.
+    const url = new URL(smtpUrl);
+    url.searchParams.set('pool', 'true');
+    url.searchParams.set('maxConnections', '4');
+    transport = nodemailer.createTransport(url.toString());
   } else {
     catcher = new SMTPServer({
       authOptional: true,
@@ -88,7 +92,7 @@ export async function createMailer(db: Db, log: Logger, smtpUrl: string | undefi
     const server = catcher;
     await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
     const { port } = server.server.address() as AddressInfo;
-    transport = nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true });
+    transport = nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true, pool: true, maxConnections: 4 });
     log.info('mail catcher listening (no SMTP_URL set)', { port });
   }
 

@@ -48,7 +48,11 @@ function smtpOn(port: number) {
     },
     async stop() {
       const s = server;
-      if (s) await new Promise<void>((resolve) => s.close(() => resolve()));
+      if (!s) return;
+      const closed = new Promise<void>((resolve) => s.close(() => resolve()));
+      // The sender keeps pooled connections open; a mail server going down drops them.
+      for (const c of (s as unknown as { connections: Set<{ close: () => void }> }).connections) c.close();
+      await closed;
       server = undefined;
     },
   };

@@ -2,6 +2,7 @@
  * `npm run bench`: the speed and memory figures. Each benchmark prints its numbers; none of
  * them asserts a time (machines differ), the targets are printed beside the figures.
  */
+import { benchDigest } from './digest';
 import { benchExports } from './exports';
 import { benchLiveLoad } from './live-load';
 import { benchLogWrites } from './log-writes';
@@ -16,6 +17,7 @@ async function main() {
     ['telemetry-import', benchTelemetryImport],
     ['exports', benchExports],
     ['search', benchSearch],
+    ['digest', benchDigest],
   ];
   for (const [name, run] of benches) {
     if (only && only !== name) continue;

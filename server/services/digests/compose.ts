@@ -209,16 +209,23 @@ export function composeDigest(
     }
   }
 
+  // One formatter per digest: zone lookups per entry were a good part of composing.
+  const inZone = new Intl.DateTimeFormat('en-GB', {
+    timeZone: campaign.timeZone,
+    hour: '2-digit',
+    minute: '2-digit',
+    hourCycle: 'h23',
+    timeZoneName: 'short',
+  });
   const view = (r: (typeof rows)[number]): EntryView => {
     const cached = cache.entries.get(r.id)!;
-    const at = DateTime.fromJSDate(r.observedAt, { zone: 'utc' });
     return {
       url: `${links.base}/observations/${r.id}`,
       thumb: cached.thumb,
       title: r.title,
       changed: window.since !== null && r.createdAt <= window.since,
-      utc: at.toFormat('yyyy-LL-dd HH:mm:ss'),
-      local: at.setZone(campaign.timeZone).toFormat('HH:mm ZZZZ'),
+      utc: r.observedAt.toISOString().slice(0, 19).replace('T', ' '),
+      local: inZone.format(r.observedAt).replace(',', ''),
       depth: r.depth === null ? null : `${r.depth.toFixed(1)} m`,
       excerpt: cached.excerpt,
       tags: cached.tags,
