@@ -6,6 +6,7 @@ import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { brotliCompressSync, constants as zlibConstants, gzipSync } from 'node:zlib';
 
 const root = path.resolve(__dirname, '..');
 // WEB_DIR lets two checkouts or two test runs build side by side; the server reads the same variable.
@@ -52,8 +53,42 @@ export function webBuildIsCurrent(): boolean {
   );
 }
 
+// Text-like files worth compressing; images are already compressed and source maps never go to a browser.
+const COMPRESSIBLE = /\.(js|mjs|css|html|json|svg|txt|xml|ttf|otf|ico|wasm)$/;
+
+/**
+ * Writes brotli (`.br`, best quality) and gzip (`.gz`, level 9) beside every compressible file of
+ * the export, once, for the server to send as they are; a copy that would not be smaller is not
+ * written. Copies newer than their file are kept, so an unchanged export is not compressed again.
+ */
+export function precompressWebBuild(dir = outDir): void {
+  for (const file of files(dir)) {
+    if (!COMPRESSIBLE.test(file)) continue;
+    const stat = statSync(file);
+    if (stat.size < 1024) continue;
+    let body: Buffer | undefined;
+    for (const [ext, compress] of [
+      [
+        '.br',
+        (b: Buffer) =>
+          brotliCompressSync(b, { params: { [zlibConstants.BROTLI_PARAM_QUALITY]: 11, [zlibConstants.BROTLI_PARAM_SIZE_HINT]: b.length } }),
+      ],
+      ['.gz', (b: Buffer) => gzipSync(b, { level: 9 })],
+    ] as const) {
+      const target = file + ext;
+      if (existsSync(target) && statSync(target).mtimeMs >= stat.mtimeMs) continue;
+      body ??= readFileSync(file);
+      const packed = compress(body);
+      if (packed.length < body.length) writeFileSync(target, packed);
+    }
+  }
+}
+
 export function ensureWebBuild(): void {
-  if (webBuildIsCurrent()) return;
+  if (webBuildIsCurrent()) {
+    precompressWebBuild();
+    return;
+  }
   process.stdout.write('Building the web app (dist/); a cold build takes about two minutes…\n');
   const started = Date.now();
   const result = spawnSync('npx', ['expo', 'export', '--platform', 'web', '--output-dir', outDir], {
@@ -62,6 +97,7 @@ export function ensureWebBuild(): void {
     env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1' },
   });
   if (result.status !== 0) throw new Error(`The web build failed (exit code ${result.status ?? result.signal}).`);
+  precompressWebBuild();
   writeFileSync(stampFile, sourceFingerprint());
   process.stdout.write(`Web app built in ${Math.round((Date.now() - started) / 1000)} s.\n`);
 }

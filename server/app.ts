@@ -6,6 +6,7 @@ import { CLIENT_IP_HEADER } from './auth';
 import type { AppContext } from './context';
 import { errorBody } from './errors';
 import { authHandler } from './middleware/auth-handler';
+import { apiCompression } from './middleware/compression';
 import { apiNotFound, errorHandler } from './middleware/errors';
 import { sameOrigin } from './middleware/same-origin';
 import { serverTiming } from './middleware/timing';
@@ -56,6 +57,8 @@ export function createApp(ctx: AppContext): Express {
       strictTransportSecurity: env.PUBLIC_URL.startsWith('https:'),
     }),
   );
+
+  app.use('/api', apiCompression);
 
   // better-auth reads the client address from this header only; set it from the socket (or the
   // configured proxy) so that a forged X-Forwarded-For cannot dodge the sign-in rate limit.
