@@ -10,6 +10,8 @@
  * has both coordinates from the same row.
  */
 
+import { interpolateHeading, wrapHeading } from './heading';
+
 /** Channels carried as a single number per sample. */
 export const SCALAR_CHANNELS = ['depth', 'temperature', 'heading', 'altitude', 'salinity', 'pressure'] as const;
 
@@ -105,11 +107,6 @@ function isFiniteNumber(value: unknown): value is number {
 /** Longitude wrapped into [−180, 180). */
 function wrapLongitude(lonDeg: number): number {
   return lonDeg - 360 * Math.floor((lonDeg + 180) / 360);
-}
-
-/** Angle wrapped into [0, 360). */
-function wrapHeading(deg: number): number {
-  return deg - 360 * Math.floor(deg / 360);
 }
 
 /** Signed smallest turn from a to b in degrees, [−180, 180). */
@@ -270,7 +267,7 @@ function scalarAt(col: ScalarColumn, channel: ScalarChannel, tMs: number, maxGap
   const a = col.v[b.i] as number;
   if (b.f === 0) return a;
   const next = col.v[b.i + 1] as number;
-  if (channel === 'heading') return wrapHeading(a + b.f * angleDelta(a, next));
+  if (channel === 'heading') return interpolateHeading(a, next, b.f);
   return a + b.f * (next - a);
 }
 

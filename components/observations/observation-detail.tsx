@@ -16,6 +16,7 @@ import { useObservation, useRestoreObservation, useRetireEntry } from '@/hooks/o
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { formatDepth, formatInZone, formatLatLon, formatTemperature, formatUtc } from '@/lib/format';
+import { formatHeading } from '@/lib/heading';
 import type { Observation, ObservationDetail as Detail } from '@/lib/schemas';
 import { pressureFromDepth } from '@/lib/seawater';
 import { radius, space } from '@/lib/tokens';
@@ -60,6 +61,8 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
       : []),
     ['Position', formatLatLon(o.lat, o.lon), sourceLabel(o.positionSource)],
     ['Water temperature', formatTemperature(o.temperature), sourceLabel(o.temperatureSource)],
+    ['Heading', formatHeading(o.heading), sourceLabel(o.headingSource)],
+    ['Altitude', o.altitude === null ? '—' : `${o.altitude.toFixed(1)} m above the seabed`, sourceLabel(o.altitudeSource)],
   ];
   return (
     <View style={styles.wrap} testID="observation-detail">

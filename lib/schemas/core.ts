@@ -175,6 +175,8 @@ const depth = z.number().finite().min(-10, 'Depth is in metres below the surface
 const lat = z.number().finite().min(-90, 'Latitude is between -90 and 90').max(90, 'Latitude is between -90 and 90');
 const lon = z.number().finite().min(-180, 'Longitude is between -180 and 180').max(180, 'Longitude is between -180 and 180');
 const temperature = z.number().finite().min(-3, 'Colder than sea water gets').max(400, 'Hotter than any vent');
+const heading = z.number().finite().min(0, 'Heading is 0 to 359.9 degrees from north').lt(360, 'Heading is 0 to 359.9 degrees from north');
+const altitude = z.number().finite().min(0, 'Altitude is metres above the seabed').max(11_000, 'Higher than any ocean is deep');
 const tagName = oneLine()
   .min(1)
   .max(40, 'Tags are at most 40 characters')
@@ -194,6 +196,8 @@ export const observationCreateSchema = z
     lat: lat.nullable().optional(),
     lon: lon.nullable().optional(),
     temperature: temperature.nullable().optional(),
+    heading: heading.nullable().optional(),
+    altitude: altitude.nullable().optional(),
     tags: z.array(tagName).max(20, 'At most 20 tags').default([]),
     /** A random id the sending device gives the entry; sending it again returns the first entry. */
     clientRef: z
@@ -224,6 +228,8 @@ export const observationUpdateSchema = z
     lat: lat.nullable().optional(),
     lon: lon.nullable().optional(),
     temperature: temperature.nullable().optional(),
+    heading: heading.nullable().optional(),
+    altitude: altitude.nullable().optional(),
     tags: z.array(tagName).max(20, 'At most 20 tags').optional(),
   })
   .strict()
@@ -248,6 +254,12 @@ export const observationSchema = z.object({
   positionSource: z.enum(valueSources).nullable(),
   temperature: z.number().nullable(),
   temperatureSource: z.enum(valueSources).nullable(),
+  /** The vehicle's heading, degrees clockwise from true north. */
+  heading: z.number().nullable(),
+  headingSource: z.enum(valueSources).nullable(),
+  /** The vehicle's height above the seabed, metres. */
+  altitude: z.number().nullable(),
+  altitudeSource: z.enum(valueSources).nullable(),
   tags: z.array(z.string()),
   photoCount: z.number().int(),
   /** The identification's name and standing, for lists (biology). */

@@ -21,7 +21,14 @@ import { notFound } from '../errors';
 import { findNumbersOf, tagsOf } from './observations/hydrate';
 import { cachedLog, logOf, STORED_CHANNELS } from './telemetry-series';
 
-export type TelemetryValues = { depth: number | null; lat: number | null; lon: number | null; temperature: number | null };
+export type TelemetryValues = {
+  depth: number | null;
+  lat: number | null;
+  lon: number | null;
+  temperature: number | null;
+  heading: number | null;
+  altitude: number | null;
+};
 
 const iso = (ms: number) => new Date(ms).toISOString();
 
@@ -104,8 +111,8 @@ export function telemetryValuesAt(db: Db, diveId: string, atMs: number): Telemet
   if (gapS === undefined || !Number.isFinite(atMs)) return null;
   const gapMs = gapS * 1000;
   const fix = sampleAt(seriesAround(db, diveId, atMs, gapMs), atMs, { maxGapMs: gapMs });
-  if (fix.depth === null && fix.lat === null && fix.temperature === null) return null;
-  return { depth: fix.depth, lat: fix.lat, lon: fix.lon, temperature: fix.temperature };
+  if (fix.depth === null && fix.lat === null && fix.temperature === null && fix.heading === null && fix.altitude === null) return null;
+  return { depth: fix.depth, lat: fix.lat, lon: fix.lon, temperature: fix.temperature, heading: fix.heading, altitude: fix.altitude };
 }
 
 /** `GET /api/dives/:diveId/at`: the log's values at an instant, or why there are none. */
@@ -274,7 +281,7 @@ export function diveSummary(db: Db, diveId: string): DiveSummary {
   };
 }
 
-/** An entry as stamping reads it: id, time (ms), retired, depth, position and temperature with their sources, rowid. */
+/** An entry as stamping reads it: id, time (ms), retired, depth, position, temperature, heading and altitude with their sources, rowid. */
 type StampRow = [
   id: string,
   t: number,
@@ -286,12 +293,28 @@ type StampRow = [
   positionSource: string | null,
   temperature: number | null,
   temperatureSource: string | null,
+  heading: number | null,
+  headingSource: string | null,
+  altitude: number | null,
+  altitudeSource: string | null,
   rowid: number,
 ];
 
 /** Entries written per UPDATE while stamping. */
 const STAMP_BATCH = 100;
-const STAMP_COLUMNS = ['depth', 'depth_source', 'lat', 'lon', 'position_source', 'temperature', 'temperature_source'] as const;
+const STAMP_COLUMNS = [
+  'depth',
+  'depth_source',
+  'lat',
+  'lon',
+  'position_source',
+  'temperature',
+  'temperature_source',
+  'heading',
+  'heading_source',
+  'altitude',
+  'altitude_source',
+] as const;
 
 type StampQueries = { rows: (diveId: string) => StampRow[]; update: (rows: number, values: unknown[]) => void };
 const stampStatements = new WeakMap<Db, StampQueries>();
@@ -301,7 +324,8 @@ function stampQueries(db: Db): StampQueries {
   if (!q) {
     const rows = db.$client
       .prepare(
-        `select id, observed_at, retired, depth, depth_source, lat, lon, position_source, temperature, temperature_source, rowid
+        `select id, observed_at, retired, depth, depth_source, lat, lon, position_source, temperature, temperature_source,
+                heading, heading_source, altitude, altitude_source, rowid
          from observations where dive_id = ?`,
       )
       .raw();
@@ -332,7 +356,7 @@ const NO_SAMPLES = { t: new Float64Array(0), v: new Float64Array(0) };
 function stampingView(series: TelemetrySeries): TelemetrySeries {
   return {
     ...series,
-    scalars: { ...series.scalars, heading: NO_SAMPLES, altitude: NO_SAMPLES, salinity: NO_SAMPLES, pressure: NO_SAMPLES },
+    scalars: { ...series.scalars, salinity: NO_SAMPLES, pressure: NO_SAMPLES },
   };
 }
 
@@ -344,7 +368,7 @@ export type StampResult = {
 };
 
 /**
- * Gives every entry of a dive the log's depth, position and temperature at its time, except the
+ * Gives every entry of a dive the log's depth, position, temperature, heading and altitude at its time, except the
  * values a person typed (`manual`); where the log has nothing, the value becomes null with no
  * source rather than a guess. Neither `version` nor `updatedAt` changes: this is not an edit.
  * Runs inside the caller's transaction.
@@ -363,14 +387,34 @@ export function stampDiveObservations(db: Db, diveId: string, series: TelemetryS
     filled = 0;
   };
   for (const row of q.rows(diveId)) {
-    const [id, t, retired, depth, depthSource, lat, lon, positionSource, temperature, temperatureSource, rowid] = row;
+    const [
+      id,
+      t,
+      retired,
+      depth,
+      depthSource,
+      lat,
+      lon,
+      positionSource,
+      temperature,
+      temperatureSource,
+      heading,
+      headingSource,
+      altitude,
+      altitudeSource,
+      rowid,
+    ] = row;
     const keepDepth = depthSource === 'manual';
     const keepPosition = positionSource === 'manual';
     const keepTemperature = temperatureSource === 'manual';
-    if (keepDepth && keepPosition && keepTemperature) continue;
+    const keepHeading = headingSource === 'manual';
+    const keepAltitude = altitudeSource === 'manual';
+    if (keepDepth && keepPosition && keepTemperature && keepHeading && keepAltitude) continue;
     const fix = sampleAt(view, t, options);
     const hasPosition = fix.lat !== null && fix.lon !== null;
-    if (!retired && fix.depth === null && !hasPosition && fix.temperature === null) result.noTelemetry++;
+    if (!retired && fix.depth === null && !hasPosition && fix.temperature === null && fix.heading === null && fix.altitude === null) {
+      result.noTelemetry++;
+    }
     const nDepth = keepDepth ? depth : fix.depth;
     const nDepthSource = keepDepth ? 'manual' : fix.depth !== null ? 'telemetry' : null;
     const nLat = keepPosition ? lat : hasPosition ? fix.lat : null;
@@ -378,6 +422,10 @@ export function stampDiveObservations(db: Db, diveId: string, series: TelemetryS
     const nPositionSource = keepPosition ? 'manual' : hasPosition ? 'telemetry' : null;
     const nTemperature = keepTemperature ? temperature : fix.temperature;
     const nTemperatureSource = keepTemperature ? 'manual' : fix.temperature !== null ? 'telemetry' : null;
+    const nHeading = keepHeading ? heading : fix.heading;
+    const nHeadingSource = keepHeading ? 'manual' : fix.heading !== null ? 'telemetry' : null;
+    const nAltitude = keepAltitude ? altitude : fix.altitude;
+    const nAltitudeSource = keepAltitude ? 'manual' : fix.altitude !== null ? 'telemetry' : null;
     if (
       nDepth === depth &&
       nDepthSource === depthSource &&
@@ -385,7 +433,11 @@ export function stampDiveObservations(db: Db, diveId: string, series: TelemetryS
       nLon === lon &&
       nPositionSource === positionSource &&
       nTemperature === temperature &&
-      nTemperatureSource === temperatureSource
+      nTemperatureSource === temperatureSource &&
+      nHeading === heading &&
+      nHeadingSource === headingSource &&
+      nAltitude === altitude &&
+      nAltitudeSource === altitudeSource
     ) {
       continue;
     }
@@ -397,7 +449,11 @@ export function stampDiveObservations(db: Db, diveId: string, series: TelemetryS
     batch[o++] = nLon;
     batch[o++] = nPositionSource;
     batch[o++] = nTemperature;
-    batch[o] = nTemperatureSource;
+    batch[o++] = nTemperatureSource;
+    batch[o++] = nHeading;
+    batch[o++] = nHeadingSource;
+    batch[o++] = nAltitude;
+    batch[o] = nAltitudeSource;
     filled++;
     result.changed.push({ id, retired: retired === 1 });
     if (filled === STAMP_BATCH) flush();

@@ -102,6 +102,8 @@ export function updateObservation(
       lat: keep(input.lat, row.lat, row.positionSource),
       lon: keep(input.lon, row.lon, row.positionSource),
       temperature: keep(input.temperature, row.temperature, row.temperatureSource),
+      heading: keep(input.heading, row.heading, row.headingSource),
+      altitude: keep(input.altitude, row.altitude, row.altitudeSource),
     });
     tx.update(observations)
       .set({

@@ -1,15 +1,24 @@
 import type { Db } from '../../../db/client';
 import { telemetryValuesAt } from '../telemetry';
 
-type Typed = { depth?: number | null; lat?: number | null; lon?: number | null; temperature?: number | null };
+type Typed = {
+  depth?: number | null;
+  lat?: number | null;
+  lon?: number | null;
+  temperature?: number | null;
+  heading?: number | null;
+  altitude?: number | null;
+};
 
 /**
- * The depth, position and temperature an entry takes: what the person typed is `manual`;
+ * The depth, position, temperature, heading and altitude an entry takes: what the person typed is `manual`;
  * what they left empty comes from the telemetry log at that instant, when the log has a value.
  */
 export function stampValues(db: Db, diveId: string, at: Date, typed: Typed) {
   const fromLog =
-    typed.depth == null || typed.lat == null || typed.temperature == null ? telemetryValuesAt(db, diveId, at.getTime()) : null;
+    typed.depth == null || typed.lat == null || typed.temperature == null || typed.heading == null || typed.altitude == null
+      ? telemetryValuesAt(db, diveId, at.getTime())
+      : null;
   const pick = (manual: number | null | undefined, logged: number | null | undefined) =>
     manual != null
       ? { value: manual, source: 'manual' as const }
@@ -20,6 +29,8 @@ export function stampValues(db: Db, diveId: string, at: Date, typed: Typed) {
   const hasPosition = typed.lat != null && typed.lon != null;
   const loggedPosition = fromLog?.lat != null && fromLog.lon != null;
   const temperature = pick(typed.temperature, fromLog?.temperature);
+  const heading = pick(typed.heading, fromLog?.heading);
+  const altitude = pick(typed.altitude, fromLog?.altitude);
   return {
     depth: depth.value,
     depthSource: depth.source,
@@ -28,5 +39,9 @@ export function stampValues(db: Db, diveId: string, at: Date, typed: Typed) {
     positionSource: hasPosition ? ('manual' as const) : loggedPosition ? ('telemetry' as const) : null,
     temperature: temperature.value,
     temperatureSource: temperature.source,
+    heading: heading.value,
+    headingSource: heading.source,
+    altitude: altitude.value,
+    altitudeSource: altitude.source,
   };
 }
