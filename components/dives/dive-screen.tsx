@@ -19,6 +19,7 @@ import { useDiveLive } from '@/hooks/live';
 import { useDiveLog, type DiveLogFilters } from '@/hooks/observations';
 import { useSendQueueFlush } from '@/hooks/send-queue';
 import { useTheme } from '@/hooks/theme';
+import { formatUtcTime } from '@/lib/format';
 import { can } from '@/lib/permissions';
 import type { Observation } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
@@ -97,6 +98,11 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const header = dive.data ? (
     <View style={styles.listHeader}>
       <DivePhases dive={dive.data} />
+      {dive.data.phases.onDeck ? (
+        <Text variant="label" testID="dive-ended">
+          Dive ended {formatUtcTime(dive.data.phases.onDeck).replace(/:\d\dZ$/, '')} UTC — logging from video
+        </Text>
+      ) : null}
       {role === 'lead' || role === 'pilot' ? <PhaseControls dive={dive.data} /> : null}
       {editingPlan ? (
         <DivePlanForm
@@ -194,7 +200,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
         back={dive.data ? `/campaigns/${dive.data.campaignId}` : '/'}
         right={
           <View style={styles.actions}>
-            <LiveStatusBadge status={live.status} />
+            <LiveStatusBadge status={live.status} ended={!!dive.data?.phases.onDeck} />
             <GalleryLink diveId={diveId} />
             <Button
               label="Summary"

@@ -6,16 +6,19 @@ import { useTheme } from '@/hooks/theme';
 import { space } from '@/lib/tokens';
 
 const labels: Record<LiveStatus, string> = { live: 'Live', connecting: 'Reconnecting…', offline: 'Not live' };
+/** After the dive: colleagues may still log from the video, so the stream stays open, but nothing is "live". */
+const endedLabels: Record<LiveStatus, string> = { live: 'Updates on', connecting: 'Reconnecting…', offline: 'No updates' };
 
 /** Whether the dive log is following the stream: readers on a thin link need to know. */
-export function LiveStatusBadge({ status }: { status: LiveStatus }) {
+export function LiveStatusBadge({ status, ended = false }: { status: LiveStatus; ended?: boolean }) {
   const { colors } = useTheme();
-  const tint = status === 'live' ? colors.success : status === 'connecting' ? colors.warning : colors.textMuted;
+  const tint = ended ? colors.textMuted : status === 'live' ? colors.success : status === 'connecting' ? colors.warning : colors.textMuted;
+  const text = (ended ? endedLabels : labels)[status];
   return (
-    <View style={styles.row} testID="live-status" accessibilityLabel={`Live updates: ${labels[status]}`} aria-live="polite">
-      <View style={[styles.dot, { backgroundColor: tint }]} />
+    <View style={styles.row} testID="live-status" accessibilityLabel={`Updates: ${text}`} aria-live="polite">
+      {ended ? null : <View style={[styles.dot, { backgroundColor: tint }]} />}
       <Text variant="caption" color={tint} testID={`live-status-${status}`}>
-        {labels[status]}
+        {text}
       </Text>
     </View>
   );

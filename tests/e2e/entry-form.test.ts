@@ -112,4 +112,15 @@ describe('the entry form at phone size', () => {
     expect(await card.getByTestId('observation-time').first().textContent()).toBe('2026-11-30 09:15:00Z');
     expect(bio.errors).toEqual([]);
   });
+
+  it('says a finished dive has ended and is logged from the video, not that it is live', async () => {
+    const page = bio.page;
+    await page.goto(`${server.url}/dives/${diveId}`);
+    const ended = page.getByTestId('dive-ended');
+    await ended.waitFor();
+    expect(await ended.textContent()).toMatch(/^Dive ended \d\d:\d\d UTC — logging from video$/);
+    await page.getByTestId('live-status-live').waitFor();
+    expect(await page.getByTestId('live-status').textContent()).toBe('Updates on');
+    expect(bio.errors).toEqual([]);
+  });
 });
