@@ -1,11 +1,12 @@
-import { spawn } from 'node:child_process';
+import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 
 import { hashPassword } from 'better-auth/crypto';
 import Database from 'better-sqlite3';
 
-import { startServerProcess } from '../helpers/server-process';
+import { freePort, startServerProcess } from '../helpers/server-process';
 import { memoryOf, signIn } from './process';
 import { percentile, Writers, type WriteRound } from './writers';
 
@@ -15,20 +16,62 @@ const STEADY_S = 40;
 const BURST_S = 20;
 const HERD_ROUNDS = 10;
 
+/** Where taskset exists and there are two or more cores: the server on CPU 0, everything else on the rest. */
+function pinning(): { server: string; rest: string } | undefined {
+  const cores = os.cpus().length;
+  if (cores < 2) return undefined;
+  try {
+    const rest = cores === 2 ? '1' : `1-${cores - 1}`;
+    execFileSync('taskset', ['-apc', rest, String(process.pid)], { stdio: 'ignore' });
+    return { server: '0', rest };
+  } catch {
+    return undefined;
+  }
+}
+
+/** The bare endpoint on the same stack (tests/bench/baseline-server.ts), in its own process. */
+async function startBaseline(cpus: string | undefined): Promise<{ url: string; child: ChildProcess; stop: () => void }> {
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'bathynote-baseline-'));
+  const port = await freePort();
+  const args = ['--import', 'tsx', 'tests/bench/baseline-server.ts', String(port), path.join(dir, 'baseline.db')];
+  const child = cpus ? spawn('taskset', ['-c', cpus, process.execPath, ...args]) : spawn(process.execPath, args);
+  let out = '';
+  child.stdout.on('data', (d: Buffer) => (out += d.toString()));
+  for (let waited = 0; !out.includes('listening'); waited += 100) {
+    if (waited > 30_000 || child.exitCode !== null) throw new Error(`baseline server did not start: ${out}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  return {
+    url: `http://127.0.0.1:${port}`,
+    child,
+    stop: () => {
+      child.kill();
+      rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
 /**
  * 20 people log one dive (one entry each per 5 s, then a burst at ten times that) while 200
  * readers ashore follow its live stream. The server runs in its own process, as in production.
+ * The same schedule then runs against a bare endpoint on the same stack, in the same run, and
+ * every figure is printed with its ratio to that baseline.
  */
 export async function benchLiveLoad(): Promise<void> {
+  const pinned = pinning();
   // Its readers share a few sessions, far past the per-session and per-person stream caps.
-  const server = await startServerProcess({
-    LOG_LEVEL: 'silent',
-    AUTH_RATE_LIMIT: '10000',
-    API_RATE_LIMIT: '10000000',
-    STREAM_MAX_PER_SESSION: '10000',
-    STREAM_MAX_PER_PERSON: '10000',
-  });
+  const server = await startServerProcess(
+    {
+      LOG_LEVEL: 'silent',
+      AUTH_RATE_LIMIT: '10000',
+      API_RATE_LIMIT: '10000000',
+      STREAM_MAX_PER_SESSION: '10000',
+      STREAM_MAX_PER_PERSON: '10000',
+    },
+    pinned ? { cpus: pinned.server } : {},
+  );
   let readers: ReturnType<typeof spawn> | undefined;
+  let baseline: Awaited<ReturnType<typeof startBaseline>> | undefined;
   try {
     const db = new Database(path.join(server.dir, 'bathynote.db'));
     const campaignId = (db.prepare("select id from campaigns where name = 'Varn Shoal 2026'").get() as { id: string }).id;
@@ -103,6 +146,21 @@ export async function benchLiveLoad(): Promise<void> {
     clearInterval(sampler);
     const received = stream.received + herdStream.received;
 
+    // The same schedule against the bare endpoint, with the readers gone.
+    baseline = await startBaseline(pinned?.server);
+    const bare = new Writers(`${baseline.url}/entries`, writerCookies, () =>
+      JSON.stringify({
+        kind: 'biology',
+        title: `Load entry ${Math.random().toString(36).slice(2, 8)}`,
+        tags: ['coral'],
+        note: 'Polyps *extended*.',
+      }),
+    );
+    const bareSteady = await bare.schedule(5000, STEADY_S);
+    const bareBurst = await bare.schedule(500, BURST_S);
+    const bareHerd = await bare.herd(HERD_ROUNDS);
+    bare.close();
+
     const sent = (
       db
         .prepare("select count(*) as n from live_events where id > ? and dive_id = ? and type = 'observation.created'")
@@ -112,17 +170,24 @@ export async function benchLiveLoad(): Promise<void> {
     const memory = memoryOf(server.child.pid!);
     const expected = sent * READERS;
     const ms = (v: number) => `${v.toFixed(0)} ms`;
-    const line = (name: string, r: WriteRound) =>
-      `  ${name.padEnd(7)} ${(r.sent / r.seconds).toFixed(1).padStart(6)} req/s   write p50 ${ms(percentile(r.latencies, 50))}   p99 ${ms(percentile(r.latencies, 99))}   max ${ms(Math.max(...r.latencies))}   server p50 ${ms(percentile(r.serverMs, 50))} p99 ${ms(percentile(r.serverMs, 99))}   non-2xx ${r.non2xx}   errors ${r.errors}`;
+    const ratio = (v: number, base: number) => (base > 0 ? `${(v / base).toFixed(1)}x` : '-');
+    const line = (name: string, r: WriteRound, base: WriteRound) =>
+      [
+        `  ${name.padEnd(7)} ${(r.sent / r.seconds).toFixed(1).padStart(6)} req/s   write p50 ${ms(percentile(r.latencies, 50))}   p99 ${ms(percentile(r.latencies, 99))}   max ${ms(Math.max(...r.latencies))}   server p50 ${ms(percentile(r.serverMs, 50))} p99 ${ms(percentile(r.serverMs, 99))}   non-2xx ${r.non2xx}   errors ${r.errors}`,
+        `          baseline write p50 ${ms(percentile(base.latencies, 50))}   p99 ${ms(percentile(base.latencies, 99))}   server p99 ${ms(percentile(base.serverMs, 99))}   ratio write p99 ${ratio(percentile(r.latencies, 99), percentile(base.latencies, 99))}   server p99 ${ratio(percentile(r.serverMs, 99), percentile(base.serverMs, 99))}`,
+      ].join('\n');
     process.stdout.write(
       [
         `${WRITERS} writers (one entry each per 5 s for ${STEADY_S} s, then 10× for ${BURST_S} s, turns spread evenly), ${READERS} live readers, server in its own process`,
-        line('steady', steady),
-        line('burst', burst),
-        `  (write: from the moment an entry was due to its answer, target p99 <= 50 ms; server: its own time, from Server-Timing; the load generators share these ${os.cpus().length} cores)`,
-        line('herd', herd),
-        `  (herd: all ${WRITERS} press send in the same instant, ${HERD_ROUNDS} times, a second apart; the worst case of a busy moment, no target)`,
-        `  stream  delay p50 ${stream.p50} ms   p99 ${stream.p99} ms   max ${stream.max} ms   (steady and burst; target p99 <= 250 ms)   herd p50 ${herdStream.p50} ms   p99 ${herdStream.p99} ms`,
+        pinned
+          ? `  (server under test and baseline pinned to CPU ${pinned.server}; load generators and readers on CPU ${pinned.rest}, with taskset)`
+          : '  (no pinning: taskset missing or one core)',
+        line('steady', steady, bareSteady),
+        line('burst', burst, bareBurst),
+        `  (write: from the moment an entry was due to its answer; server: its own time, from Server-Timing; targets: write p99 <= 1.5x the baseline's, server p99 <= 30 ms)`,
+        line('herd', herd, bareHerd),
+        `  (herd: all ${WRITERS} press send in the same instant, ${HERD_ROUNDS} times, a second apart; targets: write p99 <= 2x the baseline's, server p99 <= 60 ms)`,
+        `  stream  delay p50 ${stream.p50} ms   p99 ${stream.p99} ms   max ${stream.max} ms   (steady and burst; target p99 <= 100 ms)   herd p50 ${herdStream.p50} ms   p99 ${herdStream.p99} ms`,
         `  events  ${sent} entries published, ${received} of ${expected} deliveries received (${expected - received} lost)`,
         `  memory  server rss ${memory.rssMb.toFixed(0)} MB now, peak ${Math.max(peakMb, memory.peakMb).toFixed(0)} MB`,
         '',
@@ -130,6 +195,7 @@ export async function benchLiveLoad(): Promise<void> {
     );
   } finally {
     readers?.kill();
+    baseline?.stop();
     await server.stop();
   }
 }

@@ -31,32 +31,35 @@ export async function freePort(): Promise<number> {
  */
 export async function startServerProcess(
   env: Record<string, string> = {},
-  options: { script?: string; dir?: string; keepDir?: boolean } = {},
+  options: {
+    script?: string;
+    dir?: string;
+    keepDir?: boolean;
+    /** Pin the server to these CPUs (`taskset -c`), where taskset exists. */ cpus?: string;
+  } = {},
 ): Promise<ServerProcess> {
   const dir = options.dir ?? mkdtempSync(path.join(tmpdir(), 'bathynote-e2e-'));
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   let log = '';
   const entry = options.script ? ['--import', 'tsx', options.script] : [(bundle ??= buildServer())];
-  const child = spawn(
-    process.execPath,
-    [...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []), ...entry],
-    {
-      cwd: root,
-      env: {
-        ...process.env,
-        NODE_ENV: 'production',
-        PORT: String(port),
-        HOST: '127.0.0.1',
-        DATABASE_PATH: path.join(dir, 'bathynote.db'),
-        UPLOADS_DIR: path.join(dir, 'uploads'),
-        BATHYNOTE_DEMO: '1',
-        LOG_LEVEL: 'error',
-        ...env,
-      },
-      stdio: ['ignore', 'pipe', 'pipe'],
+  const args = [...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []), ...entry];
+  // taskset runs the server in its own place (exec), so the child's pid is the server's.
+  const child = spawn(options.cpus ? 'taskset' : process.execPath, options.cpus ? ['-c', options.cpus, process.execPath, ...args] : args, {
+    cwd: root,
+    env: {
+      ...process.env,
+      NODE_ENV: 'production',
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      DATABASE_PATH: path.join(dir, 'bathynote.db'),
+      UPLOADS_DIR: path.join(dir, 'uploads'),
+      BATHYNOTE_DEMO: '1',
+      LOG_LEVEL: 'error',
+      ...env,
     },
-  );
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   child.stdout?.on('data', (d: Buffer) => (log += d.toString()));
   child.stderr?.on('data', (d: Buffer) => (log += d.toString()));
   const deadline = Date.now() + 60_000;
