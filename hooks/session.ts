@@ -1,6 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 
+import { isReturnPath } from '@/lib/return-path';
 import { meSchema, type Me } from '@/lib/schemas';
 import { ApiError, request } from './api';
 import { sessionKeys } from './query-keys';
@@ -20,6 +21,20 @@ export const meQuery = queryOptions({
   },
   staleTime: 60_000,
 });
+
+let returnPath: string | null = null;
+
+/** Keeps the path a signed-out person opened (a deep link), to land on after signing in: a path of this site only. */
+export function rememberReturnPath(path: string | null) {
+  returnPath = isReturnPath(path) ? path : null;
+}
+
+/** The kept deep link, once. */
+export function takeReturnPath(): string | null {
+  const path = returnPath;
+  returnPath = null;
+  return path;
+}
 
 export function useMe() {
   return useQuery(meQuery);

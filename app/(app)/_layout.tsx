@@ -1,12 +1,20 @@
-import { Stack } from 'expo-router';
+import { Stack, useRouter } from 'expo-router';
+import { useEffect } from 'react';
 
 import { AppShell } from '@/components/layout/app-shell';
 import { useSendQueueSender } from '@/hooks/send-queue';
+import { takeReturnPath } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 
 export default function AppLayout() {
   const { colors } = useTheme();
   useSendQueueSender();
+  const router = useRouter();
+  // Just signed in from a deep link: land where it pointed, not on the campaign list.
+  useEffect(() => {
+    const path = takeReturnPath();
+    if (path) router.replace(path);
+  }, [router]);
   return (
     <AppShell>
       <Stack screenOptions={{ headerShown: false, animation: 'none', contentStyle: { backgroundColor: colors.bg } }} />

@@ -1,16 +1,20 @@
-import { useRef, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { KeyboardAvoidingView, Platform, StyleSheet, View, type TextInput } from 'react-native';
 
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Text } from '@/components/ui/text';
 import { ApiError } from '@/hooks/api';
-import { useSignIn } from '@/hooks/session';
+import { rememberReturnPath, useSignIn } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { radius, space } from '@/lib/tokens';
 
+/** The address the app was opened at, read before the router moves a signed-out person to this screen. */
+const openedAt = typeof window !== 'undefined' && window.location ? window.location.pathname + window.location.search : null;
+
 export function SignInForm() {
   const { colors } = useTheme();
+  useEffect(() => rememberReturnPath(openedAt), []);
   const signIn = useSignIn();
   const [email, setEmail] = useState('');
   const [password, setPassword] = useState('');
