@@ -6,6 +6,7 @@ import type { DigestFrequency, DigestTrigger } from '../lib/schemas/digests';
 import type { MailKind, MailState } from '../lib/schemas/mail';
 import type { ExportLicence, PublicPositionMode } from '../lib/schemas/exports';
 import type { identificationConfidences, identificationQualifiers, taxonRanks } from '../lib/schemas/record';
+import type { SampleType } from '../lib/schemas/samples';
 
 const id = () =>
   text('id')
@@ -288,6 +289,31 @@ export const finds = sqliteTable(
     updatedAt: updatedAt(),
   },
   (t) => [uniqueIndex('find_number_unique').on(t.campaignId, sql`lower(${t.findNumber})`)],
+);
+
+/** A biology or environment entry's sample: its number in the campaign's register and how it was taken and kept. */
+export const samples = sqliteTable(
+  'samples',
+  {
+    observationId: text('observation_id')
+      .primaryKey()
+      .references(() => observations.id, { onDelete: 'cascade' }),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    sampleNumber: text('sample_number').notNull(),
+    sampleType: text('sample_type').$type<SampleType>().notNull(),
+    gear: text('gear'),
+    /** Where it was stowed on the vehicle (a container or slot). */
+    container: text('container'),
+    preservation: text('preservation'),
+    /** A subsample's parent, by its number in the same campaign. */
+    parentSampleNumber: text('parent_sample_number'),
+    /** The lab that receives it. */
+    lab: text('lab'),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex('sample_number_unique').on(t.campaignId, sql`lower(${t.sampleNumber})`)],
 );
 
 /** Who held a recovered find or a sample, since when, and where it was kept. */
