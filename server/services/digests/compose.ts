@@ -160,10 +160,10 @@ export function composeDigest(
   context: { trigger: DigestTrigger; diveId?: string; links: DigestLinks; cache: ComposeCache },
 ): ComposedDigest | null {
   const where = conditions(campaign.id, recipient.filters, window, context.diveId);
-  const total = db.select({ n: count() }).from(observations).where(where).get()?.n ?? 0;
-  if (total === 0) return null;
+  // The window count gives every match's number with the first rows, in one pass over the entries.
   const rows = db
     .select({
+      total: sql<number>`count(*) over ()`,
       id: observations.id,
       diveId: observations.diveId,
       kind: observations.kind,
@@ -184,6 +184,8 @@ export function composeDigest(
     )
     .limit(MAX_ROWS)
     .all();
+  const total = rows[0]?.total ?? 0;
+  if (total === 0) return null;
 
   const { cache, links } = context;
   const missing = rows.filter((r) => !cache.entries.has(r.id)).map((r) => r.id);
