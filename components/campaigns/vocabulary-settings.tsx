@@ -19,6 +19,7 @@ import {
   useUpdateTag,
 } from '@/hooks/campaigns';
 import { useTheme } from '@/hooks/theme';
+import { can } from '@/lib/permissions';
 import { observationKinds, SAMPLE_TAG, type ObservationKind, type QuickMark, type Tag } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { kindLabels } from '../observations/kind-badge';
@@ -29,7 +30,7 @@ export function VocabularySettings({ campaignId }: { campaignId: string }) {
   const campaign = useCampaign(campaignId);
   if (campaign.isPending) return <LoadingState />;
   if (campaign.isError) return <ErrorState error={campaign.error} />;
-  const isLead = campaign.data.myRole === 'lead';
+  const isLead = can(campaign.data.myRole, 'vocabulary.manage');
   return (
     <View style={styles.wrap}>
       {isLead ? null : <Text muted>Only a campaign lead changes the vocabulary and the quick marks.</Text>}

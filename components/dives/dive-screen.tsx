@@ -103,7 +103,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
           Dive ended {formatUtcTime(dive.data.phases.onDeck).replace(/:\d\dZ$/, '')} UTC — logging from video
         </Text>
       ) : null}
-      {role === 'lead' || role === 'pilot' ? <PhaseControls dive={dive.data} /> : null}
+      {can(role, 'dive.run') ? <PhaseControls dive={dive.data} /> : null}
       {editingPlan ? (
         <DivePlanForm
           campaignId={dive.data.campaignId}
@@ -123,7 +123,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
           ) : null}
         </View>
       )}
-      {role && role !== 'admin' ? <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} /> : null}
+      {can(role, 'entry.create') ? <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} /> : null}
       <View style={styles.tools}>
         <Button
           label={showFilters ? 'Hide filters' : 'Filter'}
@@ -166,7 +166,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
         }}
       />
       {showFilters ? (
-        <LogFilters campaignId={dive.data.campaignId} filters={filters} onChange={setFilters} isLead={role === 'lead'} />
+        <LogFilters campaignId={dive.data.campaignId} filters={filters} onChange={setFilters} isLead={can(role, 'entry.seeRetired')} />
       ) : null}
     </View>
   ) : undefined;

@@ -10,11 +10,12 @@ import { ApiError } from '@/hooks/api';
 import { nextFindNumberQuery, useAddCustody, useSetFind } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import { formatUtc, parseUtcInput, toUtcInput } from '@/lib/format';
+import { can, type AccessRole } from '@/lib/permissions';
 import { SAMPLE_TAG, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { useFormToggle, useVersionedSave, VersionedForm, type ConflictField } from './record-conflict';
 
-type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
+type Props = { observation: ObservationDetail; myRole: AccessRole | undefined; myId: string | undefined };
 
 /** The caution shown wherever a recovery is recorded. */
 export function RecoveryCaution() {
@@ -34,7 +35,7 @@ export function RecoveryCaution() {
 export function FindPanel({ observation: o, myRole, myId }: Props) {
   const { colors } = useTheme();
   const { editing, open, formKey, formProps } = useFormToggle();
-  const mayEdit = myRole === 'lead' || myRole === 'scientist' || o.authorId === myId;
+  const mayEdit = can(myRole, 'find.edit', { isAuthor: o.authorId === myId });
   const find = o.find;
   return (
     <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="find">

@@ -9,11 +9,12 @@ import { ApiError } from '@/hooks/api';
 import { useSetIdentification, useVerifyIdentification } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import { formatScientificName, formatUtc } from '@/lib/format';
+import { can, type AccessRole } from '@/lib/permissions';
 import { identificationConfidences, identificationQualifiers, taxonRanks, type ObservationDetail } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { useFormToggle, useVersionedSave, VersionedForm, type ConflictField } from './record-conflict';
 
-type Props = { observation: ObservationDetail; myRole: string | undefined; myId: string | undefined };
+type Props = { observation: ObservationDetail; myRole: AccessRole | undefined; myId: string | undefined };
 
 const statusLabel = { unverified: 'Not verified yet', verified: 'Verified', disputed: 'Disputed' } as const;
 
@@ -23,9 +24,10 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
   const ident = o.identificationDetail;
   const { editing, open, formKey, formProps } = useFormToggle();
   const verify = useVerifyIdentification(o.id);
-  const mayPropose = myRole === 'lead' || myRole === 'scientist' || o.authorId === myId;
-  // Nobody verifies a name they proposed or an entry they wrote, leads included (as the server rules).
-  const mayVerify = !!ident && (myRole === 'lead' || myRole === 'scientist') && ident.identifiedBy !== myId && o.authorId !== myId;
+  const isAuthor = o.authorId === myId;
+  const mayPropose = can(myRole, 'identification.propose', { isAuthor });
+  // Nobody verifies a name they proposed or an entry they wrote, leads included (the permission table's rule).
+  const mayVerify = !!ident && can(myRole, 'identification.verify', { isAuthor, isIdentifier: ident.identifiedBy === myId });
   // What this person cannot do here, and why, as the server rules it.
   const reason = !myRole
     ? null

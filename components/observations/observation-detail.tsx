@@ -15,6 +15,7 @@ import { useFollowDive } from '@/hooks/live';
 import { useObservation, useRestoreObservation, useRetireEntry } from '@/hooks/observations';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
+import { can } from '@/lib/permissions';
 import { formatDepth, formatInZone, formatLatLon, formatTemperature, formatUtc } from '@/lib/format';
 import { formatHeading } from '@/lib/heading';
 import type { Observation, ObservationDetail as Detail } from '@/lib/schemas';
@@ -45,7 +46,7 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
   const dive = useDive(o.diveId).data;
   const me = useMe().data;
   const role = campaign?.myRole;
-  const mayEdit = role === 'lead' || (!!me && o.authorId === me.user.id && role !== 'admin');
+  const mayEdit = can(role, 'entry.edit', { isAuthor: !!me && o.authorId === me.user.id });
   // The sea pressure at the entry's depth, for comparing with instruments that log pressure.
   const latitude = o.lat ?? campaign?.datumLat;
   const atDepth = o.depth !== null && latitude !== undefined ? pressureFromDepth(o.depth, latitude) : Number.NaN;

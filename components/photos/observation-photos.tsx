@@ -4,6 +4,7 @@ import { StyleSheet, View } from 'react-native';
 import { Text } from '@/components/ui/text';
 import { useCampaign } from '@/hooks/campaigns';
 import { useMe } from '@/hooks/session';
+import { can } from '@/lib/permissions';
 import type { ObservationDetail } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { GalleryLink } from './gallery-link';
@@ -16,7 +17,7 @@ export function ObservationPhotos({ observation }: { observation: ObservationDet
   const me = useMe().data;
   const campaign = useCampaign(observation.campaignId).data;
   const [open, setOpen] = useState<number | null>(null);
-  const canEdit = !observation.retired && (me?.user.id === observation.authorId || campaign?.myRole === 'lead');
+  const canEdit = !observation.retired && can(campaign?.myRole, 'photo.edit', { isAuthor: me?.user.id === observation.authorId });
   const count = observation.photos.length;
 
   return (

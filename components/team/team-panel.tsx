@@ -7,6 +7,7 @@ import { useLayout } from '@/hooks/layout';
 import { useMe } from '@/hooks/session';
 import { useCampaignMembers } from '@/hooks/team';
 import { useTheme } from '@/hooks/theme';
+import { can } from '@/lib/permissions';
 import { radius, space } from '@/lib/tokens';
 import { CampaignSetup } from './campaign-setup';
 import { InvitationList } from './invitation-list';
@@ -28,7 +29,7 @@ export function TeamPanel({ campaignId }: { campaignId: string }) {
   if (campaign.isError) return <ErrorState error={campaign.error} onRetry={() => void campaign.refetch()} />;
   if (members.isError) return <ErrorState error={members.error} onRetry={() => void members.refetch()} />;
 
-  const isLead = campaign.data.myRole === 'lead';
+  const isLead = can(campaign.data.myRole, 'team.manage');
   const sideBySide = isLead && splitView;
   const roster = (
     <View style={[styles.column, sideBySide && styles.half]}>

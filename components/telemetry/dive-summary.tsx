@@ -10,6 +10,7 @@ import { useLayout } from '@/hooks/layout';
 import { useFollowDive } from '@/hooks/live';
 import { useDiveSummary, useTelemetry } from '@/hooks/telemetry';
 import { useTheme } from '@/hooks/theme';
+import { can } from '@/lib/permissions';
 import { formatUtc } from '@/lib/format';
 import type { TelemetrySamples } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
@@ -48,7 +49,7 @@ export function DiveSummaryView({ diveId }: { diveId: string }) {
   if (!dive.data || !samples.data || !summary.data) return <LoadingState label="Loading the dive’s log…" />;
 
   const role = campaign.data?.myRole;
-  const mayImport = role === 'lead' || role === 'pilot';
+  const mayImport = can(role, 'telemetry.import');
   const hasLog = samples.data.sampleCount > 0;
   const plotHeight = splitView ? 320 : 260;
 
