@@ -63,6 +63,7 @@ export const errorCodes = [
   'reserved_tag',
   'already_member',
   'already_invited',
+  'password_exists',
   'invitation_accepted',
   'invitation_revoked',
   'last_lead',
@@ -102,6 +103,8 @@ export const meSchema = z.object({
   user: z.object({ id, name: z.string(), email: z.string() }),
   siteRole: z.enum(['admin', 'user']),
   memberships: z.array(membershipSchema),
+  /** The account has a password; a person who joined by an invitation link has none until they set one. */
+  hasPassword: z.boolean(),
 });
 export type Me = z.infer<typeof meSchema>;
 

@@ -97,3 +97,10 @@ export const invitationSchema = z.object({
 export type Invitation = z.infer<typeof invitationSchema>;
 
 export const memberUpdateSchema = z.object({ role: z.enum(campaignRoles) }).strict();
+
+/** A first password, for an account that has none (a person who joined by an invitation link). */
+export const passwordSetSchema = z
+  .object({
+    newPassword: z.string().min(8, 'Passwords have 8 to 128 characters').max(128, 'Passwords have 8 to 128 characters'),
+  })
+  .strict();

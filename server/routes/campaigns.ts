@@ -1,12 +1,20 @@
+import { fromNodeHeaders } from 'better-auth/node';
 import { Router, type RequestHandler } from 'express';
 
-import { campaignCreateSchema, campaignUpdateSchema, quickMarkInputSchema, tagCreateSchema, tagUpdateSchema } from '../../lib/schemas';
+import {
+  campaignCreateSchema,
+  campaignUpdateSchema,
+  passwordSetSchema,
+  quickMarkInputSchema,
+  tagCreateSchema,
+  tagUpdateSchema,
+} from '../../lib/schemas';
 import type { AppContext } from '../context';
-import { forbidden, notFound } from '../errors';
+import { conflict, forbidden, notFound } from '../errors';
 import { accessOf, byCampaign, requireCampaignRole, requirePermission, type CampaignResolver } from '../middleware/campaign-access';
 import { requireSession, userOf } from '../middleware/session';
 import { validate } from '../middleware/validate';
-import { getCampaign, listCampaigns, listMembers, listTags, me } from '../services/campaigns';
+import { getCampaign, hasPassword, listCampaigns, listMembers, listTags, me } from '../services/campaigns';
 import { listDives } from '../services/dives';
 import { nextFindNumber } from '../services/record';
 import { createCampaign, updateCampaign } from '../services/team';
@@ -35,6 +43,17 @@ export function campaignRoutes(ctx: AppContext): Router {
 
   r.get('/me', signedIn, (req, res) => {
     res.json(me(db, userOf(req)));
+  });
+
+  // A person who joined by an invitation link has no password to give as the current one:
+  // they set a first one here (better-auth's own server-side password setting).
+  const firstPassword = validate(passwordSetSchema);
+  r.post('/me/password', signedIn, firstPassword, async (req, res) => {
+    if (hasPassword(db, userOf(req).id)) {
+      throw conflict('password_exists', 'This account already has a password: change it with the current one.');
+    }
+    await auth.api.setPassword({ body: firstPassword.of(req), headers: fromNodeHeaders(req.headers) });
+    res.status(204).end();
   });
 
   r.get('/campaigns', signedIn, (req, res) => {

@@ -18,7 +18,15 @@ export function me(db: Db, sessionUser: SessionUser): Me {
     user: { id: sessionUser.id, name: sessionUser.name, email: sessionUser.email },
     siteRole: sessionUser.siteRole,
     memberships: rows,
+    hasPassword: hasPassword(db, sessionUser.id),
   };
+}
+
+/** Whether the account signs in with a password (better-auth keeps it on the credential account). */
+export function hasPassword(db: Db, userId: string): boolean {
+  return !!db.$client
+    .prepare("select 1 from account where user_id = ? and provider_id = 'credential' and password is not null")
+    .get(userId);
 }
 
 function countsBy(db: Db, table: typeof dives | typeof observations, ids: string[]) {
