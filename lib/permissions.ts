@@ -93,6 +93,11 @@ export const permissions = {
     authorRoles: members,
     refusal: 'record this find: scientists, leads and the entry’s author may',
   },
+  'sample.edit': {
+    roles: ['lead'],
+    authorRoles: members,
+    refusal: 'record this sample: only the entry’s author or a campaign lead may',
+  },
   'custody.record': {
     roles: ['lead', 'scientist', 'pilot'],
     authorRoles: ['guest'],

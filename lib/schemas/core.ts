@@ -8,6 +8,7 @@ import { z } from 'zod';
 import { exportLicences, publicPositionModes } from './publication';
 import { photoSchema } from './photos';
 import { custodyEventSchema, findSchema, identificationSchema, verificationStatuses } from './record';
+import { sampleSchema } from './samples';
 import { multiLine, oneLine } from './text';
 
 export const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
@@ -58,6 +59,7 @@ export const errorCodes = [
   'retired',
   'no_identification',
   'duplicate_find_number',
+  'duplicate_sample_number',
   'duplicate_dive_number',
   'duplicate_tag',
   'reserved_tag',
@@ -271,6 +273,8 @@ export const observationSchema = z.object({
     .nullable(),
   /** The find number (archaeology). */
   findNumber: z.string().nullable(),
+  /** The sample the entry carries (biology, environment). */
+  sample: sampleSchema.nullable(),
   authorId: id,
   authorName: z.string(),
   version: z.number().int(),

@@ -5,6 +5,7 @@ export * from './mail';
 export * from './exports';
 export * from './photos';
 export * from './record';
+export * from './samples';
 export * from './team';
 export * from './telemetry';
 export * from './search';

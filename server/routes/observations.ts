@@ -7,6 +7,7 @@ import {
   custodyInputSchema,
   findInputSchema,
   identificationInputSchema,
+  sampleInputSchema,
   observationCreateSchema,
   observationListQuerySchema,
   observationUpdateSchema,
@@ -28,6 +29,7 @@ import {
   updateObservation,
 } from '../services/observations';
 import { addCustody, setFind, setIdentification, verifyIdentification } from '../services/record';
+import { setSample } from '../services/samples';
 
 export function observationRoutes({ db, auth, live }: AppContext): Router {
   const r = Router();
@@ -62,6 +64,7 @@ export function observationRoutes({ db, auth, live }: AppContext): Router {
   const verification = validate(verificationInputSchema);
   const find = validate(findInputSchema);
   const custody = validate(custodyInputSchema);
+  const sample = validate(sampleInputSchema);
 
   r.get('/dives/:diveId/observations', signedIn, requirePermission(db, byDive, 'campaign.read'), listQuery, (req, res) => {
     const query = listQuery.of(req);
@@ -117,6 +120,10 @@ export function observationRoutes({ db, auth, live }: AppContext): Router {
 
   r.put('/observations/:id/find', ...onEntry('find.edit'), find, (req, res) => {
     res.json(setFind(db, live, id(req), actor(req), find.of(req)));
+  });
+
+  r.put('/observations/:id/sample', ...onEntry('sample.edit'), sample, (req, res) => {
+    res.json(setSample(db, live, id(req), actor(req), sample.of(req)));
   });
 
   r.post('/observations/:id/custody', ...onEntry('custody.record'), custody, (req, res) => {

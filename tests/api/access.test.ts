@@ -201,6 +201,11 @@ const table: Record<string, Row> = {
     path: () => `/api/observations/${f.observation}/find`,
     body: {},
   },
+  'PUT /api/observations/:id/sample': {
+    expect: authorAndLead,
+    path: () => `/api/observations/${f.observation}/sample`,
+    body: {},
+  },
   'POST /api/observations/:id/custody': {
     expect: R(403, 'ok', 'ok', 'ok', 403, 404, 401),
     path: () => `/api/observations/${f.observation}/custody`,

@@ -1,13 +1,13 @@
 /**
  * The one read model of an entry: a stored row plus its tags, author's name, photo count,
- * identification and find number, each fetched for a whole batch of rows in one query. Lists,
+ * identification, find number and sample, each fetched for a whole batch of rows in one query. Lists,
  * details, search, digests, exports and the live feed all read entries through here.
  */
 import { and, count, eq, inArray } from 'drizzle-orm';
 
 import type { Executor } from '../../../db/client';
-import { finds, identifications, observations, observationTags, photos, tags } from '../../../db/schema';
-import type { Observation } from '../../../lib/schemas';
+import { finds, identifications, observations, observationTags, photos, samples, tags } from '../../../db/schema';
+import type { Observation, Sample } from '../../../lib/schemas';
 import { namesOf, toObservation, type ObservationRow } from './map';
 
 /** Each entry's tag names, in name order. */
@@ -38,6 +38,30 @@ export function findNumbersOf(db: Executor, ids: readonly string[]): Map<string,
       .where(inArray(finds.observationId, [...ids]))
       .all()
       .map((f) => [f.id, f.n]),
+  );
+}
+
+/** The samples of entries by entry id, one query. */
+export function samplesOf(db: Executor, ids: readonly string[]): Map<string, Sample> {
+  if (ids.length === 0) return new Map();
+  return new Map(
+    db
+      .select()
+      .from(samples)
+      .where(inArray(samples.observationId, [...ids]))
+      .all()
+      .map((s) => [
+        s.observationId,
+        {
+          sampleNumber: s.sampleNumber,
+          sampleType: s.sampleType,
+          gear: s.gear,
+          container: s.container,
+          preservation: s.preservation,
+          parentSampleNumber: s.parentSampleNumber,
+          lab: s.lab,
+        },
+      ]),
   );
 }
 
@@ -72,6 +96,7 @@ export function hydrate(db: Executor, rows: ObservationRow[]): Observation[] {
       .map((i) => [i.observationId, i]),
   );
   const findNumbers = findNumbersOf(db, ids);
+  const samplesBy = samplesOf(db, ids);
   return rows.map((r) => {
     const ident = idents.get(r.id);
     return toObservation(r, {
@@ -82,6 +107,7 @@ export function hydrate(db: Executor, rows: ObservationRow[]): Observation[] {
         ? { scientificName: ident.scientificName, qualifier: ident.qualifier, verificationStatus: ident.verificationStatus }
         : null,
       findNumber: findNumbers.get(r.id) ?? null,
+      sample: samplesBy.get(r.id) ?? null,
     });
   });
 }

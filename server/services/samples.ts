@@ -1,0 +1,97 @@
+/**
+ * The sample register: the sample a biology or environment entry carries, numbered uniquely in
+ * its campaign, with subsamples naming their parent's number.
+ */
+import { and, eq, sql } from 'drizzle-orm';
+import type { z } from 'zod';
+
+import type { Db, Executor } from '../../db/client';
+import { samples } from '../../db/schema';
+import { compareSampleNumbers } from '../../lib/sample-numbers';
+import type { ObservationDetail, sampleInputSchema } from '../../lib/schemas';
+import { conflict, fieldError, notFound } from '../errors';
+import type { LiveHub } from './live';
+import { assertCurrent, getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
+
+export type SampleInput = z.output<typeof sampleInputSchema>;
+
+/** The campaign's sample numbers in natural order (S-2 before S-10). */
+export function sampleNumbersOf(db: Executor, campaignId: string): string[] {
+  return db
+    .select({ n: samples.sampleNumber })
+    .from(samples)
+    .where(eq(samples.campaignId, campaignId))
+    .all()
+    .map(({ n }) => n)
+    .sort(compareSampleNumbers);
+}
+
+/**
+ * The next free sample number: one more than the highest of the numbers sharing the last
+ * number's prefix, keeping its width ("S-009" → "S-010"); "S-001" for an empty register.
+ */
+export function nextSampleNumber(db: Executor, campaignId: string): string {
+  const numbers = sampleNumbersOf(db, campaignId);
+  const taken = new Set(numbers.map((n) => n.toLowerCase()));
+  const last = numbers.map((n) => /^(.*?)(\d+)$/.exec(n)).findLast((m): m is RegExpExecArray => !!m);
+  const prefix = last ? last[1]! : 'S-';
+  const width = last ? last[2]!.length : 3;
+  let next = last ? Number(last[2]) + 1 : 1;
+  while (taken.has(`${prefix}${String(next).padStart(width, '0')}`.toLowerCase())) next++;
+  return `${prefix}${String(next).padStart(width, '0')}`;
+}
+
+const sameNumber = (campaignId: string, n: string) =>
+  and(eq(samples.campaignId, campaignId), sql`lower(${samples.sampleNumber}) = lower(${n})`);
+
+/**
+ * Records or corrects an entry's sample. A number already used in the campaign is a 409 naming the
+ * next free one; a subsample's parent must be a sample of the same campaign, and not itself.
+ */
+export function setSample(db: Db, live: LiveHub, id: string, actor: Actor, input: SampleInput): ObservationDetail {
+  return live.withEvents((tx, stage) => {
+    const row = getObservationRow(tx, id);
+    if (!row) throw notFound();
+    assertCurrent(row, input.version ?? row.version);
+    if (row.kind !== 'biology' && row.kind !== 'environment') {
+      throw fieldError('kind', 'Change the entry to biology or environment first', 'Only biology and environment entries carry a sample.');
+    }
+    const clash = tx.select({ id: samples.observationId }).from(samples).where(sameNumber(row.campaignId, input.sampleNumber)).get();
+    if (clash && clash.id !== id) {
+      throw conflict(
+        'duplicate_sample_number',
+        `Sample number ${input.sampleNumber} is already used in this campaign; the next free one is ${nextSampleNumber(tx, row.campaignId)}.`,
+      );
+    }
+    const parent = input.parentSampleNumber ?? null;
+    if (parent !== null) {
+      if (parent.toLowerCase() === input.sampleNumber.toLowerCase()) {
+        throw fieldError('parentSampleNumber', 'A sample cannot be its own parent', 'A sample cannot be its own parent.');
+      }
+      const found = tx.select({ n: samples.sampleNumber }).from(samples).where(sameNumber(row.campaignId, parent)).get();
+      if (!found) {
+        throw fieldError('parentSampleNumber', `No sample ${parent} in this campaign`, `No sample ${parent} in this campaign.`);
+      }
+    }
+    const values = {
+      campaignId: row.campaignId,
+      sampleNumber: input.sampleNumber,
+      sampleType: input.sampleType,
+      gear: input.gear ?? null,
+      container: input.container ?? null,
+      preservation: input.preservation ?? null,
+      parentSampleNumber: parent,
+      lab: input.lab ?? null,
+      updatedAt: new Date(),
+    };
+    tx.insert(samples)
+      .values({ observationId: id, ...values })
+      .onConflictDoUpdate({ target: samples.observationId, set: values })
+      .run();
+    recordChange(tx, id, actor.userId, 'updated');
+    const detail = getObservationDetail(tx, id)!;
+    const { photos: _photos, identificationDetail: _identification, find: _find, custody: _custody, ...observation } = detail;
+    stage(observation.campaignId, observation.diveId, 'observation.updated', observation);
+    return detail;
+  });
+}
