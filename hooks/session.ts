@@ -40,6 +40,15 @@ export function useMe() {
   return useQuery(meQuery);
 }
 
+/** A first password, for a person who joined by an invitation link and has none yet. */
+export function useSetFirstPassword() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (newPassword: string) => request('/api/me/password', z.undefined(), { body: { newPassword } }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: sessionKeys.me() }),
+  });
+}
+
 const signInResponse = z.object({ user: z.object({ id: z.string() }) }).loose();
 
 export function useSignIn() {

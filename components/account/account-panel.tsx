@@ -8,7 +8,7 @@ import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
 import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
-import { useMe, useSignOut } from '@/hooks/session';
+import { useMe, useSetFirstPassword, useSignOut } from '@/hooks/session';
 import { useChangePassword, useRevokeOtherSessions } from '@/hooks/team';
 import { useTheme, type ThemePreference } from '@/hooks/theme';
 import { radius, space } from '@/lib/tokens';
@@ -39,7 +39,7 @@ export function AccountPanel() {
           { value: 'light', label: 'Light' },
         ]}
       />
-      {me ? <ChangePassword /> : null}
+      {me ? me.hasPassword ? <ChangePassword /> : <SetFirstPassword /> : null}
       {me ? <OtherSessions /> : null}
       <Button label="Sign out" tone="secondary" testID="sign-out" busy={signOut.isPending} onPress={() => signOut.mutate()} />
       <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]}>
@@ -166,6 +166,66 @@ function ChangePassword() {
         <Button label="Save new password" testID="password-save" busy={change.isPending} onPress={submit} />
         <Button label="Cancel" tone="secondary" onPress={close} />
       </View>
+    </View>
+  );
+}
+
+/** For a person who joined by an invitation link: a first password, with no current one to give. */
+function SetFirstPassword() {
+  const { colors } = useTheme();
+  const toast = useToast();
+  const set = useSetFirstPassword();
+  const [next, setNext] = useState('');
+  const [repeat, setRepeat] = useState('');
+  const [local, setLocal] = useState<PasswordErrors>({});
+  const errors = { ...passwordErrors(set.error), ...local };
+  const submit = () => {
+    const bad: PasswordErrors = {};
+    if (next.length < PASSWORD_MIN || next.length > PASSWORD_MAX)
+      bad.next = `A password has ${PASSWORD_MIN} to ${PASSWORD_MAX} characters.`;
+    else if (repeat !== next) bad.repeat = 'The two passwords are not the same.';
+    setLocal(bad);
+    if (Object.keys(bad).length > 0 || set.isPending) return;
+    set.mutate(next, { onSuccess: () => toast('Password set. Sign in with it next time.') });
+  };
+  return (
+    <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="set-password-form">
+      <Text variant="label">Set a password</Text>
+      <Text variant="caption" muted>
+        You joined with the link in your invitation and have no password yet. Set one to sign in again after this session ends.
+      </Text>
+      <Field
+        label="New password"
+        testID="password-new"
+        value={next}
+        onChangeText={(v) => {
+          setNext(v);
+          setLocal({});
+        }}
+        secureTextEntry
+        autoComplete="new-password"
+        hint={`${PASSWORD_MIN} to ${PASSWORD_MAX} characters`}
+        error={errors.next}
+      />
+      <Field
+        label="Repeat the password"
+        testID="password-repeat"
+        value={repeat}
+        onChangeText={(v) => {
+          setRepeat(v);
+          setLocal({});
+        }}
+        secureTextEntry
+        autoComplete="new-password"
+        error={errors.repeat}
+        onSubmitEditing={submit}
+      />
+      {errors.form ? (
+        <Text color={colors.danger} role="alert" testID="password-error">
+          {errors.form}
+        </Text>
+      ) : null}
+      <Button label="Set password" testID="password-set" busy={set.isPending} onPress={submit} />
     </View>
   );
 }

@@ -2,6 +2,7 @@ import { StyleSheet, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
 import { Text } from '@/components/ui/text';
+import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import type { Campaign } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
@@ -10,6 +11,7 @@ import { roleDescriptions, roleWithArticle } from '@/lib/permissions';
 /** Shown once on arrival from an invitation link: where you are now and what you may do. */
 export function WelcomeNotice({ campaign, onDismiss }: { campaign: Campaign; onDismiss: () => void }) {
   const { colors } = useTheme();
+  const me = useMe().data;
   if (campaign.myRole === 'admin') return null;
   return (
     <View role="status" testID="welcome-notice" style={[styles.box, { borderColor: colors.success, backgroundColor: colors.surface }]}>
@@ -19,6 +21,12 @@ export function WelcomeNotice({ campaign, onDismiss }: { campaign: Campaign; onD
         {campaign.myRole === 'guest' ? (
           <Text muted testID="welcome-digest">
             You will get a digest mail after each dive with what was logged on it. Change or stop it under Digest.
+          </Text>
+        ) : null}
+        {me && !me.hasPassword ? (
+          <Text muted testID="welcome-password">
+            You signed in with the link in your invitation. Set a password under Account to sign in again after this session ends, or ask
+            for a new sign-in link on the sign-in screen.
           </Text>
         ) : null}
       </View>
