@@ -267,8 +267,8 @@ export function ImportReport({ report }: { report: TelemetryImportReport }) {
         {report.depthFrom === 'pressure' ? '. Depth computed from pressure (UNESCO 1983) at the site datum’s latitude.' : ''}
       </Text>
       {report.warnings.map((w) => (
-        <Text key={w} variant="caption" color={colors.warning}>
-          {w}
+        <Text key={`${w.code}:${w.message}`} variant="caption" color={colors.warning} testID={`import-warning-${w.code}`}>
+          {w.message}
         </Text>
       ))}
       {report.rejected.length > 0 ? (

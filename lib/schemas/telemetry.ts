@@ -83,7 +83,14 @@ export const telemetryImportReportSchema = z.object({
   samplesAfter: z.number().int(),
   /** Entries whose telemetry values changed, and how many of the dive's entries now fall in a gap of the log. */
   stamped: z.object({ updated: z.number().int(), noTelemetry: z.number().int() }),
-  warnings: z.array(z.string()),
+  /**
+   * What the import noticed, each with a code: `outside_dive` when the log's span does not overlap
+   * the dive's phases (a log of another dive, or a clock in local time). Reports kept from before
+   * warnings had codes read as code `note`.
+   */
+  warnings: z.array(
+    z.union([z.object({ code: z.string(), message: z.string() }), z.string().transform((message) => ({ code: 'note', message }))]),
+  ),
   importedAt: isoOut,
 });
 export type TelemetryImportReport = z.infer<typeof telemetryImportReportSchema>;

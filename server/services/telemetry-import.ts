@@ -419,18 +419,24 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
   return { columns: builder.finish(), recognition, headers, rowsRejected, rejected, gpsTime };
 }
 
-function warningsOf(r: HeaderRecognition, extra: string[]): string[] {
-  const out: string[] = [];
+type ImportWarning = { code: string; message: string };
+
+function warningsOf(r: HeaderRecognition, extra: ImportWarning[]): ImportWarning[] {
+  const out: ImportWarning[] = [];
+  const say = (code: string, message: string) => out.push({ code, message });
   if (r.unknown.length > 0) {
-    out.push(`Columns not read: ${r.unknown.map((h) => `"${h}"`).join(', ')}. If one holds a channel, name it with the mapping option.`);
+    say(
+      'columns_not_read',
+      `Columns not read: ${r.unknown.map((h) => `"${h}"`).join(', ')}. If one holds a channel, name it with the mapping option.`,
+    );
   }
   for (const u of r.unsupportedUnits)
-    out.push(`"${u.header}" is in ${u.unit}, which is not read; give ${u.channel} in the units of the log format.`);
-  for (const d of r.duplicates) out.push(`"${d.header}" is a second ${d.channel} column; only the first is read.`);
+    say('unsupported_unit', `"${u.header}" is in ${u.unit}, which is not read; give ${u.channel} in the units of the log format.`);
+  for (const d of r.duplicates) say('duplicate_column', `"${d.header}" is a second ${d.channel} column; only the first is read.`);
   if (r.mapping.depth === undefined && r.mapping.pressure === undefined)
-    out.push('The log has no depth or pressure column, so entries get no depth from it.');
+    say('no_depth', 'The log has no depth or pressure column, so entries get no depth from it.');
   if (r.mapping.lat === undefined || r.mapping.lon === undefined)
-    out.push('The log has no latitude and longitude columns, so entries get no position from it.');
+    say('no_position', 'The log has no latitude and longitude columns, so entries get no position from it.');
   return [...out, ...extra];
 }
 
@@ -530,16 +536,21 @@ export async function importTelemetryLog(db: Db, live: LiveHub, req: ImportReque
 
     const firstMs = columns.t[0] as number;
     const lastMs = columns.t[rowsTaken - 1] as number;
-    const extra: string[] = [];
-    if (head.encoding === 'latin1') extra.push('The file is not UTF-8; it was read as Latin-1 (ISO 8859-1).');
+    const extra: ImportWarning[] = [];
+    if (head.encoding === 'latin1') extra.push({ code: 'latin1', message: 'The file is not UTF-8; it was read as Latin-1 (ISO 8859-1).' });
     if (fields.gpsTime === false && recognition.timeScale === 'gps') {
-      extra.push('The time column is labelled GPS, but the import was told the clock runs on UTC; times were read as UTC.');
+      extra.push({
+        code: 'gps_label_ignored',
+        message: 'The time column is labelled GPS, but the import was told the clock runs on UTC; times were read as UTC.',
+      });
     }
+    // A log of another dive, or a clock in local time: taken, but said plainly (a dive under way has no end yet).
     const { launch, onDeck } = facts.phases;
-    if (launch !== null && onDeck !== null && (lastMs < launch || firstMs > onDeck)) {
-      extra.push(
-        `The log (${isoOf(firstMs)} to ${isoOf(lastMs)}) does not overlap the dive (launch ${isoOf(launch)} to on deck ${isoOf(onDeck)}); check the dive and the log's clock.`,
-      );
+    if (launch !== null && (lastMs < launch || (onDeck !== null && firstMs > onDeck))) {
+      extra.push({
+        code: 'outside_dive',
+        message: `The log (${isoOf(firstMs)} to ${isoOf(lastMs)}) does not overlap the dive (launch ${isoOf(launch)} to ${onDeck !== null ? `on deck ${isoOf(onDeck)}` : 'now'}); check the dive and the log's clock.`,
+      });
     }
 
     const merged = existing ? mergeColumns(existing, columns) : columns;

@@ -283,7 +283,7 @@ describe('a good log', () => {
 
     const refused = await imported(csv(['time (GPS)', 'depth_m'], [['2026-05-13T18:00:28Z', '5']]), { gpsTime: 'false' });
     expect(refused.timeScale).toBe('utc');
-    expect(refused.warnings.join(' ')).toMatch(/labelled GPS/);
+    expect(refused.warnings.map((w) => w.message).join(' ')).toMatch(/labelled GPS/);
     expect(stored()[0]!.t).toBe(T0 + 28_000);
   });
 
@@ -308,7 +308,7 @@ describe('a good log', () => {
 
     const partly = await imported(csv(['time', 'depth_m', 'Bemerkung'], [['2026-05-13T18:00:00Z', '1', 'x']]));
     expect(partly.columns.unknown).toEqual(['Bemerkung']);
-    expect(partly.warnings.join(' ')).toMatch(/"Bemerkung"/);
+    expect(partly.warnings.map((w) => w.message).join(' ')).toMatch(/"Bemerkung"/);
   });
 
   it('refuses a mapping that is not JSON or names no channel, and unknown fields', async () => {
@@ -539,5 +539,38 @@ describe('replace and append', () => {
 
     expect((await imported(linearLog(T0, 10, 3))).samplesBefore).toBe(17);
     expect(samples()).toBe(3);
+  });
+});
+
+describe('a log of another time than its dive', () => {
+  it('is taken with an outside_dive warning that names both spans', async () => {
+    const pilot = await t.signIn(emails.pilot);
+    const planned = await pilot.post(`/api/campaigns/${ids.campaign}/dives`).send({ number: 'TI-OUT', objectives: 'Clock check' });
+    expect(planned.status).toBe(201);
+    const dive = planned.body.id as string;
+    for (const [phase, at] of [
+      ['launch', '2026-05-20T08:00:00.000Z'],
+      ['on-deck', '2026-05-20T14:00:00.000Z'],
+    ]) {
+      expect((await pilot.post(`/api/dives/${dive}/phases`).send({ phase, at })).status).toBe(200);
+    }
+    // The log's clock ran a day early: nothing of it falls in the dive.
+    const res = await pilot
+      .post(`/api/dives/${dive}/telemetry`)
+      .attach('file', linearLog(Date.UTC(2026, 4, 19, 8, 0, 0), 1, 600), { filename: 'early.csv', contentType: 'text/csv' });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const report = telemetryImportReportSchema.parse(res.body);
+    const warning = report.warnings.find((w) => w.code === 'outside_dive');
+    expect(warning?.message).toContain('2026-05-19T08:00:00');
+    expect(warning?.message).toContain('2026-05-20T08:00:00');
+    expect(report.rowsTaken).toBe(600);
+
+    // A log inside the dive carries no such warning.
+    const inside = await pilot
+      .post(`/api/dives/${dive}/telemetry`)
+      .field('mode', 'replace')
+      .attach('file', linearLog(Date.UTC(2026, 4, 20, 9, 0, 0), 1, 600), { filename: 'right.csv', contentType: 'text/csv' });
+    expect(inside.status).toBe(201);
+    expect(telemetryImportReportSchema.parse(inside.body).warnings.map((w) => w.code)).not.toContain('outside_dive');
   });
 });
