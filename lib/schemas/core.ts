@@ -273,6 +273,8 @@ export const observationSchema = z.object({
     .nullable(),
   /** The find number (archaeology). */
   findNumber: z.string().nullable(),
+  /** The entry's time lies outside its dive's window (see lib/dive-window.ts): kept, but marked. */
+  outsideDive: z.boolean(),
   /** The sample the entry carries (biology, environment). */
   sample: sampleSchema.nullable(),
   authorId: id,

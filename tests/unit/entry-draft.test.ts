@@ -48,6 +48,7 @@ const stored: Observation = {
   photoCount: 0,
   identification: null,
   findNumber: null,
+  outsideDive: false,
   sample: null,
   authorId: 'user-1',
   authorName: 'Cleo',

@@ -8,6 +8,7 @@ import { and, count, eq, inArray } from 'drizzle-orm';
 import type { Executor } from '../../../db/client';
 import { finds, identifications, observations, observationTags, photos, samples, tags } from '../../../db/schema';
 import type { Observation, Sample } from '../../../lib/schemas';
+import { outsideDiveOf } from './dive-window';
 import { namesOf, toObservation, type ObservationRow } from './map';
 
 /** Each entry's tag names, in name order. */
@@ -96,6 +97,7 @@ export function hydrate(db: Executor, rows: ObservationRow[]): Observation[] {
       .map((i) => [i.observationId, i]),
   );
   const findNumbers = findNumbersOf(db, ids);
+  const outside = outsideDiveOf(db, rows);
   const samplesBy = samplesOf(db, ids);
   return rows.map((r) => {
     const ident = idents.get(r.id);
@@ -107,6 +109,7 @@ export function hydrate(db: Executor, rows: ObservationRow[]): Observation[] {
         ? { scientificName: ident.scientificName, qualifier: ident.qualifier, verificationStatus: ident.verificationStatus }
         : null,
       findNumber: findNumbers.get(r.id) ?? null,
+      outsideDive: outside.get(r.id) ?? false,
       sample: samplesBy.get(r.id) ?? null,
     });
   });

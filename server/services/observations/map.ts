@@ -11,7 +11,7 @@ export type Actor = { userId: string; role: string };
 /** A stored row as the contract's observation, given what hangs off it. */
 export function toObservation(
   row: ObservationRow,
-  extra: Pick<Observation, 'tags' | 'authorName' | 'photoCount' | 'identification' | 'findNumber' | 'sample'>,
+  extra: Pick<Observation, 'tags' | 'outsideDive' | 'authorName' | 'photoCount' | 'identification' | 'findNumber' | 'sample'>,
 ): Observation {
   return {
     id: row.id,
