@@ -1,7 +1,7 @@
 import { and, eq, sql } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../db/client';
-import { campaigns, custodyEvents, finds, identifications, observationTags, tags } from '../../db/schema';
+import { campaigns, custodyEvents, finds, identifications, observationTags, samples, tags } from '../../db/schema';
 import type { z } from 'zod';
 
 import {
@@ -175,7 +175,8 @@ export function setFind(db: Db, live: LiveHub, id: string, actor: Actor, input: 
 }
 
 /**
- * Adds a step to the custody trail of a recovered find or a sample (an entry tagged "sample").
+ * Adds a step to the custody trail of a recovered find or a sample (an entry with a sample in the
+ * register, or tagged "sample").
  * The trail is append-only: a correction is a new step. It takes no version: a step overwrites
  * nothing and leaves the entry's version alone, so two hand-overs recorded at once both stay.
  */
@@ -189,10 +190,11 @@ export function addCustody(db: Db, live: LiveHub, id: string, actor: Actor, inpu
       .innerJoin(tags, eq(tags.id, observationTags.tagId))
       .where(and(eq(observationTags.observationId, id), sql`lower(${tags.name}) = ${SAMPLE_TAG}`))
       .get();
+    const registered = tx.select({ n: samples.sampleNumber }).from(samples).where(eq(samples.observationId, id)).get();
     // A trail once begun goes on, even if the entry has since lost its tag.
     const hasTrail = tx.select({ id: custodyEvents.id }).from(custodyEvents).where(eq(custodyEvents.observationId, id)).get();
-    if (find?.state !== 'recovered' && !isSample?.n && !hasTrail) {
-      throw conflict('not_in_custody', 'A custody trail is kept for recovered finds and for samples (entries tagged "sample").');
+    if (find?.state !== 'recovered' && !registered && !isSample?.n && !hasTrail) {
+      throw conflict('not_in_custody', 'A custody trail is kept for recovered finds and for samples.');
     }
     tx.insert(custodyEvents)
       .values({

@@ -15,25 +15,24 @@ import { assertCurrent, getObservationDetail, getObservationRow, recordChange, t
 
 export type SampleInput = z.output<typeof sampleInputSchema>;
 
-/** The campaign's sample numbers in natural order (S-2 before S-10). */
-export function sampleNumbersOf(db: Executor, campaignId: string): string[] {
-  return db
-    .select({ n: samples.sampleNumber })
-    .from(samples)
-    .where(eq(samples.campaignId, campaignId))
-    .all()
-    .map(({ n }) => n)
-    .sort(compareSampleNumbers);
-}
-
 /**
- * The next free sample number: one more than the highest of the numbers sharing the last
- * number's prefix, keeping its width ("S-009" → "S-010"); "S-001" for an empty register.
+ * The next free sample number: one more than the last whole sample's number (subsamples are
+ * numbered under their parent), keeping its prefix and width ("S-009" → "S-010"); "S-001" for an
+ * empty register.
  */
 export function nextSampleNumber(db: Executor, campaignId: string): string {
-  const numbers = sampleNumbersOf(db, campaignId);
-  const taken = new Set(numbers.map((n) => n.toLowerCase()));
-  const last = numbers.map((n) => /^(.*?)(\d+)$/.exec(n)).findLast((m): m is RegExpExecArray => !!m);
+  const rows = db
+    .select({ n: samples.sampleNumber, parent: samples.parentSampleNumber })
+    .from(samples)
+    .where(eq(samples.campaignId, campaignId))
+    .all();
+  const taken = new Set(rows.map(({ n }) => n.toLowerCase()));
+  const last = rows
+    .filter((r) => r.parent === null)
+    .map((r) => r.n)
+    .sort(compareSampleNumbers)
+    .map((n) => /^(.*?)(\d+)$/.exec(n))
+    .findLast((m): m is RegExpExecArray => !!m);
   const prefix = last ? last[1]! : 'S-';
   const width = last ? last[2]!.length : 3;
   let next = last ? Number(last[2]) + 1 : 1;

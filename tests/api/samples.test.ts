@@ -89,6 +89,32 @@ describe('the sample register', () => {
     });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body.sample.parentSampleNumber).toBe('S-001');
+
+    // A subsample numbered past the last whole sample does not move the next proposal on.
+    const late = await log(ids.dive, 'biology', 'Sponge tissue, second cut');
+    expect((await putSample(late.id, { sampleNumber: 'S-900', sampleType: 'biological', parentSampleNumber: 'S-001' })).status).toBe(200);
+    const clash = await putSample(late.id, { sampleNumber: 'S-001', sampleType: 'biological' });
+    expect(clash.status).toBe(409);
+    expect(clash.body.error.message).toContain('S-010');
+  });
+
+  it('keeps a custody trail for a registered sample without any tag', async () => {
+    const o = await log(ids.dive, 'environment', 'Water at the mat');
+    const before = await (
+      await t.signIn(emails.biologist)
+    )
+      .post(`/api/observations/${o.id}/custody`)
+      .send({ holder: 'Cleo Varga', since: '2026-05-13T23:20:00.000Z', location: 'Wet lab' });
+    expect(before.status).toBe(409);
+    expect(before.body.error.code).toBe('not_in_custody');
+    expect((await putSample(o.id, { sampleNumber: 'S-020', sampleType: 'water', gear: 'water bottle' })).status).toBe(200);
+    const res = await (
+      await t.signIn(emails.biologist)
+    )
+      .post(`/api/observations/${o.id}/custody`)
+      .send({ holder: 'Cleo Varga', since: '2026-05-13T23:20:00.000Z', location: 'Wet lab', container: 'bottle 2' });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.custody).toHaveLength(1);
   });
 
   it('carries samples on biology and environment entries only, and checks the body', async () => {
