@@ -17,9 +17,12 @@ const fieldLabels: Record<string, string> = {
   depth: 'depth',
   lat: 'position',
   temperature: 'temperature',
+  heading: 'heading',
+  altitude: 'altitude',
   tags: 'tags',
   identificationDetail: 'identification',
   find: 'find',
+  sample: 'sample',
 };
 
 /** Which fields a revision changed, compared with the one before it. */
