@@ -64,6 +64,21 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
     ['Water temperature', formatTemperature(o.temperature), sourceLabel(o.temperatureSource)],
     ['Heading', formatHeading(o.heading), sourceLabel(o.headingSource)],
     ['Altitude', o.altitude === null ? '—' : `${o.altitude.toFixed(1)} m above the seabed`, sourceLabel(o.altitudeSource)],
+    ...(o.sample
+      ? ([
+          [
+            'Sample',
+            [o.sample.sampleNumber, o.sample.sampleType, o.sample.gear, o.sample.preservation].filter(Boolean).join(' · '),
+            [
+              o.sample.parentSampleNumber ? `subsample of ${o.sample.parentSampleNumber}` : null,
+              o.sample.container ? `stowed in ${o.sample.container}` : null,
+              o.sample.lab ? `for ${o.sample.lab}` : null,
+            ]
+              .filter(Boolean)
+              .join(', ') || undefined,
+          ],
+        ] as [string, string, string?][])
+      : []),
   ];
   return (
     <View style={styles.wrap} testID="observation-detail">
