@@ -10,7 +10,11 @@ import { apiCompression } from './middleware/compression';
 import { apiNotFound, errorHandler } from './middleware/errors';
 import { sameOrigin } from './middleware/same-origin';
 import { serverTiming } from './middleware/timing';
+import { validate } from './middleware/validate';
+import { signInLinkRequestSchema } from '../lib/schemas';
 import { campaignRoutes } from './routes/campaigns';
+import { signInLinkRequests } from './services/sign-in-links';
+import { digestRoutes, unsubscribeRoutes } from './routes/digests';
 import { diveRoutes } from './routes/dives';
 import { exportRoutes } from './routes/exports';
 import { mailRoutes } from './routes/mail';
@@ -67,6 +71,15 @@ export function createApp(ctx: AppContext): Express {
     req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
     next();
   });
+  // "E-mail me a sign-in link": ours, not better-auth's, so that it never says whether an address is known.
+  const signInLinks = signInLinkRequests(ctx);
+  const linkRequest = validate(signInLinkRequestSchema);
+  app.post('/api/auth/sign-in/magic-link', sameOrigin(env.PUBLIC_URL), express.json({ limit: '8kb' }), linkRequest, async (req, res) => {
+    const answer = await signInLinks(linkRequest.of(req).email, req.ip ?? req.socket.remoteAddress ?? 'unknown', (wait) =>
+      res.setHeader('Retry-After', String(wait)),
+    );
+    res.json(answer);
+  });
   app.all(
     '/api/auth/*splat',
     authHandler(
@@ -77,6 +90,8 @@ export function createApp(ctx: AppContext): Express {
     ),
   );
 
+  // Authorised by its signed link alone, posted by mail providers from their own servers.
+  app.use('/api', unsubscribeRoutes(ctx));
   app.use('/api', sameOrigin(env.PUBLIC_URL));
   app.use('/api', express.json({ limit: '256kb' }));
   app.use(
@@ -95,9 +110,9 @@ export function createApp(ctx: AppContext): Express {
     res.json({ ok: true, version: ctx.version });
   });
   app.use('/api', campaignRoutes(ctx), teamRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
-  app.use('/api', mailRoutes(ctx));
-  app.use('/api', exportRoutes(ctx));
+  app.use('/api', mailRoutes(ctx), digestRoutes(ctx));
   app.use('/api', searchRoutes(ctx));
+  app.use('/api', exportRoutes(ctx));
   app.use('/api', apiNotFound);
 
   app.use(...web.handlers);

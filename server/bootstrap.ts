@@ -10,8 +10,8 @@ import { LiveHub } from './services/live';
 import { createLogger } from './services/logger';
 import { createMailer } from './services/mail';
 import { createDigestScheduler, digestMailHandler } from './services/digests';
-import { createDigestScheduler, digestMailHandler } from './services/digests';
 import { createMailSender } from './services/mail-queue';
+import { signInLinkMailHandler } from './services/sign-in-links';
 import { invitationMailHandler } from './services/team';
 import { projectRoot } from '../db/root';
 
@@ -48,6 +48,7 @@ export async function createContext(env: Env, options: { now?: () => Date } = {}
   };
   ctx.mail.handle('invitation', invitationMailHandler(ctx));
   ctx.mail.handle('digest', digestMailHandler(db));
+  ctx.mail.handle('sign-in-link', signInLinkMailHandler(ctx));
   ctx.mail.start();
   ctx.digests.start();
   return ctx;

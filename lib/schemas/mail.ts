@@ -5,7 +5,7 @@ import { z } from 'zod';
 export const mailStates = ['queued', 'sending', 'sent', 'failed', 'cancelled'] as const;
 export type MailState = (typeof mailStates)[number];
 
-export const mailKinds = ['invitation', 'digest', 'mail'] as const;
+export const mailKinds = ['invitation', 'digest', 'sign-in-link', 'mail'] as const;
 export type MailKind = (typeof mailKinds)[number];
 
 /** Where one queued mail stands, as the team screen and the digest log show it. */

@@ -98,6 +98,9 @@ export type Invitation = z.infer<typeof invitationSchema>;
 
 export const memberUpdateSchema = z.object({ role: z.enum(campaignRoles) }).strict();
 
+/** "E-mail me a sign-in link": the address only. */
+export const signInLinkRequestSchema = z.object({ email: z.email('Enter an e-mail address').max(254) }).strict();
+
 /** A first password, for an account that has none (a person who joined by an invitation link). */
 export const passwordSetSchema = z
   .object({
