@@ -110,7 +110,11 @@ const table: Record<string, Row> = {
   'GET /api/health': { expect: R('ok', 'ok', 'ok', 'ok', 'ok', 'ok', 'ok'), path: () => '/api/health' },
   'GET /api/me': { expect: signedIn, path: () => '/api/me' },
   'POST /api/me/password': { expect: signedIn, path: () => '/api/me/password', body: {} },
-  'POST /api/auth/sign-in/magic-link': { expect: R('ok', 'ok', 'ok', 'ok', 'ok', 'ok', 'ok'), path: () => '/api/auth/sign-in/magic-link', body: {} },
+  'POST /api/auth/sign-in/magic-link': {
+    expect: R('ok', 'ok', 'ok', 'ok', 'ok', 'ok', 'ok'),
+    path: () => '/api/auth/sign-in/magic-link',
+    body: {},
+  },
   'GET /api/campaigns': { expect: signedIn, path: () => '/api/campaigns' },
   'GET /api/search': { expect: signedIn, path: () => '/api/search?q=access' },
   'GET /api/search/export.csv': { expect: signedIn, path: () => '/api/search/export.csv?q=access' },
