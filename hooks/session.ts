@@ -40,6 +40,15 @@ export function useMe() {
   return useQuery(meQuery);
 }
 
+const signInLinkAnswer = z.object({ ok: z.literal(true), message: z.string() });
+
+/** "E-mail me a sign-in link": the same answer whether or not the address is a member's. */
+export function useRequestSignInLink() {
+  return useMutation({
+    mutationFn: (email: string) => request('/api/auth/sign-in/magic-link', signInLinkAnswer, { body: { email } }),
+  });
+}
+
 /** A first password, for a person who joined by an invitation link and has none yet. */
 export function useSetFirstPassword() {
   const qc = useQueryClient();

@@ -5,7 +5,7 @@ import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Text } from '@/components/ui/text';
 import { ApiError } from '@/hooks/api';
-import { rememberReturnPath, useSignIn } from '@/hooks/session';
+import { rememberReturnPath, useRequestSignInLink, useSignIn } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { radius, space } from '@/lib/tokens';
 
@@ -16,6 +16,7 @@ export function SignInForm() {
   const { colors } = useTheme();
   useEffect(() => rememberReturnPath(openedAt), []);
   const signIn = useSignIn();
+  const askLink = useRequestSignInLink();
   const [email, setEmail] = useState('');
   const [password, setPassword] = useState('');
   const passwordRef = useRef<TextInput>(null);
@@ -79,8 +80,31 @@ export function SignInForm() {
           </Text>
         ) : null}
         <Button label="Sign in" testID="sign-in-submit" busy={signIn.isPending} onPress={submit} />
+        <Button
+          label="E-mail me a sign-in link"
+          tone="secondary"
+          testID="sign-in-link"
+          busy={askLink.isPending}
+          onPress={() => {
+            if (!askLink.isPending) askLink.mutate(email.trim());
+          }}
+        />
+        {askLink.data ? (
+          <Text role="status" testID="sign-in-link-sent">
+            {askLink.data.message}
+          </Text>
+        ) : askLink.error ? (
+          <Text color={colors.danger} role="alert" testID="sign-in-link-error">
+            {askLink.error instanceof ApiError
+              ? askLink.error.status === 429
+                ? 'Too many links asked for. Wait a while before trying again.'
+                : (askLink.error.issues[0]?.message ?? askLink.error.message)
+              : 'No link was asked for. Try again.'}
+          </Text>
+        ) : null}
         <Text variant="caption" muted>
-          New members join a campaign through the invitation their campaign lead sends by e-mail.
+          New members join a campaign through the invitation their campaign lead sends by e-mail. Members without a password (or who forgot
+          it) can ask for a sign-in link.
         </Text>
       </View>
       <Text variant="caption" muted style={styles.caution}>
