@@ -75,6 +75,41 @@ function passwordErrors(err: unknown): PasswordErrors {
   return { form: err.message };
 }
 
+/** The new password, typed twice, as both password forms ask for it. */
+function NewPasswordFields(props: {
+  next: string;
+  repeat: string;
+  onNext: (v: string) => void;
+  onRepeat: (v: string) => void;
+  errors: PasswordErrors;
+  onSubmit: () => void;
+}) {
+  return (
+    <>
+      <Field
+        label="New password"
+        testID="password-new"
+        value={props.next}
+        onChangeText={props.onNext}
+        secureTextEntry
+        autoComplete="new-password"
+        hint={`${PASSWORD_MIN} to ${PASSWORD_MAX} characters`}
+        error={props.errors.next}
+      />
+      <Field
+        label="Repeat the new password"
+        testID="password-repeat"
+        value={props.repeat}
+        onChangeText={props.onRepeat}
+        secureTextEntry
+        autoComplete="new-password"
+        error={props.errors.repeat}
+        onSubmitEditing={props.onSubmit}
+      />
+    </>
+  );
+}
+
 function ChangePassword() {
   const { colors } = useTheme();
   const toast = useToast();
@@ -129,26 +164,7 @@ function ChangePassword() {
         autoComplete="current-password"
         error={errors.current}
       />
-      <Field
-        label="New password"
-        testID="password-new"
-        value={next}
-        onChangeText={setNext}
-        secureTextEntry
-        autoComplete="new-password"
-        hint={`${PASSWORD_MIN} to ${PASSWORD_MAX} characters`}
-        error={errors.next}
-      />
-      <Field
-        label="Repeat the new password"
-        testID="password-repeat"
-        value={repeat}
-        onChangeText={setRepeat}
-        secureTextEntry
-        autoComplete="new-password"
-        error={errors.repeat}
-        onSubmitEditing={submit}
-      />
+      <NewPasswordFields next={next} repeat={repeat} onNext={setNext} onRepeat={setRepeat} errors={errors} onSubmit={submit} />
       <View style={styles.row}>
         <Chip
           label="Sign out my other sessions"
@@ -194,31 +210,19 @@ function SetFirstPassword() {
       <Text variant="caption" muted>
         You joined with the link in your invitation and have no password yet. Set one to sign in again after this session ends.
       </Text>
-      <Field
-        label="New password"
-        testID="password-new"
-        value={next}
-        onChangeText={(v) => {
+      <NewPasswordFields
+        next={next}
+        repeat={repeat}
+        onNext={(v) => {
           setNext(v);
           setLocal({});
         }}
-        secureTextEntry
-        autoComplete="new-password"
-        hint={`${PASSWORD_MIN} to ${PASSWORD_MAX} characters`}
-        error={errors.next}
-      />
-      <Field
-        label="Repeat the password"
-        testID="password-repeat"
-        value={repeat}
-        onChangeText={(v) => {
+        onRepeat={(v) => {
           setRepeat(v);
           setLocal({});
         }}
-        secureTextEntry
-        autoComplete="new-password"
-        error={errors.repeat}
-        onSubmitEditing={submit}
+        errors={errors}
+        onSubmit={submit}
       />
       {errors.form ? (
         <Text color={colors.danger} role="alert" testID="password-error">
