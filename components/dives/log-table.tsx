@@ -79,7 +79,7 @@ export function LogTableRow({ observation: o, selected, onPress, recording, timi
           {o.observedAt.slice(0, 10)}
         </Text>
         {timing && isOutsideDive(timing, o.observedAt) ? (
-          <Text variant="caption" color={colors.warning} testID="observation-outside-dive">
+          <Text variant="caption" color={colors.warning} testID="entry-outside-dive">
             outside the dive
           </Text>
         ) : null}

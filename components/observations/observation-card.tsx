@@ -33,7 +33,7 @@ export function ObservationCard({ observation: o, onPress, selected, recording, 
         </Text>
         <KindBadge kind={o.kind} />
         {outside ? (
-          <Text variant="caption" color={colors.warning} testID="observation-outside-dive">
+          <Text variant="caption" color={colors.warning} testID="entry-outside-dive">
             outside the dive
           </Text>
         ) : null}

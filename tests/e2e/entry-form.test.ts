@@ -108,7 +108,7 @@ describe('the entry form at phone size', () => {
       .filter({ hasText: 'Logged from the video months later' })
       .first();
     await card.waitFor();
-    await card.getByTestId('observation-outside-dive').waitFor();
+    await card.getByTestId('entry-outside-dive').waitFor();
     expect(await card.getByTestId('observation-time').first().textContent()).toBe('2026-11-30 09:15:00Z');
     expect(bio.errors).toEqual([]);
   });
