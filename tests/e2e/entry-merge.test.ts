@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
-import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { openBrowser, pageApi as api, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -18,21 +18,6 @@ async function openDive(page: Page, number: string): Promise<string> {
   await page.getByTestId(`dive-${number}`).click();
   await page.getByTestId('live-status-live').waitFor();
   return /\/dives\/([^/?#]+)/.exec(page.url())![1]!;
-}
-
-/** Calls the API as the page's signed-in person. */
-function api<T>(page: Page, path: string, method = 'GET', body?: unknown): Promise<T> {
-  return page.evaluate(
-    async ({ path, method, body }) => {
-      const res = await fetch(path, {
-        method,
-        headers: body ? { 'content-type': 'application/json' } : {},
-        body: body ? JSON.stringify(body) : undefined,
-      });
-      return (await res.json()) as T;
-    },
-    { path, method, body },
-  );
 }
 
 type Entry = { id: string; version: number; title: string; note: string; depth: number | null; depthSource: string | null };

@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Page } from 'playwright-core';
 
-import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { openBrowser, pageApi as api, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -12,21 +11,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await server?.stop();
 });
-
-/** Calls the API as the page's signed-in person. */
-function api<T>(page: Page, path: string, method = 'GET', body?: unknown): Promise<T> {
-  return page.evaluate(
-    async ({ path, method, body }) => {
-      const res = await fetch(path, {
-        method,
-        headers: body ? { 'content-type': 'application/json' } : {},
-        body: body ? JSON.stringify(body) : undefined,
-      });
-      return (await res.json()) as T;
-    },
-    { path, method, body },
-  );
-}
 
 describe('quick marks on a dive under way', () => {
   let lead: Browser;

@@ -62,3 +62,18 @@ export async function signInAs(page: Page, url: string, email: string, password 
   await page.getByTestId('sign-in-password').press('Enter');
   await page.getByTestId('campaign-list').waitFor();
 }
+
+/** Calls the API as the page's signed-in person (with the page's own cookie and origin). */
+export function pageApi<T>(page: Page, path: string, method = 'GET', body?: unknown): Promise<T> {
+  return page.evaluate(
+    async ({ path, method, body }) => {
+      const res = await fetch(path, {
+        method,
+        headers: body ? { 'content-type': 'application/json' } : {},
+        body: body ? JSON.stringify(body) : undefined,
+      });
+      return (await res.json()) as T;
+    },
+    { path, method, body },
+  );
+}
