@@ -3,11 +3,8 @@
  * with retries, a mail server that refuses never turns a change into a 500, a failed mail can be
  * sent again, and a restart sends what was queued exactly once.
  */
-import { createServer, type AddressInfo } from 'node:net';
 import path from 'node:path';
 
-import { simpleParser } from 'mailparser';
-import { SMTPServer } from 'smtp-server';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 
 import { closeContext, createContext } from '@/server/bootstrap';
@@ -15,59 +12,9 @@ import { loadEnv } from '@/server/env';
 import { INTERRUPTED } from '@/server/services/mail-queue';
 import { invitationSchema, mailLogSchema, type Invitation } from '@/lib/schemas';
 import { demoIds, emails } from '../helpers/demo';
+import { freePort } from '../helpers/server-process';
+import { smtpOn } from '../helpers/smtp';
 import { startTestServer, type TestServer } from '../helpers/test-server';
-
-type Received = { to: string; subject: string; text: string };
-
-/** A real SMTP server (smtp-server, parsed by mailparser) that can be started and stopped on one port. */
-function smtpOn(port: number) {
-  const received: Received[] = [];
-  let server: SMTPServer | undefined;
-  return {
-    received,
-    async start() {
-      server = new SMTPServer({
-        authOptional: true,
-        disabledCommands: ['STARTTLS', 'AUTH'],
-        logger: false,
-        onData(stream, _session, done) {
-          simpleParser(stream)
-            .then((m) => {
-              received.push({
-                to: Array.isArray(m.to) ? m.to.map((a) => a.text).join(', ') : (m.to?.text ?? ''),
-                subject: m.subject ?? '',
-                text: m.text ?? '',
-              });
-              done();
-            })
-            .catch(done);
-        },
-      });
-      const s = server;
-      await new Promise<void>((resolve) => s.listen(port, '127.0.0.1', resolve));
-    },
-    async stop() {
-      const s = server;
-      if (!s) return;
-      const closed = new Promise<void>((resolve) => s.close(() => resolve()));
-      // The sender keeps pooled connections open; a mail server going down drops them.
-      for (const c of (s as unknown as { connections: Set<{ close: () => void }> }).connections) c.close();
-      await closed;
-      server = undefined;
-    },
-  };
-}
-
-/** A port nothing listens on (yet): connecting to it is refused, as a mail server that is down. */
-async function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const s = createServer();
-    s.listen(0, '127.0.0.1', () => {
-      const { port } = s.address() as AddressInfo;
-      s.close(() => resolve(port));
-    });
-  });
-}
 
 describe('with the mail server down', () => {
   let t: TestServer;

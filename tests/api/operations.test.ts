@@ -10,8 +10,6 @@ import path from 'node:path';
 import { createServer as createNetServer, type AddressInfo } from 'node:net';
 
 import express from 'express';
-import { simpleParser } from 'mailparser';
-import { SMTPServer } from 'smtp-server';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 
@@ -21,7 +19,8 @@ import { errorHandler } from '@/server/middleware/errors';
 import { createLogger } from '@/server/services/logger';
 import { emails } from '../helpers/demo';
 import { buildFixtures } from '../helpers/fixtures';
-import { startServerProcess } from '../helpers/server-process';
+import { freePort, startServerProcess } from '../helpers/server-process';
+import { smtpOn } from '../helpers/smtp';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
@@ -88,35 +87,18 @@ describe('the environment', () => {
 });
 
 describe('mail through SMTP_URL', () => {
-  let smtp: SMTPServer;
-  const received: { to: string; subject: string; text: string }[] = [];
+  let smtp: ReturnType<typeof smtpOn>;
   let withSmtp: TestServer;
 
   beforeAll(async () => {
-    smtp = new SMTPServer({
-      authOptional: true,
-      disabledCommands: ['STARTTLS', 'AUTH'],
-      logger: false,
-      onData(stream, _session, done) {
-        simpleParser(stream)
-          .then((m) => {
-            received.push({
-              to: Array.isArray(m.to) ? m.to.map((a) => a.text).join(', ') : (m.to?.text ?? ''),
-              subject: m.subject ?? '',
-              text: m.text ?? '',
-            });
-            done();
-          })
-          .catch(done);
-      },
-    });
-    await new Promise<void>((resolve) => smtp.listen(0, '127.0.0.1', resolve));
-    const { port } = smtp.server.address() as AddressInfo;
+    const port = await freePort();
+    smtp = smtpOn(port);
+    await smtp.start();
     withSmtp = await startTestServer({ env: { SMTP_URL: `smtp://127.0.0.1:${port}` } });
   });
   afterAll(async () => {
     await withSmtp.close();
-    await new Promise<void>((resolve) => smtp.close(resolve));
+    await smtp.stop();
   });
 
   it('sends invitations to the configured server, and has no outbox of its own', async () => {
@@ -124,8 +106,8 @@ describe('mail through SMTP_URL', () => {
     const lead = await withSmtp.signIn(emails.lead);
     const res = await lead.post(`/api/campaigns/${ids.campaign}/invitations`).send({ email: 'ashore@bathynote.test', role: 'guest' });
     expect(res.status).toBe(201);
-    await vi.waitFor(() => expect(received.some((m) => m.to.includes('ashore@bathynote.test'))).toBe(true), { timeout: 5000 });
-    const mail = received.find((m) => m.to.includes('ashore@bathynote.test'))!;
+    await vi.waitFor(() => expect(smtp.received.some((m) => m.to.includes('ashore@bathynote.test'))).toBe(true), { timeout: 5000 });
+    const mail = smtp.received.find((m) => m.to.includes('ashore@bathynote.test'))!;
     expect(mail.subject).toContain(`invites you to ${ids.campaignName}`);
     expect(mail.text).toMatch(/\/api\/auth\/magic-link\/verify\?token=/);
 

@@ -228,8 +228,8 @@ describe('eml.xml (EML 2.2.0)', () => {
     const root = doc.documentElement;
     expect(root.namespaceURI).toBe('https://eml.ecoinformatics.org/eml-2.2.0');
     expect(root.localName).toBe('eml');
-    expect(root.getAttribute('packageId')).toBeTruthy();
-    expect(root.getAttribute('system')).toBeTruthy();
+    expect(root.getAttribute('packageId')).toBe(`urn:uuid:${eml.campaignId}`);
+    expect(root.getAttribute('system')).toBe('bathynote');
     expect(root.getAttribute('scope')).toBe('system');
     const dataset = doc.querySelector('dataset')!;
     expect(dataset.querySelector(':scope > title')?.textContent).toBe(
