@@ -7,6 +7,7 @@ import type { MailKind, MailState } from '../lib/schemas/mail';
 import type { ExportLicence, PublicPositionMode } from '../lib/schemas/exports';
 import type { identificationConfidences, identificationQualifiers, taxonRanks } from '../lib/schemas/record';
 import type { SampleType } from '../lib/schemas/samples';
+import type { OrganismQuantityType, SizeDimension, SizeMethod, SubstrateOrigin } from '../lib/schemas/taxa';
 
 const id = () =>
   text('id')
@@ -184,6 +185,13 @@ export const observations = sqliteTable(
     /** The vehicle's height above the seabed in metres. */
     altitude: real('altitude'),
     altitudeSource: text('altitude_source').$type<DepthSource>(),
+    /** Darwin Core individualCount (biology). */
+    individualCount: integer('individual_count'),
+    /** Darwin Core organismQuantity with its organismQuantityType (biology). */
+    organismQuantity: real('organism_quantity'),
+    organismQuantityType: text('organism_quantity_type').$type<OrganismQuantityType>(),
+    /** What the entry sits on, from the campaign's substrate vocabulary. */
+    substrateId: text('substrate_id').references(() => substrateClasses.id, { onDelete: 'restrict' }),
     authorId: text('author_id')
       .notNull()
       .references(() => user.id, { onDelete: 'restrict' }),
@@ -200,6 +208,69 @@ export const observations = sqliteTable(
     index('observation_campaign_idx').on(t.campaignId),
     index('observation_author_idx').on(t.authorId),
   ],
+);
+
+/**
+ * A campaign's substrate vocabulary. New campaigns start from the substrate classes of the Coastal
+ * and Marine Ecological Classification Standard (FGDC-STD-018-2012); a lead adds, renames and
+ * retires classes like tags.
+ */
+export const substrateClasses = sqliteTable(
+  'substrate_classes',
+  {
+    id: id(),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    origin: text('origin').$type<SubstrateOrigin>(),
+    /** The standard's own name for a class the campaign started from; null for the campaign's own. */
+    standardName: text('standard_name'),
+    retired: integer('retired', { mode: 'boolean' }).notNull().default(false),
+    position: integer('position').notNull().default(0),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('substrate_name_unique').on(t.campaignId, sql`lower(${t.name})`)],
+);
+
+/** A biology entry's sizes, one per dimension, each measured or estimated (Darwin Core measurement-or-fact). */
+export const observationSizes = sqliteTable(
+  'observation_sizes',
+  {
+    observationId: text('observation_id')
+      .notNull()
+      .references(() => observations.id, { onDelete: 'cascade' }),
+    dimension: text('dimension').$type<SizeDimension>().notNull(),
+    valueCm: real('value_cm').notNull(),
+    method: text('method').$type<SizeMethod>().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.observationId, t.dimension] })],
+);
+
+/** A campaign's species list, imported by the lead; identifications are suggested from it. */
+export const checklistTaxa = sqliteTable(
+  'checklist_taxa',
+  {
+    id: id(),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    scientificName: text('scientific_name').notNull(),
+    authorship: text('authorship'),
+    taxonRank: text('taxon_rank'),
+    /** Darwin Core scientificNameID: an LSID or a link. */
+    identifier: text('identifier'),
+    vernacularName: text('vernacular_name'),
+    genus: text('genus'),
+    specificEpithet: text('specific_epithet'),
+    infraspecificRank: text('infraspecific_rank'),
+    infraspecificEpithet: text('infraspecific_epithet'),
+    importedAt: integer('imported_at', { mode: 'timestamp_ms' }).notNull(),
+    importedBy: text('imported_by')
+      .notNull()
+      .references(() => user.id, { onDelete: 'restrict' }),
+  },
+  (t) => [uniqueIndex('checklist_name_unique').on(t.campaignId, sql`lower(${t.scientificName})`)],
 );
 
 export const tags = sqliteTable(
