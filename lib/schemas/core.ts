@@ -9,6 +9,7 @@ import { exportLicences, publicPositionModes } from './publication';
 import { photoSchema } from './photos';
 import { custodyEventSchema, findSchema, identificationSchema, verificationStatuses } from './record';
 import { sampleSchema } from './samples';
+import { checkQuantity, recordFieldsInput, sizeSchema, organismQuantityTypes } from './taxa';
 import { multiLine, oneLine } from './text';
 
 export const campaignRoles = ['lead', 'scientist', 'pilot', 'guest'] as const;
@@ -203,6 +204,7 @@ export const observationCreateSchema = z
     temperature: temperature.nullable().optional(),
     heading: heading.nullable().optional(),
     altitude: altitude.nullable().optional(),
+    ...recordFieldsInput,
     tags: z.array(tagName).max(20, 'At most 20 tags').default([]),
     /** A random id the sending device gives the entry; sending it again returns the first entry. */
     clientRef: z
@@ -214,7 +216,8 @@ export const observationCreateSchema = z
   .refine((o) => (o.lat == null) === (o.lon == null), {
     message: 'Give both latitude and longitude, or neither',
     path: ['lon'],
-  });
+  })
+  .superRefine(checkQuantity);
 export type ObservationCreate = z.input<typeof observationCreateSchema>;
 
 /**
@@ -235,13 +238,15 @@ export const observationUpdateSchema = z
     temperature: temperature.nullable().optional(),
     heading: heading.nullable().optional(),
     altitude: altitude.nullable().optional(),
+    ...recordFieldsInput,
     tags: z.array(tagName).max(20, 'At most 20 tags').optional(),
   })
   .strict()
   .refine((o) => (o.lat === undefined) === (o.lon === undefined) && (o.lat === null) === (o.lon === null), {
     message: 'Change latitude and longitude together',
     path: ['lon'],
-  });
+  })
+  .superRefine(checkQuantity);
 export type ObservationUpdate = z.input<typeof observationUpdateSchema>;
 
 export const observationSchema = z.object({
@@ -277,6 +282,14 @@ export const observationSchema = z.object({
   outsideDive: z.boolean(),
   /** The sample the entry carries (biology, environment). */
   sample: sampleSchema.nullable(),
+  /** Darwin Core individualCount, organismQuantity and organismQuantityType (biology). */
+  individualCount: z.number().int().nullable(),
+  organismQuantity: z.number().nullable(),
+  organismQuantityType: z.enum(organismQuantityTypes).nullable(),
+  /** Sizes in cm, each measured or estimated (biology). */
+  sizes: z.array(sizeSchema),
+  /** The substrate class's name in the campaign's vocabulary. */
+  substrate: z.string().nullable(),
   authorId: id,
   authorName: z.string(),
   version: z.number().int(),

@@ -9,3 +9,4 @@ export * from './samples';
 export * from './team';
 export * from './telemetry';
 export * from './search';
+export * from './taxa';

@@ -6,8 +6,18 @@
 import { and, count, eq, inArray } from 'drizzle-orm';
 
 import type { Executor } from '../../../db/client';
-import { finds, identifications, observations, observationTags, photos, samples, tags } from '../../../db/schema';
-import type { Observation, Sample } from '../../../lib/schemas';
+import {
+  finds,
+  identifications,
+  observations,
+  observationSizes,
+  observationTags,
+  photos,
+  samples,
+  substrateClasses,
+  tags,
+} from '../../../db/schema';
+import { sizeDimensions, type Observation, type Sample, type Size } from '../../../lib/schemas';
 import { outsideDiveOf } from './dive-window';
 import { namesOf, toObservation, type ObservationRow } from './map';
 
@@ -66,6 +76,37 @@ export function samplesOf(db: Executor, ids: readonly string[]): Map<string, Sam
   );
 }
 
+/** Each entry's sizes, length before width before height. */
+export function sizesOf(db: Executor, ids: readonly string[]): Map<string, Size[]> {
+  const by = new Map<string, Size[]>();
+  if (ids.length === 0) return by;
+  for (const s of db
+    .select()
+    .from(observationSizes)
+    .where(inArray(observationSizes.observationId, [...ids]))
+    .all()) {
+    const list = by.get(s.observationId) ?? [];
+    list.push({ dimension: s.dimension, valueCm: s.valueCm, method: s.method });
+    by.set(s.observationId, list);
+  }
+  for (const list of by.values()) list.sort((a, b) => sizeDimensions.indexOf(a.dimension) - sizeDimensions.indexOf(b.dimension));
+  return by;
+}
+
+/** The substrate classes' names the rows point at, one query. */
+function substrateNamesOf(db: Executor, rows: ObservationRow[]): Map<string, string> {
+  const wanted = [...new Set(rows.map((r) => r.substrateId).filter((i): i is string => !!i))];
+  if (wanted.length === 0) return new Map();
+  return new Map(
+    db
+      .select({ id: substrateClasses.id, name: substrateClasses.name })
+      .from(substrateClasses)
+      .where(inArray(substrateClasses.id, wanted))
+      .all()
+      .map((c) => [c.id, c.name]),
+  );
+}
+
 function photoCountsOf(db: Executor, ids: readonly string[]): Map<string, number> {
   return new Map(
     db
@@ -99,6 +140,8 @@ export function hydrate(db: Executor, rows: ObservationRow[]): Observation[] {
   const findNumbers = findNumbersOf(db, ids);
   const outside = outsideDiveOf(db, rows);
   const samplesBy = samplesOf(db, ids);
+  const sizesBy = sizesOf(db, ids);
+  const substrates = substrateNamesOf(db, rows);
   return rows.map((r) => {
     const ident = idents.get(r.id);
     return toObservation(r, {
@@ -111,6 +154,8 @@ export function hydrate(db: Executor, rows: ObservationRow[]): Observation[] {
       findNumber: findNumbers.get(r.id) ?? null,
       outsideDive: outside.get(r.id) ?? false,
       sample: samplesBy.get(r.id) ?? null,
+      sizes: sizesBy.get(r.id) ?? [],
+      substrate: r.substrateId ? (substrates.get(r.substrateId) ?? null) : null,
     });
   });
 }

@@ -11,7 +11,10 @@ export type Actor = { userId: string; role: string };
 /** A stored row as the contract's observation, given what hangs off it. */
 export function toObservation(
   row: ObservationRow,
-  extra: Pick<Observation, 'tags' | 'outsideDive' | 'authorName' | 'photoCount' | 'identification' | 'findNumber' | 'sample'>,
+  extra: Pick<
+    Observation,
+    'tags' | 'outsideDive' | 'authorName' | 'photoCount' | 'identification' | 'findNumber' | 'sample' | 'sizes' | 'substrate'
+  >,
 ): Observation {
   return {
     id: row.id,
@@ -32,6 +35,9 @@ export function toObservation(
     headingSource: row.headingSource,
     altitude: row.altitude,
     altitudeSource: row.altitudeSource,
+    individualCount: row.individualCount,
+    organismQuantity: row.organismQuantity,
+    organismQuantityType: row.organismQuantityType,
     ...extra,
     authorId: row.authorId,
     version: row.version,
