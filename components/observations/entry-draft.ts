@@ -3,9 +3,11 @@
  * for an edit only the fields that changed since the version the edit started from. Pure, so the
  * mapping is tested without a screen.
  */
+import { isUnderWay } from '@/lib/dive-window';
 import { parseUtcInput, toUtcInput, toUtcInputExact } from '@/lib/format';
 import {
   observationCreateSchema,
+  type Dive,
   type Observation,
   type ObservationCreate,
   type ObservationKind,
@@ -28,9 +30,14 @@ export type FormErrors = Partial<
   Record<'kind' | 'title' | 'observedAt' | 'depth' | 'lat' | 'lon' | 'temperature' | 'note' | 'tags' | 'form', string>
 >;
 
-export const blankDraft = (): Draft => ({
+/**
+ * A new entry's form. The time is "now" only while the dive is under way (launched, not yet on
+ * deck): on a dive that ended, or has not begun, "now" would be a wrong time that looks right, so
+ * the field starts empty and the form shows the dive's window instead.
+ */
+export const blankDraft = (dive?: Pick<Dive, 'phases'>, now = Date.now()): Draft => ({
   title: '',
-  time: toUtcInput(new Date().toISOString()),
+  time: dive && isUnderWay(dive, now) ? toUtcInput(new Date(now).toISOString()) : '',
   depth: '',
   lat: '',
   lon: '',

@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { Platform, StyleSheet, View } from 'react-native';
+import { useQueryClient } from '@tanstack/react-query';
 
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
@@ -9,7 +10,7 @@ import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { TimecodeEntry } from '@/components/telemetry/timecode-entry';
 import { useCampaign } from '@/hooks/campaigns';
-import { useDive } from '@/hooks/dives';
+import { diveQuery, useDive } from '@/hooks/dives';
 import { useDraft } from '@/hooks/draft';
 import { useLayout } from '@/hooks/layout';
 import { useLogEntry } from '@/hooks/send-queue';
@@ -277,7 +278,11 @@ export function NewObservationForm({ diveId, campaignId, onCreated }: NewProps) 
   const toast = useToast();
   // Kept per person as well as per dive: a shared screen never shows one person's draft to the next.
   const me = useMe();
-  const draft = useDraft<Draft>(`bathynote.draft.${me.data?.user.id ?? 'anyone'}.${diveId}`, blankDraft);
+  // The dive as it is whenever the form starts afresh (also after a send): under way, the time is now.
+  const qc = useQueryClient();
+  const draft = useDraft<Draft>(`bathynote.draft.${me.data?.user.id ?? 'anyone'}.${diveId}`, () =>
+    blankDraft(qc.getQueryData(diveQuery(diveId).queryKey)),
+  );
   const [errors, setErrors] = useState<FormErrors>({});
   const [sending, setSending] = useState(false);
   const [failure, setFailure] = useState<string | null>(null);

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
 import {
+  blankDraft,
   changes,
   draftFromObservation,
   errorsAfterChange,
@@ -62,6 +63,41 @@ const stored: Observation = {
   createdAt: '2026-05-14T21:15:00.000Z',
   updatedAt: '2026-05-14T21:15:00.000Z',
 };
+
+describe('the time a new entry starts with', () => {
+  const now = Date.parse('2026-05-13T21:14:07.250Z');
+  const phases = (p: Partial<Record<'launch' | 'onBottom' | 'offBottom' | 'onDeck', string>>) => ({
+    phases: { launch: null, onBottom: null, offBottom: null, onDeck: null, ...p },
+  });
+
+  it('is now, to the second, while the dive is under way (launched, not on deck)', () => {
+    expect(blankDraft(phases({ launch: '2026-05-13T17:40:00.000Z' }), now).time).toBe('2026-05-13 21:14:07');
+    expect(blankDraft(phases({ launch: '2026-05-13T17:40:00.000Z', onBottom: '2026-05-13T18:08:00.000Z' }), now).time).toBe(
+      '2026-05-13 21:14:07',
+    );
+  });
+
+  it('is empty on a dive that is back on deck, not yet launched, launched later than now, or not known', () => {
+    const ended = phases({ launch: '2026-05-13T17:40:00.000Z', onDeck: '2026-05-13T20:05:00.000Z' });
+    expect(blankDraft(ended, now).time).toBe('');
+    expect(blankDraft(phases({}), now).time).toBe('');
+    expect(blankDraft(phases({ launch: '2026-05-13T22:00:00.000Z' }), now).time).toBe('');
+    expect(blankDraft(undefined, now).time).toBe('');
+  });
+
+  it('leaves every other field empty', () => {
+    expect(blankDraft(phases({ launch: '2026-05-13T17:40:00.000Z' }), now)).toEqual({
+      title: '',
+      time: '2026-05-13 21:14:07',
+      depth: '',
+      lat: '',
+      lon: '',
+      temperature: '',
+      note: '',
+      tags: [],
+    });
+  });
+});
 
 describe('a new entry from the form', () => {
   it('reads the typed time as UTC and leaves empty numbers to the telemetry log', () => {
