@@ -101,7 +101,10 @@ type Props = {
   testID: string;
 };
 
-/** The fields of a campaign's set-up, shared by its creation and its later edits. */
+/**
+ * The fields of a campaign's set-up, shared by its creation and its later edits. No placeholders:
+ * an example in grey inside a field reads as a value already filled in, so examples go in the hint below.
+ */
 export function CampaignFields({ draft, onChange, errors, testID }: Props) {
   const { breakpoint } = useLayout();
   const pair = breakpoint === 'phone' ? styles.column : styles.pair;
@@ -113,14 +116,13 @@ export function CampaignFields({ draft, onChange, errors, testID }: Props) {
   });
   return (
     <View style={styles.wrap}>
-      <Field label="Campaign name" placeholder="Varn Shoal 2027" {...field('name')} />
-      <Field label="Site name" placeholder="Varn Shoal merchant wreck" {...field('siteName')} />
+      <Field label="Campaign name" hint="Usually the site and the year" {...field('name')} />
+      <Field label="Site name" hint="The wreck or area the campaign works at" {...field('siteName')} />
       <View style={pair}>
         <View style={styles.flex}>
           <Field
             label="Site datum latitude (°)"
-            hint="Decimal degrees, north positive (WGS 84)"
-            placeholder="36.1450"
+            hint="Decimal degrees, north positive (WGS 84), for example 36.1450"
             inputMode="decimal"
             mono
             {...field('datumLat')}
@@ -129,8 +131,7 @@ export function CampaignFields({ draft, onChange, errors, testID }: Props) {
         <View style={styles.flex}>
           <Field
             label="Site datum longitude (°)"
-            hint="Decimal degrees, east positive (WGS 84)"
-            placeholder="-7.4320"
+            hint="Decimal degrees, east positive (WGS 84): west is negative, for example -7.4320"
             inputMode="decimal"
             mono
             {...field('datumLon')}
@@ -139,10 +140,10 @@ export function CampaignFields({ draft, onChange, errors, testID }: Props) {
       </View>
       <View style={pair}>
         <View style={styles.flex}>
-          <Field label="Starts (optional)" placeholder="2026-05-10" hint="YYYY-MM-DD" mono {...field('startDate')} />
+          <Field label="Starts (optional)" hint="Year-month-day, for example 2026-05-10" mono {...field('startDate')} />
         </View>
         <View style={styles.flex}>
-          <Field label="Ends (optional)" placeholder="2026-05-24" hint="YYYY-MM-DD" mono {...field('endDate')} />
+          <Field label="Ends (optional)" hint="Year-month-day, on or after the start" mono {...field('endDate')} />
         </View>
       </View>
       <Field
