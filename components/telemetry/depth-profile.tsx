@@ -62,7 +62,11 @@ export function DepthProfile({ dive, samples, summary, height = 260 }: Props) {
   const g = useMemo(() => {
     const inView = (t: number) => !zoom || (t >= zoom[0] && t <= zoom[1]);
     const points = samples.points.map((p) => ({ t: Date.parse(p.t), depth: p.depth })).filter((p) => inView(p.t));
-    const entries = summary.observations.map((o) => ({ ...o, t: Date.parse(o.observedAt) })).filter((e) => inView(e.t));
+    // An entry logged outside the dive's window is listed apart, so it never stretches the axis.
+    const entries = summary.observations
+      .filter((o) => !o.outsideDive)
+      .map((o) => ({ ...o, t: Date.parse(o.observedAt) }))
+      .filter((e) => inView(e.t));
     const phaseMs = Object.values(dive.phases)
       .filter((v): v is string => v !== null)
       .map((v) => Date.parse(v));

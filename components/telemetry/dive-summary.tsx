@@ -16,6 +16,7 @@ import type { TelemetrySamples } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { DepthProfile } from './depth-profile';
 import { DiveStatsGrid } from './dive-stats';
+import { OutsideEntries } from './outside-entries';
 import { RecordingSettings } from './recording-settings';
 import { SitePlan } from './site-plan';
 import { TelemetryImport } from './telemetry-import';
@@ -84,6 +85,11 @@ export function DiveSummaryView({ diveId }: { diveId: string }) {
           </Text>
         ) : null}
       </Card>
+      {summary.data.observations.some((o) => o.outsideDive) ? (
+        <Card testID="outside-card">
+          <OutsideEntries dive={dive.data} entries={summary.data.observations} />
+        </Card>
+      ) : null}
       <Card testID="phases-card">
         <PhaseTimes dive={dive.data} mayEdit={mayImport} />
       </Card>

@@ -35,7 +35,7 @@ export function SitePlan({ dive, samples, summary, height = 300 }: Props) {
     const track = samples.track.map((p) => ({ t: Date.parse(p.t), east: p.east, north: p.north }));
     const onBottom = track.filter((p) => p.t >= from && p.t <= to);
     const placed = summary.observations.flatMap((o) =>
-      o.east !== null && o.north !== null ? [{ ...o, east: o.east, north: o.north }] : [],
+      o.east !== null && o.north !== null && !o.outsideDive ? [{ ...o, east: o.east, north: o.north }] : [],
     );
     const framed = [...(onBottom.length > 0 ? onBottom : track), ...placed, { east: 0, north: 0 }];
     const minE = Math.min(...framed.map((p) => p.east));
@@ -78,7 +78,7 @@ export function SitePlan({ dive, samples, summary, height = 300 }: Props) {
   }, [dive.phases, samples, summary, width, height]);
 
   const onLayout = (e: LayoutChangeEvent) => setWidth(Math.round(e.nativeEvent.layout.width));
-  const unplaced = summary.observations.length - g.placed.length;
+  const unplaced = summary.observations.filter((o) => !o.outsideDive).length - g.placed.length;
   const kinds = [...new Set(g.placed.map((o) => o.kind))] as ObservationKind[];
   const left = MARGIN.left;
   const right = MARGIN.left + g.plotW;

@@ -183,6 +183,8 @@ export const summaryObservationSchema = z.object({
   east: z.number().nullable(),
   north: z.number().nullable(),
   findNumber: z.string().nullable(),
+  /** Logged outside the dive's window: kept, but left out of the statistics and the plots' scales. */
+  outsideDive: z.boolean(),
 });
 export type SummaryObservation = z.infer<typeof summaryObservationSchema>;
 

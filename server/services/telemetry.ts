@@ -4,6 +4,7 @@ import type { z } from 'zod';
 import type { Db } from '../../db/client';
 import { campaigns, dives, observations, telemetryImports, user } from '../../db/schema';
 import { diveStats } from '../../lib/dive-stats';
+import { isOutsideDive } from '../../lib/dive-window';
 import { lttbIndices } from '../../lib/downsample';
 import { toLocalEN, type LatLon } from '../../lib/geodesy';
 import { buildTelemetrySeries, sampleAt, type TelemetryRow, type TelemetrySeries } from '../../lib/interpolate';
@@ -38,6 +39,7 @@ export function spanOf(firstMs: number | null, lastMs: number | null): Telemetry
 
 type DiveFacts = {
   campaignId: string;
+  plannedStartAt: number | null;
   gapMs: number;
   datum: LatLon;
   phases: Record<'launch' | 'onBottom' | 'offBottom' | 'onDeck', number | null>;
@@ -55,6 +57,7 @@ export function diveFacts(db: Db, diveId: string): DiveFacts {
   const ms = (d: Date | null) => (d ? d.getTime() : null);
   return {
     campaignId: row.dive.campaignId,
+    plannedStartAt: ms(row.dive.plannedStartAt),
     gapMs: row.dive.telemetryGapS * 1000,
     datum: { lat: row.datumLat, lon: row.datumLon },
     phases: {
@@ -244,10 +247,24 @@ export function diveSummary(db: Db, diveId: string): DiveSummary {
   const tagsBy = tagsOf(db, ids);
   const findBy = findNumbersOf(db, ids);
 
+  // The figures count only the entries of the dive's own window: one logged months later (a
+  // wrong date, a clock in local time) is listed apart rather than stretching the dive.
+  const isoOrNull = (ms: number | null) => (ms === null ? null : iso(ms));
+  const timing = {
+    phases: {
+      launch: isoOrNull(facts.phases.launch),
+      onBottom: isoOrNull(facts.phases.onBottom),
+      offBottom: isoOrNull(facts.phases.offBottom),
+      onDeck: isoOrNull(facts.phases.onDeck),
+    },
+    plannedStartAt: isoOrNull(facts.plannedStartAt),
+  };
+  const outside = new Set(rows.filter((r) => isOutsideDive(timing, r.observedAt.toISOString())).map((r) => r.id));
+  const inside = rows.filter((r) => !outside.has(r.id));
   const stats = diveStats(
     facts.phases,
     series,
-    rows.map((r) => ({ kind: r.kind, tags: tagsBy.get(r.id) ?? [] })),
+    inside.map((r) => ({ kind: r.kind, tags: tagsBy.get(r.id) ?? [] })),
     { maxGapMs: facts.gapMs },
   );
   const placed = rows.map((r) => {
@@ -262,9 +279,10 @@ export function diveSummary(db: Db, diveId: string): DiveSummary {
       east: en?.eastM ?? null,
       north: en?.northM ?? null,
       findNumber: findBy.get(r.id) ?? null,
+      outsideDive: outside.has(r.id),
     };
   });
-  const typedDepths = rows.map((r) => r.depth).filter((d): d is number => d != null);
+  const typedDepths = inside.map((r) => r.depth).filter((d): d is number => d != null);
   const maxDepth = stats.maxDepthM ?? (typedDepths.length > 0 ? Math.max(...typedDepths) : null);
 
   return {

@@ -58,6 +58,30 @@ describe('an entry outside its dive', () => {
     expect((await logAt(dive, '2026-06-03T08:00:00.000Z')).outsideDive).toBe(true);
   });
 
+  it('is listed apart by the summary, which counts only the dive’s own entries', async () => {
+    const dive = await plan('OW-04');
+    const pilot = await t.signIn(emails.pilot);
+    await pilot.post(`/api/dives/${dive}/phases`).send({ phase: 'launch', at: '2026-05-22T08:00:00.000Z' });
+    await pilot.post(`/api/dives/${dive}/phases`).send({ phase: 'on-deck', at: '2026-05-22T14:00:00.000Z' });
+    const inside = await logAt(dive, '2026-05-22T10:00:00.000Z');
+    const late = await logAt(dive, '2026-09-14T10:00:00.000Z');
+    const typed = await (await t.signIn(emails.biologist)).patch(`/api/observations/${late.id}`).send({ version: 1, depth: 2500 });
+    expect(typed.status).toBe(200);
+    const summary = (await (await t.signIn(emails.guest)).get(`/api/dives/${dive}/summary`)).body as {
+      maxDepth: number | null;
+      stats: { entryCount: number; entriesByKind: { label: string; count: number }[] };
+      observations: { id: string; outsideDive: boolean }[];
+    };
+    expect(summary.observations.map((o) => [o.id, o.outsideDive])).toEqual([
+      [inside.id, false],
+      [late.id, true],
+    ]);
+    expect(summary.stats.entryCount).toBe(1);
+    expect(summary.stats.entriesByKind).toEqual([{ label: 'biology', count: 1 }]);
+    // The late entry's typed depth does not become the dive's deepest.
+    expect(summary.maxDepth).toBeNull();
+  });
+
   it('is never marked for a dive with neither phases nor a planned start', async () => {
     const dive = await plan('OW-03');
     expect((await logAt(dive, '2020-01-01T00:00:00.000Z')).outsideDive).toBe(false);
