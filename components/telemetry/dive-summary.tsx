@@ -1,6 +1,8 @@
+import { useRouter } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 
 import { PhaseTimes } from '@/components/dives/phase-times';
+import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
@@ -11,23 +13,23 @@ import { useFollowDive } from '@/hooks/live';
 import { useDiveSummary, useTelemetry } from '@/hooks/telemetry';
 import { useTheme } from '@/hooks/theme';
 import { can } from '@/lib/permissions';
-import { formatUtc } from '@/lib/format';
-import type { TelemetrySamples } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { DepthProfile } from './depth-profile';
 import { DiveStatsGrid } from './dive-stats';
+import { ImportHistory } from './import-history';
 import { OutsideEntries } from './outside-entries';
 import { RecordingSettings } from './recording-settings';
 import { SitePlan } from './site-plan';
-import { TelemetryImport } from './telemetry-import';
 
 /**
- * A dive after the fact: its depth profile and site plan (side by side on wide screens), its
- * statistics, and for the lead and the pilot the import of the vehicle's log.
+ * A dive after the fact, read-only for everyone: its depth profile and site plan (side by side on
+ * wide screens), its statistics, its phases and video clock, and the log's imports. The lead and
+ * the pilot change these on the dive's settings screen.
  */
 export function DiveSummaryView({ diveId }: { diveId: string }) {
   const { colors } = useTheme();
   const { splitView } = useLayout();
+  const router = useRouter();
   const dive = useDive(diveId);
   useFollowDive(diveId);
   const campaign = useCampaign(dive.data?.campaignId);
@@ -50,7 +52,7 @@ export function DiveSummaryView({ diveId }: { diveId: string }) {
   if (!dive.data || !samples.data || !summary.data) return <LoadingState label="Loading the dive’s log…" />;
 
   const role = campaign.data?.myRole;
-  const mayImport = can(role, 'telemetry.import');
+  const maySet = can(role, 'dive.run');
   const hasLog = samples.data.sampleCount > 0;
   const plotHeight = splitView ? 320 : 260;
 
@@ -91,33 +93,22 @@ export function DiveSummaryView({ diveId }: { diveId: string }) {
         </Card>
       ) : null}
       <Card testID="phases-card">
-        <PhaseTimes dive={dive.data} mayEdit={mayImport} />
+        <PhaseTimes dive={dive.data} mayEdit={false} />
       </Card>
       <Card testID="recording-card">
-        <RecordingSettings dive={dive.data} mayEdit={mayImport} />
+        <RecordingSettings dive={dive.data} mayEdit={false} />
       </Card>
-      {mayImport ? (
-        <Card testID="import-card">
-          <TelemetryImport diveId={diveId} hasLog={hasLog} />
-        </Card>
-      ) : null}
       <ImportHistory imports={samples.data.imports} />
-    </View>
-  );
-}
-
-function ImportHistory({ imports }: { imports: TelemetrySamples['imports'] }) {
-  if (imports.length === 0) return null;
-  return (
-    <View style={styles.history} testID="import-history">
-      <Text variant="label">Log imports</Text>
-      {imports.slice(0, 10).map((i) => (
-        <Text key={i.id} variant="caption" muted>
-          {formatUtc(i.importedAt)} · {i.importedByName} · {i.fileName ?? 'log'} · {i.mode === 'replace' ? 'replaced' : 'added'} ·{' '}
-          {i.rowsTaken.toLocaleString('en')} rows taken
-          {i.rowsRejected > 0 ? `, ${i.rowsRejected.toLocaleString('en')} rejected` : ''}
-        </Text>
-      ))}
+      {maySet ? (
+        <Button
+          label="Dive settings"
+          tone="secondary"
+          accessibilityRole="link"
+          testID="summary-dive-settings"
+          style={styles.link}
+          onPress={() => router.push(`/dives/${diveId}/settings`)}
+        />
+      ) : null}
     </View>
   );
 }
@@ -127,6 +118,6 @@ const styles = StyleSheet.create({
   plots: { gap: space.lg },
   plotsSide: { flexDirection: 'row', alignItems: 'flex-start' },
   half: { flex: 1, flexBasis: 0, minWidth: 0 },
+  link: { alignSelf: 'flex-start' },
   empty: { borderWidth: 1, borderRadius: radius.lg, padding: space.xl, gap: space.sm },
-  history: { gap: space.xs },
 });

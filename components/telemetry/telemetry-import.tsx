@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { ScrollView, StyleSheet, View } from 'react-native';
+import { ScrollView, StyleSheet, Switch, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
 import { Chip } from '@/components/ui/chip';
@@ -33,12 +33,18 @@ const SHOWN_ISSUES = 6;
 const megabytes = (bytes: number) => `${(bytes / 1024 / 1024).toFixed(bytes < 1024 * 1024 ? 2 : 1)} MB`;
 const count = (n: number) => n.toLocaleString('en');
 
-/** Importing the vehicle's log for a dive: pick, check the columns, choose the options, upload, read the report. */
-export function TelemetryImport({ diveId, hasLog }: { diveId: string; hasLog: boolean }) {
+/**
+ * Importing the vehicle's log for a dive: pick, check the columns, choose the options, upload, read
+ * the report. A dive that has a log already adds to it unless the person chooses to replace it,
+ * and is asked once more before it is replaced.
+ */
+export function TelemetryImport({ diveId, hasLog, sampleCount = 0 }: { diveId: string; hasLog: boolean; sampleCount?: number }) {
   const { colors } = useTheme();
   const upload = useImportTelemetry(diveId);
   const [picked, setPicked] = useState<PickedLog | null>(null);
-  const [mode, setMode] = useState<TelemetryImportMode>('replace');
+  const [chosenMode, setMode] = useState<TelemetryImportMode | null>(null);
+  const mode: TelemetryImportMode = chosenMode ?? (hasLog ? 'append' : 'replace');
+  const [confirming, setConfirming] = useState(false);
   const [gpsTime, setGpsTime] = useState(false);
   const [absolute, setAbsolute] = useState(false);
   const [mapping, setMapping] = useState<Record<string, TelemetryChannelName | 'ignore'>>({});
@@ -69,6 +75,8 @@ export function TelemetryImport({ diveId, hasLog }: { diveId: string; hasLog: bo
 
   const send = () => {
     if (!picked) return;
+    if (mode === 'replace' && hasLog && !confirming) return setConfirming(true);
+    setConfirming(false);
     upload.mutate({
       file: picked.file,
       fileName: picked.name,
@@ -149,37 +157,69 @@ export function TelemetryImport({ diveId, hasLog }: { diveId: string; hasLog: bo
         </View>
       ) : null}
 
-      <Segmented
-        label={hasLog ? 'The dive already has a log' : 'Mode'}
-        testID="telemetry-mode"
-        value={mode}
-        onChange={setMode}
-        options={[
-          { value: 'replace', label: 'Replace it' },
-          { value: 'append', label: 'Add to it' },
-        ]}
-      />
-      <View style={styles.chips}>
-        <Chip
-          testID="telemetry-gps"
-          label="Clock on GPS time (18 s ahead of UTC)"
-          selected={gpsTime}
-          onPress={() => setGpsTime((v) => !v)}
+      {hasLog ? (
+        <Segmented
+          label="The dive already has a log"
+          testID="telemetry-mode"
+          value={mode}
+          onChange={(m) => {
+            setMode(m);
+            setConfirming(false);
+          }}
+          options={[
+            { value: 'append', label: 'Add to it' },
+            { value: 'replace', label: 'Replace it' },
+          ]}
         />
-        <Chip
+      ) : null}
+      <View style={styles.switches}>
+        <Toggle
+          testID="telemetry-gps"
+          label="Clock on GPS time"
+          hint="The log’s clock runs 18 s ahead of UTC; they are taken off."
+          value={gpsTime}
+          onChange={setGpsTime}
+        />
+        <Toggle
           testID="telemetry-absolute"
-          label="Absolute pressure (one atmosphere is taken off)"
-          selected={absolute}
-          onPress={() => setAbsolute((v) => !v)}
+          label="Absolute pressure"
+          hint="The sensor reads the atmosphere too; one standard atmosphere (10.1325 dbar) is taken off."
+          value={absolute}
+          onChange={setAbsolute}
         />
       </View>
 
+      {confirming ? (
+        <View
+          style={[styles.box, { borderColor: colors.warning, backgroundColor: colors.surface }]}
+          role="alert"
+          testID="telemetry-replace-confirm"
+        >
+          <Text variant="label">
+            Replace the dive’s log of {count(sampleCount)} samples with {picked?.name ?? 'this file'}?
+          </Text>
+          <Text variant="caption" muted>
+            Every sample the dive has now is dropped, and the entries are stamped again from the new log alone.
+          </Text>
+          <View style={styles.row}>
+            <Button label="Replace the log" tone="danger" testID="telemetry-replace-yes" onPress={send} />
+            <Button label="Keep it" tone="ghost" testID="telemetry-replace-no" onPress={() => setConfirming(false)} />
+          </View>
+        </View>
+      ) : null}
+
       <View style={styles.row}>
         <Button
-          label={upload.isPending ? 'Importing…' : 'Import and stamp entries'}
+          label={
+            upload.isPending
+              ? 'Importing…'
+              : mode === 'replace' && hasLog
+                ? 'Replace the log and stamp entries'
+                : 'Import and stamp entries'
+          }
           testID="telemetry-upload"
           busy={upload.isPending}
-          disabled={!picked || (recognition?.missingTime ?? true)}
+          disabled={!picked || (recognition?.missingTime ?? true) || confirming}
           onPress={send}
         />
         {upload.isPending ? <Button label="Stop" tone="ghost" compact onPress={upload.cancel} testID="telemetry-cancel" /> : null}
@@ -207,6 +247,41 @@ export function TelemetryImport({ diveId, hasLog }: { diveId: string; hasLog: bo
 
       {upload.isError ? <ImportError error={upload.error} /> : null}
       {upload.isSuccess ? <ImportReport report={upload.data} /> : null}
+    </View>
+  );
+}
+
+/** An option that is on or off, drawn as a switch with its label beside it. */
+function Toggle({
+  label,
+  hint,
+  value,
+  onChange,
+  testID,
+}: {
+  label: string;
+  hint: string;
+  value: boolean;
+  onChange: (v: boolean) => void;
+  testID: string;
+}) {
+  const { colors } = useTheme();
+  return (
+    <View style={styles.toggle}>
+      <Switch
+        value={value}
+        onValueChange={onChange}
+        testID={testID}
+        accessibilityLabel={label}
+        trackColor={{ false: colors.border, true: colors.accent }}
+        thumbColor={colors.surface}
+      />
+      <View style={styles.grow}>
+        <Text variant="label">{label}</Text>
+        <Text variant="caption" muted>
+          {hint}
+        </Text>
+      </View>
     </View>
   );
 }
@@ -313,6 +388,8 @@ const styles = StyleSheet.create({
   section: { gap: space.sm },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   mapping: { gap: space.xs },
+  switches: { gap: space.md },
+  toggle: { flexDirection: 'row', alignItems: 'center', gap: space.md },
   bar: { height: 12, borderRadius: radius.pill, borderWidth: 1, overflow: 'hidden' },
   fill: { height: '100%' },
   box: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg, gap: space.sm },
