@@ -128,6 +128,17 @@ export function useLogEntry(diveId: string) {
   );
 }
 
+/** Calls `done` once the kept entry has left the queue (sent, or discarded); answers a function that stops listening. */
+export function onceLeftQueue(clientRef: string, done: () => void): () => void {
+  const unsubscribe = subscribe(() => {
+    if (!read().some((p) => p.clientRef === clientRef)) {
+      unsubscribe();
+      done();
+    }
+  });
+  return () => void unsubscribe();
+}
+
 export function discardWaiting(clientRef: string) {
   write(read().filter((p) => p.clientRef !== clientRef));
 }

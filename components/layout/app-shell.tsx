@@ -1,10 +1,11 @@
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { Link, usePathname } from 'expo-router';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
 
 import { Icon, type IconName } from '@/components/ui/icon';
 import { Text } from '@/components/ui/text';
+import { useToastClearance } from '@/components/ui/toast';
 import { useLayout } from '@/hooks/layout';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
@@ -54,6 +55,8 @@ export function AppShell({ children }: { children: ReactNode }) {
   const insets = useSafeAreaInsets();
   const path = usePathname();
   const me = useMe().data;
+  const [barHeight, setBarHeight] = useState(0);
+  useToastClearance('navigation', navPlacement === 'bottom' ? barHeight : 0);
 
   const shown = me?.siteRole === 'admin' ? [campaignsItem, searchItem, adminItem, accountItem] : [campaignsItem, searchItem, accountItem];
   const links = shown.map((item) => {
@@ -88,6 +91,7 @@ export function AppShell({ children }: { children: ReactNode }) {
         <View
           role="navigation"
           aria-label="Main"
+          onLayout={(e) => setBarHeight(Math.round(e.nativeEvent.layout.height))}
           style={[styles.bottomBar, { borderTopColor: colors.border, backgroundColor: colors.surface, paddingBottom: insets.bottom }]}
         >
           {links}

@@ -13,7 +13,7 @@ import { useCampaign } from '@/hooks/campaigns';
 import { diveQuery, useDive } from '@/hooks/dives';
 import { useDraft } from '@/hooks/draft';
 import { useLayout } from '@/hooks/layout';
-import { useLogEntry } from '@/hooks/send-queue';
+import { onceLeftQueue, useLogEntry } from '@/hooks/send-queue';
 import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { isOutsideDive } from '@/lib/dive-window';
@@ -305,7 +305,11 @@ export function NewObservationForm({ diveId, campaignId, onCreated }: NewProps) 
     try {
       const sent = await log(result.body);
       draft.clear();
-      if (sent.queued) toast('No link to the server: the entry is kept on this device and will be sent.', { tone: 'danger' });
+      if (sent.queued)
+        toast('No link to the server: the entry is kept on this device and will be sent.', {
+          tone: 'danger',
+          until: (close) => onceLeftQueue(sent.clientRef, close),
+        });
       onCreated(sent.queued ? null : sent.observation);
     } catch (err) {
       const fromServer = errorsFromServer(err);
