@@ -22,11 +22,12 @@ const packageVersion = (): string => {
 
 /**
  * Opens and migrates the database and builds the services a request needs. `now` is the clock of
- * the digest schedule (tests set it to cross a daylight-saving change).
+ * the digest schedule (tests set it to cross a daylight-saving change); `migrate: false` when the
+ * database was migrated already (the server does it in a child process).
  */
-export async function createContext(env: Env, options: { now?: () => Date } = {}): Promise<AppContext> {
+export async function createContext(env: Env, options: { now?: () => Date; migrate?: boolean } = {}): Promise<AppContext> {
   const db = openDatabase(env.DATABASE_PATH);
-  migrateDatabase(db);
+  if (options.migrate !== false) migrateDatabase(db);
   const log = createLogger(env.LOG_LEVEL);
   const postbox = new MagicLinkPostbox();
   const mailer = await createMailer(db, log, env.SMTP_URL);

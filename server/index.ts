@@ -1,11 +1,16 @@
-import type { RequestListener } from 'node:http';
+// First, so that the young generation is limited before any module allocates.
+import './young-generation';
 
-import { demoSignIns, DEMO_PASSWORD, seedDemo } from '../db/seed';
+import { fork } from 'node:child_process';
+import type { RequestListener } from 'node:http';
+import path from 'node:path';
+
 import { createApp } from './app';
 import { closeContext, createContext } from './bootstrap';
 import { loadEnv } from './env';
 import { errorBody } from './errors';
 import { createHttpServer } from './http-server';
+import type { PrepareMessage, PreparedDatabase } from './prepare-database';
 
 /** Until the database is open and migrated, every request is told to come back in a moment. */
 const starting: RequestListener = (_req, res) => {
@@ -17,6 +22,25 @@ const starting: RequestListener = (_req, res) => {
   });
   res.end(JSON.stringify(errorBody('starting', 'Bathynote is starting; try again in a moment.')));
 };
+
+/**
+ * Migrates and (with the demo on) seeds the database in a child process, so that what the
+ * migrator and the seed hold is given back when the child exits instead of staying in the
+ * server's heap. The child is this file's sibling: the bundle's in `build/`, or the source under tsx.
+ */
+function prepareDatabase(): Promise<PreparedDatabase> {
+  const script = path.join(__dirname, `prepare-database${path.extname(__filename)}`);
+  return new Promise((resolve, reject) => {
+    let answer: PrepareMessage | undefined;
+    const child = fork(script, [], { stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
+    child.on('message', (message: PrepareMessage) => (answer = message));
+    child.once('error', reject);
+    child.once('exit', (code, signal) => {
+      if (answer?.ok) resolve(answer.prepared);
+      else reject(new Error(answer?.message ?? `preparing the database stopped (${signal ?? `exit code ${code}`})`));
+    });
+  });
+}
 
 async function main() {
   const env = loadEnv();
@@ -38,11 +62,9 @@ async function main() {
       resolve();
     });
   });
-  const ctx = await createContext(env);
-  if (env.BATHYNOTE_DEMO) {
-    const { seeded, observations } = await seedDemo(ctx.db);
-    if (seeded) ctx.log.info('seeded the demo campaigns', { observations });
-  }
+  const prepared = await prepareDatabase();
+  const ctx = await createContext(env, { migrate: false });
+  if (prepared.seeded) ctx.log.info('seeded the demo campaigns', { observations: prepared.observations });
   const app = createApp(ctx);
   const lines = [
     '',
@@ -50,9 +72,9 @@ async function main() {
     `  database: ${env.DATABASE_PATH}   uploads: ${env.UPLOADS_DIR}`,
     `  mail: ${ctx.mailer.catching ? 'caught by the built-in mail catcher (site administrators read it under Admin → Mail log)' : 'sent through SMTP_URL'}`,
   ];
-  if (env.BATHYNOTE_DEMO) {
-    lines.push('', `  Demo sign-ins (password "${DEMO_PASSWORD}" for all):`);
-    for (const s of demoSignIns) lines.push(`    ${s.email.padEnd(30)} ${s.role}`);
+  if (prepared.demo) {
+    lines.push('', `  Demo sign-ins (password "${prepared.demo.password}" for all):`);
+    for (const s of prepared.demo.signIns) lines.push(`    ${s.email.padEnd(30)} ${s.role}`);
   }
   process.stdout.write(`${lines.join('\n')}\n\n`);
   handle = app;

@@ -4,6 +4,7 @@
  */
 import { benchDigest } from './digest';
 import { benchExports } from './exports';
+import { benchIdleMemory } from './idle-memory';
 import { benchLiveLoad } from './live-load';
 import { benchLogWrites } from './log-writes';
 import { benchSearch } from './search';
@@ -12,6 +13,7 @@ import { benchTelemetryImport } from './telemetry-import';
 async function main() {
   const only = process.argv[2];
   const benches: [string, () => Promise<void>][] = [
+    ['idle-memory', benchIdleMemory],
     ['log-writes', benchLogWrites],
     ['live-load', benchLiveLoad],
     ['telemetry-import', benchTelemetryImport],
