@@ -13,6 +13,8 @@ const envSchema = z.object({
   UPLOADS_DIR: z.string().min(1).default('uploads/'),
   SMTP_URL: z.url({ protocol: /^smtps?$/ }).optional(),
   BATHYNOTE_DEMO: flag.default(false),
+  /** With the demo on: a simulated dive under way, its telemetry growing and two colleagues logging entries (0 turns it off). */
+  BATHYNOTE_DEMO_LIVE: flag.default(true),
   AUTH_SECRET: z.string().min(32).optional(),
   /** The origin people open in the browser; defaults to http://HOST:PORT. */
   PUBLIC_URL: z.url({ protocol: /^https?$/ }).optional(),
