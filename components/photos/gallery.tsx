@@ -1,5 +1,5 @@
-import { useState } from 'react';
-import { ActivityIndicator, FlatList, Pressable, ScrollView, StyleSheet, View } from 'react-native';
+import { useMemo, useState } from 'react';
+import { ActivityIndicator, FlatList, Pressable, StyleSheet, View } from 'react-native';
 
 import { Chip } from '@/components/ui/chip';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
@@ -13,6 +13,7 @@ import { useTheme } from '@/hooks/theme';
 import { formatUtcTime } from '@/lib/format';
 import { observationKinds, type GalleryPhoto, type ObservationKind } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
+import { justifiedRows } from './justified-rows';
 import { PhotoImage } from './photo-image';
 import { PhotoViewer } from './photo-viewer';
 
@@ -23,9 +24,16 @@ const kindLabels: Record<ObservationKind, string> = {
   operations: 'Operations',
 };
 
-const columnsFor = { phone: 3, tablet: 5, wide: 7 } as const;
+/** Height a row of thumbnails aims at; each row is then fitted to the width exactly. */
+const rowHeightFor = { phone: 112, tablet: 150, wide: 180 } as const;
+/** Two lines of caption under each photo. */
+const CAPTION_HEIGHT = 36;
+const GAP = space.sm;
 
-/** Every photo of a dive, as thumbnails in the order of the dive log, filtered by kind and tag. */
+/**
+ * Every photo of a dive in the order of the dive log, filtered by kind and tag: a justified grid
+ * that shows each at its own aspect ratio, with its time and caption under it.
+ */
 export function DiveGallery({ diveId }: { diveId: string }) {
   const { breakpoint } = useLayout();
   const [width, setWidth] = useState(0);
@@ -37,9 +45,9 @@ export function DiveGallery({ diveId }: { diveId: string }) {
   const [open, setOpen] = useState<number | null>(null);
   const [thumbnailsOnly, setThumbnailsOnly] = useThumbnailsOnly();
   const gallery = useGallery(diveId, { kind, tag });
-  const items = gallery.data?.pages.flatMap((p) => p.items) ?? [];
+  const pages = gallery.data?.pages;
+  const items = useMemo(() => pages?.flatMap((p) => p.items) ?? [], [pages]);
   const total = gallery.data?.pages[0]?.total ?? 0;
-  const columns = columnsFor[breakpoint];
   const usedTags = (tags.data ?? []).filter((t) => !t.retired && t.usage > 0);
   const more = () => {
     if (gallery.hasNextPage && !gallery.isFetchingNextPage) void gallery.fetchNextPage();
@@ -47,7 +55,7 @@ export function DiveGallery({ diveId }: { diveId: string }) {
 
   const filters = (
     <View style={styles.filters}>
-      <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.chips}>
+      <View style={styles.chips} testID="gallery-kinds">
         <Chip label="All kinds" selected={!kind} onPress={() => setKind(undefined)} testID="gallery-kind-all" />
         {observationKinds.map((k) => (
           <Chip
@@ -58,9 +66,9 @@ export function DiveGallery({ diveId }: { diveId: string }) {
             testID={`gallery-kind-${k}`}
           />
         ))}
-      </ScrollView>
+      </View>
       {usedTags.length > 0 ? (
-        <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.chips}>
+        <View style={styles.chips} testID="gallery-tags">
           {usedTags.map((t) => (
             <Chip
               key={t.id}
@@ -70,7 +78,7 @@ export function DiveGallery({ diveId }: { diveId: string }) {
               testID={`gallery-tag-${t.name}`}
             />
           ))}
-        </ScrollView>
+        </View>
       ) : null}
       <View style={styles.summary}>
         <Text variant="caption" muted testID="gallery-total">
@@ -99,21 +107,41 @@ export function DiveGallery({ diveId }: { diveId: string }) {
     );
 
   // Sized from the list's own width, which the side navigation of wider screens takes a part of.
-  const tile = Math.max(64, Math.floor((Math.min(width, 1400) - space.lg * 2 - space.sm * (columns - 1)) / columns));
+  const inner = Math.max(0, Math.min(width, 1400) - space.lg * 2);
+  const rows = useMemo(
+    () =>
+      justifiedRows(
+        items,
+        (p) => p.width / p.height,
+        (p) => p.id,
+        { width: inner, targetHeight: rowHeightFor[breakpoint], gap: GAP },
+      ),
+    [items, inner, breakpoint],
+  );
+  const indexOf = useMemo(() => new Map(items.map((p, i) => [p.id, i])), [items]);
 
   return (
     <>
       <FlatList
-        key={columns}
         testID="gallery"
         onLayout={(e) => setWidth(e.nativeEvent.layout.width)}
-        data={items}
-        numColumns={columns}
-        keyExtractor={(p) => p.id}
+        data={inner > 0 ? rows : []}
+        keyExtractor={(r) => r.key}
         ListHeaderComponent={filters}
         ListEmptyComponent={empty}
-        renderItem={({ item, index }) => <GalleryTile photo={item} size={tile} onPress={() => setOpen(index)} />}
-        columnWrapperStyle={styles.rowGap}
+        renderItem={({ item: row }) => (
+          <View style={styles.row}>
+            {row.tiles.map((t) => (
+              <GalleryTile
+                key={t.item.id}
+                photo={t.item}
+                width={t.width}
+                height={t.height}
+                onPress={() => setOpen(indexOf.get(t.item.id) ?? 0)}
+              />
+            ))}
+          </View>
+        )}
         contentContainerStyle={styles.content}
         onEndReached={more}
         onEndReachedThreshold={0.5}
@@ -131,7 +159,7 @@ export function DiveGallery({ diveId }: { diveId: string }) {
   );
 }
 
-function GalleryTile({ photo, size, onPress }: { photo: GalleryPhoto; size: number; onPress: () => void }) {
+function GalleryTile({ photo, width, height, onPress }: { photo: GalleryPhoto; width: number; height: number; onPress: () => void }) {
   const { colors } = useTheme();
   const label = photo.caption ?? photo.observation.title;
   return (
@@ -140,22 +168,39 @@ function GalleryTile({ photo, size, onPress }: { photo: GalleryPhoto; size: numb
       accessibilityRole="button"
       accessibilityLabel={`Open ${label}`}
       testID={`gallery-photo-${photo.id}`}
-      style={[
+      style={({ pressed, hovered }: { pressed: boolean; hovered?: boolean }) => [
         styles.tile,
-        { width: size, height: size, backgroundColor: colors.surfaceAlt, borderColor: colors.kind[photo.observation.kind] },
+        { width },
+        (pressed || hovered) && styles.lit,
       ]}
     >
-      <PhotoImage uri={photoUrl(photo, 'thumb')} label={label} />
+      <View
+        testID={`gallery-frame-${photo.id}`}
+        style={[styles.frame, { width, height, backgroundColor: colors.surfaceAlt, borderColor: colors.kind[photo.observation.kind] }]}
+      >
+        <PhotoImage uri={photoUrl(photo, 'thumb')} label={label} />
+      </View>
+      <View style={styles.caption} testID={`gallery-caption-${photo.id}`}>
+        <Text variant="caption" numberOfLines={2}>
+          <Text variant="caption" muted>
+            {formatUtcTime(photo.observation.observedAt)}
+          </Text>{' '}
+          {label}
+        </Text>
+      </View>
     </Pressable>
   );
 }
 
 const styles = StyleSheet.create({
-  content: { padding: space.lg, gap: space.sm, maxWidth: 1400, width: '100%', alignSelf: 'center' },
+  content: { padding: space.lg, gap: space.md, maxWidth: 1400, width: '100%', alignSelf: 'center' },
   filters: { gap: space.sm, marginBottom: space.md },
-  chips: { gap: space.sm, paddingVertical: 2 },
+  chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, paddingVertical: 2 },
   summary: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   flex: { flex: 1 },
-  rowGap: { gap: space.sm },
-  tile: { borderRadius: radius.sm, overflow: 'hidden', position: 'relative', borderBottomWidth: 3 },
+  row: { flexDirection: 'row', gap: GAP },
+  tile: { gap: space.xs },
+  lit: { opacity: 0.85 },
+  frame: { borderRadius: radius.sm, overflow: 'hidden', position: 'relative', borderBottomWidth: 3 },
+  caption: { height: CAPTION_HEIGHT, overflow: 'hidden' },
 });

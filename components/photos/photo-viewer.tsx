@@ -109,12 +109,12 @@ function ViewerBody({
       <View style={[styles.footer, breakpoint === 'phone' && styles.footerPhone]}>
         <View style={styles.caption}>
           {photo.entryTitle ? (
-            <Text variant="label" color={dark.text} numberOfLines={1}>
+            <Text variant="label" color={dark.text} testID="viewer-entry">
               {photo.entryTitle}
             </Text>
           ) : null}
           {photo.caption ? (
-            <Text color={dark.text} testID="viewer-caption">
+            <Text color={dark.text} testID="viewer-caption" style={styles.wrapText}>
               {photo.caption}
             </Text>
           ) : null}
@@ -156,9 +156,11 @@ const styles = StyleSheet.create({
   bar: { flexDirection: 'row', alignItems: 'center', gap: space.md, padding: space.md },
   flex: { flex: 1 },
   stage: { flex: 1, margin: space.md, position: 'relative', overflow: 'hidden' },
+  wrapText: { flexShrink: 1 },
   loadFull: { ...StyleSheet.absoluteFill, alignItems: 'center', justifyContent: 'flex-end', paddingBottom: space.xl },
   footer: { flexDirection: 'row', alignItems: 'center', gap: space.lg, padding: space.md, flexWrap: 'wrap' },
   footerPhone: { flexDirection: 'column', alignItems: 'stretch' },
-  caption: { flex: 1, gap: 2, minWidth: 200 },
-  steps: { flexDirection: 'row', gap: space.sm, justifyContent: 'flex-end' },
+  // The caption takes what the buttons leave and wraps; the buttons never shrink or get cut off.
+  caption: { flexGrow: 1, flexShrink: 1, flexBasis: 240, gap: 2, minWidth: 0 },
+  steps: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, justifyContent: 'flex-end', flexShrink: 0, maxWidth: '100%' },
 });
