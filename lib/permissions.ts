@@ -56,6 +56,8 @@ export const permissions = {
   'campaign.edit': { roles: ['lead'], refusal: 'change the campaign’s settings' },
   'team.manage': { roles: ['lead'], refusal: 'manage the team' },
   'vocabulary.manage': { roles: ['lead'], refusal: 'manage the tag vocabulary' },
+  'substrate.manage': { roles: ['lead'], refusal: 'manage the substrate vocabulary' },
+  'checklist.import': { roles: ['lead'], refusal: 'import the species list' },
   'dive.plan': { roles: ['lead', 'pilot'], refusal: 'plan dives' },
   'dive.run': { roles: ['lead', 'pilot'], refusal: 'change the dive' },
   'telemetry.import': { roles: ['lead', 'pilot'], refusal: 'import telemetry logs' },

@@ -22,6 +22,7 @@ import { observationRoutes } from './routes/observations';
 import { photoRoutes } from './routes/photos';
 import { searchRoutes } from './routes/search';
 import { teamRoutes } from './routes/team';
+import { taxaRoutes } from './routes/taxa';
 import { telemetryRoutes } from './routes/telemetry';
 import { refusedLinkReason } from './services/invitation-links';
 import { webExport } from './services/web';
@@ -112,6 +113,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', campaignRoutes(ctx), teamRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
   app.use('/api', mailRoutes(ctx), digestRoutes(ctx));
   app.use('/api', searchRoutes(ctx));
+  app.use('/api', taxaRoutes(ctx));
   app.use('/api', exportRoutes(ctx));
   app.use('/api', apiNotFound);
 

@@ -63,6 +63,7 @@ export const errorCodes = [
   'duplicate_sample_number',
   'duplicate_dive_number',
   'duplicate_tag',
+  'duplicate_substrate',
   'reserved_tag',
   'already_member',
   'already_invited',

@@ -29,7 +29,7 @@ const emailOf: Record<Exclude<Actor, 'anonymous'>, string> = {
 
 let t: TestServer;
 let ids: Fixtures;
-const f = {} as Record<'observation' | 'photo' | 'invitation' | 'quickMark' | 'tag' | 'spareMember' | 'mail', string>;
+const f = {} as Record<'observation' | 'photo' | 'invitation' | 'quickMark' | 'tag' | 'substrate' | 'spareMember' | 'mail', string>;
 
 let shade = 0;
 /** A small PNG, a different one each time (the same file twice on one entry is kept once). */
@@ -73,6 +73,7 @@ beforeAll(async () => {
   ).body.id;
   f.quickMark = (await lead.post(`/api/campaigns/${ids.campaign}/quick-marks`).send({ label: 'Fixture', kind: 'biology' })).body.id;
   f.tag = (await lead.get(`/api/campaigns/${ids.campaign}/tags`)).body[0].id;
+  f.substrate = (await lead.get(`/api/campaigns/${ids.campaign}/substrates`)).body.items[0].id;
   f.spareMember = ids.userId(emails.archaeologist);
   f.mail = t.ctx.db.$client.prepare('select id from mail_queue where ref = ?').pluck().get(f.invitation) as string;
 });
@@ -156,6 +157,14 @@ const table: Record<string, Row> = {
   'POST /api/campaigns/:campaignId/quick-marks': { expect: leadOnly, path: () => `/api/campaigns/${c()}/quick-marks`, body: {} },
   'PATCH /api/quick-marks/:quickMarkId': { expect: leadOnly, path: () => `/api/quick-marks/${f.quickMark}`, body: { kind: 'geology' } },
   'DELETE /api/quick-marks/:quickMarkId': { expect: leadOnly, path: () => `/api/quick-marks/${f.quickMark}` },
+  'GET /api/campaigns/:campaignId/substrates': { expect: readers, path: () => `/api/campaigns/${c()}/substrates` },
+  'POST /api/campaigns/:campaignId/substrates': { expect: leadOnly, path: () => `/api/campaigns/${c()}/substrates`, body: {} },
+  'PATCH /api/substrates/:substrateId': { expect: leadOnly, path: () => `/api/substrates/${f.substrate}`, body: {} },
+  'GET /api/campaigns/:campaignId/checklist': { expect: readers, path: () => `/api/campaigns/${c()}/checklist` },
+  'POST /api/campaigns/:campaignId/checklist': { expect: leadOnly, path: () => `/api/campaigns/${c()}/checklist`, body: {} },
+  'GET /api/campaigns/:campaignId/names': { expect: readers, path: () => `/api/campaigns/${c()}/names?q=a` },
+  'GET /api/campaigns/:campaignId/taxa': { expect: readers, path: () => `/api/campaigns/${c()}/taxa` },
+  'GET /api/dives/:diveId/taxa': { expect: readers, path: () => `/api/dives/${d()}/taxa` },
   'GET /api/campaigns/:campaignId/finds/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/finds/next-number` },
   'GET /api/campaigns/:campaignId/export/summary': { expect: readers, path: () => `/api/campaigns/${c()}/export/summary` },
   'GET /api/campaigns/:campaignId/export/darwin-core.zip': { expect: readers, path: () => `/api/campaigns/${c()}/export/darwin-core.zip` },

@@ -13,6 +13,7 @@ import { ApiError, conflict, notFound } from '../../errors';
 import type { LiveHub } from '../live';
 import { getObservation, getObservationRow } from './hydrate';
 import type { Actor, ObservationRow } from './map';
+import { recordColumns, writeSizes } from './record-fields';
 import { recordChange, writeRevision } from './revisions';
 import { stampValues } from './stamp';
 import { setTags } from './tags';
@@ -38,6 +39,7 @@ export function createObservation(
   const observedAt = input.observedAt ? new Date(input.observedAt) : now;
   const stamped = stampValues(db, target.diveId, observedAt, input);
   const observation = live.withEvents((tx, stage) => {
+    const record = recordColumns(tx, target.campaignId, input.kind, input);
     const row = tx
       .insert(observations)
       .values({
@@ -49,6 +51,7 @@ export function createObservation(
         title: input.title,
         note: input.note,
         ...stamped,
+        ...record,
         clientRef: input.clientRef ?? null,
         createdAt: now,
         updatedAt: now,
@@ -56,6 +59,7 @@ export function createObservation(
       .returning({ id: observations.id })
       .get();
     setTags(tx, row.id, target.campaignId, input.tags, true);
+    writeSizes(tx, row.id, input.sizes);
     const created = getObservation(tx, row.id)!;
     // A new entry has no identification, find, photos or custody yet.
     writeRevision(tx, { ...created, identificationDetail: null, find: null }, 1, 'created', target.authorId, now);
@@ -105,9 +109,11 @@ export function updateObservation(
       heading: keep(input.heading, row.heading, row.headingSource),
       altitude: keep(input.altitude, row.altitude, row.altitudeSource),
     });
+    const record = recordColumns(tx, row.campaignId, input.kind ?? row.kind, input, row.substrateId);
     tx.update(observations)
       .set({
         observedAt,
+        ...record,
         ...(input.kind ? { kind: input.kind } : {}),
         ...(input.title !== undefined ? { title: input.title } : {}),
         ...(input.note !== undefined ? { note: input.note } : {}),
@@ -116,6 +122,7 @@ export function updateObservation(
       .where(eq(observations.id, id))
       .run();
     if (input.tags) setTags(tx, id, row.campaignId, input.tags);
+    writeSizes(tx, id, input.sizes);
     const updated = recordChange(tx, id, actor.userId, 'updated', now);
     stage(updated.campaignId, updated.diveId, 'observation.updated', updated);
     return updated;
