@@ -10,6 +10,7 @@ import { closeContext, createContext } from './bootstrap';
 import { loadEnv } from './env';
 import { errorBody } from './errors';
 import { createHttpServer } from './http-server';
+import { startDemoLive } from './services/demo-live';
 import type { PrepareMessage, PreparedDatabase } from './prepare-database';
 
 /** Until the database is open and migrated, every request is told to come back in a moment. */
@@ -66,6 +67,7 @@ async function main() {
   const ctx = await createContext(env, { migrate: false });
   if (prepared.seeded) ctx.log.info('seeded the demo campaigns', { observations: prepared.observations });
   const app = createApp(ctx);
+  const demoLive = await startDemoLive(ctx);
   const lines = [
     '',
     `  Bathynote ${ctx.version} is running at ${env.PUBLIC_URL}`,
@@ -75,6 +77,11 @@ async function main() {
   if (prepared.demo) {
     lines.push('', `  Demo sign-ins (password "${prepared.demo.password}" for all):`);
     for (const s of prepared.demo.signIns) lines.push(`    ${s.email.padEnd(30)} ${s.role}`);
+    if (demoLive.diveNumber)
+      lines.push(
+        '',
+        `  Dive ${demoLive.diveNumber} is under way: two colleagues log an entry every 20–60 s (BATHYNOTE_DEMO_LIVE=0 turns it off).`,
+      );
   }
   process.stdout.write(`${lines.join('\n')}\n\n`);
   handle = app;
@@ -82,7 +89,10 @@ async function main() {
   const shutdown = (signal: string) => {
     ctx.log.info('shutting down', { signal });
     server.close(() => {
-      void closeContext(ctx).finally(() => process.exit(0));
+      void demoLive
+        .stop()
+        .then(() => closeContext(ctx))
+        .finally(() => process.exit(0));
     });
     server.closeAllConnections();
     // Connections that will not close are cut after five seconds.

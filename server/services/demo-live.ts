@@ -64,6 +64,7 @@ export type DemoLiveOptions = {
 export type DemoLive = {
   /** The dive under way, or null when the simulator is off. */
   readonly diveId: string | null;
+  readonly diveNumber: string | null;
   readonly running: boolean;
   /** Settles once the step in progress (if any) is done. */
   idle(): Promise<void>;
@@ -71,7 +72,7 @@ export type DemoLive = {
   stop(): Promise<void>;
 };
 
-const inactive: DemoLive = { diveId: null, running: false, idle: async () => {}, stop: async () => {} };
+const inactive: DemoLive = { diveId: null, diveNumber: null, running: false, idle: async () => {}, stop: async () => {} };
 
 type Deps = Pick<AppContext, 'env' | 'db' | 'live' | 'log' | 'mail'>;
 
@@ -517,6 +518,7 @@ export async function startDemoLive(deps: Deps, options: DemoLiveOptions = {}): 
 
   return {
     diveId: current.id,
+    diveNumber: current.number,
     get running() {
       return !stopped;
     },

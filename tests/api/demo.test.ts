@@ -3,7 +3,10 @@
  * under way (the simulator `npm start` runs) logs entries through the same path as the app, grows
  * the dive's telemetry, and stops cleanly. The simulator runs on a hand-moved clock here.
  */
+import { rmSync } from 'node:fs';
 import path from 'node:path';
+
+import Database from 'better-sqlite3';
 
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
@@ -15,6 +18,7 @@ import { startDemoLive, type DemoClock, type DemoLive } from '@/server/services/
 import type { LiveEvent } from '@/server/services/live';
 
 import { demoIds, emails } from '../helpers/demo';
+import { startServerProcess } from '../helpers/server-process';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
@@ -87,7 +91,7 @@ describe('the demo dive under way', () => {
       AUTH_SECRET: 'a-secret-that-is-long-enough-for-the-check',
     };
     expect(loadEnv(base as NodeJS.ProcessEnv).BATHYNOTE_DEMO_LIVE).toBe(true);
-    expect(loadEnv({ ...base, BATHYNOTE_DEMO_LIVE: '0' } as NodeJS.ProcessEnv).BATHYNOTE_DEMO_LIVE).toBe(false);
+    expect(loadEnv({ ...base, BATHYNOTE_DEMO_LIVE: '0' }).BATHYNOTE_DEMO_LIVE).toBe(false);
     const before = entryCount();
     const clock = handClock(Date.now());
     for (const ctx of [t.ctx, demoOn(t.ctx, false)]) {
@@ -219,5 +223,46 @@ describe('the demo dive under way', () => {
     expect(entryCount()).toBe(before);
     await sim.stop();
     unsubscribe();
+  });
+});
+
+describe('npm start with the demo', () => {
+  it('has a dive under way, says how to turn it off, and stops it on SIGTERM', async () => {
+    const server = await startServerProcess({ BATHYNOTE_DEMO_LIVE: '1', LOG_LEVEL: 'info' }, { keepDir: true });
+    try {
+      expect(server.output()).toContain('Dive VS-05 is under way');
+      expect(server.output()).toContain('BATHYNOTE_DEMO_LIVE=0 turns it off');
+    } finally {
+      await server.stop();
+    }
+    try {
+      expect(server.child.exitCode).toBe(0);
+      const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
+      const dive = db.prepare("select launch_at, on_bottom_at, on_deck_at from dives where number = 'VS-05'").get() as {
+        launch_at: number;
+        on_bottom_at: number;
+        on_deck_at: number | null;
+      };
+      const entries = db
+        .prepare("select count(*) from observations o join dives d on d.id = o.dive_id where d.number = 'VS-05'")
+        .pluck()
+        .get();
+      db.close();
+      expect(dive.on_bottom_at).toBeGreaterThan(dive.launch_at);
+      expect(dive.on_deck_at).toBeNull();
+      expect(entries).toBe(2);
+    } finally {
+      rmSync(server.dir, { recursive: true, force: true });
+    }
+  });
+
+  it('has none when BATHYNOTE_DEMO_LIVE=0', async () => {
+    const server = await startServerProcess({ LOG_LEVEL: 'info' });
+    try {
+      expect(server.output()).toContain('Demo sign-ins');
+      expect(server.output()).not.toContain('is under way');
+    } finally {
+      await server.stop();
+    }
   });
 });

@@ -55,6 +55,8 @@ export async function startServerProcess(
       DATABASE_PATH: path.join(dir, 'bathynote.db'),
       UPLOADS_DIR: path.join(dir, 'uploads'),
       BATHYNOTE_DEMO: '1',
+      // The demo's simulated dive under way writes on its own; a test that wants it asks for it.
+      BATHYNOTE_DEMO_LIVE: '0',
       LOG_LEVEL: 'error',
       ...env,
     },
