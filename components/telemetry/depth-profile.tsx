@@ -16,9 +16,9 @@ import { KindLegend, MARKER_TARGET, PlotLabel, PlotMarker } from './plot-parts';
 import { formatTickTime, linearScale, niceCeil, niceStep, pathAcrossGaps, targetSizes, ticks, timeTicks } from './plot-scale';
 import { timecodeOf } from './timecode-label';
 
-const MARGIN = { left: 48, right: 16, top: 38, bottom: 40 };
-/** Entries without a depth sit in this band above the surface line, drawn hollow. */
-const NO_DEPTH_Y = MARGIN.top - 15;
+const MARGIN = { left: 60, right: 16, top: 24, bottom: 40 };
+/** Height of the strip below the time axis where entries with no depth at all sit, drawn hollow. */
+const NO_DEPTH_STRIP = 24;
 /** Smallest touch target where entries crowd: the dot itself. */
 const MIN_TARGET = 12;
 
@@ -80,8 +80,12 @@ export function DepthProfile({ dive, samples, summary, height = 260 }: Props) {
     const step = zoom ? niceStep(Math.max(4, deepest - shallowest), 4) : 1;
     const dMin = zoom ? Math.floor(shallowest / step - 0.25) * step : 0;
     const dMax = zoom ? Math.ceil(deepest / step + 0.25) * step : niceCeil(deepest);
+    // An entry with neither a typed depth nor one from the log (say, in a gap of the log) is not
+    // drawn at the surface, where it would read as 0 m, but in a strip of its own under the axis.
+    const strip = entries.some((e) => e.depth === null) ? NO_DEPTH_STRIP : 0;
     const plotW = Math.max(10, width - MARGIN.left - MARGIN.right);
-    const plotH = Math.max(10, height - MARGIN.top - MARGIN.bottom);
+    const plotH = Math.max(10, height - MARGIN.top - MARGIN.bottom - strip);
+    const stripY = MARGIN.top + plotH + 24 + strip / 2;
     const x = linearScale(tMin, tMax, MARGIN.left, MARGIN.left + plotW);
     const y = linearScale(dMin, dMax, MARGIN.top, MARGIN.top + plotH);
 
@@ -94,13 +98,29 @@ export function DepthProfile({ dive, samples, summary, height = 260 }: Props) {
     );
 
     const timeAxis = timeTicks(tMin, tMax, Math.max(2, Math.floor(plotW / 50)));
-    const placed = entries.map((e) => ({ ...e, px: x(e.t), py: e.depth !== null ? y(e.depth) : NO_DEPTH_Y }));
+    const placed = entries.map((e) => ({ ...e, px: x(e.t), py: e.depth !== null ? y(e.depth) : stripY }));
     const targets = targetSizes(
       placed.map((e) => ({ x: e.px, y: e.py })),
       MARKER_TARGET,
       MIN_TARGET,
     );
-    return { points, entries: placed, targets, tMin, tMax, plotW, plotH, x, y, d, gaps, depthTicks: ticks(dMin, dMax, 5), timeAxis };
+    return {
+      points,
+      entries: placed,
+      targets,
+      tMin,
+      tMax,
+      plotW,
+      plotH,
+      x,
+      y,
+      d,
+      gaps,
+      strip,
+      stripY,
+      depthTicks: ticks(dMin, dMax, 5),
+      timeAxis,
+    };
   }, [samples, summary, dive.phases, width, height, zoom]);
 
   const onLayout = (e: LayoutChangeEvent) => setWidth(Math.round(e.nativeEvent.layout.width));
@@ -175,24 +195,41 @@ export function DepthProfile({ dive, samples, summary, height = 260 }: Props) {
                   strokeDasharray="2 4"
                 />
               ))}
+              {g.strip > 0 ? (
+                <Rect
+                  x={MARGIN.left}
+                  y={g.stripY - g.strip / 2 + 2}
+                  width={g.plotW}
+                  height={g.strip - 4}
+                  fill={colors.surfaceAlt}
+                  stroke={colors.border}
+                  strokeDasharray="2 3"
+                  testID="profile-no-depth-strip"
+                />
+              ) : null}
               <Path d={g.d} stroke={colors.accent} strokeWidth={2} fill="none" strokeLinejoin="round" />
               {scrubMs !== null ? (
                 <Line x1={g.x(scrubMs)} x2={g.x(scrubMs)} y1={MARGIN.top} y2={MARGIN.top + g.plotH} stroke={colors.text} strokeWidth={1} />
               ) : null}
             </Svg>
             {g.depthTicks.map((v) => (
-              <PlotLabel key={`dl${v}`} x={MARGIN.left - 6} y={g.y(v)} align="right" width={44}>
+              <PlotLabel key={`dl${v}`} x={MARGIN.left - 6} y={g.y(v)} align="right" width={MARGIN.left - 8}>
                 {v}
               </PlotLabel>
             ))}
             {g.timeAxis.ticks.map((v) => (
-              <PlotLabel key={`tl${v}`} x={g.x(v)} y={MARGIN.top + g.plotH + 12}>
+              <PlotLabel key={`tl${v}`} x={g.x(v)} y={MARGIN.top + g.plotH + 12} testID="profile-time-tick">
                 {formatTickTime(v, g.timeAxis.step)}
               </PlotLabel>
             ))}
-            <PlotLabel x={MARGIN.left - 40} y={7} align="left" width={120}>
+            <PlotLabel x={MARGIN.left - 52} y={8} align="left" width={120}>
               Depth (m) ↓
             </PlotLabel>
+            {g.strip > 0 ? (
+              <PlotLabel x={MARGIN.left - 6} y={g.stripY} align="right" width={MARGIN.left - 6} testID="profile-no-depth-label">
+                no depth
+              </PlotLabel>
+            ) : null}
             <PlotLabel x={MARGIN.left + g.plotW} y={height - 8} align="right" width={120}>
               Time (UTC) →
             </PlotLabel>
@@ -238,11 +275,32 @@ export function DepthProfile({ dive, samples, summary, height = 260 }: Props) {
         <Text variant="caption" muted testID="profile-readout" aria-live="polite">
           {readout(scrubMs, nearest, exact.data, dive)}
         </Text>
-        {g.gaps.length > 0 ? (
-          <Text variant="caption" color={colors.warning}>
-            Shaded: no telemetry ({g.gaps.length === 1 ? 'one gap' : `${g.gaps.length} gaps`} in the log longer than {samples.gapS} s).
-          </Text>
-        ) : null}
+        <View style={styles.shades}>
+          {bottomFrom !== null && bottomTo !== null && !zoom ? (
+            <View style={styles.shade} testID="legend-bottom-phase">
+              <View style={[styles.swatch, { backgroundColor: colors.accent, opacity: 0.2, borderColor: colors.accent }]} />
+              <Text variant="caption" muted>
+                Bottom phase (on bottom to off bottom)
+              </Text>
+            </View>
+          ) : null}
+          {g.gaps.length > 0 ? (
+            <View style={styles.shade} testID="legend-gap">
+              <View style={[styles.swatch, { backgroundColor: colors.warning, opacity: 0.45, borderColor: colors.warning }]} />
+              <Text variant="caption" color={colors.warning}>
+                No telemetry: {g.gaps.length === 1 ? 'one gap' : `${g.gaps.length} gaps`} in the log longer than {samples.gapS} s
+              </Text>
+            </View>
+          ) : null}
+          {g.strip > 0 ? (
+            <View style={styles.shade} testID="legend-no-depth">
+              <View style={[styles.ring, { borderColor: colors.textMuted }]} />
+              <Text variant="caption" muted>
+                Entry with no depth, neither typed nor from the log
+              </Text>
+            </View>
+          ) : null}
+        </View>
       </View>
     </View>
   );
@@ -271,4 +329,8 @@ const styles = StyleSheet.create({
   wrap: { gap: space.sm },
   scrub: { position: 'absolute' },
   footer: { gap: space.xs },
+  shades: { flexDirection: 'row', flexWrap: 'wrap', columnGap: space.lg, rowGap: space.xs },
+  shade: { flexDirection: 'row', alignItems: 'center', gap: space.xs },
+  swatch: { width: 14, height: 10, borderWidth: 1, borderRadius: 2 },
+  ring: { width: 10, height: 10, borderRadius: 5, borderWidth: 2 },
 });

@@ -119,3 +119,75 @@ export function targetSizes(points: { x: number; y: number }[], max: number, min
   }
   return sizes;
 }
+
+/** The part of segment a→b inside the rectangle (Liang–Barsky), as fractions [t0, t1] along it; null when none is. */
+function clipSegment(
+  a: { x: number; y: number },
+  b: { x: number; y: number },
+  r: { x: number; y: number; width: number; height: number },
+): [number, number] | null {
+  const dx = b.x - a.x;
+  const dy = b.y - a.y;
+  let t0 = 0;
+  let t1 = 1;
+  const edges: [number, number][] = [
+    [-dx, a.x - r.x],
+    [dx, r.x + r.width - a.x],
+    [-dy, a.y - r.y],
+    [dy, r.y + r.height - a.y],
+  ];
+  for (const [p, q] of edges) {
+    if (p === 0) {
+      if (q < 0) return null;
+      continue;
+    }
+    const t = q / p;
+    if (p < 0) {
+      if (t > t1) return null;
+      if (t > t0) t0 = t;
+    } else {
+      if (t < t0) return null;
+      if (t < t1) t1 = t;
+    }
+  }
+  return [t0, t1];
+}
+
+/**
+ * Like `pathAcrossGaps`, but cut at a rectangle: only what lies inside it is drawn, so a track that
+ * runs off the plot never crosses the frame or the axis labels.
+ */
+export function pathInFrame(
+  points: { t: number; x: number; y: number }[],
+  gaps: { from: number; to: number }[],
+  frame: { x: number; y: number; width: number; height: number },
+): string {
+  let d = '';
+  let gi = 0;
+  let penAt: { x: number; y: number } | null = null;
+  const at = (a: { x: number; y: number }, b: { x: number; y: number }, t: number) => ({
+    x: a.x + (b.x - a.x) * t,
+    y: a.y + (b.y - a.y) * t,
+  });
+  const fmt = (p: { x: number; y: number }) => `${p.x.toFixed(1)} ${p.y.toFixed(1)}`;
+  for (let i = 1; i < points.length; i++) {
+    const a = points[i - 1]!;
+    const b = points[i]!;
+    while (gi < gaps.length && gaps[gi]!.to <= a.t) gi++;
+    if (gi < gaps.length && gaps[gi]!.from >= a.t && gaps[gi]!.to <= b.t) {
+      penAt = null;
+      continue;
+    }
+    const cut = clipSegment(a, b, frame);
+    if (!cut) {
+      penAt = null;
+      continue;
+    }
+    const from = at(a, b, cut[0]);
+    const to = at(a, b, cut[1]);
+    if (!penAt || Math.abs(penAt.x - from.x) > 0.01 || Math.abs(penAt.y - from.y) > 0.01) d += `M${fmt(from)}`;
+    d += `L${fmt(to)}`;
+    penAt = cut[1] < 1 ? null : to;
+  }
+  return d;
+}
