@@ -12,6 +12,9 @@ import type { ExportLicence, PublicPositionMode } from './schemas/exports';
 export const DWC_NS = 'http://rs.tdwg.org/dwc/terms/';
 export const DCTERMS_NS = 'http://purl.org/dc/terms/';
 export const OCCURRENCE_ROW_TYPE = `${DWC_NS}Occurrence`;
+/** The measurement-or-fact extension's row type (Darwin Core, MeasurementOrFact class). */
+export const MEASUREMENT_ROW_TYPE = `${DWC_NS}MeasurementOrFact`;
+export const MEASUREMENT_FILE = 'measurementorfact.txt';
 
 /** The record-level terms Darwin Core borrows from Dublin Core; every other term is Darwin Core's own. */
 const dublinCoreTerms = new Set([
@@ -32,11 +35,17 @@ export const occurrenceTerms = [
   'occurrenceID',
   'basisOfRecord',
   'occurrenceStatus',
+  'individualCount',
+  'organismQuantity',
+  'organismQuantityType',
+  'materialEntityID',
+  'preparations',
   'eventID',
   'parentEventID',
   'fieldNumber',
   'eventDate',
   'samplingProtocol',
+  'habitat',
   'decimalLatitude',
   'decimalLongitude',
   'geodeticDatum',
@@ -99,6 +108,13 @@ export type DwcEntry = {
     identifiedByName: string;
   } | null;
   photoUrls: string[];
+  individualCount: number | null;
+  organismQuantity: number | null;
+  organismQuantityType: string | null;
+  /** The substrate class the organism sits on (the campaign's vocabulary, from CMECS). */
+  substrate: string | null;
+  sample: { sampleNumber: string; preservation: string | null } | null;
+  sizes: { dimension: string; valueCm: number; method: string }[];
 };
 
 export type DwcDataset = {
@@ -135,11 +151,18 @@ export function toOccurrence(entry: DwcEntry, dataset: DwcDataset): Record<Occur
     occurrenceID: occurrenceIdOf(entry.id),
     basisOfRecord: entry.sampled ? 'MaterialSample' : 'HumanObservation',
     occurrenceStatus: 'present',
+    individualCount: entry.individualCount,
+    organismQuantity: entry.organismQuantity,
+    organismQuantityType: entry.organismQuantity === null ? null : entry.organismQuantityType,
+    // The sample's number in the campaign's register: unique within this dataset, which is one campaign.
+    materialEntityID: entry.sample ? entry.sample.sampleNumber : null,
+    preparations: entry.sample?.preservation ?? null,
     eventID: eventIdOf(entry.diveId),
     parentEventID: eventIdOf(entry.campaignId),
     fieldNumber: entry.diveNumber,
     eventDate: entry.observedAt,
     samplingProtocol: dataset.vehicle ? `video observation from ${dataset.vehicle}` : 'video observation from a remotely operated vehicle',
+    habitat: entry.substrate ? `substrate: ${entry.substrate}` : null,
     decimalLatitude: position?.lat ?? null,
     decimalLongitude: position?.lon ?? null,
     geodeticDatum: position ? 'EPSG:4326' : null,
@@ -167,6 +190,23 @@ export function toOccurrence(entry: DwcEntry, dataset: DwcDataset): Record<Occur
 }
 
 export const occurrenceHeader = () => occurrenceTerms.join('\t') + '\n';
+
+/** The columns of measurementorfact.txt; the first is the occurrence it belongs to. */
+export const measurementTerms = ['occurrenceID', 'measurementType', 'measurementValue', 'measurementUnit', 'measurementMethod'] as const;
+
+export const measurementHeader = () => measurementTerms.join('\t') + '\n';
+
+/** An entry's sizes as measurement-or-fact lines: each dimension in centimetres, measured or estimated. */
+export function measurementLines(entry: Pick<DwcEntry, 'id' | 'sizes'>): string {
+  return entry.sizes
+    .map(
+      (s) =>
+        [occurrenceIdOf(entry.id), s.dimension, tsvCell(s.valueCm), 'cm', s.method === 'measured' ? 'measured' : 'estimated by eye']
+          .map((v) => tsvCell(v))
+          .join('\t') + '\n',
+    )
+    .join('');
+}
 
 /** One line of occurrence.txt. */
 export function occurrenceLine(entry: DwcEntry, dataset: DwcDataset): string {
@@ -207,6 +247,13 @@ export function metaXml(fileName = 'occurrence.txt'): string {
     '    <id index="0"/>',
     ...fields,
     '  </core>',
+    `  <extension encoding="UTF-8" fieldsTerminatedBy="\\t" linesTerminatedBy="\\n" fieldsEnclosedBy="" ignoreHeaderLines="1" rowType="${MEASUREMENT_ROW_TYPE}">`,
+    '    <files>',
+    `      <location>${MEASUREMENT_FILE}</location>`,
+    '    </files>',
+    '    <coreid index="0"/>',
+    ...measurementTerms.slice(1).map((term, i) => `    <field index="${i + 1}" term="${termIri(term)}"/>`),
+    '  </extension>',
     '</archive>',
     '',
   ].join('\n');

@@ -126,7 +126,7 @@ describe('Darwin Core Archive', () => {
     expect((await bio.delete(`/api/observations/${retired}`)).status).toBeLessThan(300);
 
     const zip = await archive();
-    expect(Object.keys(zip).sort()).toEqual(['eml.xml', 'meta.xml', 'occurrence.txt']);
+    expect(Object.keys(zip).sort()).toEqual(['eml.xml', 'measurementorfact.txt', 'meta.xml', 'occurrence.txt']);
     const xsd = readFileSync(path.join(fixtures, 'tdwg_dwc_text.xsd'), 'utf8');
     const valid = await validateXML({
       xml: { fileName: 'meta.xml', contents: strFromU8(zip['meta.xml']!) },
@@ -145,7 +145,8 @@ describe('Darwin Core Archive', () => {
     const header = strFromU8(zip['occurrence.txt']!).split('\n')[0]!.split('\t');
     expect(header.filter((term) => !tdwgTerms.has(term))).toEqual([]);
     // meta.xml names one field per column after the id, in the same order as the header.
-    const terms = [...strFromU8(zip['meta.xml']!).matchAll(/<field index="(\d+)" term="[^"]*\/([^/"]+)"\/>/g)].map((m) => [
+    const coreXml = strFromU8(zip['meta.xml']!).split('</core>')[0]!;
+    const terms = [...coreXml.matchAll(/<field index="(\d+)" term="[^"]*\/([^/"]+)"\/>/g)].map((m) => [
       Number(m[1]),
       m[2],
     ]);
@@ -416,5 +417,47 @@ describe('summary', () => {
     expect(byKind['darwin-core']!.estimatedBytes).toBeLessThan(zip * 2);
     expect(byKind.finds!.public).toBe(false);
     expect(byKind.geojson!.public).toBe(true);
+  });
+});
+
+describe('Darwin Core Archive: the deeper record', () => {
+  it('carries counts, substrate and the sample on the occurrence, and sizes in measurementorfact.txt', async () => {
+    const bio = await t.signIn(emails.biologist);
+    const made = await bio.post(`/api/dives/${ids.dive}/observations`).send({
+      kind: 'biology',
+      title: 'Crinoids on the davit',
+      individualCount: 9,
+      substrate: 'Metal',
+      sizes: [{ dimension: 'height', valueCm: 22, method: 'estimated' }],
+    });
+    expect(made.status).toBe(201);
+    const sampled = await bio
+      .put(`/api/observations/${made.body.id}/sample`)
+      .send({ sampleNumber: 'DWC-7', sampleType: 'biological', preservation: '96 % ethanol' });
+    expect(sampled.status).toBe(200);
+    const zip = await archive();
+    const row = readOccurrences(zip).find((r) => r.occurrenceID === `urn:uuid:${made.body.id}`)!;
+    expect(row).toMatchObject({
+      basisOfRecord: 'MaterialSample',
+      individualCount: '9',
+      habitat: 'substrate: Metal',
+      materialEntityID: 'DWC-7',
+      preparations: '96 % ethanol',
+    });
+    const mof = parse<Record<string, string>>(strFromU8(zip['measurementorfact.txt']!), {
+      delimiter: '\t',
+      quote: false,
+      columns: true,
+      record_delimiter: '\n',
+    });
+    expect(mof.filter((m) => m.occurrenceID === `urn:uuid:${made.body.id}`)).toEqual([
+      {
+        occurrenceID: `urn:uuid:${made.body.id}`,
+        measurementType: 'height',
+        measurementValue: '22',
+        measurementUnit: 'cm',
+        measurementMethod: 'estimated by eye',
+      },
+    ]);
   });
 });

@@ -93,6 +93,12 @@ describe('occurrence rows with protected positions', () => {
     sampled: false,
     identification: null,
     photoUrls: [],
+    individualCount: null,
+    organismQuantity: null,
+    organismQuantityType: null,
+    substrate: null,
+    sample: null,
+    sizes: [],
   };
   const row = (positions: 'exact' | 'grid-0.01' | 'grid-0.1' | 'withheld') =>
     toOccurrence(entry, { licence: 'CC-BY-4.0', rightsHolder: 'Lead', positions, vehicle: null });

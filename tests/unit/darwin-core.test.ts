@@ -16,6 +16,8 @@ import { validateXML } from 'xmllint-wasm';
 
 import {
   emlXml,
+  measurementLines,
+  measurementTerms,
   metaXml,
   occurrenceHeader,
   occurrenceLine,
@@ -63,6 +65,12 @@ const entry: DwcEntry = {
     identifiedByName: 'Test Identifier',
   },
   photoUrls: ['https://notebook.test/api/photos/a', 'https://notebook.test/api/photos/b'],
+  individualCount: null,
+  organismQuantity: null,
+  organismQuantityType: null,
+  substrate: null,
+  sample: null,
+  sizes: [],
 };
 const dataset: DwcDataset = { licence: 'CC-BY-4.0', rightsHolder: 'Test Lead', positions: 'exact', vehicle: 'Test ROV' };
 
@@ -113,6 +121,54 @@ describe('occurrence columns', () => {
 
 describe('an occurrence row', () => {
   const row = toOccurrence(entry, dataset);
+
+  it('carries a count, a cover, the substrate and the sample (Darwin Core individualCount, organismQuantity with organismQuantityType, habitat, materialEntityID, preparations)', () => {
+    const counted = toOccurrence(
+      {
+        ...entry,
+        individualCount: 4,
+        organismQuantity: 35,
+        organismQuantityType: '% cover',
+        substrate: 'Metal',
+        sample: { sampleNumber: 'S-014', preservation: '96 % ethanol' },
+        sampled: true,
+      },
+      dataset,
+    );
+    expect(counted).toMatchObject({
+      individualCount: 4,
+      organismQuantity: 35,
+      organismQuantityType: '% cover',
+      habitat: 'substrate: Metal',
+      materialEntityID: 'S-014',
+      preparations: '96 % ethanol',
+      basisOfRecord: 'MaterialSample',
+    });
+    expect(row).toMatchObject({
+      individualCount: null,
+      organismQuantity: null,
+      organismQuantityType: null,
+      habitat: null,
+      materialEntityID: null,
+    });
+  });
+
+  it('gives sizes as measurement-or-fact lines tied to the occurrence', () => {
+    const lines = measurementLines({
+      id: entry.id,
+      sizes: [
+        { dimension: 'length', valueCm: 12.5, method: 'measured' },
+        { dimension: 'height', valueCm: 4, method: 'estimated' },
+      ],
+    });
+    expect(lines).toBe(`urn:uuid:${entry.id}\tlength\t12.5\tcm\tmeasured\n` + `urn:uuid:${entry.id}\theight\t4\tcm\testimated by eye\n`);
+    expect(measurementTerms.slice(1).map(termIri)).toEqual([
+      'http://rs.tdwg.org/dwc/terms/measurementType',
+      'http://rs.tdwg.org/dwc/terms/measurementValue',
+      'http://rs.tdwg.org/dwc/terms/measurementUnit',
+      'http://rs.tdwg.org/dwc/terms/measurementMethod',
+    ]);
+  });
 
   it('is a human observation, or a material sample when a sample was taken (basisOfRecord is a Darwin Core class name)', () => {
     expect(row.basisOfRecord).toBe('HumanObservation');
@@ -187,8 +243,18 @@ describe('meta.xml', () => {
     expect(core.getAttribute('ignoreHeaderLines')).toBe('1');
     expect(doc.querySelector('files > location')?.textContent).toBe('occurrence.txt');
     expect(doc.querySelector('id')?.getAttribute('index')).toBe('0');
-    const fields = [...doc.querySelectorAll('field')].map((f) => [Number(f.getAttribute('index')), f.getAttribute('term')]);
+    const fields = [...core.querySelectorAll('field')].map((f) => [Number(f.getAttribute('index')), f.getAttribute('term')]);
     expect(fields).toEqual(occurrenceTerms.slice(1).map((t, i) => [i + 1, termIri(t)]));
+  });
+
+  it('declares the sizes as a measurement-or-fact extension tied to the core by its first column', () => {
+    const doc = new JSDOM(metaXml(), { contentType: 'application/xml' }).window.document;
+    const extension = doc.querySelector('extension')!;
+    expect(extension.getAttribute('rowType')).toBe('http://rs.tdwg.org/dwc/terms/MeasurementOrFact');
+    expect(extension.querySelector('files > location')?.textContent).toBe('measurementorfact.txt');
+    expect(extension.querySelector('coreid')?.getAttribute('index')).toBe('0');
+    const fields = [...extension.querySelectorAll('field')].map((f) => [Number(f.getAttribute('index')), f.getAttribute('term')]);
+    expect(fields).toEqual(measurementTerms.slice(1).map((t, i) => [i + 1, termIri(t)]));
   });
 });
 

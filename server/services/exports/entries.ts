@@ -51,6 +51,13 @@ export type ExportEntry = Pick<
     state: 'in-situ' | 'recovered';
   } | null;
   custody: { holder: string; location: string; container: string | null }[];
+  individualCount: number | null;
+  organismQuantity: number | null;
+  organismQuantityType: string | null;
+  /** The substrate class's name. */
+  substrate: string | null;
+  sample: { sampleNumber: string; preservation: string | null } | null;
+  sizes: { dimension: string; valueCm: number; method: string }[];
 };
 
 export const BATCH = 500;
@@ -115,6 +122,10 @@ type RawEntry = {
   lon: number | null;
   position_source: DepthSource | null;
   temperature: number | null;
+  individual_count: number | null;
+  organism_quantity: number | null;
+  organism_quantity_type: string | null;
+  substrate: string | null;
   author_id: string;
   version: number;
   created_at: number;
@@ -132,13 +143,18 @@ const IN_BATCH = 'in (select value from json_each(?))';
 export class EntryReader {
   private names = new Map<string, string>();
   private diveNumbers = new Map<string, string>();
-  private statements: Record<'entries' | 'tags' | 'photos' | 'identifications' | 'finds' | 'custody' | 'names' | 'dives', Statement>;
+  private statements: Record<
+    'entries' | 'tags' | 'photos' | 'identifications' | 'finds' | 'custody' | 'samples' | 'sizes' | 'names' | 'dives',
+    Statement
+  >;
 
   constructor(db: Db) {
     const prepare = (text: string) => db.$client.prepare(text) as unknown as Statement;
     this.statements = {
       entries: prepare(
         `select id, dive_id, campaign_id, observed_at, kind, title, note, depth, depth_source, lat, lon, position_source, temperature,
+          individual_count, organism_quantity, organism_quantity_type,
+          (select name from substrate_classes s where s.id = observations.substrate_id) as substrate,
           author_id, version, created_at, updated_at from observations where id ${IN_BATCH}`,
       ),
       tags: prepare(
@@ -158,6 +174,8 @@ export class EntryReader {
       custody: prepare(
         `select observation_id as id, holder, location, container from custody_events where observation_id ${IN_BATCH} order by since, created_at`,
       ),
+      samples: prepare(`select observation_id as id, sample_number, preservation from samples where observation_id ${IN_BATCH}`),
+      sizes: prepare(`select observation_id as id, dimension, value_cm, method from observation_sizes where observation_id ${IN_BATCH}`),
       names: prepare(`select id, name from user where id ${IN_BATCH}`),
       dives: prepare(`select id, number from dives where id ${IN_BATCH}`),
     };
@@ -200,6 +218,17 @@ export class EntryReader {
     const custodyRows = parts.custody
       ? (st.custody.all(batch) as { id: string; holder: string; location: string; container: string | null }[])
       : [];
+    const sampleBy = new Map(
+      (st.samples.all(batch) as { id: string; sample_number: string; preservation: string | null }[]).map((r) => [
+        r.id,
+        { sampleNumber: r.sample_number, preservation: r.preservation },
+      ]),
+    );
+    const sizesBy = groupBy(
+      st.sizes.all(batch) as { id: string; dimension: string; value_cm: number; method: string }[],
+      (r) => r.id,
+      (r) => ({ dimension: r.dimension, valueCm: r.value_cm, method: r.method }),
+    );
     this.lookUp(this.names, st.names, [...rows.map((r) => r.author_id), ...idents.map((i) => i.identified_by)]);
     this.lookUp(
       this.diveNumbers,
@@ -270,14 +299,20 @@ export class EntryReader {
             }
           : null,
         custody: custodyBy.get(r.id) ?? [],
+        individualCount: r.individual_count,
+        organismQuantity: r.organism_quantity,
+        organismQuantityType: r.organism_quantity_type,
+        substrate: r.substrate,
+        sample: sampleBy.get(r.id) ?? null,
+        sizes: sizesBy.get(r.id) ?? [],
       });
     }
     return ids.map((id) => byId.get(id)).filter((e): e is ExportEntry => e !== undefined);
   }
 }
 
-/** Whether an entry records a sample taken (it carries the reserved sample tag). */
-export const isSampled = (entry: ExportEntry) => entry.tags.some((t) => t.toLowerCase() === SAMPLE_TAG);
+/** Whether an entry records a sample taken: it is in the sample register, or carries the reserved sample tag. */
+export const isSampled = (entry: ExportEntry) => entry.sample !== null || entry.tags.some((t) => t.toLowerCase() === SAMPLE_TAG);
 
 /** The live entries of a campaign, optionally of one kind. */
 export function campaignConditions(campaignId: string, kind?: Row['kind']): SQL[] {

@@ -3,7 +3,7 @@
  * the export screen's size estimate.
  */
 import { csvRecord, CSV_LINE_END } from '../../../lib/csv';
-import { occurrenceLine, type DwcDataset } from '../../../lib/darwin-core';
+import { measurementLines, occurrenceLine, type DwcDataset, type DwcEntry } from '../../../lib/darwin-core';
 import { entryCsvColumns, findRegisterColumns, toEntryCsvRow, toFindRow } from '../../../lib/export-rows';
 import { toFeature } from '../../../lib/geojson';
 import type { PublicPositionMode } from '../../../lib/schemas';
@@ -21,26 +21,38 @@ export function dwcDataset(campaign: ExportCampaign): DwcDataset {
   };
 }
 
+function dwcEntry(entry: ExportEntry, publicUrl: string): DwcEntry {
+  return {
+    id: entry.id,
+    diveId: entry.diveId,
+    diveNumber: entry.diveNumber,
+    campaignId: entry.campaignId,
+    observedAt: entry.observedAt.toISOString(),
+    updatedAt: entry.updatedAt.toISOString(),
+    title: entry.title,
+    lat: entry.lat,
+    lon: entry.lon,
+    depth: entry.depth,
+    authorName: entry.authorName,
+    sampled: isSampled(entry),
+    identification: entry.identification,
+    photoUrls: entry.photoIds.map((id) => photoUrl(publicUrl, id)),
+    individualCount: entry.individualCount,
+    organismQuantity: entry.organismQuantity,
+    organismQuantityType: entry.organismQuantityType,
+    substrate: entry.substrate,
+    sample: entry.sample,
+    sizes: entry.sizes,
+  };
+}
+
 export function occurrenceText(entry: ExportEntry, dataset: DwcDataset, publicUrl: string): string {
-  return occurrenceLine(
-    {
-      id: entry.id,
-      diveId: entry.diveId,
-      diveNumber: entry.diveNumber,
-      campaignId: entry.campaignId,
-      observedAt: entry.observedAt.toISOString(),
-      updatedAt: entry.updatedAt.toISOString(),
-      title: entry.title,
-      lat: entry.lat,
-      lon: entry.lon,
-      depth: entry.depth,
-      authorName: entry.authorName,
-      sampled: isSampled(entry),
-      identification: entry.identification,
-      photoUrls: entry.photoIds.map((id) => photoUrl(publicUrl, id)),
-    },
-    dataset,
-  );
+  return occurrenceLine(dwcEntry(entry, publicUrl), dataset);
+}
+
+/** The entry's sizes as lines of the measurement-or-fact extension. */
+export function measurementText(entry: ExportEntry): string {
+  return measurementLines({ id: entry.id, sizes: entry.sizes });
 }
 
 /** A feature's JSON, or null when the entry has no position to show. */

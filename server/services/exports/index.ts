@@ -9,12 +9,12 @@ import { strToU8, Zip, ZipDeflate } from 'fflate';
 
 import type { Db } from '../../../db/client';
 import { CSV_BOM } from '../../../lib/csv';
-import { emlXml, metaXml, occurrenceHeader, positionsSentence } from '../../../lib/darwin-core';
+import { emlXml, MEASUREMENT_FILE, measurementHeader, metaXml, occurrenceHeader, positionsSentence } from '../../../lib/darwin-core';
 import { collectionHead, collectionTail } from '../../../lib/geojson';
 import { naturalCompare } from '../../../lib/natural-sort';
 import { exportCampaign, extentOf, type ExportCampaign } from './campaign';
 import { BATCH, campaignConditions, entryIds, EntryReader, findIds, type EntryOrder, type ExportEntry } from './entries';
-import { dwcDataset, entryCsvHeader, entryCsvText, featureText, findHeader, findText, occurrenceText } from './formats';
+import { dwcDataset, entryCsvHeader, entryCsvText, featureText, findHeader, findText, measurementText, occurrenceText } from './formats';
 import { drained, startDownload, streamExport, TextSink } from './sink';
 
 export { exportSummary } from './summary';
@@ -89,12 +89,16 @@ export async function writeDarwinCore(db: Db, res: Response, campaignId: string,
     const occurrences = new ZipDeflate('occurrence.txt', { level: 6 });
     zip.add(occurrences);
     occurrences.push(strToU8(occurrenceHeader()));
+    // Sizes are few beside the occurrences: kept until the occurrence file is done, then written whole.
+    const measurements: string[] = [measurementHeader()];
     for await (const batch of inBatches(new EntryReader(db), ids)) {
       if (failure) throw failure as Error;
       occurrences.push(strToU8(batch.map((e) => occurrenceText(e, dataset, publicUrl)).join('')));
+      for (const e of batch) if (e.sizes.length > 0) measurements.push(measurementText(e));
       await drained(res);
     }
     occurrences.push(new Uint8Array(0), true);
+    whole(MEASUREMENT_FILE, measurements.join(''));
     zip.end();
     if (failure) throw failure as Error;
   });
