@@ -32,7 +32,7 @@ const LIVE_LOG_PATTERN = 'skerry-%-live.csv';
 /** A dive left with no telemetry for longer than this is brought up and a new one launched. */
 const STALE_MS = 2 * 3_600_000;
 /** How long before start a new dive was launched: it is on the bottom, and working, when the first person looks. */
-const LAUNCHED_AGO_MS = 38 * 60_000;
+const LAUNCHED_AGO_MS = 70 * 60_000;
 const DESCENT_M_PER_MIN = 22;
 const ASCENT_M_PER_MIN = 25;
 /** Minutes of log before launch and after on deck, with the vehicle on deck. */
@@ -386,6 +386,43 @@ export async function startDemoLive(deps: Deps, options: DemoLiveOptions = {}): 
     );
   };
 
+  const used = new Set(
+    db
+      .select({ title: s.observations.title })
+      .from(s.observations)
+      .where(eq(s.observations.campaignId, campaign.id))
+      .all()
+      .map((o) => o.title),
+  );
+  const orders: Record<Colleague, { title: string; tags: string[] }[]> = {
+    biologist: titleOrder('biologist', rand),
+    archaeologist: titleOrder('archaeologist', rand),
+  };
+  /** The next title of a colleague not yet used in the campaign; once all are, they come round again as a later look. */
+  const nextTitle = (who: Colleague) => {
+    for (let round = 1; ; round++) {
+      for (const t of orders[who]) {
+        const title = round === 1 ? t.title : `${t.title} (look ${round})`;
+        if (!used.has(title)) {
+          used.add(title);
+          return { title, tags: t.tags };
+        }
+      }
+    }
+  };
+
+  let turn = rand() < 0.5 ? 0 : 1;
+  /** One colleague's entry about what the vehicle sees at `at`, written a few seconds later. */
+  const colleagueEntry = async (diveId: string, at: number) => {
+    // Mostly they take turns; now and then the same person logs twice in a row.
+    turn = rand() < 0.8 ? 1 - turn : turn;
+    const who: Colleague = turn === 0 ? 'biologist' : 'archaeologist';
+    const { title, tags } = nextTitle(who);
+    const notes = subjects[who].notes;
+    const note = notes[Math.floor(rand() * notes.length)]!.replace('{size}', String(5 + Math.floor(rand() * 40)));
+    await logEntry(diveId, who, title, subjects[who].kind, tags, note, at);
+  };
+
   /** Launches a new dive that has been down for a while: on the bottom, with its log up to now. */
   const launch = async () => {
     const now = clock.now();
@@ -422,6 +459,10 @@ export async function startDemoLive(deps: Deps, options: DemoLiveOptions = {}): 
       'Seabed in sight; heading for the cargo mound.',
       onBottomAt + 20_000,
     );
+    // The work of the bottom time so far: an entry every few minutes.
+    for (let at = onBottomAt + 2 * 60_000; at < now - 60_000; at += 3 * 60_000 + Math.floor(rand() * 3 * 60_000)) {
+      await colleagueEntry(dive.id, at);
+    }
     log.info('demo dive launched', { dive: number });
     return dive;
   };
@@ -440,31 +481,6 @@ export async function startDemoLive(deps: Deps, options: DemoLiveOptions = {}): 
   const current = { id: dive.id, number: dive.number };
   const track = trackOf(dive)!;
 
-  const used = new Set(
-    db
-      .select({ title: s.observations.title })
-      .from(s.observations)
-      .where(eq(s.observations.campaignId, campaign.id))
-      .all()
-      .map((o) => o.title),
-  );
-  const orders: Record<Colleague, { title: string; tags: string[] }[]> = {
-    biologist: titleOrder('biologist', random(track.seed)),
-    archaeologist: titleOrder('archaeologist', random(track.seed ^ 0x5bd1e995)),
-  };
-  /** The next title of a colleague not yet used in the campaign; once all are, they come round again as a later look. */
-  const nextTitle = (who: Colleague) => {
-    for (let round = 1; ; round++) {
-      for (const t of orders[who]) {
-        const title = round === 1 ? t.title : `${t.title} (look ${round})`;
-        if (!used.has(title)) {
-          used.add(title);
-          return { title, tags: t.tags };
-        }
-      }
-    }
-  };
-
   // Anything missed since the last sample (a quick restart) is filled in before the first entry.
   await appendLog(
     current,
@@ -477,7 +493,6 @@ export async function startDemoLive(deps: Deps, options: DemoLiveOptions = {}): 
   let stopped = false;
   let timer: unknown = null;
   let inProgress: Promise<void> = Promise.resolve();
-  let turn = rand() < 0.5 ? 0 : 1;
 
   const step = async () => {
     const stillUnderWay = db
@@ -494,14 +509,8 @@ export async function startDemoLive(deps: Deps, options: DemoLiveOptions = {}): 
     const now = clock.now();
     const last = lastSampleOf(current.id) ?? track.launch - MARGIN_MS;
     await appendLog(current, track, last + SAMPLE_MS, Math.floor(now / 1000) * 1000, null);
-    // Mostly they take turns; now and then the same person logs twice in a row.
-    turn = rand() < 0.8 ? 1 - turn : turn;
-    const who: Colleague = turn === 0 ? 'biologist' : 'archaeologist';
-    const { title, tags } = nextTitle(who);
-    const notes = subjects[who].notes;
-    const note = notes[Math.floor(rand() * notes.length)]!.replace('{size}', String(5 + Math.floor(rand() * 40)));
     // Written a few seconds after it was seen.
-    await logEntry(current.id, who, title, subjects[who].kind, tags, note, now - 3000 - Math.floor(rand() * 15_000));
+    await colleagueEntry(current.id, now - 3000 - Math.floor(rand() * 15_000));
   };
 
   const schedule = () => {
