@@ -2,23 +2,27 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
+/** A campaign of the tests' own with one finished dive, EX-01, and none under way. */
+let fixtures: E2eFixtures;
 
 beforeAll(async () => {
   server = await startServerProcess();
+  fixtures = await buildE2eFixtures(server.url);
 });
 afterAll(async () => {
   await server?.stop();
 });
 
 /** The dive cards of the campaign screen, top to bottom. */
-const diveCards = (page: Page) => page.getByTestId('dive-list').locator('[data-testid^="dive-VS"]');
+const diveCards = (page: Page) => page.getByTestId('dive-list').locator('[data-testid^="dive-EX-"]');
 
 describe.each([
-  ['phone', viewports.phone, 'VS-05'],
-  ['wide', viewports.wide, 'VS-06'],
+  ['phone', viewports.phone, 'EX-02'],
+  ['wide', viewports.wide, 'EX-03'],
 ] as const)('a pilot plans a dive at %s size', (size, viewport, expected) => {
   let pilot: Browser;
 
@@ -32,7 +36,7 @@ describe.each([
 
   it('plans the next dive in the campaign’s pattern, edits the plan, and marks it launched', async () => {
     const page = pilot.page;
-    await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+    await page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
     await page.getByTestId('plan-dive').click();
     await page.getByTestId('dive-plan-form').waitFor();
     expect(await page.getByTestId('field-dive-number').inputValue()).toBe(expected);
@@ -49,12 +53,12 @@ describe.each([
     await page.getByTestId('save-dive-plan').click();
     await page.getByTestId(`dive-${expected}`).waitFor();
     if (size === 'phone') {
-      // No dive is under way in the demo, so the next planned one comes first.
+      // No dive of the campaign is under way, so the next planned one comes first.
       expect(await diveCards(page).first().getAttribute('data-testid')).toBe(`dive-${expected}`);
       expect(await page.getByTestId(`dive-${expected}`).getByTestId('dive-current').textContent()).toBe('Next');
     } else {
       // The dive launched at phone size is under way: it stays first, the new plan comes next.
-      expect(await diveCards(page).nth(0).getAttribute('data-testid')).toBe('dive-VS-05');
+      expect(await diveCards(page).nth(0).getAttribute('data-testid')).toBe('dive-EX-02');
       expect(await diveCards(page).nth(1).getAttribute('data-testid')).toBe(`dive-${expected}`);
     }
     expect(await page.getByTestId(`dive-${expected}`).textContent()).toContain('planned ≤ 640 m');

@@ -1,12 +1,16 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { openBrowser, pageApi as api, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
+/** A finished dive of the tests' own (2026-05-13, 17:40 to 23:05 UTC) with a telemetry log. */
+let fixtures: E2eFixtures;
 
 beforeAll(async () => {
   server = await startServerProcess();
+  fixtures = await buildE2eFixtures(server.url, { telemetry: true });
 });
 afterAll(async () => {
   await server?.stop();
@@ -19,13 +23,28 @@ describe('the entry form at phone size', () => {
   beforeAll(async () => {
     bio = await openBrowser(viewports.phone);
     await signInAs(bio.page, server.url, 'biologist@bathynote.test');
-    await bio.page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
-    await bio.page.getByTestId('dive-VS-02').click();
+    await bio.page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
+    await bio.page.getByTestId(`dive-${fixtures.finished.number}`).click();
     await bio.page.getByTestId('dive-log').waitFor();
     diveId = /\/dives\/([^/?#]+)/.exec(bio.page.url())![1]!;
   });
   afterAll(async () => {
     await bio?.close();
+  });
+
+  it('starts a finished dive’s entry with no time, shows the dive’s window, and still offers Now', async () => {
+    const page = bio.page;
+    await page.goto(`${server.url}/dives/${diveId}/new`);
+    await page.getByTestId('observation-form').waitFor();
+    expect(await page.getByTestId('field-time').inputValue()).toBe('');
+    expect(await page.getByTestId('dive-window').textContent()).toBe(
+      `Dive ${fixtures.finished.number}: launched 2026-05-13 17:40:00Z, on deck 2026-05-13 23:05:00Z.`,
+    );
+    await page.getByTestId('time-now').click();
+    expect(await page.getByTestId('field-time').inputValue()).toMatch(/^\d{4}-\d{2}-\d{2} \d{2}:\d{2}:\d{2}$/);
+    // Now is months after this dive: the form says so before anything is saved.
+    await page.getByTestId('time-outside-dive').waitFor();
+    expect(bio.errors).toEqual([]);
   });
 
   it('takes a field’s error away as soon as the field is fixed', async () => {
@@ -95,6 +114,13 @@ describe('the entry form at phone size', () => {
     await card.waitFor();
     await card.getByTestId('entry-outside-dive').waitFor();
     expect(await card.getByTestId('observation-time').first().textContent()).toBe('2026-11-30 09:15:00Z');
+
+    // The summary lists it apart, and the depth profile leaves it out rather than stretch its time axis to November.
+    const id = (await card.getAttribute('data-testid'))!.replace('observation-', '');
+    await page.goto(`${server.url}/dives/${diveId}/summary`);
+    await page.getByTestId('depth-profile-svg').waitFor();
+    await page.getByTestId('outside-entries').getByTestId(`outside-entry-${id}`).waitFor();
+    expect(await page.getByTestId(`profile-marker-${id}`).count()).toBe(0);
     expect(bio.errors).toEqual([]);
   });
 

@@ -2,19 +2,22 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, pageApi as api, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
+let fixtures: E2eFixtures;
 
 beforeAll(async () => {
   server = await startServerProcess();
+  fixtures = await buildE2eFixtures(server.url, { underWay: true });
 });
 afterAll(async () => {
   await server?.stop();
 });
 
 async function openDive(page: Page, number: string): Promise<string> {
-  await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+  await page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
   await page.getByTestId(`dive-${number}`).click();
   await page.getByTestId('live-status-live').waitFor();
   return /\/dives\/([^/?#]+)/.exec(page.url())![1]!;
@@ -38,7 +41,7 @@ describe.each([
   beforeAll(async () => {
     [a, b] = await Promise.all([openBrowser(viewport), openBrowser(viewport)]);
     await Promise.all([signInAs(a.page, server.url, 'biologist@bathynote.test'), signInAs(b.page, server.url, 'lead@bathynote.test')]);
-    diveId = await openDive(a.page, 'VS-03');
+    diveId = await openDive(a.page, fixtures.finished.number);
   });
   afterAll(async () => {
     await Promise.all([a?.close(), b?.close()]);
@@ -102,7 +105,7 @@ describe('entries kept by an earlier version of the app', () => {
     const screen = await openBrowser(viewports.phone);
     try {
       await signInAs(screen.page, server.url, 'biologist@bathynote.test');
-      const diveId = await openDive(screen.page, 'VS-02');
+      const diveId = await openDive(screen.page, fixtures.underWay!.number);
       const title = 'Kept on the device before the update';
       await screen.page.evaluate(
         ({ diveId, title }) => {

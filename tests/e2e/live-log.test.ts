@@ -2,12 +2,21 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
+/**
+ * A campaign of the tests' own, with a dive under way (its number in `live`) carrying twenty
+ * entries, so the log is long enough to scroll, and a new entry's time is "now" there.
+ */
+let fixtures: E2eFixtures;
+let live: string;
 
 beforeAll(async () => {
   server = await startServerProcess();
+  fixtures = await buildE2eFixtures(server.url, { underWay: true, underWayEntries: true });
+  live = fixtures.underWay!.number;
 });
 afterAll(async () => {
   await server?.stop();
@@ -15,8 +24,8 @@ afterAll(async () => {
 
 const signIn = (page: Page, email: string) => signInAs(page, server.url, email);
 
-async function openDive(page: Page, number: string) {
-  await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+async function openDive(page: Page, number = live) {
+  await page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
   await page.getByTestId(`dive-${number}`).click();
   await page.getByTestId('live-status-live').waitFor();
 }
@@ -62,7 +71,7 @@ describe.each([
   beforeAll(async () => {
     [logger, reader] = await Promise.all([openBrowser(viewport), openBrowser(viewport)]);
     await Promise.all([signIn(logger.page, 'biologist@bathynote.test'), signIn(reader.page, 'guest@bathynote.test')]);
-    await Promise.all([openDive(logger.page, 'VS-04'), openDive(reader.page, 'VS-04')]);
+    await Promise.all([openDive(logger.page), openDive(reader.page)]);
   });
   afterAll(async () => {
     await Promise.all([logger?.close(), reader?.close()]);
@@ -131,19 +140,19 @@ describe('two people editing one entry', () => {
     const [author, lead] = await Promise.all([openBrowser(viewports.wide), openBrowser(viewports.wide)]);
     try {
       await Promise.all([signIn(author.page, 'biologist@bathynote.test'), signIn(lead.page, 'lead@bathynote.test')]);
-      await openDive(author.page, 'VS-01');
-      const title = 'Sponge on the sternpost';
+      await openDive(author.page);
+      const title = 'Sponge on the gudgeon';
       await logEntry(author.page, title);
       await author.page.getByTestId('dive-log').getByText(title).click();
       await author.page.getByTestId('edit').click();
       await author.page.getByTestId('observation-editor').waitFor();
       const editUrl = author.page.url();
-      await author.page.getByTestId('field-title').fill('Glass sponge on the sternpost');
+      await author.page.getByTestId('field-title').fill('Glass sponge on the gudgeon');
 
       // Meanwhile the lead changes the same entry and saves first.
       await lead.page.goto(editUrl);
       await lead.page.getByTestId('observation-editor').waitFor();
-      await lead.page.getByTestId('field-title').fill('Vase sponge on the sternpost');
+      await lead.page.getByTestId('field-title').fill('Vase sponge on the gudgeon');
       await lead.page.getByTestId('save-observation').click();
       await lead.page.getByTestId('observation-detail').waitFor();
 
@@ -152,10 +161,10 @@ describe('two people editing one entry', () => {
       const conflictPanel = author.page.getByTestId('edit-conflict');
       await conflictPanel.waitFor();
       expect(await author.page.getByTestId('save-observation').count()).toBe(0);
-      expect(await author.page.getByTestId('edit-conflict-theirs-title').textContent()).toBe('Vase sponge on the sternpost');
-      expect(await author.page.getByTestId('edit-conflict-mine-title').textContent()).toBe('Glass sponge on the sternpost');
+      expect(await author.page.getByTestId('edit-conflict-theirs-title').textContent()).toBe('Vase sponge on the gudgeon');
+      expect(await author.page.getByTestId('edit-conflict-mine-title').textContent()).toBe('Glass sponge on the gudgeon');
       await author.page.getByTestId('edit-conflict-keep-mine').click();
-      await author.page.getByTestId('observation-detail').getByText('Glass sponge on the sternpost').waitFor();
+      await author.page.getByTestId('observation-detail').getByText('Glass sponge on the gudgeon').waitFor();
 
       await author.page.getByTestId('toggle-history').click();
       await author.page.getByTestId('revision-3').waitFor();
@@ -175,7 +184,7 @@ describe('logging fast and over a failing link', () => {
     const bio = await openBrowser(viewports.phone);
     try {
       await signIn(lead.page, 'lead@bathynote.test');
-      await lead.page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+      await lead.page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
       await lead.page.getByTestId('campaign-settings').click();
       await lead.page.getByTestId('field-quick-mark-label').fill('Rusticle drip');
       await lead.page.getByTestId('add-quick-mark').click();
@@ -190,7 +199,8 @@ describe('logging fast and over a failing link', () => {
       await lead.page.getByTestId('quick-mark-settings').getByText('Rusticle drip · #hull').waitFor();
 
       await signIn(bio.page, 'biologist@bathynote.test');
-      await openDive(bio.page, 'VS-03');
+      // Quick marks are offered on a dive under way.
+      await openDive(bio.page);
       await bio.page.getByTestId('quick-mark-Rusticle drip').click();
       await bio.page.getByTestId('toast').getByText('Rusticle drip logged').waitFor();
       const logged = bio.page.getByTestId('dive-log').locator('[data-testid^="observation-"]').filter({ hasText: 'Rusticle drip' }).first();
@@ -213,13 +223,13 @@ describe('logging fast and over a failing link', () => {
         if (refused++ > 0) return route.continue();
         return route.fulfill({ status: 502, contentType: 'text/html', body: '<h1>Bad gateway</h1>' });
       });
-      await reader.page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
-      await reader.page.getByTestId('dive-VS-01').click();
+      await reader.page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
+      await reader.page.getByTestId(`dive-${live}`).click();
       await reader.page.getByTestId('live-status-connecting').waitFor();
       await reader.page.getByTestId('live-status-live').waitFor({ timeout: 10_000 });
       expect(refused).toBe(2);
 
-      await openDive(logger.page, 'VS-01');
+      await openDive(logger.page);
       await logEntry(logger.page, 'Logged after the proxy error');
       await reader.page.getByTestId('dive-log').getByText('Logged after the proxy error').waitFor({ timeout: 5000 });
       expect(reader.errors.filter((e) => !e.includes('502'))).toEqual([]);
@@ -232,7 +242,7 @@ describe('logging fast and over a failing link', () => {
     const bio = await openBrowser(viewports.phone);
     try {
       await signIn(bio.page, 'biologist@bathynote.test');
-      await openDive(bio.page, 'VS-02');
+      await openDive(bio.page);
       // The satellite link drops: every new entry fails to reach the server.
       await bio.page.route('**/api/dives/*/observations', (route) =>
         route.request().method() === 'POST' ? route.abort('internetdisconnected') : route.continue(),
@@ -283,7 +293,7 @@ describe('logging fast and over a failing link', () => {
       page.route(route, (r) => (r.request().method() === 'POST' ? r.abort('internetdisconnected') : r.continue()));
     try {
       await signIn(page, 'biologist@bathynote.test');
-      await openDive(page, 'VS-02');
+      await openDive(page);
       await posts('**/api/dives/*/observations');
       await page.getByTestId('new-observation').click();
       await page.getByTestId('field-kind-biology').click();
@@ -299,7 +309,7 @@ describe('logging fast and over a failing link', () => {
 
       // The archaeologist signs in on the same screen, with the link back.
       await signIn(page, 'archaeologist@bathynote.test');
-      await openDive(page, 'VS-02');
+      await openDive(page);
       expect(await page.getByTestId('pending-entries').count()).toBe(0);
       await page.getByTestId('new-observation').click();
       expect(await page.getByTestId('field-title').inputValue()).toBe('');
@@ -328,7 +338,7 @@ describe('logging fast and over a failing link', () => {
 
       // Back with its author, it is waiting, and goes out in her name.
       await signIn(page, 'biologist@bathynote.test');
-      await openDive(page, 'VS-02');
+      await openDive(page);
       const log = page.getByTestId('dive-log').locator('[data-testid^="observation-"]');
       await log.getByText('Written by the biologist, not sent yet').waitFor();
       await page.getByTestId('new-observation').click();
@@ -351,7 +361,7 @@ describe('a member taken off the campaign while following a dive', () => {
         if (r.url().includes('/stream')) streamsOpened.push(r.url());
       });
       await Promise.all([signIn(guest.page, 'guest@bathynote.test'), signIn(lead.page, 'lead@bathynote.test')]);
-      await openDive(guest.page, 'VS-01');
+      await openDive(guest.page);
       const diveId = /\/dives\/([^/?#]+)/.exec(guest.page.url())![1]!;
       // The lead removes the guest, through the API as the team screen does.
       const removed = await lead.page.evaluate(async (diveId) => {

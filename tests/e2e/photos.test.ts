@@ -1,11 +1,9 @@
-import path from 'node:path';
-
-import Database from 'better-sqlite3';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { jpegWithExif } from '../fixtures/photos/make';
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -15,18 +13,14 @@ let dropTarget: { id: string; diveId: string; title: string };
 
 beforeAll(async () => {
   server = await startServerProcess();
-  const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
-  const entries = db
-    .prepare(
-      `select o.id, o.dive_id as diveId, o.title from observations o
-       join user u on u.id = o.author_id join dives d on d.id = o.dive_id
-       where u.email = 'biologist@bathynote.test' and d.number = 'VS-02' and o.retired = 0
-       order by o.observed_at limit 2`,
-    )
-    .all() as (typeof entry)[];
-  db.close();
-  expect(entries).toHaveLength(2);
-  [entry, dropTarget] = entries as [typeof entry, typeof entry];
+  // The biologist's first two biology entries on a finished dive of the tests' own.
+  const fixtures = await buildE2eFixtures(server.url, { entries: true });
+  const [first, second] = Object.entries(fixtures.entries)
+    .filter(([, e]) => e.by === 'biologist')
+    .map(([title, e]) => ({ id: e.id, diveId: fixtures.finished.id, title }));
+  expect(first).toBeDefined();
+  expect(second).toBeDefined();
+  [entry, dropTarget] = [first!, second!];
 });
 afterAll(async () => {
   await server?.stop();

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { openBrowser, pageApi as api, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -13,22 +14,18 @@ afterAll(async () => {
 });
 
 describe('quick marks on a dive under way', () => {
-  let lead: Browser;
   let bio: Browser;
   let diveId: string;
 
   beforeAll(async () => {
-    [lead, bio] = await Promise.all([openBrowser(viewports.phone), openBrowser(viewports.phone)]);
-    await Promise.all([signInAs(lead.page, server.url, 'lead@bathynote.test'), signInAs(bio.page, server.url, 'biologist@bathynote.test')]);
-    // A dive of its own, launched now, so the demo's finished dives stay as they are.
-    const campaigns = await api<{ id: string; name: string }[]>(lead.page, '/api/campaigns');
-    const campaign = campaigns.find((c) => c.name === 'Varn Shoal 2026')!;
-    const dive = await api<{ id: string }>(lead.page, `/api/campaigns/${campaign.id}/dives`, 'POST', { number: 'QM-01' });
-    await api(lead.page, `/api/dives/${dive.id}/phases`, 'POST', { phase: 'launch' });
-    diveId = dive.id;
+    bio = await openBrowser(viewports.phone);
+    await signInAs(bio.page, server.url, 'biologist@bathynote.test');
+    // A campaign of the tests' own, whose lead defined a "Coral" mark, and a dive of it under way.
+    const fixtures = await buildE2eFixtures(server.url, { underWay: true });
+    diveId = fixtures.underWay!.id;
   });
   afterAll(async () => {
-    await Promise.all([lead?.close(), bio?.close()]);
+    await bio?.close();
   });
 
   const corals = async () =>
