@@ -5,16 +5,25 @@ import { useTheme } from '@/hooks/theme';
 import { fonts, radius, space } from '@/lib/tokens';
 import { Text } from './text';
 
-type Props = TextInputProps & { label: string; error?: string; hint?: string; mono?: boolean };
+type Props = TextInputProps & {
+  label: string;
+  error?: string;
+  hint?: string;
+  mono?: boolean;
+  /** The label is still read out to screen readers, but not shown (a field in a tool bar). */
+  hideLabel?: boolean;
+};
 
 /** A labelled text input that shows its field error beneath it. */
-export const Field = forwardRef<TextInput, Props>(function Field({ label, error, hint, mono, style, testID, ...rest }, ref) {
+export const Field = forwardRef<TextInput, Props>(function Field({ label, error, hint, mono, hideLabel, style, testID, ...rest }, ref) {
   const { colors } = useTheme();
   return (
     <View style={styles.wrap}>
-      <Text variant="label" nativeID={testID ? `${testID}-label` : undefined}>
-        {label}
-      </Text>
+      {hideLabel ? null : (
+        <Text variant="label" nativeID={testID ? `${testID}-label` : undefined}>
+          {label}
+        </Text>
+      )}
       <TextInput
         ref={ref}
         testID={testID}

@@ -7,38 +7,58 @@ import { useTheme } from '@/hooks/theme';
 import { space } from '@/lib/tokens';
 import { Text } from './text';
 
-type HeaderProps = { title: string; subtitle?: string; back?: string; right?: ReactNode };
+type HeaderProps = {
+  title: string;
+  subtitle?: string;
+  back?: string;
+  /** What the back control says (and reads out); "Back" unless the screen knows where it leads. */
+  backLabel?: string;
+  right?: ReactNode;
+  /** A state line under the titles (e.g. whether the screen is following live updates). */
+  status?: ReactNode;
+};
 
-/** A screen's title bar: where you are, the way back, and the screen's own actions. */
-export function ScreenHeader({ title, subtitle, back, right }: HeaderProps) {
+/**
+ * A screen's title bar: where you are, the way back, and the screen's own actions. The titles
+ * wrap rather than cut off, and the actions move to a line of their own when they do not fit
+ * beside them, so a narrow screen never shrinks the titles to a few letters.
+ */
+export function ScreenHeader({ title, subtitle, back, backLabel = 'Back', right, status }: HeaderProps) {
   const { colors } = useTheme();
   const router = useRouter();
   return (
-    <View style={[styles.header, { borderBottomColor: colors.border, backgroundColor: colors.surface }]}>
-      {back ? (
-        <Pressable
-          accessibilityRole="link"
-          accessibilityLabel="Back"
-          testID="back"
-          onPress={() => (router.canGoBack() ? router.back() : router.replace(back))}
-          style={styles.back}
-        >
-          <Text variant="title" color={colors.accent}>
-            ‹
-          </Text>
-        </Pressable>
-      ) : null}
-      <View style={styles.titles}>
-        <Text variant="title" role="heading" aria-level={1} numberOfLines={1}>
-          {title}
-        </Text>
-        {subtitle ? (
-          <Text variant="caption" muted numberOfLines={1}>
-            {subtitle}
-          </Text>
+    <View style={[styles.header, { borderBottomColor: colors.border, backgroundColor: colors.surface }]} testID="screen-header">
+      <View style={styles.lead}>
+        {back ? (
+          <Pressable
+            accessibilityRole="link"
+            accessibilityLabel={backLabel}
+            testID="back"
+            onPress={() => (router.canGoBack() ? router.back() : router.replace(back))}
+            style={({ pressed }) => [styles.back, pressed && { backgroundColor: colors.surfaceAlt }]}
+            hitSlop={4}
+          >
+            <Text variant="title" color={colors.accent} aria-hidden>
+              ‹
+            </Text>
+            <Text variant="label" color={colors.accent}>
+              {backLabel}
+            </Text>
+          </Pressable>
         ) : null}
+        <View style={styles.titles}>
+          <Text variant="title" role="heading" aria-level={1} testID="screen-title">
+            {title}
+          </Text>
+          {subtitle ? (
+            <Text variant="caption" muted testID="screen-subtitle">
+              {subtitle}
+            </Text>
+          ) : null}
+          {status}
+        </View>
       </View>
-      {right}
+      {right ? <View style={styles.right}>{right}</View> : null}
     </View>
   );
 }
@@ -65,12 +85,26 @@ const styles = StyleSheet.create({
   content: { gap: space.lg, maxWidth: 960, width: '100%', alignSelf: 'center' },
   header: {
     flexDirection: 'row',
+    flexWrap: 'wrap',
     alignItems: 'center',
-    gap: space.md,
+    columnGap: space.md,
     paddingHorizontal: space.lg,
+    paddingBottom: space.xs,
     minHeight: 56,
     borderBottomWidth: StyleSheet.hairlineWidth,
   },
-  back: { minWidth: 32, minHeight: 44, justifyContent: 'center' },
-  titles: { flex: 1, paddingVertical: space.sm },
+  // Back and titles stay together; below ~260 px of room for the titles the actions wrap under them.
+  lead: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexGrow: 1, flexShrink: 1, flexBasis: 260, minWidth: 0 },
+  back: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: 2,
+    minWidth: 44,
+    minHeight: 44,
+    paddingHorizontal: space.xs,
+    marginLeft: -space.xs,
+    borderRadius: 8,
+  },
+  titles: { flex: 1, minWidth: 0, paddingVertical: space.sm },
+  right: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', justifyContent: 'flex-end', gap: space.sm, flexGrow: 1 },
 });
