@@ -13,6 +13,7 @@ import { formatUtcTime } from '@/lib/format';
 import type { Dive, Observation } from '@/lib/schemas';
 import { radius, space } from '@/lib/tokens';
 import { matchesSearch, withPhases, type LogRow } from './log-rows';
+import type { Column } from './log-columns';
 import { LogTableHeader, LogTableRow } from './log-table';
 
 type Props = {
@@ -28,6 +29,8 @@ type Props = {
   timing?: Pick<Dive, 'phases' | 'plannedStartAt'>;
   onFiltersChange: (f: DiveLogFilters) => void;
   view: 'cards' | 'table';
+  /** The table's columns (the person's pick of the optional ones). */
+  columns: readonly Column[];
   selectedId?: string;
   onSelect: (o: Observation) => void;
   /** The dive's live feed (held-back entries), and where the list is scrolled to. */
@@ -54,6 +57,7 @@ export function DiveLog({
   timing,
   onFiltersChange,
   view,
+  columns,
   selectedId,
   onSelect,
   live,
@@ -78,12 +82,19 @@ export function DiveLog({
       if (item.type === 'phase') return <PhaseDivider label={item.label} at={item.at} table={view === 'table'} phase={item.phase} />;
       const o = item.observation;
       return view === 'table' ? (
-        <LogTableRow observation={o} recording={recording} timing={timing} selected={o.id === selectedId} onPress={() => onSelect(o)} />
+        <LogTableRow
+          observation={o}
+          columns={columns}
+          recording={recording}
+          timing={timing}
+          selected={o.id === selectedId}
+          onPress={() => onSelect(o)}
+        />
       ) : (
         <ObservationCard observation={o} recording={recording} timing={timing} selected={o.id === selectedId} onPress={() => onSelect(o)} />
       );
     },
-    [onSelect, recording, selectedId, timing, view],
+    [columns, onSelect, recording, selectedId, timing, view],
   );
 
   let empty: React.ReactElement;
@@ -117,7 +128,7 @@ export function DiveLog({
               <WaitingEntries diveId={diveId} onRetry={onRetryWaiting} />
             </View>
             {view === 'table' ? (
-              <LogTableHeader filters={filters} onSort={(sort, order) => onFiltersChange({ ...filters, sort, order })} />
+              <LogTableHeader columns={columns} filters={filters} onSort={(sort, order) => onFiltersChange({ ...filters, sort, order })} />
             ) : null}
           </View>
         }
@@ -200,8 +211,10 @@ function Separator() {
 
 const styles = StyleSheet.create({
   fill: { flex: 1 },
-  content: { padding: space.lg, paddingBottom: 96 },
-  tableContent: { paddingTop: space.lg, paddingBottom: 96 },
+  // The entry button sits outside the list (in the header, or in the bar under it on phones), so
+  // the list's end needs no room kept for it.
+  content: { padding: space.lg, paddingBottom: space.xl },
+  tableContent: { paddingTop: space.lg, paddingBottom: space.xl },
   tableHeader: { paddingHorizontal: space.lg },
   sep: { height: space.md },
   phase: { flexDirection: 'row', alignItems: 'center', gap: space.sm, paddingVertical: space.xs },

@@ -1,8 +1,9 @@
 import { useRouter } from 'expo-router';
-import { useRef, useState } from 'react';
+import { useCallback, useRef, useState } from 'react';
 import { Pressable, ScrollView, StyleSheet, View, type TextInput } from 'react-native';
 
 import { ObservationDetail } from '@/components/observations/observation-detail';
+import { SplitPane } from '@/components/layout/split-pane';
 import { GalleryLink } from '@/components/photos/gallery-link';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
@@ -11,6 +12,7 @@ import { Screen, ScreenHeader } from '@/components/ui/screen';
 import { Segmented } from '@/components/ui/segmented';
 import { EmptyState, ErrorState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
+import { useToastClearance } from '@/components/ui/toast';
 import { useCampaign } from '@/hooks/campaigns';
 import { useDive } from '@/hooks/dives';
 import { useKeyboardShortcuts } from '@/hooks/keyboard';
@@ -18,15 +20,18 @@ import { useLayout } from '@/hooks/layout';
 import { useDiveLive } from '@/hooks/live';
 import { useDiveLog, type DiveLogFilters } from '@/hooks/observations';
 import { useSendQueueFlush } from '@/hooks/send-queue';
+import { useMe } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { formatUtcTime } from '@/lib/format';
 import { can } from '@/lib/permissions';
 import type { Observation } from '@/lib/schemas';
-import { space } from '@/lib/tokens';
+import { radius, space } from '@/lib/tokens';
+import { ColumnMenu } from './column-menu';
 import { DiveLog, READING_OFFSET } from './dive-log';
 import { diveStatus } from './dive-list';
 import { DivePhases } from './dive-phases';
 import { LiveStatusBadge } from './live-status';
+import { tableWidth, useLogColumns } from './log-columns';
 import { LogFilters } from './log-filters';
 import { matchesSearch } from './log-rows';
 import { PhaseControls } from './phase-controls';
@@ -46,6 +51,12 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const [showFilters, setShowFilters] = useState(false);
   const [editingPlan, setEditingPlan] = useState(false);
   const [view, setView] = useState<'cards' | 'table'>('cards');
+  const [showColumns, setShowColumns] = useState(false);
+  const [detailHidden, setDetailHidden] = useState(false);
+  // Whether the detail pane has room beside the list (a table with many columns may leave none).
+  const [detailFits, setDetailFits] = useState(true);
+  const [barHeight, setBarHeight] = useState(0);
+  const columns = useLogColumns(useMe().data?.user.id);
   const [search, setSearch] = useState('');
   const searchBox = useRef<TextInput>(null);
   const scrollOffset = useRef(0);
@@ -53,9 +64,16 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const sendWaiting = useSendQueueFlush();
   const items = (useDiveLog(diveId, filters).data?.pages.flatMap((p) => p.items) ?? []).filter((o) => matchesSearch(o, search));
   const role = campaign.data?.myRole;
+  const phoneBar = navPlacement === 'bottom' && can(role, 'entry.create');
+  useToastClearance('dive-actions', phoneBar ? barHeight : 0);
+  const detailShown = splitView && !detailHidden && detailFits;
+  const onFits = useCallback((fits: boolean) => setDetailFits(fits), []);
+  // Quick marks log "now": once the vehicle is on deck, entries come from the video instead.
+  const showMarks = !!dive.data && !dive.data.phases.onDeck && can(role, 'entry.create');
+  const tableView = roomy && view === 'table';
 
   const open = (o: Observation) => {
-    if (splitView) router.setParams({ entry: o.id });
+    if (detailShown) router.setParams({ entry: o.id });
     else router.push(`/observations/${o.id}`);
   };
   const newEntry = () => router.push(`/dives/${diveId}/new`);
@@ -72,7 +90,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       n: newEntry,
       f: () => setShowFilters((s) => !s),
       '/': () => searchBox.current?.focus(),
-      ...(splitView
+      ...(detailShown
         ? {
             j: () => step(1),
             ArrowDown: () => step(1),
@@ -123,8 +141,8 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
           ) : null}
         </View>
       )}
-      {can(role, 'entry.create') ? <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} /> : null}
-      <View style={styles.tools}>
+      {/* The log's tools in one bar: filters, search, and on wider screens the table's columns and the view. */}
+      <View style={styles.tools} testID="log-tools">
         <Button
           label={showFilters ? 'Hide filters' : 'Filter'}
           tone="ghost"
@@ -132,39 +150,60 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
           onPress={() => setShowFilters((s) => !s)}
           testID="toggle-filters"
         />
+        <View style={styles.search}>
+          <Field
+            ref={searchBox}
+            label="Search this log"
+            hideLabel
+            testID="log-search"
+            value={search}
+            onChangeText={setSearch}
+            placeholder={roomy ? 'Search titles and notes  ( / )' : 'Search titles and notes'}
+            autoCapitalize="none"
+            autoCorrect={false}
+            inputMode="search"
+            onKeyPress={(e) => {
+              if ((e.nativeEvent as { key?: string }).key === 'Escape') {
+                setSearch('');
+                searchBox.current?.blur();
+              }
+            }}
+          />
+        </View>
+        {tableView ? (
+          <Button
+            label={showColumns ? 'Done with columns' : 'Columns'}
+            tone="ghost"
+            compact
+            onPress={() => setShowColumns((s) => !s)}
+            testID="toggle-columns"
+          />
+        ) : null}
+        {/* With many table columns there is no room for the detail: an entry then opens on its own screen. */}
+        {splitView && detailFits ? (
+          <Button
+            label={detailHidden ? 'Show detail' : 'Hide detail'}
+            tone="ghost"
+            compact
+            onPress={() => setDetailHidden((h) => !h)}
+            testID="toggle-detail"
+          />
+        ) : null}
         {roomy ? (
-          <View style={styles.viewSwitch}>
-            <Segmented
-              label="View"
-              hideLabel
-              value={view}
-              onChange={setView}
-              options={[
-                { value: 'cards', label: 'Cards' },
-                { value: 'table', label: 'Table' },
-              ]}
-              testID="log-view"
-            />
-          </View>
+          <Segmented
+            label="View"
+            hideLabel
+            value={view}
+            onChange={setView}
+            options={[
+              { value: 'cards', label: 'Cards' },
+              { value: 'table', label: 'Table' },
+            ]}
+            testID="log-view"
+          />
         ) : null}
       </View>
-      <Field
-        ref={searchBox}
-        label="Search this log"
-        testID="log-search"
-        value={search}
-        onChangeText={setSearch}
-        placeholder={roomy ? 'Title or note contains…  ( / )' : 'Title or note contains…'}
-        autoCapitalize="none"
-        autoCorrect={false}
-        inputMode="search"
-        onKeyPress={(e) => {
-          if ((e.nativeEvent as { key?: string }).key === 'Escape') {
-            setSearch('');
-            searchBox.current?.blur();
-          }
-        }}
-      />
+      {tableView && showColumns ? <ColumnMenu chosen={columns.chosen} onToggle={columns.toggle} /> : null}
       {showFilters ? (
         <LogFilters campaignId={dive.data.campaignId} filters={filters} onChange={setFilters} isLead={can(role, 'entry.seeRetired')} />
       ) : null}
@@ -180,8 +219,9 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       recording={dive.data?.recording}
       timing={dive.data}
       onFiltersChange={setFilters}
-      view={roomy ? view : 'cards'}
-      selectedId={splitView ? entryId : undefined}
+      view={tableView ? 'table' : 'cards'}
+      columns={columns.columns}
+      selectedId={detailShown ? entryId : undefined}
       onSelect={open}
       live={live}
       onScrollOffset={(y) => {
@@ -192,15 +232,28 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
     />
   );
 
+  // Quick marks stay in reach above the list on wider screens (on phones, in the bar under it).
+  const list = (
+    <View style={styles.fill}>
+      {showMarks && !phoneBar && dive.data ? (
+        <View style={[styles.marksAbove, { borderBottomColor: colors.border }]}>
+          <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} />
+        </View>
+      ) : null}
+      {log}
+    </View>
+  );
+
   return (
     <Screen>
       <ScreenHeader
         title={dive.data ? `Dive ${dive.data.number}` : 'Dive'}
         subtitle={[campaign.data?.name, dive.data ? diveStatus(dive.data) : null].filter(Boolean).join(' · ')}
         back={dive.data ? `/campaigns/${dive.data.campaignId}` : '/'}
+        backLabel="Campaign"
+        status={<LiveStatusBadge status={live.status} ended={!!dive.data?.phases.onDeck} />}
         right={
-          <View style={styles.actions}>
-            <LiveStatusBadge status={live.status} ended={!!dive.data?.phases.onDeck} />
+          <>
             <GalleryLink diveId={diveId} />
             <Button
               label="Summary"
@@ -209,66 +262,91 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
               testID="dive-summary"
               onPress={() => router.push(`/dives/${diveId}/summary`)}
             />
+            <Button label="Taxa" tone="secondary" compact testID="dive-taxa" onPress={() => router.push(`/dives/${diveId}/taxa`)} />
+            {can(role, 'dive.run') ? (
+              <Button
+                label="Dive settings"
+                tone="secondary"
+                compact
+                accessibilityRole="link"
+                testID="dive-settings"
+                onPress={() => router.push(`/dives/${diveId}/settings`)}
+              />
+            ) : null}
             {navPlacement === 'side' ? <Button label="Log entry" icon="+" testID="new-observation" onPress={newEntry} /> : null}
-          </View>
+          </>
         }
       />
       {splitView ? (
-        <View style={styles.split}>
-          <View style={[styles.listPane, { borderRightColor: colors.border }]}>{log}</View>
-          <ScrollView style={styles.detailPane} testID="detail-pane" contentContainerStyle={styles.detailInner}>
-            {entryId ? (
-              <ObservationDetail id={entryId} />
-            ) : (
-              <EmptyState
-                title="Select an entry"
-                body="Its note, position, identification and history show here. Keys: N new entry · / search · J / K next and previous · E edit · F filters · Esc close."
-              />
-            )}
-          </ScrollView>
-        </View>
+        <SplitPane
+          storageKey="bathynote.dive-split"
+          minList={tableView ? tableWidth(columns.columns) : 560}
+          collapsed={detailHidden}
+          onFits={onFits}
+          list={list}
+          detail={
+            <ScrollView style={styles.fill} testID="detail-pane" contentContainerStyle={styles.detailInner}>
+              {entryId ? (
+                <ObservationDetail id={entryId} />
+              ) : (
+                <EmptyState
+                  title="Select an entry"
+                  body="Its note, position, identification and history show here. Keys: N new entry · / search · J / K next and previous · E edit · F filters · Esc close."
+                />
+              )}
+            </ScrollView>
+          }
+        />
       ) : (
-        log
+        list
       )}
-      {navPlacement === 'bottom' ? (
-        <Pressable
-          testID="new-observation"
-          accessibilityRole="button"
-          accessibilityLabel="Log entry"
-          onPress={newEntry}
-          style={[styles.fab, { backgroundColor: colors.accent }]}
+      {phoneBar ? (
+        // Under the list, not over it: the entry button and the quick marks never cover an entry.
+        <View
+          style={[styles.actionBar, { backgroundColor: colors.surface, borderTopColor: colors.border }]}
+          onLayout={(e) => setBarHeight(Math.round(e.nativeEvent.layout.height))}
+          testID="dive-action-bar"
         >
-          <Icon name="plus" color={colors.accentText} size={28} />
-        </Pressable>
+          <View style={styles.fill}>
+            {showMarks && dive.data ? <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} maxHeight={104} /> : null}
+          </View>
+          <Pressable
+            testID="new-observation"
+            accessibilityRole="button"
+            accessibilityLabel="Log entry"
+            onPress={newEntry}
+            style={[styles.fab, { backgroundColor: colors.accent }]}
+          >
+            <Icon name="plus" color={colors.accentText} size={28} />
+          </Pressable>
+        </View>
       ) : null}
     </Screen>
   );
 }
 
 const styles = StyleSheet.create({
+  fill: { flex: 1, minWidth: 0 },
   plan: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
   planText: { flexShrink: 1 },
   listHeader: { gap: space.sm, marginBottom: space.md, padding: 0 },
-  tools: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: space.sm },
-  viewSwitch: { minWidth: 200 },
-  actions: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap', justifyContent: 'flex-end' },
-  split: { flex: 1, flexDirection: 'row' },
-  listPane: { width: 520, borderRightWidth: StyleSheet.hairlineWidth },
-  detailPane: { flex: 1 },
+  tools: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm },
+  search: { flexGrow: 1, flexShrink: 1, flexBasis: 200, minWidth: 0 },
+  marksAbove: { paddingHorizontal: space.lg, paddingVertical: space.sm, borderBottomWidth: StyleSheet.hairlineWidth },
   detailInner: { padding: space.xl, maxWidth: 880 },
+  actionBar: {
+    flexDirection: 'row',
+    alignItems: 'flex-end',
+    gap: space.md,
+    paddingHorizontal: space.lg,
+    paddingVertical: space.sm,
+    borderTopWidth: StyleSheet.hairlineWidth,
+  },
   fab: {
-    position: 'absolute',
-    right: space.lg,
-    bottom: space.lg,
-    width: 60,
-    height: 60,
-    borderRadius: 30,
+    width: 56,
+    height: 56,
+    borderRadius: radius.pill,
     alignItems: 'center',
     justifyContent: 'center',
-    elevation: 4,
-    shadowColor: '#000',
-    shadowOpacity: 0.3,
-    shadowRadius: 6,
-    shadowOffset: { width: 0, height: 2 },
   },
 });

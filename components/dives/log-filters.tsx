@@ -1,4 +1,4 @@
-import { ScrollView, StyleSheet, View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 
 import { ListCsvButton } from '@/components/exports/list-csv-button';
 import { Chip } from '@/components/ui/chip';
@@ -38,7 +38,7 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
   const order = filters.order ?? (sort === 'time' || sort === 'depth' ? 'desc' : 'asc');
   return (
     <View style={styles.wrap} testID="log-filters">
-      <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row} testID="log-sort">
+      <View style={styles.row} testID="log-sort">
         <Text variant="caption" muted>
           Order
         </Text>
@@ -53,8 +53,8 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
             testID={`sort-${o.id}`}
           />
         ))}
-      </ScrollView>
-      <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row}>
+      </View>
+      <View style={styles.row}>
         <Chip label="All kinds" selected={!filters.kind} onPress={() => set({ kind: undefined })} testID="filter-kind-all" />
         {observationKinds.map((k) => (
           <Chip
@@ -80,9 +80,9 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
             onPress={() => set({ verification: filters.verification === v ? undefined : v })}
           />
         ))}
-      </ScrollView>
+      </View>
       {members.length > 1 ? (
-        <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row} testID="filter-authors">
+        <View style={styles.row} testID="filter-authors">
           <Text variant="caption" muted>
             Logged by
           </Text>
@@ -95,10 +95,10 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
               testID={`filter-author-${m.userId}`}
             />
           ))}
-        </ScrollView>
+        </View>
       ) : null}
       {tags.length > 0 ? (
-        <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row}>
+        <View style={styles.row}>
           <Text variant="caption" muted>
             Tag
           </Text>
@@ -112,7 +112,7 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
               testID={`filter-tag-${t.name}`}
             />
           ))}
-        </ScrollView>
+        </View>
       ) : null}
       {isLead ? (
         <View style={styles.row}>
@@ -124,7 +124,7 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
             testID="filter-retired"
           />
           {filters.retired ? (
-            <Text variant="caption" muted style={styles.flex}>
+            <Text variant="caption" muted style={styles.note}>
               Only leads see these. Open one to restore it to the log.
             </Text>
           ) : null}
@@ -137,6 +137,7 @@ export function LogFilters({ campaignId, filters, onChange, isLead }: Props) {
 
 const styles = StyleSheet.create({
   wrap: { gap: space.sm },
-  row: { flexDirection: 'row', gap: space.sm, alignItems: 'center', paddingVertical: 2 },
-  flex: { flex: 1 },
+  // Rows wrap: every choice stays in sight on a phone instead of running off the edge.
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center', paddingVertical: 2 },
+  note: { flexGrow: 1, flexShrink: 1, flexBasis: 200 },
 });

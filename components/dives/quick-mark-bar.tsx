@@ -8,7 +8,7 @@ import { useToast } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useQuickMarks } from '@/hooks/campaigns';
 import { useRetireEntry } from '@/hooks/observations';
-import { discardWaiting, useLogEntry } from '@/hooks/send-queue';
+import { discardWaiting, onceLeftQueue, useLogEntry } from '@/hooks/send-queue';
 import { useTheme } from '@/hooks/theme';
 import type { QuickMark } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
@@ -34,7 +34,7 @@ export function tapCount(last: LastTap, markId: string, now: number): number | n
  * it. With the entry button, that is the two taps a thumb needs during a dive. Each logged tap
  * sends its own `clientRef`, so a send retried over a dropping link is still stored once.
  */
-export function QuickMarkBar({ diveId, campaignId }: { diveId: string; campaignId: string }) {
+export function QuickMarkBar({ diveId, campaignId, maxHeight }: { diveId: string; campaignId: string; maxHeight?: number }) {
   const { colors } = useTheme();
   const router = useRouter();
   const toast = useToast();
@@ -44,6 +44,8 @@ export function QuickMarkBar({ diveId, campaignId }: { diveId: string; campaignI
   const [busy, setBusy] = useState<string | null>(null);
   // The last tap that logged, and how many in a row of the same mark.
   const last = useRef<LastTap>(null);
+  const [boxHeight, setBoxHeight] = useState(0);
+  const [contentHeight, setContentHeight] = useState(0);
 
   if (marks.length === 0) return null;
 
@@ -62,6 +64,7 @@ export function QuickMarkBar({ diveId, campaignId }: { diveId: string; campaignI
       if (result.queued) {
         toast(`${name}: no link, kept on this device and sent later.`, {
           tone: 'danger',
+          until: (close) => onceLeftQueue(result.clientRef, close),
           actions: [
             {
               label: 'Undo',
@@ -97,12 +100,20 @@ export function QuickMarkBar({ diveId, campaignId }: { diveId: string; campaignI
     }
   };
 
+  const scrolls = contentHeight > boxHeight + 1;
   return (
     <View style={styles.wrap}>
       <Text variant="caption" muted>
         Quick marks: one tap logs now
       </Text>
-      <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.row} testID="quick-marks">
+      {/* The marks wrap, so every one is in sight; past a few rows they scroll, and say so. */}
+      <ScrollView
+        style={maxHeight ? { maxHeight } : undefined}
+        onLayout={(e) => setBoxHeight(e.nativeEvent.layout.height)}
+        onContentSizeChange={(_w, h) => setContentHeight(h)}
+        contentContainerStyle={styles.row}
+        testID="quick-marks"
+      >
         {marks.map((m) => (
           <Chip
             key={m.id}
@@ -113,11 +124,16 @@ export function QuickMarkBar({ diveId, campaignId }: { diveId: string; campaignI
           />
         ))}
       </ScrollView>
+      {scrolls ? (
+        <Text variant="caption" muted testID="quick-marks-more">
+          More marks below: scroll them ↓
+        </Text>
+      ) : null}
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   wrap: { gap: space.xs },
-  row: { gap: space.sm, paddingVertical: 2 },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, paddingVertical: 2 },
 });
