@@ -78,3 +78,12 @@ export const searchKeys = {
   root: ['search'] as const,
   results: (q: string, filters: SearchFilters) => [...searchKeys.root, q, filters] as const,
 };
+
+export const taxaKeys = {
+  root: ['taxa'] as const,
+  campaign: (campaignId: string, sort: string) => [...taxaKeys.root, 'campaign', campaignId, sort] as const,
+  dive: (diveId: string, sort: string) => [...taxaKeys.root, 'dive', diveId, sort] as const,
+  names: (campaignId: string, q: string) => [...taxaKeys.root, 'names', campaignId, q] as const,
+  checklist: (campaignId: string) => [...taxaKeys.root, 'checklist', campaignId] as const,
+  substrates: (campaignId: string) => [...taxaKeys.root, 'substrates', campaignId] as const,
+};

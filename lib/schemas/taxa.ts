@@ -172,6 +172,8 @@ export const taxonSeenSchema = z.object({
   /** A photo of the taxon, where an entry has one. */
   photoId: z.string().nullable(),
   observationIds: z.array(z.string()),
+  /** The entries themselves, in time order, for the list's links. */
+  sightings: z.array(z.object({ id: z.string(), title: z.string(), observedAt: z.string(), depth: z.number().nullable() })),
 });
 export type TaxonSeen = z.infer<typeof taxonSeenSchema>;
 export const taxaListSchema = z.object({ items: z.array(taxonSeenSchema) });

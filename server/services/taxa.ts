@@ -17,6 +17,7 @@ export function taxaSeen(db: Executor, scope: { campaignId: string; diveId?: str
   const rows = db
     .select({
       id: observations.id,
+      title: observations.title,
       observedAt: observations.observedAt,
       depth: observations.depth,
       individualCount: observations.individualCount,
@@ -67,12 +68,14 @@ export function taxaSeen(db: Executor, scope: { campaignId: string; diveId?: str
         verifiedShare: 0,
         photoId: null,
         observationIds: [],
+        sightings: [],
         verified: 0,
       };
       by.set(key, t);
     }
     t.entries++;
     t.observationIds.push(r.id);
+    t.sightings.push({ id: r.id, title: r.title, observedAt: r.observedAt.toISOString(), depth: r.depth });
     // Rows come in time order: the last one seen is the latest.
     t.lastSeen = r.observedAt.toISOString();
     const n = r.individualCount ?? (r.organismQuantityType === 'individuals' ? r.organismQuantity : null);

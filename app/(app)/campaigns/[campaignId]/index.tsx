@@ -26,6 +26,7 @@ export default function CampaignScreen() {
         testID="campaign-settings"
         onPress={() => router.push(`/campaigns/${campaignId}/settings`)}
       />
+      <Button label="Taxa" tone="secondary" compact testID="campaign-taxa" onPress={() => router.push(`/campaigns/${campaignId}/taxa`)} />
       <Button
         label="Exports"
         tone="secondary"
