@@ -127,13 +127,17 @@ function Tags({ campaignId, editable }: { campaignId: string; editable: boolean 
   return (
     <View style={[styles.box, { borderColor: colors.border, backgroundColor: colors.surface }]} testID="tag-settings">
       <Text variant="title">Tag vocabulary</Text>
+      <Text variant="caption" muted>
+        Each tag with the number of entries that carry it.{editable ? ' Tap a tag to rename, merge or retire it.' : ''}
+      </Text>
       <View style={styles.chips}>
         {tags.map((t) => (
           <Chip
             key={t.id}
-            label={`${t.name} (${t.usage})${t.retired ? ' · retired' : ''}`}
+            label={`${t.name} · ${entries(t.usage)}${t.retired ? ' · retired' : ''}`}
             selected={selected?.id === t.id}
             onPress={editable ? () => setSelected(selected?.id === t.id ? null : t) : undefined}
+            action={editable ? { accessibilityLabel: `Rename, merge or retire the tag ${t.name}` } : undefined}
             testID={`vocab-${t.name}`}
           />
         ))}
@@ -180,26 +184,80 @@ function TagEditor({ tag, tags, campaignId, onDone }: { tag: Tag; tags: Tag[]; c
       </View>
     );
   }
+  const target = tags.find((t) => t.id === mergeInto);
   return (
-    <View style={[styles.editor, { borderColor: colors.border }]}>
-      <Field label={`Rename “${tag.name}”`} value={name} onChangeText={setName} autoCapitalize="none" />
+    <View style={[styles.editor, { borderColor: colors.border }]} testID="tag-editor">
+      <Text variant="label" testID="tag-editor-title">
+        “{tag.name}” · on {entries(tag.usage)}
+        {tag.retired ? ' · retired' : ''}
+      </Text>
+      <Field
+        label="Rename"
+        value={name}
+        onChangeText={setName}
+        autoCapitalize="none"
+        hint={`Every entry with “${tag.name}” shows the new name.`}
+        testID="tag-rename-field"
+      />
       <View style={styles.chips}>
-        <Button label="Rename" compact disabled={!name.trim() || name === tag.name} onPress={() => run({ name: name.trim() })} />
-        <Button label={tag.retired ? 'Bring back' : 'Retire'} tone="secondary" compact onPress={() => run({ retired: !tag.retired })} />
+        <Button
+          label="Rename"
+          tone="secondary"
+          compact
+          disabled={!name.trim() || name === tag.name}
+          onPress={() => run({ name: name.trim() })}
+          testID="tag-rename"
+        />
+        <Button
+          label={tag.retired ? 'Bring back' : 'Retire'}
+          tone="secondary"
+          compact
+          onPress={() => run({ retired: !tag.retired })}
+          testID="tag-retire"
+        />
+        <Button label="Close" tone="ghost" compact onPress={onDone} testID="tag-editor-close" />
       </View>
-      <Text variant="label">Merge into another tag (its entries keep a tag)</Text>
+      <Text variant="caption" muted>
+        {tag.retired
+          ? 'Retired: its entries keep it, but it is no longer offered when logging.'
+          : 'Retiring keeps the tag on its entries but stops offering it when logging.'}
+      </Text>
+      <Text variant="label">Merge into another tag</Text>
       <View style={styles.chips}>
         {tags
           .filter((t) => t.id !== tag.id && !t.retired)
           .map((t) => (
-            <Chip key={t.id} label={t.name} selected={mergeInto === t.id} onPress={() => setMergeInto(t.id)} />
+            <Chip
+              key={t.id}
+              label={t.name}
+              selected={mergeInto === t.id}
+              onPress={() => setMergeInto(mergeInto === t.id ? null : t.id)}
+              testID={`tag-merge-into-${t.name}`}
+            />
           ))}
       </View>
-      {mergeInto ? <Button label="Merge" tone="danger" compact onPress={() => run({ mergeInto })} /> : null}
+      {target ? (
+        <View style={styles.chips}>
+          <Text variant="caption">
+            The {entries(tag.usage)} with “{tag.name}” take “{target.name}” instead, and “{tag.name}” goes.
+          </Text>
+          <Button
+            label={`Merge into “${target.name}”`}
+            tone="danger"
+            compact
+            busy={update.isPending}
+            onPress={() => run({ mergeInto: target.id })}
+            testID="tag-merge"
+          />
+        </View>
+      ) : null}
       {update.error instanceof ApiError ? <Text color={colors.danger}>{update.error.message}</Text> : null}
     </View>
   );
 }
+
+/** "1 entry", "12 entries". */
+const entries = (n: number) => (n === 1 ? '1 entry' : `${n.toLocaleString('en')} entries`);
 
 const styles = StyleSheet.create({
   wrap: { gap: space.lg },

@@ -50,7 +50,11 @@ export function FindPanel({ observation: o, myRole, myId }: Props) {
               .filter(Boolean)
               .join(' · ')}
           </Text>
-          {mayEdit ? <Button label="Correct the find" tone="ghost" compact onPress={open} /> : null}
+          {mayEdit ? (
+            <View style={styles.actions}>
+              <Button label="Correct the find" tone="secondary" compact onPress={open} testID="edit-find" />
+            </View>
+          ) : null}
         </>
       ) : mayEdit ? (
         <FindForm key={formKey} observation={o} {...formProps} />
@@ -215,13 +219,17 @@ export function CustodyPanel({ observation: o, myRole, myId }: Props) {
           />
         </View>
       ) : (
-        <Button label="Record a hand-over" tone="secondary" compact onPress={() => setAdding(true)} testID="add-custody" />
+        <View style={styles.actions}>
+          <Button label="Record a hand-over" tone="secondary" compact onPress={() => setAdding(true)} testID="add-custody" />
+        </View>
       )}
     </View>
   );
 }
 
 const styles = StyleSheet.create({
+  // Actions of the same weight look the same: a secondary button at the start of its own row.
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   box: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg, gap: space.sm },
   row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' },
   form: { gap: space.md },

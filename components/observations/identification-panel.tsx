@@ -83,7 +83,7 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
                 />
               </>
             ) : null}
-            {mayPropose ? <Button label="Change name" tone="ghost" compact onPress={open} testID="edit-identification" /> : null}
+            {mayPropose ? <Button label="Change name" tone="secondary" compact onPress={open} testID="edit-identification" /> : null}
           </View>
           {verify.error instanceof ApiError ? (
             <Text color={colors.danger} role="alert" testID="verify-error">
@@ -94,9 +94,17 @@ export function IdentificationPanel({ observation: o, myRole, myId }: Props) {
           ) : null}
         </>
       ) : mayPropose ? (
-        editing || !ident ? (
+        editing ? (
           <IdentificationForm key={formKey} observation={o} {...formProps} />
-        ) : null
+        ) : (
+          // An entry with no name yet starts with the form folded away, so the entry reads first.
+          <View style={styles.row}>
+            <Text muted style={styles.grow}>
+              No identification yet.
+            </Text>
+            <Button label="Add an identification" tone="secondary" compact onPress={open} testID="add-identification" />
+          </View>
+        )
       ) : (
         <Text muted>No identification yet.</Text>
       )}
@@ -163,7 +171,7 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
       what="identification"
       conflictFields={conflictFields}
       onDiscard={onDiscard}
-      save={{ label: 'Save identification', testID: 'save-identification', onCancel: current ? onDone : undefined }}
+      save={{ label: 'Save identification', testID: 'save-identification', onCancel: onDone }}
     >
       <Field
         label="Scientific name"
@@ -203,6 +211,7 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
 const styles = StyleSheet.create({
   box: { borderWidth: 1, borderRadius: radius.lg, padding: space.lg, gap: space.sm },
   row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' },
+  grow: { flexGrow: 1, flexShrink: 1 },
   form: { gap: space.md },
   name: { fontStyle: 'italic' },
 });

@@ -135,7 +135,7 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
   );
 }
 
-/** Edit and retire for the author and leads; restore for leads; retiring by a lead can be undone at once. */
+/** Edit and retire for the author and leads, retiring asked once more of everyone; restore for leads, who can also undo at once. */
 function EntryActions({ observation: o, mayEdit, isLead }: { observation: Detail; mayEdit: boolean; isLead: boolean }) {
   const router = useRouter();
   const toast = useToast();
@@ -167,12 +167,12 @@ function EntryActions({ observation: o, mayEdit, isLead }: { observation: Detail
       <Button label="Edit" tone="secondary" compact onPress={() => router.push(`/observations/${o.id}/edit`)} testID="edit" />
       {confirming ? (
         <>
-          <Text variant="caption">Retire it? It stays in the record{isLead ? '' : '; only a lead can bring it back'}.</Text>
+          <Text variant="caption">Retire it? It stays in the record, hidden from the dive log; a lead can bring it back.</Text>
           <Button label="Retire" tone="danger" compact busy={retire.isPending} onPress={doRetire} testID="confirm-retire" />
           <Button label="Keep" tone="ghost" compact onPress={() => setConfirming(false)} />
         </>
       ) : (
-        <Button label="Retire" tone="ghost" compact onPress={() => (isLead ? doRetire() : setConfirming(true))} testID="retire" />
+        <Button label="Retire" tone="ghost" compact onPress={() => setConfirming(true)} testID="retire" />
       )}
     </View>
   );

@@ -7,7 +7,7 @@ export default function CampaignSettingsScreen() {
   const { campaignId } = useLocalSearchParams<{ campaignId: string }>();
   return (
     <Screen>
-      <ScreenHeader title="Tags and quick marks" back={`/campaigns/${campaignId}`} />
+      <ScreenHeader title="Tags & quick marks" back={`/campaigns/${campaignId}`} />
       <ScreenBody>
         <VocabularySettings campaignId={campaignId} />
       </ScreenBody>
