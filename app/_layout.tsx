@@ -1,19 +1,13 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { useFonts } from 'expo-font';
 import { Stack } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
 import { useState } from 'react';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 
-import PublicSans_400Regular from '@/assets/fonts/PublicSans_400Regular.ttf';
-import PublicSans_500Medium from '@/assets/fonts/PublicSans_500Medium.ttf';
-import PublicSans_600SemiBold from '@/assets/fonts/PublicSans_600SemiBold.ttf';
-import PublicSans_700Bold from '@/assets/fonts/PublicSans_700Bold.ttf';
-import SpaceMono_400Regular from '@/assets/fonts/SpaceMono_400Regular.ttf';
-import SpaceMono_700Bold from '@/assets/fonts/SpaceMono_700Bold.ttf';
 import { LoadingState } from '@/components/ui/states';
 import { ToastProvider } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
+import { useAppFonts } from '@/hooks/fonts';
 import { useMe } from '@/hooks/session';
 import { ThemeProvider, useTheme } from '@/hooks/theme';
 
@@ -56,15 +50,8 @@ function Gate() {
 
 export default function RootLayout() {
   const [queryClient] = useState(makeQueryClient);
-  const [fontsLoaded, fontError] = useFonts({
-    PublicSans_400Regular,
-    PublicSans_500Medium,
-    PublicSans_600SemiBold,
-    PublicSans_700Bold,
-    SpaceMono_400Regular,
-    SpaceMono_700Bold,
-  });
-  if (!fontsLoaded && !fontError) return null;
+  const fontsReady = useAppFonts();
+  if (!fontsReady) return null;
   return (
     <SafeAreaProvider>
       <QueryClientProvider client={queryClient}>

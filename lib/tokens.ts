@@ -62,11 +62,9 @@ export const radius = { sm: 6, md: 10, lg: 16, pill: 999 } as const;
 
 export const fonts = {
   regular: 'PublicSans_400Regular',
-  medium: 'PublicSans_500Medium',
   semibold: 'PublicSans_600SemiBold',
   bold: 'PublicSans_700Bold',
   mono: 'SpaceMono_400Regular',
-  monoBold: 'SpaceMono_700Bold',
 } as const;
 
 export const type = {

@@ -65,7 +65,7 @@ export function precompressWebBuild(dir = outDir): void {
   for (const file of files(dir)) {
     if (!COMPRESSIBLE.test(file)) continue;
     const stat = statSync(file);
-    if (stat.size < 1024) continue;
+    if (stat.size < 256) continue;
     let body: Buffer | undefined;
     for (const [ext, compress] of [
       [

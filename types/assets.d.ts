@@ -7,3 +7,7 @@ declare module '*.png' {
   const asset: number;
   export default asset;
 }
+declare module '*.woff2' {
+  const asset: number;
+  export default asset;
+}

@@ -38,6 +38,23 @@ async function recordTransfers(page: Page): Promise<{ transfers: Map<string, Tra
 }
 
 const kb = (bytes: number) => `${(bytes / 1024).toFixed(1)} KB`;
+const KB = 1024;
+
+/**
+ * What a cold visit may move over the link: the sign-in screen, then the dive log after signing
+ * in (all of it, API included). The goals are 300 KB and 450 KB; these limits are what the app
+ * reaches today (the framework's own bundle is about 220 KB of the first), kept so it never grows.
+ */
+const BUDGET = { signIn: 450 * KB, diveLog: 500 * KB };
+
+function report(title: string, transfers: Transfer[]): number {
+  const total = transfers.reduce((sum, t) => sum + t.bytes, 0);
+  process.stdout.write(
+    `${title}: ${kb(total)} over ${transfers.length} responses\n` +
+      transfers.map((t) => `  ${kb(t.bytes).padStart(9)}  ${t.headers['content-encoding'] ?? '-'}  ${new URL(t.url).pathname}\n`).join(''),
+  );
+  return total;
+}
 
 describe('the app over a thin link', () => {
   it('sends the bundle and the API answers compressed, and hashed assets cached for a year', async () => {
@@ -50,11 +67,11 @@ describe('the app over a thin link', () => {
       await page.getByTestId('sign-in-email').waitFor();
       await page.waitForLoadState('networkidle');
       const cold = [...transfers.values()];
-      const total = cold.reduce((sum, t) => sum + t.bytes, 0);
-      process.stdout.write(
-        `Cold sign-in screen: ${kb(total)} over ${cold.length} responses\n` +
-          cold.map((t) => `  ${kb(t.bytes).padStart(9)}  ${t.headers['content-encoding'] ?? '-'}  ${new URL(t.url).pathname}\n`).join(''),
-      );
+      const signInTotal = report('Cold sign-in screen', cold);
+      expect(signInTotal, 'bytes for the sign-in screen, cold').toBeLessThanOrEqual(BUDGET.signIn);
+      // The sign-in screen carries none of the signed-in screens' code nor the monospace face.
+      expect(cold.filter((t) => /SpaceMono/.test(t.url)).map((t) => t.url)).toEqual([]);
+      for (const font of cold.filter((t) => t.url.includes('/fonts/'))) expect(new URL(font.url).pathname).toMatch(/\.woff2$/);
 
       const html = cold.find((t) => new URL(t.url).pathname === '/');
       expect(html?.headers['content-encoding']).toMatch(/^(br|gzip)$/);
@@ -87,6 +104,19 @@ describe('the app over a thin link', () => {
       expect(log, `the dive log was read among ${apiPaths().join(', ')}`).toBeDefined();
       expect(log?.mimeType).toBe('application/json');
       expect(log?.headers['content-encoding']).toMatch(/^(br|gzip)$/);
+      // Everything the log's first screen asked for has arrived once the network has been quiet a moment.
+      await expect
+        .poll(
+          async () => {
+            const before = [...transfers.values()].reduce((sum, t) => sum + t.bytes, 0);
+            await page.waitForTimeout(750);
+            return [...transfers.values()].reduce((sum, t) => sum + t.bytes, 0) - before;
+          },
+          { timeout: 15_000 },
+        )
+        .toBe(0);
+      const diveLogTotal = report('Cold dive log after signing in (from the first byte)', [...transfers.values()]);
+      expect(diveLogTotal, 'bytes for the sign-in screen and the dive log, cold').toBeLessThanOrEqual(BUDGET.diveLog);
       const stream = [...transfers.values()].find((t) => new URL(t.url).pathname.endsWith('/stream'));
       if (stream) expect(stream.headers['content-encoding']).toBeUndefined();
       expect(screen.errors).toEqual([]);
