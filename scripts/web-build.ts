@@ -25,6 +25,7 @@ const inputs = [
   'tsconfig.json',
   'babel.config.js',
   'metro.config.js',
+  'metro',
 ];
 
 function* files(p: string): Generator<string> {
