@@ -1,14 +1,19 @@
 /**
  * Importing a vehicle telemetry log: the CSV is parsed as a stream (comma, semicolon or tab; BOM;
- * CRLF), every row checked, and the rows taken written in one transaction together with the
- * re-stamped entries and the import's record, so an import is never half done.
+ * CRLF), every row checked, and the rows taken written as they are read, in batches, to a staging
+ * file of their own; then one transaction copies them into the dive's log together with the
+ * re-stamped entries and the import's record, so an import is never half done. Neither the file
+ * nor its rows are ever held whole in memory, however long the log.
  */
 import { randomUUID } from 'node:crypto';
-import { createReadStream } from 'node:fs';
+import { createReadStream, rmSync } from 'node:fs';
 import { open } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import { Writable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 
+import Database from 'better-sqlite3';
 import { Parser, type CsvError, type Options as CsvOptions } from 'csv-parse';
 import { ZodError } from 'zod';
 
@@ -26,17 +31,8 @@ import {
 import { parseRow, recogniseHeaders, type ColumnMapping, type HeaderRecognition, type TelemetryChannel } from '../../lib/telemetry-columns';
 import { ApiError, fieldError } from '../errors';
 import type { LiveHub } from './live';
-import { diveFacts, spanOf, stampDiveObservations } from './telemetry';
-import {
-  ColumnBuilder,
-  countSamples,
-  loadColumns,
-  loadedLog,
-  mergeColumns,
-  rememberLog,
-  STORED_CHANNELS,
-  type TelemetryColumns,
-} from './telemetry-series';
+import { diveFacts, spanOf, stampDiveFromStoredLog } from './telemetry';
+import { countSamples, forgetLog, loadTimes, STORED_CHANNELS } from './telemetry-series';
 import { oneAtATimePerKey } from './one-at-a-time';
 import { announceStamped } from './telemetry-stamp';
 
@@ -100,16 +96,6 @@ async function readHead(filePath: string): Promise<{ bytes: number; size: number
   } finally {
     await handle.close();
   }
-}
-
-/**
- * About how many rows a log holds: its size over the mean length of the lines sampled from its
- * head, with a tenth to spare, so the columns are allocated once instead of doubling as they fill.
- */
-function expectedRowsOf(head: { bytes: number; size: number }, sampledLines: number): number {
-  if (sampledLines < 2 || head.bytes === 0) return 4096;
-  const perLine = head.bytes / sampledLines;
-  return Math.min(20_000_000, Math.ceil((head.size / perLine) * 1.1));
 }
 
 /** Counts a character outside double quotes. */
@@ -264,7 +250,9 @@ async function readPlainRecords(
 }
 
 type ParseOutcome = {
-  columns: TelemetryColumns;
+  rowsTaken: number;
+  firstMs: number;
+  lastMs: number;
   recognition: HeaderRecognition;
   headers: string[];
   rowsRejected: number;
@@ -281,8 +269,8 @@ type ParseSettings = {
   mapping: TelemetryMapping;
   /** Times already stored (append), ascending. */
   existing: Float64Array | null;
-  /** About how many rows the file holds, from its size and its first lines. */
-  expectedRows: number;
+  /** Where each row taken goes, as soon as it is checked. */
+  take: (sample: TelemetryRow) => void;
 };
 
 const isoOf = (ms: number) => new Date(ms).toISOString();
@@ -293,7 +281,8 @@ function hasValue(sample: TelemetryRow): boolean {
 }
 
 async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcome & { gpsTime: boolean }> {
-  const builder = new ColumnBuilder(s.expectedRows);
+  let rowsTaken = 0;
+  let firstMs = Number.NaN;
   const rejected: TelemetryRejection[] = [];
   let rowsRejected = 0;
   let headers: string[] | null = null;
@@ -359,7 +348,8 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
         return;
       }
     }
-    builder.push(sample);
+    s.take(sample);
+    if (rowsTaken++ === 0) firstMs = sample.t;
     lastT = sample.t;
     lastLine = line;
   };
@@ -416,7 +406,7 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
   if (!headers || !recognition) {
     throw fileIssue('empty_log', 'The log holds no header and no rows.', 'The first line must name the columns, e.g. time,depth_m,lat,lon');
   }
-  return { columns: builder.finish(), recognition, headers, rowsRejected, rejected, gpsTime };
+  return { rowsTaken, firstMs, lastMs: lastT, recognition, headers, rowsRejected, rejected, gpsTime };
 }
 
 type ImportWarning = { code: string; message: string };
@@ -443,43 +433,94 @@ function warningsOf(r: HeaderRecognition, extra: ImportWarning[]): ImportWarning
 /** Imports of the same dive run one after another, so an append always sees the log before it. */
 const oneAtATime = oneAtATimePerKey();
 
-const insertStatements = new WeakMap<Db, Map<number, (values: unknown[]) => void>>();
+/**
+ * The rows of a log being read, staged in a SQLite file of their own beside the database (no
+ * journal, no flush: it is thrown away whatever happens) in batches of INSERT_BATCH rows, so that
+ * memory holds one batch, never the log. The dive's log is not touched until the import's
+ * transaction copies them in one statement; nothing else on the server's connection waits on the
+ * reading meanwhile.
+ */
+class StagedRows {
+  readonly file: string;
+  private readonly db: Database.Database;
+  private readonly full: Database.Statement;
+  private readonly values: unknown[];
+  private filled = 0;
+  private open = true;
 
-/** A prepared INSERT of `rows` samples at once. */
-function insertOf(db: Db, rows: number): (values: unknown[]) => void {
-  let byRows = insertStatements.get(db);
-  if (!byRows) insertStatements.set(db, (byRows = new Map<number, (values: unknown[]) => void>()));
-  let run = byRows.get(rows);
-  if (!run) {
-    const tuple = `(?, ?, ${STORED_CHANNELS.map(() => '?').join(', ')})`;
-    const stmt = db.$client.prepare(
-      `insert into telemetry_samples (dive_id, t, ${STORED_CHANNELS.join(', ')}) values ${Array(rows).fill(tuple).join(', ')}`,
-    );
-    run = (values) => void stmt.run(values);
-    byRows.set(rows, run);
+  constructor(dir: string) {
+    this.file = path.join(dir, `.bathynote-import-${randomUUID()}.db`);
+    this.db = new Database(this.file);
+    this.db.pragma('journal_mode = OFF');
+    this.db.pragma('synchronous = OFF');
+    this.db.exec(`create table samples (t integer not null, ${STORED_CHANNELS.map((c) => `${c} real`).join(', ')})`);
+    this.full = this.insertOf(INSERT_BATCH);
+    this.values = new Array(INSERT_BATCH * (1 + STORED_CHANNELS.length));
+    // One transaction for the whole file: the staging file is private, so holding it open across
+    // the reads blocks no one.
+    this.db.exec('begin');
   }
-  return run;
+
+  private insertOf(rows: number): Database.Statement {
+    const tuple = `(?, ${STORED_CHANNELS.map(() => '?').join(', ')})`;
+    return this.db.prepare(`insert into samples (t, ${STORED_CHANNELS.join(', ')}) values ${Array(rows).fill(tuple).join(', ')}`);
+  }
+
+  push(sample: TelemetryRow): void {
+    let o = this.filled * (1 + STORED_CHANNELS.length);
+    this.values[o++] = sample.t;
+    for (const c of STORED_CHANNELS) this.values[o++] = sample[c] ?? null;
+    if (++this.filled === INSERT_BATCH) {
+      this.full.run(this.values);
+      this.filled = 0;
+    }
+  }
+
+  /** Writes the last batch and closes the file, ready to be attached. */
+  finish(): void {
+    if (this.filled > 0) this.insertOf(this.filled).run(this.values.slice(0, this.filled * (1 + STORED_CHANNELS.length)));
+    this.filled = 0;
+    this.db.exec('commit');
+    this.close();
+  }
+
+  private close(): void {
+    if (this.open) this.db.close();
+    this.open = false;
+  }
+
+  /** Closes and removes the staging file. */
+  discard(): void {
+    this.close();
+    for (const suffix of ['', '-journal', '-wal', '-shm']) rmSync(`${this.file}${suffix}`, { force: true });
+  }
 }
 
-/** Writes samples in batches, reusing one array of parameters for every batch. */
-function insertColumns(db: Db, diveId: string, cols: TelemetryColumns): void {
-  const width = 2 + STORED_CHANNELS.length;
-  const full = insertOf(db, INSERT_BATCH);
-  const values: unknown[] = new Array(INSERT_BATCH * width);
-  for (let start = 0; start < cols.length; start += INSERT_BATCH) {
-    const rows = Math.min(INSERT_BATCH, cols.length - start);
-    const batch = rows === INSERT_BATCH ? values : new Array(rows * width);
-    for (let k = 0; k < rows; k++) {
-      const i = start + k;
-      let o = k * width;
-      batch[o++] = diveId;
-      batch[o++] = cols.t[i];
-      for (const c of STORED_CHANNELS) {
-        const v = cols[c][i] as number;
-        batch[o++] = Number.isNaN(v) ? null : v;
-      }
-    }
-    (rows === INSERT_BATCH ? full : insertOf(db, rows))(batch);
+/** Staging goes beside the database (same disk, and not a memory-backed /tmp), or to the temporary folder for one in memory. */
+const stagingDirOf = (db: Db) => (db.$client.memory ? tmpdir() : path.dirname(path.resolve(db.$client.name)));
+
+/**
+ * Copies the staged rows into the dive's log inside the caller's transaction. The staging file
+ * is attached under a name of its own (ATTACH cannot run inside a transaction, so the caller
+ * attaches first, see `withStaging`).
+ */
+function copyStaged(db: Db, schema: string, diveId: string): void {
+  db.$client
+    .prepare(
+      `insert into telemetry_samples (dive_id, t, ${STORED_CHANNELS.join(', ')})
+       select ?, t, ${STORED_CHANNELS.join(', ')} from ${schema}.samples order by rowid`,
+    )
+    .run(diveId);
+}
+
+/** Runs `work` with the staging file attached to the server's connection, and detaches it after. */
+function withStaging<T>(db: Db, staged: StagedRows, work: (schema: string) => T): T {
+  const schema = `staged_${randomUUID().replace(/-/g, '')}`;
+  db.$client.prepare(`attach database ? as ${schema}`).run(staged.file);
+  try {
+    return work(schema);
+  } finally {
+    db.$client.exec(`detach database ${schema}`);
   }
 }
 
@@ -508,90 +549,117 @@ export async function importTelemetryLog(db: Db, live: LiveHub, req: ImportReque
 
   return oneAtATime(req.diveId, async () => {
     const facts = diveFacts(db, req.diveId);
-    const existing = fields.mode === 'append' ? loadColumns(db, req.diveId) : null;
-    const parsed = await parseLog(req.filePath, {
-      delimiter,
-      encoding: head.encoding,
-      decimalComma,
-      gpsTime: fields.gpsTime,
-      pressure: fields.pressure,
-      latitudeDeg: facts.datum.lat,
-      mapping,
-      existing: existing?.t ?? null,
-      expectedRows: expectedRowsOf(head, lines.length),
+    const existing = fields.mode === 'append' ? loadTimes(db, req.diveId) : null;
+    const staged = new StagedRows(stagingDirOf(db));
+    try {
+      return await importStaged(db, live, req, staged, {
+        fields,
+        facts,
+        existing,
+        head,
+        settings: { delimiter, encoding: head.encoding, decimalComma, mapping },
+      });
+    } finally {
+      staged.discard();
+    }
+  });
+}
+
+/** Reads the log into `staged`, then copies it into the dive, stamps its entries and records the import in one transaction. */
+async function importStaged(
+  db: Db,
+  live: LiveHub,
+  req: ImportRequest,
+  staged: StagedRows,
+  o: {
+    fields: ReturnType<typeof telemetryImportFieldsSchema.parse>;
+    facts: ReturnType<typeof diveFacts>;
+    existing: Float64Array | null;
+    head: { encoding: 'utf8' | 'latin1' };
+    settings: { delimiter: Delimiter; encoding: 'utf8' | 'latin1'; decimalComma: boolean; mapping: TelemetryMapping };
+  },
+): Promise<TelemetryImportReport> {
+  const { fields, facts, existing, head } = o;
+  const { delimiter, decimalComma } = o.settings;
+  const parsed = await parseLog(req.filePath, {
+    ...o.settings,
+    gpsTime: fields.gpsTime,
+    pressure: fields.pressure,
+    latitudeDeg: facts.datum.lat,
+    existing,
+    take: (sample) => staged.push(sample),
+  });
+  staged.finish();
+  const { recognition, rowsTaken, firstMs, lastMs } = parsed;
+  if (rowsTaken === 0) {
+    if (parsed.rowsRejected === 0) {
+      throw fileIssue('no_rows', 'The log has a header but no rows.', 'Export the log again with its data rows');
+    }
+    throw new ApiError(
+      400,
+      'no_rows_taken',
+      `None of the log's ${parsed.rowsRejected} rows could be taken; the dive's log is unchanged.`,
+      parsed.rejected.slice(0, 20).map((r) => ({ path: `file.line.${r.line}`, message: r.reason, code: r.code })),
+    );
+  }
+
+  const extra: ImportWarning[] = [];
+  if (head.encoding === 'latin1') extra.push({ code: 'latin1', message: 'The file is not UTF-8; it was read as Latin-1 (ISO 8859-1).' });
+  if (fields.gpsTime === false && recognition.timeScale === 'gps') {
+    extra.push({
+      code: 'gps_label_ignored',
+      message: 'The time column is labelled GPS, but the import was told the clock runs on UTC; times were read as UTC.',
     });
-    const { columns, recognition } = parsed;
-    const rowsTaken = columns.length;
-    if (rowsTaken === 0) {
-      if (parsed.rowsRejected === 0) {
-        throw fileIssue('no_rows', 'The log has a header but no rows.', 'Export the log again with its data rows');
-      }
-      throw new ApiError(
-        400,
-        'no_rows_taken',
-        `None of the log's ${parsed.rowsRejected} rows could be taken; the dive's log is unchanged.`,
-        parsed.rejected.slice(0, 20).map((r) => ({ path: `file.line.${r.line}`, message: r.reason, code: r.code })),
-      );
-    }
+  }
+  // A log of another dive, or a clock in local time: taken, but said plainly (a dive under way has no end yet).
+  const { launch, onDeck } = facts.phases;
+  if (launch !== null && (lastMs < launch || (onDeck !== null && firstMs > onDeck))) {
+    extra.push({
+      code: 'outside_dive',
+      message: `The log (${isoOf(firstMs)} to ${isoOf(lastMs)}) does not overlap the dive (launch ${isoOf(launch)} to ${onDeck !== null ? `on deck ${isoOf(onDeck)}` : 'now'}); check the dive and the log's clock.`,
+    });
+  }
 
-    const firstMs = columns.t[0] as number;
-    const lastMs = columns.t[rowsTaken - 1] as number;
-    const extra: ImportWarning[] = [];
-    if (head.encoding === 'latin1') extra.push({ code: 'latin1', message: 'The file is not UTF-8; it was read as Latin-1 (ISO 8859-1).' });
-    if (fields.gpsTime === false && recognition.timeScale === 'gps') {
-      extra.push({
-        code: 'gps_label_ignored',
-        message: 'The time column is labelled GPS, but the import was told the clock runs on UTC; times were read as UTC.',
-      });
-    }
-    // A log of another dive, or a clock in local time: taken, but said plainly (a dive under way has no end yet).
-    const { launch, onDeck } = facts.phases;
-    if (launch !== null && (lastMs < launch || (onDeck !== null && firstMs > onDeck))) {
-      extra.push({
-        code: 'outside_dive',
-        message: `The log (${isoOf(firstMs)} to ${isoOf(lastMs)}) does not overlap the dive (launch ${isoOf(launch)} to ${onDeck !== null ? `on deck ${isoOf(onDeck)}` : 'now'}); check the dive and the log's clock.`,
-      });
-    }
+  const importId = randomUUID();
+  const importedAt = new Date();
+  const samplesBefore = existing ? existing.length : countSamples(db, req.diveId);
+  const report: TelemetryImportReport = {
+    importId,
+    diveId: req.diveId,
+    fileName: req.fileName,
+    mode: fields.mode,
+    rowsTaken,
+    rowsRejected: parsed.rowsRejected,
+    rejected: parsed.rejected,
+    rejectedListLimit: REJECTED_LIST_LIMIT,
+    span: spanOf(firstMs, lastMs),
+    columns: {
+      recognised: (Object.entries(recognition.mapping) as [TelemetryChannel, number][])
+        .sort((a, b) => a[1] - b[1])
+        .map(([channel, index]) => ({ header: (parsed.headers[index] ?? '').replace(/^\uFEFF/, ''), channel })),
+      unknown: recognition.unknown,
+      unsupportedUnits: recognition.unsupportedUnits,
+      duplicates: recognition.duplicates,
+    },
+    delimiter,
+    decimal: decimalComma ? 'comma' : 'point',
+    timeScale: parsed.gpsTime ? 'gps' : 'utc',
+    pressure: fields.pressure,
+    depthFrom: recognition.mapping.depth !== undefined ? 'depth' : recognition.mapping.pressure !== undefined ? 'pressure' : null,
+    samplesBefore,
+    samplesAfter: fields.mode === 'append' ? samplesBefore + rowsTaken : rowsTaken,
+    stamped: { updated: 0, noTelemetry: 0 },
+    warnings: warningsOf(recognition, extra),
+    importedAt: importedAt.toISOString(),
+  };
 
-    const merged = existing ? mergeColumns(existing, columns) : columns;
-    const log = loadedLog(merged);
-    const importId = randomUUID();
-    const importedAt = new Date();
-    const samplesBefore = existing ? existing.length : countSamples(db, req.diveId);
-    const report: TelemetryImportReport = {
-      importId,
-      diveId: req.diveId,
-      fileName: req.fileName,
-      mode: fields.mode,
-      rowsTaken,
-      rowsRejected: parsed.rowsRejected,
-      rejected: parsed.rejected,
-      rejectedListLimit: REJECTED_LIST_LIMIT,
-      span: spanOf(firstMs, lastMs),
-      columns: {
-        recognised: (Object.entries(recognition.mapping) as [TelemetryChannel, number][])
-          .sort((a, b) => a[1] - b[1])
-          .map(([channel, index]) => ({ header: (parsed.headers[index] ?? '').replace(/^\uFEFF/, ''), channel })),
-        unknown: recognition.unknown,
-        unsupportedUnits: recognition.unsupportedUnits,
-        duplicates: recognition.duplicates,
-      },
-      delimiter,
-      decimal: decimalComma ? 'comma' : 'point',
-      timeScale: parsed.gpsTime ? 'gps' : 'utc',
-      pressure: fields.pressure,
-      depthFrom: recognition.mapping.depth !== undefined ? 'depth' : recognition.mapping.pressure !== undefined ? 'pressure' : null,
-      samplesBefore,
-      samplesAfter: merged.length,
-      stamped: { updated: 0, noTelemetry: 0 },
-      warnings: warningsOf(recognition, extra),
-      importedAt: importedAt.toISOString(),
-    };
-
-    live.withEvents((tx, stage) => {
+  withStaging(db, staged, (schema) =>
+    live.withEvents((_tx, stage) => {
       if (fields.mode === 'replace') db.$client.prepare('delete from telemetry_samples where dive_id = ?').run(req.diveId);
-      insertColumns(db, req.diveId, columns);
-      const result = stampDiveObservations(db, req.diveId, log.series, facts.gapMs);
+      copyStaged(db, schema, req.diveId);
+      // The log in memory, if any, is no longer the stored one (dropped again if this rolls back: it is only a cache).
+      forgetLog(db, req.diveId);
+      const result = stampDiveFromStoredLog(db, req.diveId, facts.gapMs);
       report.stamped = { updated: result.changed.length, noTelemetry: result.noTelemetry };
       db.insert(telemetryImports)
         .values({
@@ -609,8 +677,7 @@ export async function importTelemetryLog(db: Db, live: LiveHub, req: ImportReque
         })
         .run();
       announceStamped(stage, facts.campaignId, req.diveId, result.changed);
-    });
-    rememberLog(db, req.diveId, log);
-    return report;
-  });
+    }),
+  );
+  return report;
 }

@@ -164,16 +164,25 @@ export function seriesFromColumns(cols: TelemetryColumns): TelemetrySeries {
   return { firstMs, lastMs, scalars, position };
 }
 
-const statements = new WeakMap<Db, { count: (diveId: string) => number; rows: (diveId: string) => IterableIterator<unknown[]> }>();
+const statements = new WeakMap<
+  Db,
+  {
+    count: (diveId: string) => number;
+    rows: (diveId: string) => IterableIterator<unknown[]>;
+    times: (diveId: string) => IterableIterator<number>;
+  }
+>();
 
 function queries(db: Db) {
   let q = statements.get(db);
   if (!q) {
     const count = db.$client.prepare('select count(*) from telemetry_samples where dive_id = ?').pluck();
     const rows = db.$client.prepare(`select t, ${STORED_CHANNELS.join(', ')} from telemetry_samples where dive_id = ? order by t`).raw();
+    const times = db.$client.prepare('select t from telemetry_samples where dive_id = ? order by t').pluck();
     q = {
       count: (diveId) => count.get(diveId) as number,
       rows: (diveId) => rows.iterate(diveId) as IterableIterator<unknown[]>,
+      times: (diveId) => times.iterate(diveId) as IterableIterator<number>,
     };
     statements.set(db, q);
   }
@@ -183,6 +192,18 @@ function queries(db: Db) {
 /** How many samples a dive's stored log has. */
 export function countSamples(db: Db, diveId: string): number {
   return queries(db).count(diveId);
+}
+
+/** The times of a dive's stored log, ascending: all an append needs to know of the log before it. */
+export function loadTimes(db: Db, diveId: string): Float64Array {
+  const q = queries(db);
+  const times = new Float64Array(q.count(diveId));
+  let i = 0;
+  for (const t of q.times(diveId)) {
+    if (i >= times.length) break;
+    times[i++] = t;
+  }
+  return times.subarray(0, i);
 }
 
 /** The stored log of a dive as typed columns. */
@@ -221,6 +242,11 @@ export function rememberLog(db: Db, diveId: string, log: LoadedLog): LoadedLog {
   byDive.set(diveId, log);
   while (byDive.size > CACHED_DIVES) byDive.delete(byDive.keys().next().value as string);
   return log;
+}
+
+/** Drops a dive's log from memory (its stored log changed); the next reader loads it again. */
+export function forgetLog(db: Db, diveId: string): void {
+  cache.get(db)?.delete(diveId);
 }
 
 /** The cached log of a dive, if it is in memory. */

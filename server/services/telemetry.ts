@@ -392,8 +392,56 @@ export type StampResult = {
  * Runs inside the caller's transaction.
  */
 export function stampDiveObservations(db: Db, diveId: string, series: TelemetrySeries, maxGapMs: number): StampResult {
-  const q = stampQueries(db);
   const view = stampingView(series);
+  return stampEntries(db, stampQueries(db).rows(diveId), view, maxGapMs);
+}
+
+/** Entries stamped per reading of the stored log, and the most log time (merged windows) read at once. */
+const STORED_CHUNK_ENTRIES = 1000;
+const STORED_CHUNK_MS = 3600_000;
+
+/**
+ * The same stamping from the log as stored, without holding it whole: the entries are taken in
+ * time order, a few hundred at a time, with only the stretches of log within one gap length of
+ * each of them (which answer as the whole log would; see `seriesAround`). Memory stays that of an
+ * hour of log however long it is. Runs inside the caller's transaction.
+ */
+export function stampDiveFromStoredLog(db: Db, diveId: string, maxGapMs: number): StampResult {
+  const rows = stampQueries(db).rows(diveId);
+  rows.sort((a, b) => a[1] - b[1]);
+  const windowRows = windowQueries(db).rows;
+  const result: StampResult = { changed: [], noTelemetry: 0 };
+  for (let start = 0; start < rows.length;) {
+    // Merged windows [t - gap, t + gap] of the next entries, up to the chunk's limits.
+    const windows: [number, number][] = [];
+    let span = 0;
+    let end = start;
+    while (end < rows.length && end - start < STORED_CHUNK_ENTRIES && span <= STORED_CHUNK_MS) {
+      const t = rows[end]![1];
+      const last = windows[windows.length - 1];
+      if (last && t - maxGapMs <= last[1]) {
+        span += t + maxGapMs - last[1];
+        last[1] = t + maxGapMs;
+      } else {
+        windows.push([t - maxGapMs, t + maxGapMs]);
+        span += 2 * maxGapMs;
+      }
+      end++;
+    }
+    const samples: TelemetryRow[] = [];
+    for (const [from, to] of windows) for (const sample of windowRows(diveId, from, to)) samples.push(sample);
+    const view = stampingView(buildTelemetrySeries(samples));
+    const part = stampEntries(db, rows.slice(start, end), view, maxGapMs);
+    for (const c of part.changed) result.changed.push(c);
+    result.noTelemetry += part.noTelemetry;
+    start = end;
+  }
+  return result;
+}
+
+/** Stamps `rows` from `view`, a series holding at least the log around each of them. */
+function stampEntries(db: Db, rows: StampRow[], view: TelemetrySeries, maxGapMs: number): StampResult {
+  const q = stampQueries(db);
   const options = { maxGapMs };
   const result: StampResult = { changed: [], noTelemetry: 0 };
   const width = STAMP_COLUMNS.length + 1;
@@ -404,7 +452,7 @@ export function stampDiveObservations(db: Db, diveId: string, series: TelemetryS
     q.update(filled, filled === STAMP_BATCH ? batch : batch.slice(0, filled * width));
     filled = 0;
   };
-  for (const row of q.rows(diveId)) {
+  for (const row of rows) {
     const [
       id,
       t,

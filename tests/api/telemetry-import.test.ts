@@ -9,10 +9,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { campaigns } from '@/db/schema';
 import { telemetryImportReportSchema, telemetrySamplesSchema } from '@/lib/schemas';
 import { MAX_LOG_BYTES } from '@/server/middleware/telemetry-upload';
+import { diveFacts, stampDiveObservations } from '@/server/services/telemetry';
+import { logOf } from '@/server/services/telemetry-series';
 import { emails } from '../helpers/demo';
 import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { startTestServer, type TestServer } from '../helpers/test-server';
-import { csv, htmlPage, iso, linearLog, pngBytes } from '../fixtures/telemetry/logs';
+import { csv, htmlPage, iso, linearLog, pngBytes, writeVehicleLog } from '../fixtures/telemetry/logs';
 
 let t: TestServer;
 let ids: Fixtures;
@@ -572,5 +574,72 @@ describe('a log of another time than its dive', () => {
       .attach('file', linearLog(Date.UTC(2026, 4, 20, 9, 0, 0), 1, 600), { filename: 'right.csv', contentType: 'text/csv' });
     expect(inside.status).toBe(201);
     expect(telemetryImportReportSchema.parse(inside.body).warnings.map((w) => w.code)).not.toContain('outside_dive');
+  });
+});
+
+describe('a long log', () => {
+  it('is read in a stream and stamps its entries as the whole log in memory would, across many stretches of it', async () => {
+    const pilot = await t.signIn(emails.pilot);
+    const planned = await pilot.post(`/api/campaigns/${ids.campaign}/dives`).send({ number: 'TI-LONG', objectives: 'A long log' });
+    expect(planned.status).toBe(201);
+    const dive = planned.body.id as string;
+    const start = Date.UTC(2026, 4, 21, 6, 0, 0);
+    // Three hours at 5 Hz: more rows than a staging batch many times over, and entries spread
+    // over more log and more of them than one stretch of stamping takes.
+    const dir = mkdtempSync(path.join(tmpdir(), 'bathynote-long-log-'));
+    const file = path.join(dir, 'long.csv');
+    try {
+      const rows = await writeVehicleLog(file, start, 3, 5);
+      const db = t.ctx.db.$client;
+      const insert = db.prepare(
+        "insert into observations (id, dive_id, campaign_id, observed_at, kind, title, author_id, created_at, updated_at) values (?, ?, ?, ?, 'biology', 'Long log entry', ?, ?, ?)",
+      );
+      const author = ids.userId(emails.biologist);
+      // 2,400 entries from 10 minutes before the log to 10 minutes after it.
+      const entries = 2400;
+      db.transaction(() => {
+        for (let i = 0; i < entries; i++) {
+          const at = start - 600_000 + Math.round((i * (3 * 3600_000 + 1_200_000)) / entries) + 37;
+          insert.run(crypto.randomUUID(), dive, ids.campaign, at, author, at, at);
+        }
+      })();
+      const res = await pilot.post(`/api/dives/${dive}/telemetry`).attach('file', file, { filename: 'long.csv', contentType: 'text/csv' });
+      expect(res.status, JSON.stringify(res.body)).toBe(201);
+      const report = telemetryImportReportSchema.parse(res.body);
+      expect(report).toMatchObject({ rowsTaken: rows, rowsRejected: 0, samplesAfter: rows });
+      expect(db.prepare('select count(*) from telemetry_samples where dive_id = ?').pluck().get(dive)).toBe(rows);
+      // Entries before the log's first sample or after its last get nothing; every other one is stamped.
+      const last = start + (rows - 1) * 200;
+      const outsideOf = (to: number) =>
+        db
+          .prepare('select count(*) from observations where dive_id = ? and (observed_at < ? or observed_at > ?)')
+          .pluck()
+          .get(dive, start, to) as number;
+      const outside = outsideOf(last);
+      expect(outside).toBeGreaterThan(100);
+      expect(report.stamped).toEqual({ updated: entries - outside, noTelemetry: outside });
+
+      // Then a sparse log after it, a sample every 20 s for 10 minutes: an entry's neighbours now lie
+      // up to 20 s away, so a stretch of log read around it that is too short shows.
+      const sparse = await pilot
+        .post(`/api/dives/${dive}/telemetry`)
+        .field('mode', 'append')
+        .attach('file', linearLog(last + 20_000, 20, 30), { filename: 'sparse.csv', contentType: 'text/csv' });
+      expect(sparse.status, JSON.stringify(sparse.body)).toBe(201);
+      const appended = telemetryImportReportSchema.parse(sparse.body);
+      expect(appended).toMatchObject({ rowsTaken: 30, samplesBefore: rows, samplesAfter: rows + 30 });
+      const stillOutside = outsideOf(last + 30 * 20_000);
+      expect(stillOutside).toBeLessThan(outside - 50);
+      expect(appended.stamped.noTelemetry).toBe(stillOutside);
+
+      // Stamping again from the whole log held in memory changes nothing.
+      const again = t.ctx.live.withEvents(() =>
+        stampDiveObservations(t.ctx.db, dive, logOf(t.ctx.db, dive).series, diveFacts(t.ctx.db, dive).gapMs),
+      );
+      expect(again.changed).toEqual([]);
+      expect(again.noTelemetry).toBe(stillOutside);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });
