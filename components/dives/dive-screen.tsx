@@ -31,7 +31,7 @@ import { DiveLog, READING_OFFSET } from './dive-log';
 import { diveStatus } from './dive-list';
 import { DivePhases } from './dive-phases';
 import { LiveStatusBadge } from './live-status';
-import { tableWidth, useLogColumns } from './log-columns';
+import { fitColumns, tableWidth, useLogColumns } from './log-columns';
 import { LogFilters } from './log-filters';
 import { matchesSearch } from './log-rows';
 import { PhaseControls } from './phase-controls';
@@ -56,6 +56,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   // Whether the detail pane has room beside the list (a table with many columns may leave none).
   const [detailFits, setDetailFits] = useState(true);
   const [barHeight, setBarHeight] = useState(0);
+  const [listWidth, setListWidth] = useState(0);
   const columns = useLogColumns(useMe().data?.user.id);
   const [search, setSearch] = useState('');
   const searchBox = useRef<TextInput>(null);
@@ -70,7 +71,11 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const onFits = useCallback((fits: boolean) => setDetailFits(fits), []);
   // Quick marks log "now": once the vehicle is on deck, entries come from the video instead.
   const showMarks = !!dive.data && !dive.data.phases.onDeck && can(role, 'entry.create');
-  const tableView = roomy && view === 'table';
+  // Beside the detail the list widens to the table; on its own (a tablet) the table keeps to the
+  // columns that fit, and gives way to cards where even the usual ones do not.
+  const shownColumns = splitView || listWidth === 0 ? columns.columns : fitColumns(columns.columns, listWidth);
+  const tableFits = shownColumns !== null;
+  const tableView = roomy && tableFits && view === 'table';
 
   const open = (o: Observation) => {
     if (detailShown) router.setParams({ entry: o.id });
@@ -189,7 +194,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
             testID="toggle-detail"
           />
         ) : null}
-        {roomy ? (
+        {roomy && tableFits ? (
           <Segmented
             label="View"
             hideLabel
@@ -220,7 +225,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
       timing={dive.data}
       onFiltersChange={setFilters}
       view={tableView ? 'table' : 'cards'}
-      columns={columns.columns}
+      columns={shownColumns ?? columns.columns}
       selectedId={detailShown ? entryId : undefined}
       onSelect={open}
       live={live}
@@ -234,7 +239,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
 
   // Quick marks stay in reach above the list on wider screens (on phones, in the bar under it).
   const list = (
-    <View style={styles.fill}>
+    <View style={styles.fill} onLayout={(e) => setListWidth(Math.round(e.nativeEvent.layout.width))}>
       {showMarks && !phoneBar && dive.data ? (
         <View style={[styles.marksAbove, { borderBottomColor: colors.border }]}>
           <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} />

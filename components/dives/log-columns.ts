@@ -46,6 +46,20 @@ export function tableWidth(columns: readonly Column[]): number {
   return fixed + CELL_GAP * (columns.length - 1) + ROW_PADDING * 2;
 }
 
+/**
+ * The columns that fit in `width`: optional ones are left out, last first, until the rest fit;
+ * null when even the usual columns do not (the log then shows cards).
+ */
+export function fitColumns(columns: readonly Column[], width: number): readonly Column[] | null {
+  const fitted = [...columns];
+  while (tableWidth(fitted) > width) {
+    const i = fitted.findLastIndex((c) => c.optional);
+    if (i < 0) return null;
+    fitted.splice(i, 1);
+  }
+  return fitted;
+}
+
 const key = (userId: string | undefined) => `bathynote.log-columns.${userId ?? 'anyone'}`;
 
 function readChosen(userId: string | undefined): ColumnId[] {
