@@ -54,7 +54,7 @@ export function digestRoutes(ctx: AppContext): Router {
       }),
     );
     ctx.mail.kick();
-    const queued = listDigests(db, campaignId).filter((d) => digestIds.includes(d.id));
+    const queued = listDigests(db, campaignId, digestIds);
     const body: DigestSendResult = { queued, nothingNew };
     res.status(201).json(body);
   });

@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, inArray, isNull, lte, or } from 'drizzle-orm';
+import { and, asc, count, desc, eq, getTableColumns, inArray, isNull, lte, or } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../db/client';
 import { mailQueue } from '../../db/schema';
@@ -7,6 +7,9 @@ import type { Logger } from './logger';
 import type { Mailer, OutgoingMail } from './mail';
 
 export type MailRow = typeof mailQueue.$inferSelect;
+
+/** A mail's columns but its body: what the logs and the sender's claim read (a digest's body is ~100 KB). */
+const { payload: _payload, ...withoutPayload } = getTableColumns(mailQueue);
 
 /** A mail to queue: what it is for, to whom, and what the sender needs to write it. */
 export type QueuedMail = {
@@ -52,7 +55,7 @@ export function cancelQueuedMail(tx: Executor, ref: string, reason: string, now 
     .run();
 }
 
-export const toMailStatus = (row: MailRow): MailStatus => ({
+export const toMailStatus = (row: Omit<MailRow, 'payload'>): MailStatus => ({
   id: row.id,
   state: row.state,
   attempts: row.attempts,
@@ -67,7 +70,7 @@ export function latestMailOf(db: Executor, refs: readonly string[]): Map<string,
   const out = new Map<string, MailStatus>();
   if (refs.length === 0) return out;
   const rows = db
-    .select()
+    .select(withoutPayload)
     .from(mailQueue)
     .where(inArray(mailQueue.ref, [...refs]))
     .orderBy(asc(mailQueue.createdAt))
@@ -77,7 +80,7 @@ export function latestMailOf(db: Executor, refs: readonly string[]): Map<string,
 }
 
 export function mailById(db: Executor, id: string): MailStatus | null {
-  const row = db.select().from(mailQueue).where(eq(mailQueue.id, id)).get();
+  const row = db.select(withoutPayload).from(mailQueue).where(eq(mailQueue.id, id)).get();
   return row ? toMailStatus(row) : null;
 }
 
@@ -97,7 +100,7 @@ export function retryMail(db: Executor, id: string, now = new Date()): MailStatu
 export function mailLog(db: Db, query: { state?: MailState; kind?: MailKind; limit: number }) {
   const where = and(query.state ? eq(mailQueue.state, query.state) : undefined, query.kind ? eq(mailQueue.kind, query.kind) : undefined);
   const items: MailLogItem[] = db
-    .select()
+    .select(withoutPayload)
     .from(mailQueue)
     .where(where)
     .orderBy(desc(mailQueue.createdAt))
@@ -229,7 +232,8 @@ export function createMailSender(db: Db, mailer: Mailer, log: Logger, options: M
 
   async function attemptOne(row: MailRow, attempt: number): Promise<Outcome> {
     try {
-      const outcome = await (handlers.get(row.kind) ?? plain)({ ...row, attempts: attempt }, (mail) => mailer.send(mail));
+      const payload = db.select({ payload: mailQueue.payload }).from(mailQueue).where(eq(mailQueue.id, row.id)).get()?.payload ?? {};
+      const outcome = await (handlers.get(row.kind) ?? plain)({ ...row, payload, attempts: attempt }, (mail) => mailer.send(mail));
       return outcome && 'cancel' in outcome ? { row, attempt, cancel: outcome.cancel } : { row, attempt, sent: true };
     } catch (err) {
       return { row, attempt, err };
@@ -277,13 +281,16 @@ export function createMailSender(db: Db, mailer: Mailer, log: Logger, options: M
       again = false;
       for (;;) {
         if (stopped) return;
-        const due = db
-          .select()
+        // A batch is claimed without its mails' bodies: each body is read just before it is sent,
+        // so a batch of digests (about 100 KB each) is never held in memory at once.
+        const due: MailRow[] = db
+          .select(withoutPayload)
           .from(mailQueue)
           .where(and(eq(mailQueue.state, 'queued'), or(isNull(mailQueue.nextAttemptAt), lte(mailQueue.nextAttemptAt, now()))))
           .orderBy(asc(mailQueue.nextAttemptAt))
           .limit(BATCH)
-          .all();
+          .all()
+          .map((row) => ({ ...row, payload: {} }));
         if (due.length === 0) break;
         const claimed = db.transaction(() =>
           due.filter(

@@ -4,8 +4,8 @@ import { DateTime } from 'luxon';
 import type { Executor } from '../../../db/client';
 import { dives, observations, photos, telemetrySamples } from '../../../db/schema';
 import type { DigestFilters, DigestFrequency, DigestTrigger, ObservationKind } from '../../../lib/schemas';
+import { htmlToPlainText, markdownToUnsafeHtml } from '../../../lib/notes';
 import { renderMail } from '../mail-templates';
-import { noteToPlainText } from '../notes';
 import { observationFilters } from '../observations/filters';
 import { tagsOf } from '../observations/hydrate';
 
@@ -16,8 +16,11 @@ export const DIGEST_MAX_BYTES = 100 * 1024;
  * the quoted-printable encoding of the parts (about 3 % on this HTML, more on long lines).
  */
 const PARTS_BUDGET = 80 * 1024;
-/** Entries read for one digest at most; more than fit the budget, fewer than a campaign holds. */
-const MAX_ROWS = 400;
+/**
+ * Entries read for one digest at most. An entry takes at least about 1.1 KB of the parts (the
+ * template around it, its links), so no more than about 70 ever fit the budget; the rest are counted.
+ */
+const MAX_ROWS = 100;
 
 const kindLabels: Record<ObservationKind, string> = {
   biology: 'Biology',
@@ -66,9 +69,23 @@ function conditions(campaignId: string, filters: DigestFilters, window: DigestWi
   );
 }
 
-const excerptOf = (note: string) => {
-  // Only the start is shown, so only the start is rendered (through the same sanitizer as the app).
-  const text = noteToPlainText(note.slice(0, 600)).replace(/\s+/g, ' ').trim();
+/** Elements whose content is not text to read: dropped with it, closed or not. */
+const NOT_TEXT =
+  /<(script|style|template|textarea|title|iframe|noscript|noembed|noframes|object|svg|math)\b[^>]*>[\s\S]*?(?:<\/\1\s*>|$)/gi;
+
+/**
+ * The start of a note as plain text. Only text comes out of it (tags dropped, entities decoded) and
+ * the templates escape it in the HTML part, so no sanitizer is needed here: the server then never
+ * loads a DOM (jsdom holds about 100 MB for as long as the process runs) just to write digests.
+ */
+export const excerptOf = (note: string) => {
+  let text: string;
+  try {
+    text = htmlToPlainText(markdownToUnsafeHtml(note.slice(0, 600)).replace(NOT_TEXT, ' '));
+  } catch {
+    text = note.slice(0, 600);
+  }
+  text = text.replace(/\s+/g, ' ').trim();
   return text.length > 240 ? `${text.slice(0, 237).trimEnd()}…` : text;
 };
 
@@ -160,15 +177,16 @@ export function composeDigest(
   context: { trigger: DigestTrigger; diveId?: string; links: DigestLinks; cache: ComposeCache },
 ): ComposedDigest | null {
   const where = conditions(campaign.id, recipient.filters, window, context.diveId);
-  // The window count gives every match's number with the first rows, in one pass over the entries.
+  // Counting apart lets the page below keep only its first rows while sorting, not every match;
+  // and notes are read only for entries not yet excerpted by an earlier subscriber's digest.
+  const total = db.select({ n: count() }).from(observations).where(where).get()?.n ?? 0;
+  if (total === 0) return null;
   const rows = db
     .select({
-      total: sql<number>`count(*) over ()`,
       id: observations.id,
       diveId: observations.diveId,
       kind: observations.kind,
       title: observations.title,
-      note: observations.note,
       depth: observations.depth,
       observedAt: observations.observedAt,
       createdAt: observations.createdAt,
@@ -184,13 +202,19 @@ export function composeDigest(
     )
     .limit(MAX_ROWS)
     .all();
-  const total = rows[0]?.total ?? 0;
-  if (total === 0) return null;
 
   const { cache, links } = context;
   const missing = rows.filter((r) => !cache.entries.has(r.id)).map((r) => r.id);
   if (missing.length > 0) {
     const tags = tagsOf(db, missing);
+    const notes = new Map(
+      db
+        .select({ id: observations.id, note: sql<string>`substr(${observations.note}, 1, 600)` })
+        .from(observations)
+        .where(inArray(observations.id, missing))
+        .all()
+        .map((n) => [n.id, n.note]),
+    );
     const thumbs = new Map<string, string>();
     for (const p of db
       .select({ id: photos.id, observationId: photos.observationId })
@@ -204,7 +228,7 @@ export function composeDigest(
       if (cache.entries.has(r.id)) continue;
       const thumb = thumbs.get(r.id);
       cache.entries.set(r.id, {
-        excerpt: r.note ? excerptOf(r.note) : '',
+        excerpt: notes.get(r.id) ? excerptOf(notes.get(r.id)!) : '',
         tags: (tags.get(r.id) ?? []).join(', '),
         thumb: thumb ? `${links.base}/api/photos/${thumb}?size=thumb` : null,
       });

@@ -1,4 +1,4 @@
-import { and, desc, eq, ne } from 'drizzle-orm';
+import { and, desc, eq, inArray, ne } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../../db/client';
 import { campaigns, digests, memberships, subscriptions, user } from '../../../db/schema';
@@ -147,15 +147,16 @@ export function digestMailHandler(db: Db): MailHandler {
   };
 }
 
-/** The campaign's digests, newest first, each with where its mail stands. */
-export function listDigests(db: Executor, campaignId: string, limit = 200): DigestLogItem[] {
+/** The campaign's digests (the newest 200, or those named), newest first, each with where its mail stands. */
+export function listDigests(db: Executor, campaignId: string, only?: readonly string[]): DigestLogItem[] {
+  if (only?.length === 0) return [];
   const rows = db
     .select({ d: digests, name: user.name })
     .from(digests)
     .innerJoin(user, eq(user.id, digests.userId))
-    .where(eq(digests.campaignId, campaignId))
+    .where(and(eq(digests.campaignId, campaignId), only ? inArray(digests.id, [...only]) : undefined))
     .orderBy(desc(digests.sentAt))
-    .limit(limit)
+    .limit(only ? only.length : 200)
     .all();
   const mail = latestMailOf(
     db,
