@@ -46,3 +46,20 @@ export const sampleSchema = z.object({
   lab: z.string().nullable(),
 });
 export type Sample = z.infer<typeof sampleSchema>;
+
+/** One row of the sample register, as the lists show it. */
+export const sampleRowSchema = sampleSchema.extend({
+  observationId: z.string(),
+  title: z.string(),
+  kind: z.string(),
+  diveId: z.string(),
+  diveNumber: z.string(),
+  observedAt: z.string(),
+  custodySteps: z.number().int(),
+  /** Who holds it now, by the last step of its trail. */
+  heldBy: z.string().nullable(),
+  /** Its dive is on deck and nobody has recorded holding it since: the register's warning. */
+  noCustodySinceRecovery: z.boolean(),
+});
+export type SampleRow = z.infer<typeof sampleRowSchema>;
+export const sampleListSchema = z.object({ items: z.array(sampleRowSchema) });

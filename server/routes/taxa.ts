@@ -1,6 +1,6 @@
 /**
  * The campaign's biology vocabulary and what it saw: substrate classes, the species list (import
- * and name suggestions) and the taxa a dive or campaign identified.
+ * and name suggestions), the taxa a dive or campaign identified and its sample register.
  */
 import { Router, type RequestHandler } from 'express';
 import multer, { MulterError } from 'multer';
@@ -13,6 +13,7 @@ import { requireSession } from '../middleware/session';
 import { refusalOf } from '../middleware/telemetry-upload';
 import { validate } from '../middleware/validate';
 import { MAX_CHECKLIST_BYTES, importChecklist, listChecklist, suggestNames } from '../services/checklist';
+import { listSamples } from '../services/samples';
 import { createSubstrate, listSubstrates, substrateCampaign, updateSubstrate } from '../services/substrates';
 import { taxaSeen } from '../services/taxa';
 
@@ -95,6 +96,14 @@ export function taxaRoutes(ctx: AppContext): Router {
     const { campaignId } = accessOf(req);
     if (!campaignId) throw notFound();
     res.json({ items: taxaSeen(db, { campaignId, diveId }, taxaQuery.of(req).sort) });
+  });
+
+  r.get('/campaigns/:campaignId/samples', ...member(byCampaign), (req, res) => {
+    res.json({ items: listSamples(db, { campaignId: accessOf(req).campaignId }) });
+  });
+
+  r.get('/dives/:diveId/samples', ...member(byDive), (req, res) => {
+    res.json({ items: listSamples(db, { campaignId: accessOf(req).campaignId, diveId: req.params.diveId as string }) });
   });
 
   return r;

@@ -2,13 +2,13 @@
  * The sample register: the sample a biology or environment entry carries, numbered uniquely in
  * its campaign, with subsamples naming their parent's number.
  */
-import { and, eq, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import type { z } from 'zod';
 
 import type { Db, Executor } from '../../db/client';
-import { samples } from '../../db/schema';
+import { custodyEvents, dives, observations, samples } from '../../db/schema';
 import { compareSampleNumbers } from '../../lib/sample-numbers';
-import type { ObservationDetail, sampleInputSchema } from '../../lib/schemas';
+import type { ObservationDetail, SampleRow, sampleInputSchema } from '../../lib/schemas';
 import { conflict, fieldError, notFound } from '../errors';
 import type { LiveHub } from './live';
 import { assertCurrent, getObservationDetail, getObservationRow, recordChange, type Actor } from './observations';
@@ -93,4 +93,70 @@ export function setSample(db: Db, live: LiveHub, id: string, actor: Actor, input
     stage(observation.campaignId, observation.diveId, 'observation.updated', observation);
     return detail;
   });
+}
+
+/**
+ * The register of a campaign or a dive, in natural order of sample number, with each sample's
+ * custody: a sample whose dive is on deck with no custody step since is flagged, since it has come
+ * up with the vehicle and nobody has said who took it.
+ */
+export function listSamples(db: Executor, scope: { campaignId: string; diveId?: string }): SampleRow[] {
+  const rows = db
+    .select({
+      sample: samples,
+      title: observations.title,
+      kind: observations.kind,
+      diveId: observations.diveId,
+      observedAt: observations.observedAt,
+      diveNumber: dives.number,
+      onDeck: dives.onDeckAt,
+    })
+    .from(samples)
+    .innerJoin(observations, eq(observations.id, samples.observationId))
+    .innerJoin(dives, eq(dives.id, observations.diveId))
+    .where(
+      and(
+        eq(samples.campaignId, scope.campaignId),
+        scope.diveId ? eq(observations.diveId, scope.diveId) : undefined,
+        eq(observations.retired, false),
+      ),
+    )
+    .all();
+  const ids = rows.map((r) => r.sample.observationId);
+  const steps = new Map<string, { since: Date; holder: string }[]>();
+  for (let i = 0; i < ids.length; i += 500) {
+    for (const c of db
+      .select({ id: custodyEvents.observationId, since: custodyEvents.since, holder: custodyEvents.holder })
+      .from(custodyEvents)
+      .where(inArray(custodyEvents.observationId, ids.slice(i, i + 500)))
+      .orderBy(asc(custodyEvents.since), asc(custodyEvents.createdAt))
+      .all()) {
+      const list = steps.get(c.id) ?? [];
+      list.push({ since: c.since, holder: c.holder });
+      steps.set(c.id, list);
+    }
+  }
+  return rows
+    .map(({ sample: s, onDeck, ...r }): SampleRow => {
+      const trail = steps.get(s.observationId) ?? [];
+      return {
+        observationId: s.observationId,
+        sampleNumber: s.sampleNumber,
+        sampleType: s.sampleType,
+        gear: s.gear,
+        container: s.container,
+        preservation: s.preservation,
+        parentSampleNumber: s.parentSampleNumber,
+        lab: s.lab,
+        title: r.title,
+        kind: r.kind,
+        diveId: r.diveId,
+        diveNumber: r.diveNumber,
+        observedAt: r.observedAt.toISOString(),
+        custodySteps: trail.length,
+        heldBy: trail.at(-1)?.holder ?? null,
+        noCustodySinceRecovery: onDeck !== null && !trail.some((t) => t.since.getTime() >= onDeck.getTime()),
+      };
+    })
+    .sort((a, b) => compareSampleNumbers(a.sampleNumber, b.sampleNumber));
 }

@@ -304,3 +304,39 @@ describe('taxa seen', () => {
     ).toBe(false);
   });
 });
+
+describe('sample register', () => {
+  it('lists samples in natural order with their custody, and flags one with no step since its dive came on deck', async () => {
+    const bio = await t.signIn(emails.biologist);
+    const made = async (title: string, n: string, parent?: string) => {
+      const e = await log({ kind: 'biology', title, observedAt: at(50) });
+      const s = await bio
+        .put(`/api/observations/${e.body.id}/sample`)
+        .send({ sampleNumber: n, sampleType: 'biological', gear: 'suction sampler', parentSampleNumber: parent ?? null });
+      expect(s.status).toBe(200);
+      return e.body.id as string;
+    };
+    const ten = await made('Sponge fragment for genetics', 'REG-10');
+    const two = await made('Coral branch for isotopes', 'REG-2');
+    await made('Subsample of the coral branch', 'REG-2a', 'REG-2');
+    // The fixture dive is on deck at 23:05 UTC: a step after it clears the flag, one before does not.
+    await bio
+      .post(`/api/observations/${two}/custody`)
+      .send({ holder: 'Wet lab', since: '2026-05-13T23:20:00.000Z', location: 'Freezer 2' });
+    await bio
+      .post(`/api/observations/${ten}/custody`)
+      .send({ holder: 'Vehicle drawer', since: '2026-05-13T22:00:00.000Z', location: 'Drawer 3' });
+    const res = await bio.get(`/api/dives/${ids.dive}/samples`);
+    expect(res.status).toBe(200);
+    const mine = res.body.items.filter((s: { sampleNumber: string }) => s.sampleNumber.startsWith('REG-'));
+    expect(mine.map((s: { sampleNumber: string }) => s.sampleNumber)).toEqual(['REG-2', 'REG-2a', 'REG-10']);
+    const by = new Map(mine.map((s: { sampleNumber: string }) => [s.sampleNumber, s]));
+    expect(by.get('REG-2')).toMatchObject({ custodySteps: 1, heldBy: 'Wet lab', noCustodySinceRecovery: false, gear: 'suction sampler' });
+    expect(by.get('REG-2a')).toMatchObject({ custodySteps: 0, heldBy: null, noCustodySinceRecovery: true, parentSampleNumber: 'REG-2' });
+    expect(by.get('REG-10')).toMatchObject({ custodySteps: 1, heldBy: 'Vehicle drawer', noCustodySinceRecovery: true });
+    const campaign = await bio.get(`/api/campaigns/${ids.campaign}/samples`);
+    expect(campaign.body.items.filter((s: { sampleNumber: string }) => s.sampleNumber.startsWith('REG-'))).toHaveLength(3);
+    const other = await (await t.signIn(emails.lead)).get(`/api/dives/${ids.otherDive}/samples`);
+    expect(other.body.items.some((s: { sampleNumber: string }) => s.sampleNumber.startsWith('REG-'))).toBe(false);
+  });
+});
