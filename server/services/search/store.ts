@@ -2,7 +2,9 @@
  * The search index's own SQLite file, attached to the record's connection as `search`.
  *
  * It holds an FTS5 table over each live entry's title, tags, scientific name, find number and
- * note, keyed by the entry's rowid in `observations`. The record never depends on it: it can be
+ * note, keyed by the entry's rowid in `observations`, and a `scope` column of tokens naming the
+ * entry's campaign and dive (`scopeToken`), so that a search limits itself to the caller's
+ * campaigns inside FTS5 instead of looking every match up in the record. The record never depends on it: it can be
  * deleted at any time and is rebuilt at the next start, and backups carry only the record.
  *
  * It is kept current by TEMP triggers on the record's tables, created on this connection when the
@@ -18,7 +20,7 @@ import { existsSync, rmSync } from 'node:fs';
 import type { Db } from '../../../db/client';
 
 /** Raised when the layout below changes, so that an older index file is rebuilt. */
-const FORMAT = 1;
+const FORMAT = 2;
 
 /** Column order of the FTS table; bm25 weights and highlighting follow it. */
 export const indexedFields = ['title', 'tags', 'scientificName', 'findNumber', 'note'] as const;
@@ -30,6 +32,13 @@ export function indexFileFor(databasePath: string): string {
   return databasePath.endsWith('.db') ? `${databasePath.slice(0, -3)}.search.db` : `${databasePath}.search`;
 }
 
+/**
+ * The one token for a campaign (`c`) or dive (`d`) in the scope column: the id's UTF-8 bytes in
+ * hex, so that any id is one word to the tokenizer. `scopeSql` is the same in SQL.
+ */
+export const scopeToken = (kind: 'c' | 'd', id: string) => `${kind}${Buffer.from(id, 'utf8').toString('hex')}`;
+const scopeSql = `'c' || lower(hex(o.campaign_id)) || ' d' || lower(hex(o.dive_id))`;
+
 /** The indexed text of the entries `where` selects (over `o`), live entries only. */
 const rowsOf = (where: string) => `
   select o.rowid, o.title,
@@ -37,11 +46,11 @@ const rowsOf = (where: string) => `
       where ot.observation_id = o.id), ''),
     coalesce((select i.scientific_name from identifications i where i.observation_id = o.id), ''),
     coalesce((select f.find_number from finds f where f.observation_id = o.id), ''),
-    o.note
+    o.note, ${scopeSql}
   from observations o where (${where}) and o.retired = 0`;
 
 const insertRows = (where: string) =>
-  `insert into search_entries (rowid, title, tags, scientific_name, find_number, note) ${rowsOf(where)};`;
+  `insert into search_entries (rowid, title, tags, scientific_name, find_number, note, scope) ${rowsOf(where)};`;
 
 /** Drops and re-adds the entries `where` selects: the statement list of a trigger. */
 const reindex = (where: string) => `
@@ -59,7 +68,7 @@ const tagChange = `new.action in ('tag.updated', 'tag.merged')`;
  */
 const triggers: Record<string, string> = {
   observation_added: `after insert on observations begin ${reindex(byId('new.id'))} end`,
-  observation_changed: `after update of title, note, retired on observations begin ${reindex(byId('new.id'))} end`,
+  observation_changed: `after update of title, note, retired, dive_id, campaign_id on observations begin ${reindex(byId('new.id'))} end`,
   observation_removed: `after delete on observations begin delete from search_entries where rowid = old.rowid; end`,
   tag_added: `after insert on observation_tags begin ${reindex(byId('new.observation_id'))} end`,
   tag_taken: `after delete on observation_tags begin ${reindex(byId('old.observation_id'))} end`,
@@ -115,11 +124,11 @@ function createTables(db: Db) {
     drop table if exists search.search_entries;
     drop table if exists search.search_meta;
     create virtual table search.search_entries using fts5(
-      title, tags, scientific_name, find_number, note,
+      title, tags, scientific_name, find_number, note, scope,
       content = '', contentless_delete = 1,
       tokenize = 'unicode61 remove_diacritics 2'
     );
-    create virtual table search.search_terms using fts5vocab('search_entries', 'row');
+    create virtual table search.search_terms using fts5vocab('search_entries', 'col');
     create table search.search_meta (key text primary key, value) without rowid;
   `);
 }
@@ -131,6 +140,9 @@ function attach(db: Db, file: string) {
     // The index is derived from the record and caught up at start, so it need not wait for the disk.
     db.$client.pragma('search.synchronous = NORMAL');
   }
+  // A search reads the long word lists of common words; kept in memory (up to 64 MB), they are
+  // not read from the file again on every query.
+  db.$client.pragma('search.cache_size = -65536');
 }
 
 /** Why the index file cannot be caught up and must be built again, or null when it can. */

@@ -43,6 +43,8 @@ export class Vocabulary {
   private readonly byLength = new Map<number, Bucket>();
   /** Every term in order, for completing a word being typed. */
   private sorted: string[] = [];
+  /** How many entries the index holds (approximate after changes). */
+  documents = 0;
   private revision = 0;
   private audit = 0;
   private loaded = false;
@@ -72,9 +74,11 @@ export class Vocabulary {
     this.docs.clear();
     this.byLength.clear();
     const mark = indexMark(this.db);
-    for (const row of this.db.$client.prepare('select term, doc from search.search_terms').raw().iterate() as Iterable<[string, number]>) {
-      this.add(row[0], row[1]);
-    }
+    // Per column, without the scope tokens (campaigns and dives are not words anyone types); a
+    // term in two columns of one entry is counted twice, which the uses below can bear.
+    const rows = this.db.$client.prepare(`select term, doc from search.search_terms where col <> 'scope'`).raw().iterate();
+    for (const row of rows as Iterable<[string, number]>) this.add(row[0], row[1]);
+    this.documents = this.db.$client.prepare('select count(*) from search.search_entries_docsize').pluck().get() as number;
     this.sorted = [...this.docs.keys()].sort();
     this.revision = mark.revision;
     this.audit = mark.audit;
@@ -100,6 +104,7 @@ export class Vocabulary {
         from observations o where o.rowid = ?`,
         )
         .pluck();
+      this.documents += changed.rowids.length;
       for (const rowid of changed.rowids) {
         const value = text.get(rowid) as string | undefined;
         if (value) for (const term of new Set(termsOf(value))) this.add(term, 1);
@@ -143,6 +148,13 @@ export class Vocabulary {
 
   has(term: string): boolean {
     return this.docs.has(term);
+  }
+
+  /** About how many entries hold one of these terms (an upper bound: they may overlap). */
+  docsOf(terms: readonly string[]): number {
+    let n = 0;
+    for (const t of terms) n += this.docs.get(t) ?? 0;
+    return n;
   }
 
   /**
