@@ -1,16 +1,17 @@
-import path from 'node:path';
-
-import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
+/** A campaign of the tests' own (display zone Europe/Lisbon) with a dive under way and no entries yet. */
+let fixtures: E2eFixtures;
 
 beforeAll(async () => {
   server = await startServerProcess();
+  fixtures = await buildE2eFixtures(server.url, { underWay: true });
 });
 afterAll(async () => {
   await server?.stop();
@@ -23,15 +24,10 @@ async function signIn(page: Page, email: string) {
   await page.getByTestId('sign-in-password').press('Enter');
 }
 
-async function openDemoDive(page: Page) {
-  await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
-  await page.getByTestId('dive-VS-02').click();
-  await page
-    .getByTestId('dive-log')
-    .getByText('Start of the dive log', { exact: false })
-    .or(page.getByTestId('dive-log').locator('[data-testid^="observation-"]').first())
-    .first()
-    .waitFor();
+async function openDive(page: Page) {
+  await page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
+  await page.getByTestId(`dive-${fixtures.underWay!.number}`).click();
+  await page.getByTestId('new-observation').waitFor();
 }
 
 describe.each([
@@ -48,18 +44,19 @@ describe.each([
 
   const title = `Microbial mat on the port frames (${size})`;
 
-  it('lets the biologist sign in, open the demo dive and log an observation', async () => {
+  it('lets the biologist sign in, open a dive under way and log an observation', async () => {
     const { page } = browser;
     await signIn(page, 'biologist@bathynote.test');
     await page.getByTestId('campaign-list').waitFor();
     if (size === 'wide') {
       await page.getByRole('navigation', { name: 'Main' }).getByText('Bathynote').waitFor();
     }
-    await openDemoDive(page);
+    await openDive(page);
     await page.getByTestId('dive-phases').waitFor();
 
     await page.getByTestId('new-observation').click();
     await page.getByTestId('observation-form').waitFor();
+    // The dive is under way: the time starts at now, to the second.
     expect(await page.getByTestId('field-time').inputValue()).toMatch(/^\d{4}-\d{2}-\d{2} \d{2}:\d{2}:\d{2}$/);
 
     // Saving an empty form shows the contract's field messages instead of sending it.
@@ -111,7 +108,7 @@ describe.each([
     const other = await openBrowser(viewport);
     try {
       await signIn(other.page, 'lead@bathynote.test');
-      await openDemoDive(other.page);
+      await openDive(other.page);
       await other.page.getByTestId('dive-log').getByText(title).waitFor();
       expect(other.errors).toEqual([]);
     } finally {
@@ -127,12 +124,10 @@ describe('a person outside the campaign', () => {
       const { page } = browser;
       await signIn(page, 'outsider@bathynote.test');
       await page.getByTestId('empty').getByText('No campaigns yet').waitFor();
-      const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
-      const { id } = db.prepare("select id from dives where number = 'VS-02'").get() as { id: string };
-      db.close();
-      await page.goto(`${server.url}/dives/${id}`);
+      await page.goto(`${server.url}/dives/${fixtures.finished.id}`);
       await page.getByTestId('error').getByText('Nothing here').waitFor();
       expect(await page.content()).not.toContain('Varn Shoal');
+      expect(await page.content()).not.toContain(fixtures.campaignName);
     } finally {
       await browser.close();
     }

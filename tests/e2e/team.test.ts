@@ -90,6 +90,16 @@ describe('a guest scientist joins by invitation', () => {
       const join = page.frameLocator('[data-testid="mail-html"]').getByRole('link', { name: 'Join Varn Shoal 2026' });
       expect(await join.getAttribute('href')).toBe(link);
       expect(await page.getByTestId('mail-headers').textContent()).toContain(guestEmail);
+
+      // A new campaign's form shows no example value in grey inside a field, where it would read as
+      // filled in: the examples are in the hints under the fields.
+      await page.goBack();
+      await page.getByTestId('new-campaign').filter({ visible: true }).click();
+      const form = page.getByTestId('new-campaign-form').filter({ visible: true });
+      await form.waitFor();
+      expect(await form.locator('input, textarea').count()).toBeGreaterThan(5);
+      expect(await form.locator('input[placeholder]:not([placeholder=""]), textarea[placeholder]:not([placeholder=""])').count()).toBe(0);
+      expect(await form.getByTestId('new-campaign-datumLat-hint').textContent()).toContain('for example 36.1450');
       expect(admin.errors).toEqual([]);
     } finally {
       await admin.close();
@@ -111,6 +121,8 @@ describe('a guest scientist joins by invitation', () => {
     await page.getByTestId('field-kind-biology').click();
     const title = 'Brittle stars on the amphora shoulder, seen from ashore';
     await page.getByTestId('field-title').fill(title);
+    // The time as the Now button gives it: a dive that is over starts its entries with no time.
+    await page.getByTestId('time-now').click();
     await page.getByTestId('save-observation').click();
     await page.getByTestId('dive-log').locator('[data-testid^="observation-"]').getByText(title).waitFor();
     expect(guest.errors).toEqual([]);

@@ -2,22 +2,25 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 
-import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { fixtureDivePhases } from '../helpers/fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 import { csv, iso } from '../fixtures/telemetry/logs';
 import { pressureFromDepth } from '@/lib/seawater';
 
 let server: ServerProcess;
+/** A finished dive of the tests' own with twenty entries and no telemetry log yet. */
+let fixtures: E2eFixtures;
 let dir: string;
 let diveId: string;
 let logFile: string;
 let rowsInLog: number;
 
-/** A log of demo dive VS-02 every 5 s from before launch to after on deck, with two broken rows. */
+/** A log of the dive every 5 s from before launch to after on deck, with two broken rows. */
 function writeDiveLog(phases: { launch: number; onBottom: number; offBottom: number; onDeck: number }): void {
   const rows: string[][] = [];
   for (let t = phases.launch - 120_000; t <= phases.onDeck + 120_000; t += 5000) {
@@ -48,17 +51,10 @@ beforeAll(async () => {
   server = await startServerProcess();
   dir = mkdtempSync(path.join(tmpdir(), 'bathynote-e2e-log-'));
   logFile = path.join(dir, 'skerry-vs-02-nav.csv');
-  const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
-  const dive = db.prepare("select id, launch_at, on_bottom_at, off_bottom_at, on_deck_at from dives where number = 'VS-02'").get() as {
-    id: string;
-    launch_at: number;
-    on_bottom_at: number;
-    off_bottom_at: number;
-    on_deck_at: number;
-  };
-  db.close();
-  diveId = dive.id;
-  writeDiveLog({ launch: dive.launch_at, onBottom: dive.on_bottom_at, offBottom: dive.off_bottom_at, onDeck: dive.on_deck_at });
+  fixtures = await buildE2eFixtures(server.url, { entries: true });
+  diveId = fixtures.finished.id;
+  const { launch, onBottom, offBottom, onDeck } = fixtureDivePhases;
+  writeDiveLog({ launch: launch.getTime(), onBottom: onBottom.getTime(), offBottom: offBottom.getTime(), onDeck: onDeck.getTime() });
 });
 afterAll(async () => {
   await server?.stop();
@@ -79,11 +75,14 @@ describe('the dive summary at phone size', () => {
   it('lets the pilot import the vehicle log, read the report, and open an entry from the depth profile', async () => {
     const { page } = browser;
     await signIn(page, 'pilot@bathynote.test');
-    await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
-    await page.getByTestId('dive-VS-02').click();
+    await page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
+    await page.getByTestId(`dive-${fixtures.finished.number}`).click();
     await page.getByTestId('dive-summary').click();
-    await page.getByTestId('depth-profile-svg').waitFor();
+    // No log yet: the summary says so, and the pilot imports one on the dive's settings.
+    await page.getByTestId('telemetry-empty').waitFor();
     await page.getByTestId('navigation-caution').waitFor();
+    await page.getByTestId('summary-dive-settings').click();
+    await page.getByTestId('dive-settings-view').waitFor();
 
     await page.getByTestId('telemetry-file').setInputFiles(logFile);
     await page.getByTestId('telemetry-columns').getByText('time → time').waitFor();
@@ -123,6 +122,9 @@ describe('the dive summary at phone size', () => {
     expect(rejections).toContain('Line 10:');
     expect(await report.getByTestId('report-span').textContent()).toMatch(/^Covers 2026-05-13 /);
 
+    // Back on the summary, the plots are drawn from the log.
+    await page.goBack();
+    await page.getByTestId('depth-profile-svg').waitFor();
     const markers = page.getByTestId('depth-profile').locator('[data-testid^="profile-marker-"]');
     await expect.poll(() => markers.count()).toBeGreaterThan(10);
     // Where entries crowd, a marker's neighbour can cover it: tap the first one a finger can reach.
@@ -190,7 +192,7 @@ describe('the dive summary on a wide screen', () => {
     try {
       const { page } = browser;
       await signIn(page, 'pilot@bathynote.test');
-      await page.goto(`${server.url}/dives/${diveId}/summary`);
+      await page.goto(`${server.url}/dives/${diveId}/settings`);
       await page.getByTestId('recording-settings').waitFor();
       await page.getByTestId('recording-start').fill('2026-05-13 17:35:00');
       await page.getByTestId('frame-rate-29-97-DF').click();
@@ -234,9 +236,12 @@ describe('the dive summary on a wide screen', () => {
     try {
       const { page } = browser;
       await signIn(page, 'pilot@bathynote.test');
-      await page.goto(`${server.url}/dives/${diveId}/summary`);
-      const bottom = page.getByTestId('stat-bottom');
+      // The summary open beside the dive's settings, as in a second tab: it follows the change live.
+      const summary = await browser.context.newPage();
+      await summary.goto(`${server.url}/dives/${diveId}/summary`);
+      const bottom = summary.getByTestId('stat-bottom');
       await bottom.waitFor();
+      await page.goto(`${server.url}/dives/${diveId}/settings`);
       const minutes = async () => {
         const [, h, m] = /^(\d+) h (\d{2}) min$/.exec((await bottom.textContent()) ?? '')!;
         return Number(h) * 60 + Number(m);
