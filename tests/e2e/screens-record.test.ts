@@ -195,7 +195,8 @@ describe.each(combos)('the record’s screens at %s size, %s', (size, scheme) =>
       const page = b.page;
       await page.goto(`${server.url}/dives/${diveId}/gallery`);
       const tiles = page.getByTestId('gallery').locator('[data-testid^="gallery-photo-"]');
-      await expect.poll(() => tiles.count()).toBe(3);
+      await page.getByTestId('gallery').waitFor();
+      await expect.poll(() => tiles.count(), { timeout: 15_000 }).toBe(3);
       for (const [id, px] of photoSizes) {
         const frame = await box(page.getByTestId(`gallery-frame-${id}`));
         // Each thumbnail's frame has the photo's own shape (within a pixel of rounding either way).
