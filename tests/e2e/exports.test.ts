@@ -10,12 +10,16 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { openBrowser, signInAs, viewports } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
+/** A campaign of the tests' own: a finished dive with a telemetry log (so positions) and twenty entries, one with a find. */
+let fixtures: E2eFixtures;
 
 beforeAll(async () => {
   server = await startServerProcess();
+  fixtures = await buildE2eFixtures(server.url, { telemetry: true, entries: true });
 });
 afterAll(async () => {
   await server?.stop();
@@ -30,7 +34,7 @@ async function downloadFrom(page: Page, testId: string): Promise<{ name: string;
 }
 
 async function openExports(page: Page) {
-  await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+  await page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
   await page.getByTestId('campaign-exports').click();
   await page.getByTestId('export-panel').waitFor();
 }
@@ -49,7 +53,7 @@ describe('the export screen', () => {
       const dwc = await downloadFrom(page, 'export-download-darwin-core');
       expect(dwc.name).toMatch(/darwin-core\.zip$/);
       const zip = unzipSync(dwc.bytes);
-      expect(Object.keys(zip).sort()).toEqual(['eml.xml', 'meta.xml', 'occurrence.txt']);
+      expect(Object.keys(zip).sort()).toEqual(['eml.xml', 'measurementorfact.txt', 'meta.xml', 'occurrence.txt']);
       const occurrences = strFromU8(zip['occurrence.txt']!).trimEnd().split('\n');
       const rows = Number(/^(\d+)/.exec((await page.getByTestId('export-facts-darwin-core').textContent()) ?? '')![1]);
       expect(occurrences).toHaveLength(rows + 1);
@@ -98,14 +102,14 @@ describe('the export screen', () => {
       expect(parse(decode(finds.bytes), { bom: true, columns: true }).length).toBeGreaterThan(0);
 
       await page.goBack();
-      await page.getByTestId('dive-VS-02').click();
+      await page.getByTestId(`dive-${fixtures.finished.number}`).click();
       await page.getByTestId('toggle-filters').click();
       await page.getByTestId('filter-kind-biology').click();
       const list = await downloadFrom(page, 'log-download-csv');
-      expect(list.name).toMatch(/vs-02-observations\.csv$/);
+      expect(list.name).toMatch(/ex-01-observations\.csv$/);
       const rows = parse<Record<string, string>>(decode(list.bytes), { bom: true, columns: true });
       expect(rows.length).toBeGreaterThan(0);
-      expect(rows.every((r) => r.kind === 'biology' && r.dive === 'VS-02')).toBe(true);
+      expect(rows.every((r) => r.kind === 'biology' && r.dive === fixtures.finished.number)).toBe(true);
       expect(b.errors).toEqual([]);
     } finally {
       await b.close();

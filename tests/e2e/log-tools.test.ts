@@ -1,16 +1,17 @@
-import path from 'node:path';
-
-import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
+/** A finished dive of the tests' own with a telemetry log and twenty entries by five people, one with a name, one with a find. */
+let fixtures: E2eFixtures;
 
 beforeAll(async () => {
   server = await startServerProcess();
+  fixtures = await buildE2eFixtures(server.url, { telemetry: true, entries: true });
 });
 afterAll(async () => {
   await server?.stop();
@@ -18,9 +19,9 @@ afterAll(async () => {
 
 const signIn = (page: Page, email: string) => signInAs(page, server.url, email);
 
-async function openDive(page: Page, number = 'VS-02') {
-  await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
-  await page.getByTestId(`dive-${number}`).click();
+async function openDive(page: Page) {
+  await page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
+  await page.getByTestId(`dive-${fixtures.finished.number}`).click();
   await page.getByTestId('dive-log').locator('[data-testid^="observation-"]').first().waitFor();
 }
 
@@ -51,6 +52,8 @@ describe('at phone size', () => {
     await page.getByTestId('observation-form').waitFor();
     await page.getByTestId('field-kind-environment').click();
     await page.getByTestId('field-title').fill(title);
+    // The dive is over: its entries are logged at the time seen on the video.
+    await page.getByTestId('field-time').fill('2026-05-13 20:12:30');
 
     // The contract's own range message, before anything is sent.
     await page.getByTestId('field-lat').fill('96.2');
@@ -108,18 +111,9 @@ describe('at phone size', () => {
   });
 
   it('tells a guest why they cannot verify a name or register a find, and the proposer why they cannot verify their own', async () => {
-    const db = new Database(path.join(server.dir, 'bathynote.db'), { readonly: true });
-    const idOf = (t: string) =>
-      (
-        db
-          .prepare(
-            "select id from observations where title = ? and campaign_id = (select id from campaigns where name = 'Varn Shoal 2026')",
-          )
-          .get(t) as { id: string }
-      ).id;
-    const coral = idOf('Cold-water coral colony on the stern rail');
-    const amphora = idOf('Amphora with both handles, in situ');
-    db.close();
+    // The biologist's coral entry carries her proposed name; the archaeologist's amphora a find.
+    const coral = fixtures.entries['Coral on the rudder']!.id;
+    const amphora = fixtures.entries['Amphora on its side']!.id;
     const guest = await openBrowser(viewports.phone);
     try {
       await signIn(guest.page, 'guest@bathynote.test');
@@ -199,6 +193,7 @@ describe('at wide size', () => {
     await page.getByTestId('dive-log').getByText(title).click();
     await page.getByTestId('observation-detail').getByText(title).waitFor();
     await page.getByTestId('retire').click();
+    await page.getByTestId('confirm-retire').click();
     await page.getByTestId('retired-banner').waitFor();
     await expect.poll(() => page.getByTestId('dive-log').getByText(title).count()).toBe(0);
 
