@@ -9,6 +9,7 @@ import {
   checklistSchema,
   nameSuggestionListSchema,
   observationDetailSchema,
+  sampleListSchema,
   substrateClassSchema,
   substrateListSchema,
   taxaListSchema,
@@ -105,3 +106,13 @@ export function useSetSample(id: string) {
     },
   });
 }
+
+export const useSampleRegister = (scope: { campaignId: string } | { diveId: string }) =>
+  useQuery({
+    queryKey: [...taxaKeys.root, 'samples', scope],
+    queryFn: () =>
+      request(
+        'diveId' in scope ? `/api/dives/${enc(scope.diveId)}/samples` : `/api/campaigns/${enc(scope.campaignId)}/samples`,
+        sampleListSchema,
+      ),
+  });
