@@ -1,5 +1,5 @@
 // First, so that the young generation is limited before any module allocates.
-import './young-generation';
+import { letYoungGenerationGrow } from './young-generation';
 
 import { fork } from 'node:child_process';
 import type { RequestListener } from 'node:http';
@@ -85,6 +85,7 @@ async function main() {
   }
   process.stdout.write(`${lines.join('\n')}\n\n`);
   handle = app;
+  letYoungGenerationGrow();
 
   const shutdown = (signal: string) => {
     ctx.log.info('shutting down', { signal });
