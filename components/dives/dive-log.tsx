@@ -148,7 +148,7 @@ export function DiveLog({
             </View>
           ) : log.hasNextPage || items.length === 0 ? null : (
             <Text variant="caption" muted style={styles.end}>
-              Start of the dive log · {items.length} entries
+              Start of the dive log · {items.length} {items.length === 1 ? 'entry' : 'entries'}
             </Text>
           )
         }

@@ -312,18 +312,25 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
           onLayout={(e) => setBarHeight(Math.round(e.nativeEvent.layout.height))}
           testID="dive-action-bar"
         >
-          <View style={styles.fill}>
-            {showMarks && dive.data ? <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} maxHeight={104} /> : null}
-          </View>
-          <Pressable
-            testID="new-observation"
-            accessibilityRole="button"
-            accessibilityLabel="Log entry"
-            onPress={newEntry}
-            style={[styles.fab, { backgroundColor: colors.accent }]}
-          >
-            <Icon name="plus" color={colors.accentText} size={28} />
-          </Pressable>
+          {showMarks && dive.data ? (
+            <>
+              <View style={styles.fill}>
+                <QuickMarkBar diveId={diveId} campaignId={dive.data.campaignId} maxHeight={104} />
+              </View>
+              <Pressable
+                testID="new-observation"
+                accessibilityRole="button"
+                accessibilityLabel="Log entry"
+                onPress={newEntry}
+                style={[styles.fab, { backgroundColor: colors.accent }]}
+              >
+                <Icon name="plus" color={colors.accentText} size={28} />
+              </Pressable>
+            </>
+          ) : (
+            // No quick marks (the dive is on deck): the bar is the entry button, with its words.
+            <Button label="Log entry" icon="+" testID="new-observation" onPress={newEntry} style={styles.fill} />
+          )}
         </View>
       ) : null}
     </Screen>

@@ -264,11 +264,12 @@ for (const scheme of ['light', 'dark'] as const) {
       expect(plus.width).toBeGreaterThanOrEqual(44);
       expect(plus.y + plus.height).toBeLessThanOrEqual(window.height);
       const entryText = '[data-testid="dive-log"] [data-testid^="observation-"][role="link"]';
-      for (const t of await textBoxes(page, entryText)) expect(overlaps(t, plus)).toBe(false);
+      // Only what the list draws counts: text past its edge is clipped away.
+      const drawn = await box(page, 'dive-log');
+      for (const t of await textBoxes(page, entryText)) if (overlaps(t, drawn)) expect(overlaps(t, plus)).toBe(false);
       await page.getByTestId('dive-log').hover();
       await page.mouse.wheel(0, 400);
       await page.waitForTimeout(300);
-      // Only what the list draws counts: text scrolled past its edge is clipped away.
       const shown = await box(page, 'dive-log');
       const plusNow = await box(page, 'new-observation');
       for (const t of await textBoxes(page, entryText)) if (overlaps(t, shown)) expect(overlaps(t, plusNow)).toBe(false);
@@ -312,6 +313,22 @@ for (const scheme of ['light', 'dark'] as const) {
         expect(a.height).toBeGreaterThanOrEqual(44);
       }
       await toast.getByTestId('toast-undo').click();
+    });
+
+    it('takes the "no link" notice away as soon as the kept entry is sent', async () => {
+      const { page } = b;
+      const refuse = '**/api/dives/*/observations';
+      await page.route(refuse, (route) => (route.request().method() === 'POST' ? route.abort() : route.continue()));
+      await page.getByTestId('quick-mark-Fish').click();
+      const notice = page.getByTestId('toast').getByText('no link', { exact: false });
+      await notice.waitFor();
+      const shownAt = Date.now();
+      await page.unroute(refuse);
+      // The link is back: the app sends what it kept, and the notice goes with it (well before its usual 8 s).
+      await page.evaluate(() => window.dispatchEvent(new Event('online')));
+      await expect.poll(() => notice.count(), { timeout: 4000 }).toBe(0);
+      expect(Date.now() - shownAt).toBeLessThan(6000);
+      await page.getByTestId('dive-log').getByText('Fish', { exact: true }).first().waitFor();
     });
 
     it('wraps the filter rows so every choice is on screen', async () => {
