@@ -9,11 +9,43 @@ import type { PhotoStorage } from '../services/photo-storage';
 
 const MB = 1024 * 1024;
 
+/** The largest body an upload can have: every file at its limit, and room for the parts' headers and the text fields. */
+const MAX_BODY = photoLimits.maxFiles * (photoLimits.maxBytes + 64 * 1024) + 64 * 1024;
+
+/** busboy as multer hands it over: the request is written into it, and it reports the limits it meets. */
+type Busboy = NodeJS.WritableStream & {
+  on(event: 'file', listener: (field: string, file: NodeJS.ReadableStream) => void): Busboy;
+  on(event: 'filesLimit' | 'partsLimit' | 'fieldsLimit', listener: () => void): Busboy;
+};
+
+/**
+ * Answers the refusal as soon as a limit is passed and stops reading: the rest of the body is
+ * never read (multer on its own would read and discard it all before answering). "Connection:
+ * close" makes Node close the connection once the answer is out.
+ */
+function refuseNow(req: Request, err: ApiError) {
+  const res = req.res;
+  if (!res || res.headersSent) return;
+  req.unpipe();
+  res.setHeader('Connection', 'close');
+  res.status(err.status).json(err.toBody());
+}
+
+function feedUntilLimit(req: Request, busboy: Busboy) {
+  const refuse = (code: ConstructorParameters<typeof MulterError>[0]) => () => refuseNow(req, translate(new MulterError(code)));
+  busboy.on('file', (_field, file) => file.on('limit', refuse('LIMIT_FILE_SIZE')));
+  busboy.on('filesLimit', refuse('LIMIT_FILE_COUNT'));
+  busboy.on('partsLimit', refuse('LIMIT_PART_COUNT'));
+  busboy.on('fieldsLimit', refuse('LIMIT_FIELD_COUNT'));
+  req.pipe(busboy);
+}
+
 /**
  * multer with every limit set: its defaults are unlimited. Memory storage is enough because each
  * file is capped, and it means an upload cut off half way has written nothing anywhere.
  */
 const parser = multer({
+  streamHandler: feedUntilLimit,
   storage: multer.memoryStorage(),
   limits: {
     fileSize: photoLimits.maxBytes,
@@ -24,7 +56,7 @@ const parser = multer({
     fieldSize: 4096,
     headerPairs: 20,
   },
-}).array('photo', photoLimits.maxFiles);
+} as multer.Options & { streamHandler: typeof feedUntilLimit }).array('photo', photoLimits.maxFiles);
 
 function translate(err: unknown): ApiError {
   if (err instanceof MulterError) {
@@ -52,6 +84,14 @@ function translate(err: unknown): ApiError {
 export const readPhotoUpload: RequestHandler = (req, res, next) => {
   if (!req.is('multipart/form-data')) {
     next(fieldError('photo', 'No file was sent', 'Send the photos as multipart/form-data in the field "photo".'));
+    return;
+  }
+  // A body announced larger than any upload can be is refused before a byte of it is read.
+  if (Number(req.headers['content-length'] ?? 0) > MAX_BODY) {
+    refuseNow(
+      req,
+      new ApiError(413, 'too_large', `Send at most ${photoLimits.maxFiles} photos of ${photoLimits.maxBytes / MB} MB each at once.`),
+    );
     return;
   }
   parser(req, res, (err?: unknown) => next(err ? translate(err) : undefined));

@@ -25,6 +25,36 @@ export type ProcessedPhoto = {
   thumb: Encoded;
 };
 
+/**
+ * libvips works on one image at a time with one thread, and keeps no cache of decoded images
+ * between requests: a 100-megapixel photo decodes to about 300 MB, so what the process holds is
+ * bounded by how many photos are decoded at once, set below, not by how many uploads arrive.
+ */
+sharp.concurrency(1);
+sharp.cache(false);
+
+/** Photos decoded and re-encoded at once; the others wait their turn (their upload already read). */
+export const PHOTO_SLOTS = 2;
+
+/** A first-come, first-served queue that runs at most `slots` pieces of work at once. */
+export function workQueue(slots: number) {
+  let running = 0;
+  const waiting: (() => void)[] = [];
+  return async function run<T>(work: () => Promise<T>): Promise<T> {
+    if (running >= slots) await new Promise<void>((resolve) => waiting.push(resolve));
+    else running++;
+    try {
+      return await work();
+    } finally {
+      const next = waiting.shift();
+      if (next) next();
+      else running--;
+    }
+  };
+}
+
+const decoding = workQueue(PHOTO_SLOTS);
+
 const HEIC_TYPES = new Set(['image/heic', 'image/heif', 'image/heic-sequence', 'image/heif-sequence']);
 const TAKEN = new Set(['image/jpeg', 'image/png', 'image/webp']);
 
@@ -161,10 +191,14 @@ function encodeSmaller(data: Buffer, edge: number, quality: number): Promise<Enc
 }
 
 /**
- * Checks, reads and re-encodes one uploaded file. Refusals are `ApiError`s: 415 for a type that
- * is not taken or a file that will not decode, 413 for too many pixels.
+ * Checks, reads and re-encodes one uploaded file, waiting for a free slot first. Refusals are
+ * `ApiError`s: 415 for a type that is not taken or a file that will not decode, 413 for too many pixels.
  */
-export async function processPhoto(data: Buffer, name: string, options: { keepPositions: boolean }): Promise<ProcessedPhoto> {
+export function processPhoto(data: Buffer, name: string, options: { keepPositions: boolean }): Promise<ProcessedPhoto> {
+  return decoding(() => processOne(data, name, options));
+}
+
+async function processOne(data: Buffer, name: string, options: { keepPositions: boolean }): Promise<ProcessedPhoto> {
   const mime = await detectType(data, name);
   const header = await readHeader(data, mime, name);
   const pixels = (header.width ?? 0) * (header.height ?? 0);
@@ -194,11 +228,10 @@ export async function processPhoto(data: Buffer, name: string, options: { keepPo
     if (HEIC_TYPES.has(mime)) throw unsupported(HEIC_MESSAGE);
     throw unsupported(`"${safeName(name)}" could not be decoded; it may be damaged or cut short.`);
   }
-  const [display, thumb, size] = await Promise.all([
-    encodeSmaller(original.data, photoLimits.displayEdge, 82),
-    encodeSmaller(original.data, photoLimits.thumbEdge, 70),
-    sharp(original.data).metadata(),
-  ]);
+  // One after the other: each decodes the whole original again, and at once they would hold three.
+  const size = await sharp(original.data).metadata();
+  const display = await encodeSmaller(original.data, photoLimits.displayEdge, 82);
+  const thumb = await encodeSmaller(original.data, photoLimits.thumbEdge, 70);
   return {
     width: size.width ?? header.width,
     height: size.height ?? header.height,

@@ -11,6 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { campaigns, observations, photos } from '@/db/schema';
 import { galleryPageSchema, observationDetailSchema, observationSchema, photoUploadResultSchema, type Photo } from '@/lib/schemas';
 import type { LiveEvent } from '@/server/services/live';
+import { PHOTO_SLOTS, workQueue } from '@/server/services/photo-processing';
 import { listFiles } from '@/server/services/photo-storage';
 import {
   bombPng,
@@ -473,6 +474,108 @@ describe('an upload cut off half way', () => {
     // The same upload sent whole goes through, so the cut is what kept it out.
     const agent = await t.signIn(emails.biologist);
     expect((await upload(agent, entry, [{ data: image, name: 'cut.jpg' }])).status).toBe(201);
+  });
+});
+
+describe('bounded image work', () => {
+  /** Streams a multipart body of `total` bytes in 1 MB chunks, as fast as the server takes them, until it answers. */
+  async function streamUpload(entry: string, total: number, headers: Record<string, string> = {}) {
+    const cookie = await t.sessionCookie(emails.biologist);
+    const boundary = '----bathynote-stream-boundary';
+    const head = Buffer.from(
+      `--${boundary}\r\nContent-Disposition: form-data; name="photo"; filename="endless.jpg"\r\nContent-Type: image/jpeg\r\n\r\n`,
+    );
+    const chunk = Buffer.alloc(1024 * 1024, 0xab);
+    let sent = 0;
+    const answer = await new Promise<{ status: number; body: string }>((resolve, reject) => {
+      const req = httpRequest(new URL(`/api/observations/${entry}/photos`, t.url), {
+        method: 'POST',
+        headers: { cookie, 'content-type': `multipart/form-data; boundary=${boundary}`, ...headers },
+      });
+      let answered = false;
+      req.on('response', (res) => {
+        answered = true;
+        let body = '';
+        res.setEncoding('utf8');
+        res.on('data', (d: string) => (body += d));
+        res.on('end', () => {
+          resolve({ status: res.statusCode ?? 0, body });
+          req.destroy();
+        });
+      });
+      // Once the server has answered and closed, writing fails; the answer is what counts.
+      req.on('error', (err) => (answered ? undefined : reject(err)));
+      const pump = () => {
+        while (!answered && sent < total) {
+          sent += chunk.length;
+          if (!req.write(sent === chunk.length ? Buffer.concat([head, chunk]) : chunk)) {
+            req.once('drain', pump);
+            return;
+          }
+        }
+      };
+      pump();
+    });
+    return { ...answer, sent };
+  }
+
+  it('answers 413 as soon as a file passes 25 MB, without reading the rest of the body, and stores nothing', async () => {
+    const entry = await newEntry();
+    const [rowsBefore, filesBefore] = [photoRows(), await storedFiles()];
+    const total = 200 * 1024 * 1024;
+    const res = await streamUpload(entry, total);
+    expect(res.status).toBe(413);
+    expect(JSON.parse(res.body)).toEqual({ error: { code: 'too_large', message: expect.stringMatching(/25 MB/) } });
+    // Read and discarded to the end, the client would have sent all 200 MB before hearing anything.
+    expect(res.sent).toBeLessThan(80 * 1024 * 1024);
+    expect(photoRows()).toBe(rowsBefore);
+    expect(await storedFiles()).toEqual(filesBefore);
+  });
+
+  it('refuses a body announced larger than any upload can be before reading it', async () => {
+    const entry = await newEntry();
+    const res = await streamUpload(entry, 300 * 1024 * 1024, { 'content-length': String(300 * 1024 * 1024) });
+    expect(res.status).toBe(413);
+    expect(JSON.parse(res.body).error.code).toBe('too_large');
+    expect(res.sent).toBeLessThan(80 * 1024 * 1024);
+  });
+
+  it('decodes at most two photos at once, and runs every one that waits', async () => {
+    expect(PHOTO_SLOTS).toBeLessThanOrEqual(2);
+    const run = workQueue(PHOTO_SLOTS);
+    let running = 0;
+    let most = 0;
+    const done = await Promise.all(
+      Array.from({ length: 7 }, (_, i) =>
+        run(async () => {
+          running++;
+          most = Math.max(most, running);
+          await new Promise((r) => setTimeout(r, 5));
+          running--;
+          if (i === 3) throw new Error('one photo fails');
+          return i;
+        }).catch(() => -1),
+      ),
+    );
+    expect(done).toEqual([0, 1, 2, -1, 4, 5, 6]);
+    expect(most).toBe(PHOTO_SLOTS);
+  });
+
+  it('processes every photo of many uploads sent at once', async () => {
+    const agent = await t.signIn(emails.biologist);
+    const entries = await Promise.all(Array.from({ length: 5 }, () => newEntry()));
+    const rowsBefore = photoRows();
+    const results = await Promise.all(
+      entries.map(async (entry, i) =>
+        upload(agent, entry, [
+          { data: await jpegWithExif({}, { width: 1200 + i * 10, height: 900 }), name: `a-${i}.jpg` },
+          { data: await tinyJpeg(`#${(i * 30 + 16).toString(16)}2040`), name: `b-${i}.jpg` },
+        ]),
+      ),
+    );
+    expect(results.map((r) => r.status)).toEqual([201, 201, 201, 201, 201]);
+    for (const r of results) expect(photoUploadResultSchema.parse(r.body).photos).toHaveLength(2);
+    expect(photoRows()).toBe(rowsBefore + 10);
   });
 });
 
