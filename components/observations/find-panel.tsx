@@ -161,7 +161,8 @@ export function CustodyPanel({ observation: o, myRole, myId }: Props) {
   const [location, setLocation] = useState('');
   const [container, setContainer] = useState('');
   const add = useAddCustody(o.id);
-  const inCustody = o.find?.state === 'recovered' || o.tags.some((t) => t.toLowerCase() === SAMPLE_TAG) || o.custody.length > 0;
+  const inCustody =
+    o.find?.state === 'recovered' || o.sample !== null || o.tags.some((t) => t.toLowerCase() === SAMPLE_TAG) || o.custody.length > 0;
   if (!inCustody) return null;
   const sinceIso = parseUtcInput(since);
   // Until the campaign says what this person is, neither the form nor a reason shows.

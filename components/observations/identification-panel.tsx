@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
+import { NameField } from '@/components/taxa/name-field';
 import { Field } from '@/components/ui/field';
 import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
@@ -173,14 +174,16 @@ function IdentificationForm({ observation: o, onDone, onDiscard }: FormProps) {
       onDiscard={onDiscard}
       save={{ label: 'Save identification', testID: 'save-identification', onCancel: onDone }}
     >
-      <Field
-        label="Scientific name"
-        testID="field-scientific-name"
+      <NameField
+        campaignId={o.campaignId}
         value={name}
-        onChangeText={typing(setName)}
-        hint="The name as taxonomists write it, genus first"
+        onChange={typing(setName)}
+        onPick={(s) => {
+          const listed = taxonRanks.find((r) => r === s.taxonRank);
+          if (listed) setRank(listed);
+          if (s.identifier && !taxonId) setTaxonId(s.identifier);
+        }}
         error={flow.issue('scientificName')}
-        autoCapitalize="sentences"
       />
       <Segmented
         label="Qualifier"

@@ -25,6 +25,7 @@ import { CustodyPanel, FindPanel } from './find-panel';
 import { IdentificationPanel } from './identification-panel';
 import { KindBadge } from './kind-badge';
 import { NoteView } from './note-view';
+import { RecordPanel, SamplePanel } from './record-panel';
 import { RevisionHistory } from './revision-history';
 import { TagLabel } from './tag-label';
 
@@ -128,6 +129,8 @@ function ObservationBody({ observation: o }: { observation: Detail }) {
       </View>
       {o.kind === 'biology' ? <IdentificationPanel observation={o} myRole={role} myId={me?.user.id} /> : null}
       {o.kind === 'archaeology' ? <FindPanel observation={o} myRole={role} myId={me?.user.id} /> : null}
+      <RecordPanel observation={o} myRole={role} myId={me?.user.id} />
+      <SamplePanel observation={o} myRole={role} myId={me?.user.id} />
       <CustodyPanel observation={o} myRole={role} myId={me?.user.id} />
       <ObservationPhotos observation={o} />
       <RevisionHistory id={o.id} version={o.version} />
