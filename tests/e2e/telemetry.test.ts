@@ -13,7 +13,7 @@ import { csv, iso } from '../fixtures/telemetry/logs';
 import { pressureFromDepth } from '@/lib/seawater';
 
 let server: ServerProcess;
-/** A finished dive of the tests' own with twenty entries and no telemetry log yet. */
+/** A finished dive of the tests' own with twenty entries and no telemetry log yet, and a dive under way today. */
 let fixtures: E2eFixtures;
 let dir: string;
 let diveId: string;
@@ -51,7 +51,7 @@ beforeAll(async () => {
   server = await startServerProcess();
   dir = mkdtempSync(path.join(tmpdir(), 'bathynote-e2e-log-'));
   logFile = path.join(dir, 'skerry-vs-02-nav.csv');
-  fixtures = await buildE2eFixtures(server.url, { entries: true });
+  fixtures = await buildE2eFixtures(server.url, { entries: true, underWay: true });
   diveId = fixtures.finished.id;
   const { launch, onBottom, offBottom, onDeck } = fixtureDivePhases;
   writeDiveLog({ launch: launch.getTime(), onBottom: onBottom.getTime(), offBottom: offBottom.getTime(), onDeck: onDeck.getTime() });
@@ -267,6 +267,30 @@ describe('the dive summary on a wide screen', () => {
       await field.press('Enter');
       expect(await page.getByTestId('phase-time-on-bottom-error').textContent()).toMatch(/^on-bottom cannot be after off-bottom/);
       expect(await minutes()).toBe(before);
+      expect(browser.errors).toEqual([]);
+    } finally {
+      await browser.close();
+    }
+  });
+
+  it('takes a log whose hours miss the dive, and says so naming both spans', async () => {
+    const browser = await openBrowser(viewports.wide);
+    try {
+      const { page } = browser;
+      const dive = fixtures.underWay!;
+      const launched = (await fixtures.as.pilot.call<{ phases: { launch: string } }>(`/api/dives/${dive.id}`)).phases.launch;
+      await signIn(page, 'pilot@bathynote.test');
+      await page.goto(`${server.url}/dives/${dive.id}/settings`);
+      // The log of 2026-05-13, picked for the dive launched today: a log of another dive.
+      await page.getByTestId('telemetry-file').setInputFiles(logFile);
+      await page.getByTestId('telemetry-columns').getByText('time → time').waitFor();
+      await page.getByTestId('telemetry-upload').click();
+      const report = page.getByTestId('telemetry-report');
+      await report.waitFor({ timeout: 60_000 });
+      expect(await report.getByTestId('report-taken').textContent()).toBe(rowsInLog.toLocaleString('en'));
+      const warning = (await report.getByTestId('import-warning-outside_dive').textContent()) ?? '';
+      expect(warning).toContain('2026-05-13');
+      expect(warning).toContain(launched.slice(0, 10));
       expect(browser.errors).toEqual([]);
     } finally {
       await browser.close();
