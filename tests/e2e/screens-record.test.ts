@@ -16,6 +16,10 @@ import { startServerProcess, type ServerProcess } from '../helpers/server-proces
 
 let server: ServerProcess;
 let diveId: string;
+let campaignId: string;
+/** A biology entry with no name yet and an entry of the lead's, both of the test's dive. */
+let unnamedId: string;
+let leadEntryId: string;
 const diveNumber = 'SR-01';
 /** Photo id → its pixel size, as uploaded. */
 const photoSizes = new Map<string, { width: number; height: number }>();
@@ -93,7 +97,7 @@ beforeAll(async () => {
   server = await startServerProcess();
   const [pilot, biologist, archaeologist] = await Promise.all([apiAs(emails.pilot), apiAs(emails.biologist), apiAs(emails.archaeologist)]);
   const campaigns = await pilot<{ id: string; name: string }[]>('/api/campaigns');
-  const campaignId = campaigns.find((c) => c.name === 'Varn Shoal 2026')!.id;
+  campaignId = campaigns.find((c) => c.name === 'Varn Shoal 2026')!.id;
   diveId = (await pilot<{ id: string }>(`/api/campaigns/${campaignId}/dives`, 'POST', { number: diveNumber, objectives: 'Screens' })).id;
   for (const [phase, time] of [
     ['launch', phases.launch],
@@ -126,6 +130,11 @@ beforeAll(async () => {
     const made = await entry(archaeologist, 'archaeology', `Amphora ${number}`, time);
     await archaeologist(`/api/observations/${made.id}/find`, 'PUT', { version: made.version, findNumber: number });
   }
+
+  const lead = await apiAs(emails.lead);
+  for (const name of ['sr-old', 'sr-new']) await lead(`/api/campaigns/${campaignId}/tags`, 'POST', { name });
+  unnamedId = (await entry(biologist, 'biology', 'Unnamed anemone, tagged', '21:50:00', { tags: ['sr-old'] })).id;
+  leadEntryId = (await entry(lead, 'operations', 'Lead’s note to retire', '21:55:00')).id;
 
   // A 16:9 frame grab, an upright still and a square one.
   for (const [width, height, caption] of [
@@ -256,8 +265,8 @@ describe.each(combos)('the record’s screens at %s size, %s', (size, scheme) =>
       expect(labels.filter(([name]) => name.startsWith('SR-F')).length).toBeGreaterThanOrEqual(2);
       const dots: Rect[] = [];
       for (const m of await plan.locator('[data-testid^="plan-marker-"]').all()) dots.push(await box(m.locator('div').first()));
-      // Seven of the dive's entries have a position (the two in the log's gap have none).
-      expect(dots.length).toBe(7);
+      // Nine of the dive's entries have a position (the two in the log's gap have none).
+      expect(dots.length).toBe(9);
       for (const [i, [name, r]] of labels.entries()) {
         expect(r.x, name).toBeGreaterThanOrEqual(frame.x - 1);
         expect(r.x + r.width, name).toBeLessThanOrEqual(frame.x + frame.width + 1);
@@ -347,7 +356,56 @@ describe('an entry logged months after its dive', () => {
         expect(r.x + r.width / 2).toBeLessThanOrEqual(svg.x + svg.width);
         expect(await m.getAttribute('aria-label')).not.toContain(title);
       }
-      expect(await page.getByTestId('stat-entries').textContent()).toBe('9');
+      expect(await page.getByTestId('stat-entries').textContent()).toBe('11');
+      expect(b.errors).toEqual([]);
+    } finally {
+      await b.close();
+    }
+  });
+});
+
+describe('the tag vocabulary and the entry detail at phone size', () => {
+  it('merges a tag from its chip with its entries counted, under the same words as its button', async () => {
+    const b = await openBrowser(viewports.phone);
+    try {
+      const page = b.page;
+      await signInAs(page, server.url, emails.lead);
+      await page.goto(`${server.url}/campaigns/${campaignId}`);
+      const button = page.getByTestId('campaign-settings');
+      const words = (await button.textContent())!.trim();
+      await button.click();
+      // The screen's title reads as its button (the campaign screen stays beneath it in the stack).
+      await page.getByRole('heading', { name: words, exact: true }).waitFor();
+      const chip = page.getByTestId('vocab-sr-old');
+      expect(await chip.textContent()).toBe('sr-old · 1 entry');
+      await chip.click();
+      expect(await page.getByTestId('tag-editor-title').textContent()).toContain('on 1 entry');
+      await page.getByTestId('tag-merge-into-sr-new').click();
+      await page.getByTestId('tag-merge').click();
+      await expect.poll(() => page.getByTestId('vocab-sr-new').textContent()).toBe('sr-new · 1 entry');
+      expect(b.errors).toEqual([]);
+    } finally {
+      await b.close();
+    }
+  });
+
+  it('folds the identification form of an unnamed entry and asks a lead before retiring, as it asks everyone', async () => {
+    const b = await openBrowser(viewports.phone);
+    try {
+      const page = b.page;
+      await signInAs(page, server.url, emails.lead);
+      await page.goto(`${server.url}/observations/${unnamedId}`);
+      await page.getByTestId('add-identification').waitFor();
+      expect(await page.getByTestId('field-scientific-name').count()).toBe(0);
+      await page.getByTestId('add-identification').click();
+      await page.getByTestId('field-scientific-name').waitFor();
+
+      await page.goto(`${server.url}/observations/${leadEntryId}`);
+      await page.getByTestId('retire').click();
+      await page.getByTestId('confirm-retire').waitFor();
+      expect(await page.getByTestId('retired-banner').count()).toBe(0);
+      await page.getByTestId('confirm-retire').click();
+      await page.getByTestId('retired-banner').waitFor();
       expect(b.errors).toEqual([]);
     } finally {
       await b.close();
