@@ -7,6 +7,7 @@ import { benchExports } from './exports';
 import { benchIdleMemory } from './idle-memory';
 import { benchLiveLoad } from './live-load';
 import { benchLogWrites } from './log-writes';
+import { benchPhotoLoad } from './photo-load';
 import { benchSearch } from './search';
 import { benchTelemetryImport } from './telemetry-import';
 
@@ -20,6 +21,7 @@ async function main() {
     ['exports', benchExports],
     ['search', benchSearch],
     ['digest', benchDigest],
+    ['photo-load', benchPhotoLoad],
   ];
   for (const [name, run] of benches) {
     if (only && only !== name) continue;

@@ -58,6 +58,8 @@ export async function startServerProcess(
       // The demo's simulated dive under way writes on its own; a test that wants it asks for it.
       BATHYNOTE_DEMO_LIVE: '0',
       LOG_LEVEL: 'error',
+      // As npm start sets it: two malloc arenas, not one per thread that ever decoded a photo.
+      MALLOC_ARENA_MAX: '2',
       ...env,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
