@@ -1,6 +1,3 @@
-import path from 'node:path';
-
-import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { openBrowser, viewports } from '../helpers/chromium';
@@ -16,24 +13,26 @@ afterAll(async () => {
   await server?.stop();
 });
 
+/** The lead invites `email` as a guest to one of their campaigns: the link of the mail it gets, and the campaign. */
+async function invite(email: string, name: string) {
+  const admin = await apiSignIn(server.url, 'admin@bathynote.test');
+  const lead = await apiSignIn(server.url, 'lead@bathynote.test');
+  const [campaign] = await lead.call<{ id: string; name: string }[]>('/api/campaigns');
+  await lead.call(`/api/campaigns/${campaign!.id}/invitations`, 'POST', { email, role: 'guest', name }, 201);
+  return { admin, campaign: campaign!, link: linkIn(await caughtMail(admin, email, `invites you to ${campaign.name}`)) };
+}
+
 describe('a person who joined by an invitation link', () => {
   it('sets a first password without a current one, signs out and signs in with it', async () => {
+    const invitee = 'ilse.marr@bathynote.test';
+    const { link } = await invite(invitee, 'Ilse Marr');
     const screen = await openBrowser(viewports.phone);
     try {
       const page = screen.page;
+      // Signed in by the invitation's link, with no password on the account.
+      await page.goto(link);
+      await page.getByTestId('welcome-notice').waitFor();
       await page.goto(`${server.url}/account`);
-      await page.getByTestId('sign-in-email').fill('guest@bathynote.test');
-      await page.getByTestId('sign-in-password').fill('bathynote-demo');
-      await page.getByTestId('sign-in-password').press('Enter');
-      await page.getByTestId('sign-out').waitFor();
-
-      // As after an invitation link: signed in, with no password on the account.
-      const db = new Database(path.join(server.dir, 'bathynote.db'));
-      db.prepare(
-        "update account set password = null where provider_id = 'credential' and user_id = (select id from user where email = 'guest@bathynote.test')",
-      ).run();
-      db.close();
-      await page.reload();
       await page.getByTestId('set-password-form').waitFor();
       expect(await page.getByTestId('change-password').count()).toBe(0);
 
@@ -43,7 +42,7 @@ describe('a person who joined by an invitation link', () => {
       await page.getByTestId('change-password').waitFor();
 
       await page.getByTestId('sign-out').click();
-      await page.getByTestId('sign-in-email').fill('guest@bathynote.test');
+      await page.getByTestId('sign-in-email').fill(invitee);
       await page.getByTestId('sign-in-password').fill('a-first-password-at-sea');
       await page.getByTestId('sign-in-password').press('Enter');
       await page.getByTestId('sign-out').waitFor();
@@ -56,12 +55,8 @@ describe('a person who joined by an invitation link', () => {
 
 describe('an invited person with no password, signed out', () => {
   it('asks the sign-in screen for a link, on a phone, and signs in through the mailed link', async () => {
-    const admin = await apiSignIn(server.url, 'admin@bathynote.test');
-    const lead = await apiSignIn(server.url, 'lead@bathynote.test');
-    const [campaign] = await lead.call<{ id: string; name: string }[]>('/api/campaigns');
     const invitee = 'noor.vell@bathynote.test';
-    await lead.call(`/api/campaigns/${campaign!.id}/invitations`, 'POST', { email: invitee, role: 'guest', name: 'Noor Vell' }, 201);
-    const invitation = linkIn(await caughtMail(admin, invitee, `invites you to ${campaign!.name}`));
+    const { admin, campaign, link: invitation } = await invite(invitee, 'Noor Vell');
 
     const screen = await openBrowser(viewports.phone);
     try {
@@ -89,7 +84,7 @@ describe('an invited person with no password, signed out', () => {
       expect(mailsToNobody).toEqual([]);
 
       await page.goto(linkIn(mail));
-      await page.getByTestId('campaign-list').getByText(campaign!.name).waitFor();
+      await page.getByTestId('campaign-list').getByText(campaign.name).waitFor();
       const me = await page.evaluate(async () => ((await (await fetch('/api/me')).json()) as { user: { email: string } }).user.email);
       expect(me).toBe(invitee);
       // Still without a password, the account offers to set one.
