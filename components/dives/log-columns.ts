@@ -5,7 +5,20 @@ import type { DiveLogFilters } from '@/hooks/observations';
 
 type Sort = NonNullable<DiveLogFilters['sort']>;
 
-export type ColumnId = 'date' | 'time' | 'kind' | 'title' | 'depth' | 'author' | 'position' | 'temperature' | 'identification' | 'find';
+export type ColumnId =
+  | 'date'
+  | 'time'
+  | 'kind'
+  | 'title'
+  | 'depth'
+  | 'author'
+  | 'position'
+  | 'temperature'
+  | 'heading'
+  | 'altitude'
+  | 'count'
+  | 'identification'
+  | 'find';
 
 export type Column = {
   id: ColumnId;
@@ -28,6 +41,9 @@ export const logColumns: readonly Column[] = [
   { id: 'depth', label: 'Depth', width: 76, sort: 'depth' },
   { id: 'position', label: 'Position', width: 104, optional: true },
   { id: 'temperature', label: 'Temp.', name: 'Temperature', width: 76, optional: true },
+  { id: 'heading', label: 'Hdg.', name: 'Heading', width: 64, optional: true },
+  { id: 'altitude', label: 'Alt.', name: 'Altitude above the seabed', width: 72, optional: true },
+  { id: 'count', label: 'Count', name: 'Count or cover', width: 80, optional: true },
   { id: 'identification', label: 'Identification', width: 168, optional: true },
   { id: 'find', label: 'Find no.', name: 'Find number', width: 88, optional: true },
   { id: 'author', label: 'Author', width: 120, sort: 'author' },

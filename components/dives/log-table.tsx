@@ -7,6 +7,7 @@ import type { DiveLogFilters } from '@/hooks/observations';
 import { useTheme } from '@/hooks/theme';
 import { isOtherDay, isOutsideDive } from '@/lib/dive-window';
 import { formatDepth, formatScientificName, formatTemperature, formatUtcTime } from '@/lib/format';
+import { formatHeading } from '@/lib/heading';
 import type { Dive, Observation } from '@/lib/schemas';
 import { CELL_GAP, ROW_PADDING, TITLE_MIN_WIDTH, type Column, type ColumnId } from './log-columns';
 import { kindLabels } from '../observations/kind-badge';
@@ -119,6 +120,17 @@ export function LogTableRow({ observation: o, columns, selected, onPress, record
         </>
       ),
     temperature: () => <Text variant="monoSmall">{formatTemperature(o.temperature)}</Text>,
+    heading: () => <Text variant="monoSmall">{formatHeading(o.heading)}</Text>,
+    altitude: () => <Text variant="monoSmall">{o.altitude == null ? '—' : `${o.altitude.toFixed(1)} m`}</Text>,
+    count: () => (
+      <Text variant="monoSmall" muted={o.individualCount === null && o.organismQuantity === null}>
+        {o.individualCount !== null
+          ? String(o.individualCount)
+          : o.organismQuantity !== null
+            ? `${o.organismQuantity}${o.organismQuantityType === '% cover' ? ' %' : o.organismQuantityType === 'individuals per m²' ? '/m²' : ''}`
+            : '—'}
+      </Text>
+    ),
     identification: () =>
       o.identification ? (
         <Text variant="caption" style={styles.italic} numberOfLines={2}>
