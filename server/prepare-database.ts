@@ -6,6 +6,9 @@
  *
  * Tells its parent over IPC what to print: whether it seeded, and the demo sign-ins.
  */
+import { readdirSync, rmSync } from 'node:fs';
+import path from 'node:path';
+
 import { migrateDatabase, openDatabase } from '../db/client';
 import { demoSignIns, DEMO_PASSWORD, seedDemo } from '../db/seed';
 import { loadEnv } from './env';
@@ -19,9 +22,19 @@ export type PreparedDatabase = {
 
 export type PrepareMessage = { ok: true; prepared: PreparedDatabase } | { ok: false; message: string };
 
+/** Staging files of telemetry imports cut short by a crash or a kill (see telemetry-import.ts). */
+function removeStaleStaging(databasePath: string): void {
+  if (databasePath === ':memory:') return;
+  const dir = path.dirname(path.resolve(databasePath));
+  for (const name of readdirSync(dir)) {
+    if (name.startsWith('.bathynote-import-')) rmSync(path.join(dir, name), { force: true });
+  }
+}
+
 async function prepare(): Promise<PreparedDatabase> {
   const env = loadEnv();
   const db = openDatabase(env.DATABASE_PATH);
+  removeStaleStaging(env.DATABASE_PATH);
   try {
     migrateDatabase(db);
     if (!env.BATHYNOTE_DEMO) return { seeded: false, observations: 0, demo: null };
