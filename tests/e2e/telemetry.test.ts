@@ -194,6 +194,9 @@ describe('the dive summary on a wide screen', () => {
       await signIn(page, 'pilot@bathynote.test');
       await page.goto(`${server.url}/dives/${diveId}/settings`);
       await page.getByTestId('recording-settings').waitFor();
+      // No example time in grey inside the field, where it would read as a clock already set.
+      expect(await page.getByTestId('recording-start').inputValue()).toBe('');
+      expect(await page.getByTestId('recording-start').getAttribute('placeholder')).toBeNull();
       await page.getByTestId('recording-start').fill('2026-05-13 17:35:00');
       await page.getByTestId('frame-rate-29-97-DF').click();
       await page.getByTestId('recording-save').click();
