@@ -2,6 +2,8 @@
  * The biology record's vocabulary and summaries: the taxa a dive or campaign saw, name
  * suggestions, the species list and its import, and the substrate classes.
  */
+import { z } from 'zod';
+
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 
 import {
@@ -115,4 +117,12 @@ export const useSampleRegister = (scope: { campaignId: string } | { diveId: stri
         'diveId' in scope ? `/api/dives/${enc(scope.diveId)}/samples` : `/api/campaigns/${enc(scope.campaignId)}/samples`,
         sampleListSchema,
       ),
+  });
+
+export const useNextSampleNumber = (campaignId: string, enabled: boolean) =>
+  useQuery({
+    queryKey: [...taxaKeys.root, 'next-sample', campaignId],
+    queryFn: () => request(`/api/campaigns/${enc(campaignId)}/samples/next-number`, z.object({ sampleNumber: z.string() })),
+    enabled,
+    staleTime: 0,
   });

@@ -8,7 +8,7 @@ import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
 import { ApiError } from '@/hooks/api';
 import { useUpdateObservation } from '@/hooks/observations';
-import { useSetSample, useSubstrates } from '@/hooks/taxa';
+import { useNextSampleNumber, useSetSample, useSubstrates } from '@/hooks/taxa';
 import { useTheme } from '@/hooks/theme';
 import { can, type AccessRole } from '@/lib/permissions';
 import {
@@ -266,7 +266,9 @@ function SampleForm({ observation: o, onDone }: { observation: ObservationDetail
   const { colors } = useTheme();
   const set = useSetSample(o.id);
   const s = o.sample;
-  const [sampleNumber, setNumber] = useState(s?.sampleNumber ?? '');
+  const proposal = useNextSampleNumber(o.campaignId, !s);
+  const [typedNumber, setNumber] = useState(s?.sampleNumber ?? '');
+  const sampleNumber = typedNumber || proposal.data?.sampleNumber || '';
   const [sampleType, setType] = useState<SampleType>(s?.sampleType ?? (o.kind === 'biology' ? 'biological' : 'water'));
   const [gear, setGear] = useState(s?.gear ?? '');
   const [container, setContainer] = useState(s?.container ?? '');
@@ -285,7 +287,7 @@ function SampleForm({ observation: o, onDone }: { observation: ObservationDetail
         mono
         autoCapitalize="characters"
         error={issue('sampleNumber')}
-        hint="Unique in the campaign; a refused number comes back with the next free one."
+        hint={!s && proposal.data ? 'The next free number is proposed; numbers are unique in the campaign.' : 'Unique in the campaign.'}
       />
       <Segmented
         label="Sample of"

@@ -13,7 +13,7 @@ import { requireSession } from '../middleware/session';
 import { refusalOf } from '../middleware/telemetry-upload';
 import { validate } from '../middleware/validate';
 import { MAX_CHECKLIST_BYTES, importChecklist, listChecklist, suggestNames } from '../services/checklist';
-import { listSamples } from '../services/samples';
+import { listSamples, nextSampleNumber } from '../services/samples';
 import { createSubstrate, listSubstrates, substrateCampaign, updateSubstrate } from '../services/substrates';
 import { taxaSeen } from '../services/taxa';
 
@@ -100,6 +100,10 @@ export function taxaRoutes(ctx: AppContext): Router {
 
   r.get('/campaigns/:campaignId/samples', ...member(byCampaign), (req, res) => {
     res.json({ items: listSamples(db, { campaignId: accessOf(req).campaignId }) });
+  });
+
+  r.get('/campaigns/:campaignId/samples/next-number', ...member(byCampaign), (req, res) => {
+    res.json({ sampleNumber: nextSampleNumber(db, accessOf(req).campaignId) });
   });
 
   r.get('/dives/:diveId/samples', ...member(byDive), (req, res) => {

@@ -167,6 +167,7 @@ const table: Record<string, Row> = {
   'GET /api/dives/:diveId/taxa': { expect: readers, path: () => `/api/dives/${d()}/taxa` },
   'GET /api/campaigns/:campaignId/samples': { expect: readers, path: () => `/api/campaigns/${c()}/samples` },
   'GET /api/dives/:diveId/samples': { expect: readers, path: () => `/api/dives/${d()}/samples` },
+  'GET /api/campaigns/:campaignId/samples/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/samples/next-number` },
   'GET /api/campaigns/:campaignId/finds/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/finds/next-number` },
   'GET /api/campaigns/:campaignId/export/summary': { expect: readers, path: () => `/api/campaigns/${c()}/export/summary` },
   'GET /api/campaigns/:campaignId/export/darwin-core.zip': { expect: readers, path: () => `/api/campaigns/${c()}/export/darwin-core.zip` },
