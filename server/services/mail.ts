@@ -1,7 +1,7 @@
 import type { AddressInfo } from 'node:net';
 
 import { desc } from 'drizzle-orm';
-import { simpleParser } from 'mailparser';
+import type * as Mailparser from 'mailparser';
 import nodemailer, { type Transporter } from 'nodemailer';
 import { SMTPServer } from 'smtp-server';
 
@@ -65,6 +65,9 @@ export async function createMailer(db: Db, log: Logger, smtpUrl: string | undefi
       size: 10 * 1024 * 1024,
       logger: false,
       onData(stream, _session, callback) {
+        // Required on the first mail caught, not at start: the parser and its dependencies are
+        // a few megabytes that a server which never sends mail need not hold.
+        const { simpleParser } = require('mailparser') as typeof Mailparser;
         simpleParser(stream)
           .then((parsed) => {
             const headers: Record<string, string> = {};
