@@ -19,7 +19,7 @@ async function invite(email: string, name: string) {
   const lead = await apiSignIn(server.url, 'lead@bathynote.test');
   const [campaign] = await lead.call<{ id: string; name: string }[]>('/api/campaigns');
   await lead.call(`/api/campaigns/${campaign!.id}/invitations`, 'POST', { email, role: 'guest', name }, 201);
-  return { admin, campaign: campaign!, link: linkIn(await caughtMail(admin, email, `invites you to ${campaign.name}`)) };
+  return { admin, campaign: campaign!, link: linkIn(await caughtMail(admin, email, `invites you to ${campaign!.name}`)) };
 }
 
 describe('a person who joined by an invitation link', () => {
