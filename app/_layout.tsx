@@ -1,13 +1,18 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { QueryClient, useQueryClient } from '@tanstack/react-query';
+import { PersistQueryClientProvider } from '@tanstack/react-query-persist-client';
 import { Stack } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
+import { View } from 'react-native';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 
 import { LoadingState } from '@/components/ui/states';
+import { Text } from '@/components/ui/text';
 import { ToastProvider } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
 import { useAppFonts } from '@/hooks/fonts';
+import { afterRestore, lastAnswerAt, offlineCacheOptions, useForgetWhenSignedOut, useOnline } from '@/hooks/offline-cache';
+import { registerServiceWorker } from '@/hooks/service-worker';
 import { useMe } from '@/hooks/session';
 import { ThemeProvider, useTheme } from '@/hooks/theme';
 
@@ -23,14 +28,33 @@ function makeQueryClient() {
   });
 }
 
+/** Says plainly that the screens show what this device last saw, and since when. */
+function OfflineNotice() {
+  const qc = useQueryClient();
+  const { colors } = useTheme();
+  const at = lastAnswerAt(qc);
+  const time = at === null ? null : new Date(at).toISOString().slice(11, 16);
+  return (
+    <View testID="offline-notice" style={{ backgroundColor: colors.warning, paddingHorizontal: 12, paddingVertical: 4 }}>
+      <Text variant="label" color={colors.bg}>
+        {time ? `offline — showing what was here at ${time} UTC` : 'offline'}
+      </Text>
+    </View>
+  );
+}
+
 function Gate() {
+  const qc = useQueryClient();
   const me = useMe();
+  const online = useOnline();
   const { scheme, colors } = useTheme();
+  useForgetWhenSignedOut(qc);
   if (me.isPending) return <LoadingState label="Opening Bathynote…" />;
   const signedIn = !!me.data;
   return (
-    <>
+    <View style={{ flex: 1 }}>
       <StatusBar style={scheme === 'dark' ? 'light' : 'dark'} />
+      {!online && signedIn ? <OfflineNotice /> : null}
       <Stack screenOptions={{ headerShown: false, contentStyle: { backgroundColor: colors.bg } }}>
         <Stack.Protected guard={signedIn}>
           <Stack.Screen name="(app)" />
@@ -44,23 +68,25 @@ function Gate() {
         <Stack.Screen name="unsubscribe/[token]" />
         <Stack.Screen name="+not-found" />
       </Stack>
-    </>
+    </View>
   );
 }
 
 export default function RootLayout() {
   const [queryClient] = useState(makeQueryClient);
+  const [cacheOptions] = useState(offlineCacheOptions);
   const fontsReady = useAppFonts();
+  useEffect(registerServiceWorker, []);
   if (!fontsReady) return null;
   return (
     <SafeAreaProvider>
-      <QueryClientProvider client={queryClient}>
+      <PersistQueryClientProvider client={queryClient} persistOptions={cacheOptions} onSuccess={() => afterRestore(queryClient)}>
         <ThemeProvider>
           <ToastProvider>
             <Gate />
           </ToastProvider>
         </ThemeProvider>
-      </QueryClientProvider>
+      </PersistQueryClientProvider>
     </SafeAreaProvider>
   );
 }

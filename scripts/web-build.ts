@@ -8,6 +8,8 @@ import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from '
 import path from 'node:path';
 import { brotliCompressSync, constants as zlibConstants, gzipSync } from 'node:zlib';
 
+import { generateSW } from 'workbox-build';
+
 const root = path.resolve(__dirname, '..');
 // WEB_DIR lets two checkouts or two test runs build side by side; the server reads the same variable.
 const webDir: unknown = process.env.WEB_DIR;
@@ -26,6 +28,8 @@ const inputs = [
   'babel.config.js',
   'metro.config.js',
   'metro',
+  // This file writes the service worker: a change to it is a change to the export.
+  'scripts/web-build.ts',
 ];
 
 function* files(p: string): Generator<string> {
@@ -50,7 +54,10 @@ export function sourceFingerprint(): string {
 
 export function webBuildIsCurrent(): boolean {
   return (
-    existsSync(path.join(outDir, 'index.html')) && existsSync(stampFile) && readFileSync(stampFile, 'utf8').trim() === sourceFingerprint()
+    existsSync(path.join(outDir, 'index.html')) &&
+    existsSync(path.join(outDir, 'sw.js')) &&
+    existsSync(stampFile) &&
+    readFileSync(stampFile, 'utf8').trim() === sourceFingerprint()
   );
 }
 
@@ -85,7 +92,45 @@ export function precompressWebBuild(dir = outDir): void {
   }
 }
 
-export function ensureWebBuild(): void {
+/**
+ * Writes the service worker (`sw.js`, Workbox) into the export: it keeps the app shell (index.html
+ * and the scripts every screen loads) and every script and font the page has used, so that the app
+ * opens with no link at all. Hashed files are fetched once and never again; any other path of the
+ * site opens index.html, as the server does.
+ * API answers are not its business: the app keeps the last ones it saw itself.
+ */
+export async function writeServiceWorker(dir = outDir): Promise<void> {
+  const { count, size, warnings } = await generateSW({
+    globDirectory: dir,
+    // The shell: what every screen needs. Each screen's own file and the fonts are kept the
+    // first time the page asks for them, so a first visit over a thin link fetches nothing extra.
+    globPatterns: ['index.html', '_expo/static/js/web/{__expo-metro-runtime,__common,entry,_layout}-*.js', 'favicon.ico'],
+    swDest: path.join(dir, 'sw.js'),
+    // The file names already change with their content: no cache-busting query, so a file the
+    // page already has comes from the browser's cache instead of crossing the link again.
+    dontCacheBustURLsMatching: /(^_expo\/static\/|\.[0-9a-f]{16,}\.)/,
+    maximumFileSizeToCacheInBytes: 8 * 1024 * 1024,
+    navigateFallback: '/index.html',
+    navigateFallbackDenylist: [/^\/api\//],
+    runtimeCaching: [
+      {
+        urlPattern: ({ url }) => url.pathname.startsWith('/_expo/static/') || url.pathname.startsWith('/assets/'),
+        handler: 'CacheFirst',
+        options: { cacheName: 'bathynote-files', expiration: { maxEntries: 200 } },
+      },
+    ],
+    inlineWorkboxRuntime: true,
+    clientsClaim: true,
+    skipWaiting: true,
+    cleanupOutdatedCaches: true,
+    sourcemap: false,
+    mode: 'production',
+  });
+  for (const w of warnings) process.stderr.write(`service worker: ${w}\n`);
+  process.stdout.write(`Service worker keeps ${count} files (${Math.round(size / 1024)} KB).\n`);
+}
+
+export async function ensureWebBuild(): Promise<void> {
   if (webBuildIsCurrent()) {
     precompressWebBuild();
     return;
@@ -98,16 +143,15 @@ export function ensureWebBuild(): void {
     env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1' },
   });
   if (result.status !== 0) throw new Error(`The web build failed (exit code ${result.status ?? result.signal}).`);
+  await writeServiceWorker();
   precompressWebBuild();
   writeFileSync(stampFile, sourceFingerprint());
   process.stdout.write(`Web app built in ${Math.round((Date.now() - started) / 1000)} s.\n`);
 }
 
 if (require.main === module) {
-  try {
-    ensureWebBuild();
-  } catch (err) {
+  ensureWebBuild().catch((err: unknown) => {
     process.stderr.write(`${(err as Error).message}\n`);
     process.exit(1);
-  }
+  });
 }

@@ -124,4 +124,58 @@ describe('the app over a thin link', () => {
       await screen.close();
     }
   });
+
+  it('opens with no link after one visit, says since when, and forgets it all on sign-out', async () => {
+    const screen = await openBrowser(viewports.phone);
+    const page = screen.page;
+    try {
+      await page.goto(server.url);
+      await page.getByTestId('sign-in-email').fill('biologist@bathynote.test');
+      await page.getByTestId('sign-in-password').fill('bathynote-demo');
+      await page.getByTestId('sign-in-password').press('Enter');
+      await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+      await page.getByTestId('dive-VS-01').click();
+      const entries = page.getByTestId('dive-log').locator('[data-testid^="observation-"]');
+      await entries.first().waitFor();
+      const diveId = new URL(page.url()).pathname.split('/')[2] ?? '';
+      const seen = await page.evaluate(async (id) => {
+        const res = await fetch(`/api/dives/${id}/observations?limit=1`);
+        const body = (await res.json()) as { items: { title: string }[] };
+        return body.items[0]?.title ?? '';
+      }, diveId);
+      expect(seen).not.toBe('');
+      // The app shell is kept by the service worker, the dive log by the persisted cache.
+      await page.waitForFunction(() => navigator.serviceWorker?.controller !== null, undefined, { timeout: 15_000 });
+      await page.waitForFunction((text) => (localStorage.getItem('bathynote.query-cache') ?? '').includes(text), seen);
+
+      await screen.context.setOffline(true);
+      await page.reload();
+      await page.getByTestId('dive-log').getByText(seen).first().waitFor();
+      await expect.poll(() => page.getByTestId('offline-notice').innerText()).toMatch(/^offline — showing what was here at \d\d:\d\d UTC$/);
+
+      await screen.context.setOffline(false);
+      await expect.poll(() => page.getByTestId('offline-notice').count()).toBe(0);
+
+      await page.goto(`${server.url}/account`);
+      await page.getByTestId('sign-out').click();
+      await page.getByTestId('sign-in-email').waitFor();
+      await expect.poll(() => page.evaluate(() => localStorage.getItem('bathynote.query-cache') ?? '')).not.toContain(seen);
+
+      // Someone else on the same device: none of the biologist's dive log comes back, online or not.
+      await page.getByTestId('sign-in-email').fill('outsider@bathynote.test');
+      await page.getByTestId('sign-in-password').fill('bathynote-demo');
+      await page.getByTestId('sign-in-password').press('Enter');
+      await page.getByText('No campaigns yet').waitFor();
+      await page.waitForFunction(() => (localStorage.getItem('bathynote.query-cache') ?? '').includes('outsider@bathynote.test'));
+      await page.waitForTimeout(1500);
+      await screen.context.setOffline(true);
+      await page.reload();
+      await page.getByText('No campaigns yet').waitFor();
+      expect(await page.getByText('Varn Shoal 2026').count()).toBe(0);
+      expect(await page.getByText(seen).count()).toBe(0);
+      expect(screen.errors).toEqual([]);
+    } finally {
+      await screen.close();
+    }
+  });
 });
