@@ -10,6 +10,7 @@ import { benchLogWrites } from './log-writes';
 import { benchPhotoLoad } from './photo-load';
 import { benchSearch } from './search';
 import { benchTelemetryImport } from './telemetry-import';
+import { benchThinLink } from './thin-link';
 
 async function main() {
   const only = process.argv[2];
@@ -22,6 +23,7 @@ async function main() {
     ['search', benchSearch],
     ['digest', benchDigest],
     ['photo-load', benchPhotoLoad],
+    ['thin-link', benchThinLink],
   ];
   for (const [name, run] of benches) {
     if (only && only !== name) continue;
