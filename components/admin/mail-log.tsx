@@ -85,7 +85,7 @@ function MailQueue({ items, counts, refresh }: { items: MailLogItem[]; counts: R
               {stateLabels[m.state]}
             </Text>
           </View>
-          <Text variant="caption" muted numberOfLines={1}>
+          <Text variant="caption" muted>
             {`${m.kind === 'digest' ? 'Digest' : m.kind === 'invitation' ? 'Invitation' : 'Mail'} to ${m.to} · queued ${formatUtc(m.createdAt)}`}
           </Text>
           {m.sentAt ? <Text variant="monoSmall" muted>{`Sent ${formatUtc(m.sentAt)}`}</Text> : null}

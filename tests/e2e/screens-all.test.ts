@@ -1,0 +1,162 @@
+/**
+ * Every screen of the app, at phone and wide sizes, light and dark: a screenshot of each (kept in
+ * the temporary folder for a person to look at) and the layout rules measured on it. No text runs
+ * past the window's edges, the screen's title is whole and clear of its header's buttons, the
+ * header's buttons do not overlap one another, and nothing fails in the page. The dive log's and
+ * the record screens' own rules are in screens-log and screens-record.
+ */
+import { mkdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { startServerProcess, type ServerProcess } from '../helpers/server-process';
+
+const shots = path.join(tmpdir(), 'bathynote-screens');
+
+let server: ServerProcess;
+let fixtures: E2eFixtures;
+let entryId: string;
+
+beforeAll(async () => {
+  mkdirSync(shots, { recursive: true });
+  server = await startServerProcess();
+  fixtures = await buildE2eFixtures(server.url, {
+    campaignName: 'Every screen campaign, west flank',
+    prefix: 'ES-',
+    telemetry: true,
+    entries: true,
+  });
+  entryId = Object.values(fixtures.entries)[0]!.id;
+});
+afterAll(async () => {
+  await server?.stop();
+});
+
+type Box = { x: number; y: number; width: number; height: number };
+const overlaps = (a: Box, b: Box) =>
+  a.x < b.x + b.width - 0.5 && b.x < a.x + a.width - 0.5 && a.y < b.y + b.height - 0.5 && b.y < a.y + a.height - 0.5;
+
+/** Every piece of visible text that reaches past the window's left or right edge. */
+function textPastEdges(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const width = document.documentElement.clientWidth;
+    const out: string[] = [];
+    const walker = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);
+    for (let n = walker.nextNode(); n; n = walker.nextNode()) {
+      if (!n.textContent?.trim()) continue;
+      const el = n.parentElement;
+      // Text inside a scrolling strip is meant to run on past the edge.
+      if (el?.closest('[data-scrolls-sideways]')) continue;
+      const range = document.createRange();
+      range.selectNodeContents(n);
+      for (const r of Array.from(range.getClientRects())) {
+        if (r.width === 0 || r.height === 0) continue;
+        if (r.left < -0.5 || r.right > width + 0.5)
+          out.push(`${n.textContent.trim().slice(0, 40)} (${Math.round(r.left)}–${Math.round(r.right)})`);
+      }
+    }
+    return out;
+  });
+}
+
+/** The title's box, whether it is cut off, and the boxes of the header's buttons. */
+function headerLayout(page: Page): Promise<{ title: Box | null; cut: boolean; buttons: (Box & { label: string })[] }> {
+  return page.evaluate(() => {
+    const header = document.querySelector('[data-testid="screen-header"]');
+    const title = header?.querySelector('[data-testid="screen-title"]') as HTMLElement | null;
+    const rect = (el: Element) => {
+      const r = el.getBoundingClientRect();
+      return { x: r.x, y: r.y, width: r.width, height: r.height };
+    };
+    const buttons = Array.from(header?.querySelectorAll('[role="button"], [role="link"]') ?? [])
+      .filter((b) => b.getAttribute('data-testid') !== 'back')
+      .map((b) => ({ ...rect(b), label: (b.textContent ?? '').trim() }))
+      .filter((b) => b.width > 0 && b.height > 0);
+    return {
+      title: title ? rect(title) : null,
+      cut: title ? title.scrollWidth > title.clientWidth + 1 || title.scrollHeight > title.clientHeight + 1 : false,
+      buttons,
+    };
+  });
+}
+
+type Screen = { name: string; as: 'lead' | 'admin'; path: () => string; ready: string };
+
+const screens: Screen[] = [
+  { name: 'campaigns', as: 'lead', path: () => '/', ready: 'campaign-list' },
+  { name: 'campaign', as: 'lead', path: () => `/campaigns/${fixtures.campaign}`, ready: 'dive-ES-01' },
+  { name: 'team', as: 'lead', path: () => `/campaigns/${fixtures.campaign}/team`, ready: 'screen-title' },
+  { name: 'tags', as: 'lead', path: () => `/campaigns/${fixtures.campaign}/settings`, ready: 'screen-title' },
+  { name: 'biology', as: 'lead', path: () => `/campaigns/${fixtures.campaign}/biology`, ready: 'substrate-settings' },
+  { name: 'campaign-taxa', as: 'lead', path: () => `/campaigns/${fixtures.campaign}/taxa`, ready: 'taxa' },
+  { name: 'exports', as: 'lead', path: () => `/campaigns/${fixtures.campaign}/exports`, ready: 'screen-title' },
+  { name: 'digest', as: 'lead', path: () => `/campaigns/${fixtures.campaign}/digest`, ready: 'screen-title' },
+  { name: 'dive-log', as: 'lead', path: () => `/dives/${fixtures.finished.id}`, ready: 'dive-log' },
+  { name: 'summary', as: 'lead', path: () => `/dives/${fixtures.finished.id}/summary`, ready: 'screen-title' },
+  { name: 'gallery', as: 'lead', path: () => `/dives/${fixtures.finished.id}/gallery`, ready: 'screen-title' },
+  { name: 'dive-settings', as: 'lead', path: () => `/dives/${fixtures.finished.id}/settings`, ready: 'screen-title' },
+  { name: 'dive-taxa', as: 'lead', path: () => `/dives/${fixtures.finished.id}/taxa`, ready: 'taxa' },
+  { name: 'new-entry', as: 'lead', path: () => `/dives/${fixtures.finished.id}/new`, ready: 'observation-form' },
+  { name: 'entry', as: 'lead', path: () => `/observations/${entryId}`, ready: 'observation-detail' },
+  { name: 'search', as: 'lead', path: () => '/search?q=mat', ready: 'screen-title' },
+  { name: 'account', as: 'lead', path: () => '/account', ready: 'screen-title' },
+  { name: 'admin', as: 'admin', path: () => '/admin', ready: 'screen-title' },
+  { name: 'mail-log', as: 'admin', path: () => '/admin/mail', ready: 'screen-title' },
+];
+
+const combos = [
+  ['phone', viewports.phone, 'light'],
+  ['phone', viewports.phone, 'dark'],
+  ['wide', viewports.wide, 'light'],
+  ['wide', viewports.wide, 'dark'],
+] as const;
+
+describe.each(combos)('every screen at %s size, %s', (size, viewport, scheme) => {
+  const browsers: Partial<Record<Screen['as'], Browser>> = {};
+  beforeAll(async () => {
+    for (const who of ['lead', 'admin'] as const) {
+      const b = await openBrowser(viewport);
+      await b.page.emulateMedia({ colorScheme: scheme });
+      await signInAs(b.page, server.url, `${who}@bathynote.test`);
+      browsers[who] = b;
+    }
+  });
+  afterAll(async () => {
+    for (const b of Object.values(browsers)) await b?.close();
+  });
+
+  it.each(screens.map((s) => [s.name, s] as const))('%s keeps its text on screen and its header in order', async (name, s) => {
+    const b = browsers[s.as]!;
+    const { page } = b;
+    const errorsBefore = b.errors.length;
+    await page.goto(`${server.url}${s.path()}`);
+    await page.getByTestId(s.ready).first().waitFor();
+    // Fonts and late data settle before anything is measured.
+    await page.evaluate(() => document.fonts.ready.then(() => undefined));
+    await page
+      .getByText('Loading', { exact: false })
+      .first()
+      .waitFor({ state: 'hidden', timeout: 10_000 })
+      .catch(() => undefined);
+    await page.screenshot({ path: path.join(shots, `all-${name}-${size}-${scheme}.png`), fullPage: true });
+
+    expect(await textPastEdges(page)).toEqual([]);
+    const header = await headerLayout(page);
+    if (header.title) {
+      expect(header.cut, `${name}: the screen title is cut off`).toBe(false);
+      for (const button of header.buttons) expect(overlaps(header.title, button), `${name}: title under "${button.label}"`).toBe(false);
+    }
+    for (let i = 0; i < header.buttons.length; i++) {
+      for (let j = i + 1; j < header.buttons.length; j++) {
+        const [a, c] = [header.buttons[i]!, header.buttons[j]!];
+        expect(overlaps(a, c), `${name}: "${a.label}" overlaps "${c.label}"`).toBe(false);
+      }
+    }
+    expect(b.errors.slice(errorsBefore)).toEqual([]);
+  });
+});
