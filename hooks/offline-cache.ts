@@ -34,11 +34,15 @@ export function offlineCacheOptions(): Omit<PersistQueryClientOptions, 'queryCli
 
 /**
  * After the cache is back: with a link, who is signed in is asked again before any screen shows
- * (the kept answer might be someone else's, signed out elsewhere); with none, the kept one stands.
+ * (the kept answer might be someone else's, signed out elsewhere), and every kept answer is asked
+ * again behind the screen that shows it (an ETag makes an unchanged one cost a 304); with no link,
+ * the kept answers stand.
  */
 export function afterRestore(qc: QueryClient) {
   if (typeof navigator !== 'undefined') onlineManager.setOnline(navigator.onLine);
-  if (onlineManager.isOnline()) void qc.resetQueries({ queryKey: sessionKeys.me() });
+  if (!onlineManager.isOnline()) return;
+  void qc.resetQueries({ queryKey: sessionKeys.me() });
+  void qc.invalidateQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.root[0] });
 }
 
 /** Nobody signed in: nothing of anyone's stays in the cache (nor, through the persister, on the device). */
