@@ -22,6 +22,13 @@ export const meQuery = queryOptions({
   staleTime: 60_000,
 });
 
+/**
+ * The address the app was opened at, read when the app starts: the sign-in screen's own code
+ * loads later (each route is a file of its own on the web), after the router has already moved a
+ * signed-out person to it.
+ */
+export const openedAt = typeof window !== 'undefined' && window.location ? window.location.pathname + window.location.search : null;
+
 let returnPath: string | null = null;
 
 /** Keeps the path a signed-out person opened (a deep link), to land on after signing in: a path of this site only. */

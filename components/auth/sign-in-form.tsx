@@ -5,12 +5,9 @@ import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Text } from '@/components/ui/text';
 import { ApiError } from '@/hooks/api';
-import { rememberReturnPath, useRequestSignInLink, useSignIn } from '@/hooks/session';
+import { openedAt, rememberReturnPath, useRequestSignInLink, useSignIn } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { radius, space } from '@/lib/tokens';
-
-/** The address the app was opened at, read before the router moves a signed-out person to this screen. */
-const openedAt = typeof window !== 'undefined' && window.location ? window.location.pathname + window.location.search : null;
 
 export function SignInForm() {
   const { colors } = useTheme();
