@@ -1,16 +1,12 @@
 import { useLocalSearchParams } from 'expo-router';
-import { useState } from 'react';
 
-import { SampleRegister } from '@/components/taxa/sample-register';
-import { TaxaList } from '@/components/taxa/taxa-list';
-import { Segmented } from '@/components/ui/segmented';
+import { TaxaAndSamples } from '@/components/taxa/taxa-and-samples';
 import { Screen, ScreenBody, ScreenHeader } from '@/components/ui/screen';
 import { useCampaign } from '@/hooks/campaigns';
 
 export default function CampaignTaxaScreen() {
   const { campaignId } = useLocalSearchParams<{ campaignId: string }>();
   const campaign = useCampaign(campaignId);
-  const [view, setView] = useState<'taxa' | 'samples'>('taxa');
   return (
     <Screen>
       <ScreenHeader
@@ -19,18 +15,7 @@ export default function CampaignTaxaScreen() {
         backLabel="Campaign"
       />
       <ScreenBody>
-        <Segmented
-          label="Show"
-          hideLabel
-          value={view}
-          onChange={setView}
-          options={[
-            { value: 'taxa', label: 'Taxa' },
-            { value: 'samples', label: 'Samples' },
-          ]}
-          testID="record-view"
-        />
-        {view === 'taxa' ? <TaxaList scope={{ campaignId }} /> : <SampleRegister scope={{ campaignId }} />}
+        <TaxaAndSamples scope={{ campaignId }} />
       </ScreenBody>
     </Screen>
   );

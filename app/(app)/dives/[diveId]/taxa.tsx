@@ -1,16 +1,12 @@
 import { useLocalSearchParams } from 'expo-router';
-import { useState } from 'react';
 
-import { SampleRegister } from '@/components/taxa/sample-register';
-import { TaxaList } from '@/components/taxa/taxa-list';
-import { Segmented } from '@/components/ui/segmented';
+import { TaxaAndSamples } from '@/components/taxa/taxa-and-samples';
 import { Screen, ScreenBody, ScreenHeader } from '@/components/ui/screen';
 import { useDive } from '@/hooks/dives';
 
 export default function DiveTaxaScreen() {
   const { diveId } = useLocalSearchParams<{ diveId: string }>();
   const dive = useDive(diveId);
-  const [view, setView] = useState<'taxa' | 'samples'>('taxa');
   return (
     <Screen>
       <ScreenHeader
@@ -19,18 +15,7 @@ export default function DiveTaxaScreen() {
         backLabel="Dive log"
       />
       <ScreenBody>
-        <Segmented
-          label="Show"
-          hideLabel
-          value={view}
-          onChange={setView}
-          options={[
-            { value: 'taxa', label: 'Taxa' },
-            { value: 'samples', label: 'Samples' },
-          ]}
-          testID="record-view"
-        />
-        {view === 'taxa' ? <TaxaList scope={{ diveId }} /> : <SampleRegister scope={{ diveId }} />}
+        <TaxaAndSamples scope={{ diveId }} />
       </ScreenBody>
     </Screen>
   );
