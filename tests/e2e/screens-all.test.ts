@@ -14,6 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { overlaps, textPastEdges, type Box } from '../helpers/layout';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 const shots = path.join(tmpdir(), 'bathynote-screens');
@@ -36,33 +37,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await server?.stop();
 });
-
-type Box = { x: number; y: number; width: number; height: number };
-const overlaps = (a: Box, b: Box) =>
-  a.x < b.x + b.width - 0.5 && b.x < a.x + a.width - 0.5 && a.y < b.y + b.height - 0.5 && b.y < a.y + a.height - 0.5;
-
-/** Every piece of visible text that reaches past the window's left or right edge. */
-function textPastEdges(page: Page): Promise<string[]> {
-  return page.evaluate(() => {
-    const width = document.documentElement.clientWidth;
-    const out: string[] = [];
-    const walker = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);
-    for (let n = walker.nextNode(); n; n = walker.nextNode()) {
-      if (!n.textContent?.trim()) continue;
-      const el = n.parentElement;
-      // Text inside a scrolling strip is meant to run on past the edge.
-      if (el?.closest('[data-scrolls-sideways]')) continue;
-      const range = document.createRange();
-      range.selectNodeContents(n);
-      for (const r of Array.from(range.getClientRects())) {
-        if (r.width === 0 || r.height === 0) continue;
-        if (r.left < -0.5 || r.right > width + 0.5)
-          out.push(`${n.textContent.trim().slice(0, 40)} (${Math.round(r.left)}–${Math.round(r.right)})`);
-      }
-    }
-    return out;
-  });
-}
 
 /** The title's box, whether it is cut off, and the boxes of the header's buttons. */
 function headerLayout(page: Page): Promise<{ title: Box | null; cut: boolean; buttons: (Box & { label: string })[] }> {
