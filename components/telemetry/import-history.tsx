@@ -8,7 +8,7 @@ import { radius, space } from '@/lib/tokens';
 
 const count = (n: number) => n.toLocaleString('en');
 
-/** The dive's log imports, newest first: who, when, which file, what it did and what it covered. */
+/** The dive's log imports, newest first: who, when, which file, what it did and what it covered, with its warnings and first rejected lines. */
 export function ImportHistory({ imports, limit = 10 }: { imports: TelemetrySamples['imports']; limit?: number }) {
   const { colors } = useTheme();
   if (imports.length === 0) return null;
@@ -25,6 +25,21 @@ export function ImportHistory({ imports, limit = 10 }: { imports: TelemetrySampl
             {count(i.rowsTaken)} rows taken{i.rowsRejected > 0 ? `, ${count(i.rowsRejected)} rejected` : ''}
             {i.span ? ` · covers ${formatUtc(i.span.firstAt)} to ${formatUtc(i.span.lastAt)}` : ''}
           </Text>
+          {i.warnings.map((w) => (
+            <Text key={w.code + w.message} variant="caption" color={colors.warning} testID="import-warning">
+              {w.message}
+            </Text>
+          ))}
+          {i.rejected.map((r) => (
+            <Text key={r.line} variant="caption" muted testID="import-rejected-line">
+              Line {r.line}: {r.reason}
+            </Text>
+          ))}
+          {i.rowsRejected > i.rejected.length ? (
+            <Text variant="caption" muted>
+              and {count(i.rowsRejected - i.rejected.length)} more rejected
+            </Text>
+          ) : null}
         </View>
       ))}
     </View>

@@ -105,6 +105,9 @@ export const telemetryImportSummarySchema = z.object({
   importedBy: z.string(),
   importedByName: z.string(),
   importedAt: isoOut,
+  /** The import's own report, kept: its first rejected lines and what it noticed. */
+  rejected: z.array(telemetryRejectionSchema),
+  warnings: z.array(z.object({ code: z.string(), message: z.string() })),
 });
 export type TelemetryImportSummary = z.infer<typeof telemetryImportSummarySchema>;
 

@@ -166,18 +166,30 @@ export function importHistory(db: Db, diveId: string): TelemetryImportSummary[] 
     .orderBy(desc(telemetryImports.importedAt))
     .limit(50)
     .all()
-    .map(({ imp, name }) => ({
-      id: imp.id,
-      fileName: imp.fileName,
-      mode: imp.mode,
-      rowsTaken: imp.rowsTaken,
-      rowsRejected: imp.rowsRejected,
-      span: spanOf(imp.firstAt?.getTime() ?? null, imp.lastAt?.getTime() ?? null),
-      importedBy: imp.importedBy,
-      importedByName: name,
-      importedAt: imp.importedAt.toISOString(),
-    }));
+    .map(({ imp, name }) => {
+      // Reports kept before warnings carried a code hold plain strings.
+      const report = imp.report as {
+        rejected?: TelemetryImportSummary['rejected'];
+        warnings?: (string | { code: string; message: string })[];
+      };
+      return {
+        id: imp.id,
+        fileName: imp.fileName,
+        mode: imp.mode,
+        rowsTaken: imp.rowsTaken,
+        rowsRejected: imp.rowsRejected,
+        span: spanOf(imp.firstAt?.getTime() ?? null, imp.lastAt?.getTime() ?? null),
+        importedBy: imp.importedBy,
+        importedByName: name,
+        importedAt: imp.importedAt.toISOString(),
+        rejected: (report.rejected ?? []).slice(0, HISTORY_REJECTIONS),
+        warnings: (report.warnings ?? []).map((w) => (typeof w === 'string' ? { code: 'note', message: w } : w)),
+      };
+    });
 }
+
+/** Rejected lines each import in the history shows; the import's own answer lists more. */
+const HISTORY_REJECTIONS = 10;
 
 /** `GET /api/dives/:diveId/telemetry`: the log thinned for the depth profile and the site plan. */
 export function telemetrySamples(db: Db, diveId: string, { points: wanted }: z.output<typeof telemetryQuerySchema>): TelemetrySamples {

@@ -195,6 +195,12 @@ describe('a good log', () => {
       [7, 'field-count'],
     ]);
     expect(stored().map((s) => s.depth)).toEqual([10, 13]);
+    // The dive's import history keeps each import's rejected lines, for the dive settings screen.
+    const history = telemetrySamplesSchema.parse((await (await t.signIn(emails.guest)).get(`/api/dives/${ids.dive}/telemetry`)).body);
+    expect(history.imports[0]!.rejected.map((r) => [r.line, r.code])).toEqual([
+      [5, 'bad-number'],
+      [7, 'field-count'],
+    ]);
 
     // A field quoted across a line end is one record ending on the later line.
     const multiline = await imported(Buffer.from('time,depth_m,note\n2026-05-13T18:00:00Z,10,"two\nlines"\n2026-05-13T18:00:01Z,11,x\n'));
@@ -563,6 +569,8 @@ describe('a log of another time than its dive', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const report = telemetryImportReportSchema.parse(res.body);
     const warning = report.warnings.find((w) => w.code === 'outside_dive');
+    const kept = telemetrySamplesSchema.parse((await (await t.signIn(emails.guest)).get(`/api/dives/${dive}/telemetry`)).body);
+    expect(kept.imports[0]!.warnings.map((w) => w.code)).toContain('outside_dive');
     expect(warning?.message).toContain('2026-05-19T08:00:00');
     expect(warning?.message).toContain('2026-05-20T08:00:00');
     expect(report.rowsTaken).toBe(600);
