@@ -13,9 +13,14 @@ export const meQuery = queryOptions({
   queryKey: sessionKeys.me(),
   queryFn: async (): Promise<Me | null> => {
     try {
-      return await request('/api/me', meSchema);
+      const me = await request('/api/me', meSchema);
+      openingAnswered(true);
+      return me;
     } catch (err) {
-      if (err instanceof ApiError && err.status === 401) return null;
+      if (err instanceof ApiError && err.status === 401) {
+        openingAnswered(false);
+        return null;
+      }
       throw err;
     }
   },
@@ -25,15 +30,16 @@ export const meQuery = queryOptions({
 /**
  * The address the app was opened at, read when the app starts: the sign-in screen's own code
  * loads later (each route is a file of its own on the web), after the router has already moved a
- * signed-out person to it.
+ * signed-out person to it. It is kept to return to only if the first answer on who is signed in
+ * says nobody: a person who signs out later and hands the screen over has nothing to return to.
  */
-export const openedAt = typeof window !== 'undefined' && window.location ? window.location.pathname + window.location.search : null;
+let opening: string | null = typeof window !== 'undefined' && window.location ? window.location.pathname + window.location.search : null;
 
 let returnPath: string | null = null;
 
-/** Keeps the path a signed-out person opened (a deep link), to land on after signing in: a path of this site only. */
-export function rememberReturnPath(path: string | null) {
-  returnPath = isReturnPath(path) ? path : null;
+function openingAnswered(signedIn: boolean) {
+  if (opening !== null && !signedIn && isReturnPath(opening)) returnPath = opening;
+  opening = null;
 }
 
 /** The kept deep link, once. */

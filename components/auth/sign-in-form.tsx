@@ -1,17 +1,16 @@
-import { useEffect, useRef, useState } from 'react';
+import { useRef, useState } from 'react';
 import { KeyboardAvoidingView, Platform, StyleSheet, View, type TextInput } from 'react-native';
 
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Text } from '@/components/ui/text';
 import { ApiError } from '@/hooks/api';
-import { openedAt, rememberReturnPath, useRequestSignInLink, useSignIn } from '@/hooks/session';
+import { useRequestSignInLink, useSignIn } from '@/hooks/session';
 import { useTheme } from '@/hooks/theme';
 import { radius, space } from '@/lib/tokens';
 
 export function SignInForm() {
   const { colors } = useTheme();
-  useEffect(() => rememberReturnPath(openedAt), []);
   const signIn = useSignIn();
   const askLink = useRequestSignInLink();
   const [email, setEmail] = useState('');

@@ -25,7 +25,7 @@ async function invite(email: string, name: string) {
 describe('a person who joined by an invitation link', () => {
   it('sets a first password without a current one, signs out and signs in with it', async () => {
     const invitee = 'ilse.marr@bathynote.test';
-    const { link } = await invite(invitee, 'Ilse Marr');
+    const { link, campaign } = await invite(invitee, 'Ilse Marr');
     const screen = await openBrowser(viewports.phone);
     try {
       const page = screen.page;
@@ -45,7 +45,8 @@ describe('a person who joined by an invitation link', () => {
       await page.getByTestId('sign-in-email').fill(invitee);
       await page.getByTestId('sign-in-password').fill('a-first-password-at-sea');
       await page.getByTestId('sign-in-password').press('Enter');
-      await page.getByTestId('sign-out').waitFor();
+      // Signed out by hand, nothing was opened to return to: the campaign list, with the invitee's campaign.
+      await page.getByTestId('campaign-list').getByText(campaign.name).waitFor();
       expect(screen.errors).toEqual([]);
     } finally {
       await screen.close();
