@@ -19,16 +19,26 @@ type Busboy = NodeJS.WritableStream & {
 };
 
 /**
- * Answers the refusal as soon as a limit is passed and stops reading: the rest of the body is
- * never read (multer on its own would read and discard it all before answering). "Connection:
- * close" makes Node close the connection once the answer is out.
+ * How long the rest of a refused body is read and dropped before the connection is cut. Closing a
+ * connection while the client is still sending makes the server's system answer the next bytes
+ * with a reset, and a reset throws away the refusal the client has not read yet; a moment of
+ * reading first (a lingering close) lets the client hear the answer and stop sending.
+ */
+const LINGER_MS = 2000;
+
+/**
+ * Answers the refusal as soon as a limit is passed and stops parsing: the rest of the body is only
+ * drained for a moment and then cut off (multer on its own would read and parse it all before
+ * answering).
  */
 function refuseNow(req: Request, err: ApiError) {
   const res = req.res;
   if (!res || res.headersSent) return;
   req.unpipe();
-  res.setHeader('Connection', 'close');
   res.status(err.status).json(err.toBody());
+  const cut = setTimeout(() => req.socket.destroy(), LINGER_MS);
+  req.once('end', () => clearTimeout(cut));
+  req.resume();
 }
 
 function feedUntilLimit(req: Request, busboy: Busboy) {
