@@ -523,7 +523,7 @@ describe('bounded image work', () => {
     return { ...answer, sent };
   }
 
-  it('answers 413 as soon as a file passes 25 MB, without reading the rest of the body, and stores nothing', async () => {
+  it('answers 413 as soon as a file passes 25 MB, so the sender stops long before the end of the body, and stores nothing', async () => {
     const entry = await newEntry();
     const [rowsBefore, filesBefore] = [photoRows(), await storedFiles()];
     const total = 200 * 1024 * 1024;
