@@ -3,7 +3,8 @@ import { EventEmitter } from 'node:events';
 import type { Db, Executor } from '../../db/client';
 import { liveEvents } from '../../db/schema';
 
-export type LiveEventType = 'observation.created' | 'observation.updated' | 'observation.retired' | 'observation.restored' | 'dive.updated' | 'dive.restamped';
+export type LiveEventType =
+  'observation.created' | 'observation.updated' | 'observation.retired' | 'observation.restored' | 'dive.updated' | 'dive.restamped';
 
 export type LiveEvent = {
   id: number;

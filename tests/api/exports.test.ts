@@ -146,10 +146,7 @@ describe('Darwin Core Archive', () => {
     expect(header.filter((term) => !tdwgTerms.has(term))).toEqual([]);
     // meta.xml names one field per column after the id, in the same order as the header.
     const coreXml = strFromU8(zip['meta.xml']!).split('</core>')[0]!;
-    const terms = [...coreXml.matchAll(/<field index="(\d+)" term="[^"]*\/([^/"]+)"\/>/g)].map((m) => [
-      Number(m[1]),
-      m[2],
-    ]);
+    const terms = [...coreXml.matchAll(/<field index="(\d+)" term="[^"]*\/([^/"]+)"\/>/g)].map((m) => [Number(m[1]), m[2]]);
     expect(terms).toEqual(header.slice(1).map((term, i) => [i + 1, term]));
 
     for (const r of rows) {
