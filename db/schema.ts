@@ -464,6 +464,37 @@ export const photos = sqliteTable(
   (t) => [index('photo_observation_idx').on(t.observationId, t.position), index('photo_campaign_sha_idx').on(t.campaignId, t.sha256)],
 );
 
+/**
+ * A length or area measured on a photo with the laser scale: the two laser dots and the points, in
+ * the photo's original pixels, kept beside the value so a measurement can be drawn and checked again.
+ */
+export const photoMeasurements = sqliteTable(
+  'photo_measurements',
+  {
+    id: id(),
+    photoId: text('photo_id')
+      .notNull()
+      .references(() => photos.id, { onDelete: 'restrict' }),
+    observationId: text('observation_id')
+      .notNull()
+      .references(() => observations.id, { onDelete: 'restrict' }),
+    kind: text('kind').$type<'length' | 'area'>().notNull(),
+    spacingCm: real('spacing_cm').notNull(),
+    laser: text('laser', { mode: 'json' }).$type<[number, number][]>().notNull(),
+    points: text('points', { mode: 'json' }).$type<[number, number][]>().notNull(),
+    placementPx: real('placement_px').notNull(),
+    value: real('value').notNull(),
+    unit: text('unit').notNull(),
+    uncertainty: real('uncertainty').notNull(),
+    createdBy: text('created_by')
+      .notNull()
+      .references(() => user.id, { onDelete: 'restrict' }),
+    createdAt: createdAt(),
+    retired: integer('retired', { mode: 'boolean' }).notNull().default(false),
+  },
+  (t) => [index('photo_measurement_photo_idx').on(t.photoId), index('photo_measurement_observation_idx').on(t.observationId)],
+);
+
 /* ---- telemetry ---- */
 
 /** The vehicle's log, one row per sample; depth is stored in metres whatever the log gave. */
