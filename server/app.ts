@@ -18,6 +18,7 @@ import { digestRoutes, unsubscribeRoutes } from './routes/digests';
 import { diveRoutes } from './routes/dives';
 import { exportRoutes } from './routes/exports';
 import { mailRoutes } from './routes/mail';
+import { measurementRoutes } from './routes/measurements';
 import { observationRoutes } from './routes/observations';
 import { photoRoutes } from './routes/photos';
 import { searchRoutes } from './routes/search';
@@ -114,6 +115,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', mailRoutes(ctx), digestRoutes(ctx));
   app.use('/api', searchRoutes(ctx));
   app.use('/api', taxaRoutes(ctx));
+  app.use('/api', measurementRoutes(ctx));
   app.use('/api', exportRoutes(ctx));
   app.use('/api', apiNotFound);
 

@@ -10,3 +10,4 @@ export * from './team';
 export * from './telemetry';
 export * from './search';
 export * from './taxa';
+export * from './measurements';

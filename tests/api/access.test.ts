@@ -59,6 +59,24 @@ async function freshPhoto(observationId: string): Promise<string> {
   return res.body.photos[0].id as string;
 }
 
+/** A measurement by the entry's author on the 8 × 8 fixture photo (laser dots across its diagonal). */
+async function freshMeasurement(): Promise<string> {
+  const res = await (await t.signIn(emails.biologist)).post(`/api/photos/${f.photo}/measurements`).send({
+    spacingCm: 10,
+    laser: [
+      [0, 0],
+      [8, 8],
+    ],
+    kind: 'length',
+    points: [
+      [0, 4],
+      [8, 4],
+    ],
+  });
+  expect(res.status).toBe(201);
+  return res.body.id as string;
+}
+
 beforeAll(async () => {
   t = await startTestServer({ env: { AUTH_RATE_LIMIT: '500' } });
   ids = await buildFixtures(t);
@@ -235,6 +253,15 @@ const table: Record<string, Row> = {
     expect: authorAndLead,
     fresh: true,
     path: () => freshPhoto(f.observation).then((id) => `/api/photos/${id}`),
+  },
+  'POST /api/photos/:photoId/measurements': { expect: authorAndLead, path: () => `/api/photos/${f.photo}/measurements`, body: {} },
+  'GET /api/photos/:photoId/measurements': { expect: readers, path: () => `/api/photos/${f.photo}/measurements` },
+  'GET /api/observations/:id/measurements': { expect: readers, path: () => `/api/observations/${f.observation}/measurements` },
+  // The maker (the entry's author here) and a lead may remove a measurement.
+  'DELETE /api/measurements/:measurementId': {
+    expect: authorAndLead,
+    fresh: true,
+    path: () => freshMeasurement().then((id) => `/api/measurements/${id}`),
   },
   'GET /api/dev/outbox': { expect: siteAdmin, path: () => '/api/dev/outbox' },
   'GET /api/admin/mail': { expect: siteAdmin, path: () => '/api/admin/mail' },
