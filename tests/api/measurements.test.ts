@@ -1,0 +1,207 @@
+import sharp from 'sharp';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+import { measurementListSchema, measurementSchema, observationDetailSchema, observationSchema, type Observation } from '@/lib/schemas';
+import { emails } from '../helpers/demo';
+import { buildFixtures, type Fixtures } from '../helpers/fixtures';
+import { startTestServer, type TestServer } from '../helpers/test-server';
+
+let t: TestServer;
+let ids: Fixtures;
+
+beforeAll(async () => {
+  t = await startTestServer();
+  ids = await buildFixtures(t);
+});
+afterAll(() => t.close());
+
+let shade = 0;
+/** A 400 × 300 PNG, a different one each time (the same file twice on one entry is kept once). */
+async function png(): Promise<Buffer> {
+  shade++;
+  return sharp({ create: { width: 400, height: 300, channels: 3, background: { r: shade % 256, g: 60, b: 90 } } })
+    .png()
+    .toBuffer();
+}
+
+async function entryWithPhoto(kind: Observation['kind']): Promise<{ entry: Observation; photoId: string }> {
+  const agent = await t.signIn(emails.biologist);
+  const created = await agent.post(`/api/dives/${ids.dive}/observations`).send({ kind, title: 'Measured subject' });
+  expect(created.status, JSON.stringify(created.body)).toBe(201);
+  const entry = observationSchema.parse(created.body);
+  const up = await agent
+    .post(`/api/observations/${entry.id}/photos`)
+    .attach('photo', await png(), { filename: 'frame.png', contentType: 'image/png' });
+  expect(up.status).toBe(201);
+  return { entry, photoId: up.body.photos[0].id as string };
+}
+
+// Laser dots 100 px apart at 10 cm spacing: 0.1 cm per pixel.
+const bar = {
+  spacingCm: 10,
+  laser: [
+    [100, 100],
+    [200, 100],
+  ],
+  kind: 'length',
+  points: [
+    [50, 250],
+    [350, 250],
+  ],
+};
+
+const countRows = () => t.ctx.db.$client.prepare('select count(*) from photo_measurements').pluck().get() as number;
+
+async function detail(id: string) {
+  const res = await (await t.signIn(emails.lead)).get(`/api/observations/${id}`);
+  expect(res.status).toBe(200);
+  return observationDetailSchema.parse(res.body);
+}
+
+describe('measuring on a photo', () => {
+  it('answers the length and its uncertainty, keeps it with the photo and the entry, and makes it the entry’s length', async () => {
+    const { entry, photoId } = await entryWithPhoto('biology');
+    const res = await (await t.signIn(emails.biologist)).post(`/api/photos/${photoId}/measurements`).send(bar);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const m = measurementSchema.parse(res.body);
+    expect(m.unit).toBe('cm');
+    expect(m.value).toBeCloseTo(30, 9); // worked here: 300 px · 10 cm / 100 px
+    expect(m.uncertainty).toBeCloseTo(0.4 * Math.sqrt(5), 6); // worked here: see tests/unit/laser-scale.test.ts
+    expect(m.createdBy).toBe(ids.userId(emails.biologist));
+    expect(m.createdAt).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z$/);
+
+    const after = await detail(entry.id);
+    expect(after.sizes).toEqual([{ dimension: 'length', valueCm: 30, method: 'measured' }]);
+    expect(after.version).toBe(entry.version + 1);
+
+    const guest = await t.signIn(emails.guest);
+    const onPhoto = measurementListSchema.parse((await guest.get(`/api/photos/${photoId}/measurements`)).body);
+    expect(onPhoto.items.map((i) => i.id)).toEqual([m.id]);
+    expect(onPhoto.items[0]!.createdByName).not.toBe('');
+    const onEntry = measurementListSchema.parse((await guest.get(`/api/observations/${entry.id}/measurements`)).body);
+    expect(onEntry.items.map((i) => i.id)).toEqual([m.id]);
+  });
+
+  it('answers an area in cm² and leaves a non-biology entry’s record alone', async () => {
+    const { entry, photoId } = await entryWithPhoto('archaeology');
+    const res = await (await t.signIn(emails.lead)).post(`/api/photos/${photoId}/measurements`).send({
+      ...bar,
+      kind: 'area',
+      points: [
+        [0, 0],
+        [100, 0],
+        [100, 100],
+        [0, 100],
+      ],
+      placementPx: 1,
+    });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.unit).toBe('cm²');
+    expect(res.body.value).toBeCloseTo(100, 9); // worked here: 10000 px² · 0.01 cm²/px²
+    expect(res.body.uncertainty).toBeCloseTo(Math.sqrt(10), 6); // worked here: 2√10 at ±2 px, halved at ±1 px
+    const after = await detail(entry.id);
+    expect(after.sizes).toEqual([]);
+    expect(after.version).toBe(entry.version);
+  });
+
+  it('refuses callers who may not edit the entry, and hides it from outsiders; nothing is stored', async () => {
+    const { photoId } = await entryWithPhoto('biology');
+    const before = countRows();
+    for (const who of ['guest', 'pilot', 'archaeologist', 'admin'] as const) {
+      const res = await (await t.signIn(emails[who])).post(`/api/photos/${photoId}/measurements`).send(bar);
+      expect(res.status, who).toBe(403);
+      expect(res.body.error.code).toBe('forbidden');
+    }
+    const outsider = await (await t.signIn(emails.outsider)).post(`/api/photos/${photoId}/measurements`).send(bar);
+    expect(outsider.status).toBe(404);
+    expect((await (await t.signIn(emails.outsider)).get(`/api/photos/${photoId}/measurements`)).status).toBe(404);
+    expect((await t.anonymous().post(`/api/photos/${photoId}/measurements`).send(bar)).status).toBe(401);
+    expect(countRows()).toBe(before);
+  });
+
+  it('refuses bad input with 400 naming the field, and stores nothing', async () => {
+    const { entry, photoId } = await entryWithPhoto('biology');
+    const agent = await t.signIn(emails.biologist);
+    const before = countRows();
+    const cases: [Record<string, unknown>, string][] = [
+      [
+        {
+          ...bar,
+          laser: [
+            [100, 100],
+            [105, 104],
+          ],
+        },
+        'laser',
+      ], // 6.4 px apart
+      [
+        {
+          ...bar,
+          laser: [
+            [100, 100],
+            [100, 100],
+          ],
+        },
+        'laser',
+      ],
+      [
+        {
+          ...bar,
+          points: [
+            [50, 250],
+            [401, 250],
+          ],
+        },
+        'points.1',
+      ], // past the right edge of a 400 px photo
+      [
+        {
+          ...bar,
+          laser: [
+            [100, -3],
+            [200, 100],
+          ],
+        },
+        'laser.0',
+      ],
+      [{ ...bar, kind: 'area' }, 'points'], // two points make no polygon
+      [{ ...bar, points: [[50, 250]] }, 'points'],
+      [{ ...bar, spacingCm: 0 }, 'spacingCm'],
+      [{ ...bar, kind: 'volume' }, 'kind'],
+      [{ ...bar, laser: [[100, 100]] }, 'laser'],
+      [{ ...bar, value: 12 }, ''],
+    ];
+    for (const [body, path] of cases) {
+      const res = await agent.post(`/api/photos/${photoId}/measurements`).send(body);
+      expect(res.status, JSON.stringify(body)).toBe(400);
+      expect(res.body.error.code).toBe('validation_failed');
+      expect(typeof res.body.error.message).toBe('string');
+      if (path) expect(res.body.error.issues.map((i: { path: string }) => i.path).join(' '), JSON.stringify(body)).toContain(path);
+    }
+    expect(countRows()).toBe(before);
+    expect((await detail(entry.id)).sizes).toEqual([]);
+  });
+
+  it('lets the maker or a lead remove a measurement, and nobody else', async () => {
+    const { photoId } = await entryWithPhoto('biology');
+    const mine = (await (await t.signIn(emails.biologist)).post(`/api/photos/${photoId}/measurements`).send(bar)).body.id as string;
+    const byLead = (await (await t.signIn(emails.lead)).post(`/api/photos/${photoId}/measurements`).send(bar)).body.id as string;
+    expect((await (await t.signIn(emails.guest)).delete(`/api/measurements/${mine}`)).status).toBe(403);
+    // The entry's author may edit it, but the lead's measurement is the lead's to remove.
+    expect((await (await t.signIn(emails.biologist)).delete(`/api/measurements/${byLead}`)).status).toBe(403);
+    expect((await (await t.signIn(emails.outsider)).delete(`/api/measurements/${mine}`)).status).toBe(404);
+    expect((await (await t.signIn(emails.biologist)).delete(`/api/measurements/${mine}`)).status).toBe(204);
+    expect((await (await t.signIn(emails.lead)).delete(`/api/measurements/${byLead}`)).status).toBe(204);
+    expect((await (await t.signIn(emails.lead)).delete(`/api/measurements/${byLead}`)).status).toBe(404);
+    const left = measurementListSchema.parse((await (await t.signIn(emails.lead)).get(`/api/photos/${photoId}/measurements`)).body);
+    expect(left.items).toEqual([]);
+  });
+
+  it('answers 404 for a retired photo', async () => {
+    const { photoId } = await entryWithPhoto('biology');
+    const agent = await t.signIn(emails.biologist);
+    expect((await agent.delete(`/api/photos/${photoId}`)).status).toBe(204);
+    expect((await agent.post(`/api/photos/${photoId}/measurements`).send(bar)).status).toBe(404);
+    expect((await agent.get(`/api/photos/${photoId}/measurements`)).status).toBe(404);
+  });
+});
