@@ -683,3 +683,71 @@ export const auditLog = sqliteTable(
   },
   (t) => [index('audit_campaign_idx').on(t.campaignId, t.at)],
 );
+
+/* ---- watches and their handover ---- */
+
+/** A campaign's watch plan as a whole: whether each handover note is mailed to the incoming watch. */
+export const watchPlans = sqliteTable('watch_plans', {
+  campaignId: text('campaign_id')
+    .primaryKey()
+    .references(() => campaigns.id, { onDelete: 'cascade' }),
+  mailHandovers: integer('mail_handovers', { mode: 'boolean' }).notNull().default(false),
+  updatedBy: text('updated_by').references(() => user.id, { onDelete: 'set null' }),
+  updatedAt: updatedAt(),
+});
+
+/** One watch of a plan: local times in the campaign's display zone ("HH:mm"), repeating daily (lib/watches.ts). */
+export const watches = sqliteTable(
+  'watches',
+  {
+    id: id(),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    start: text('start').notNull(),
+    end: text('end').notNull(),
+    position: integer('position').notNull().default(0),
+  },
+  (t) => [index('watch_campaign_idx').on(t.campaignId)],
+);
+
+/** Who stands a watch. */
+export const watchMembers = sqliteTable(
+  'watch_members',
+  {
+    watchId: text('watch_id')
+      .notNull()
+      .references(() => watches.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => user.id, { onDelete: 'cascade' }),
+  },
+  (t) => [primaryKey({ columns: [t.watchId, t.userId] }), index('watch_member_user_idx').on(t.userId)],
+);
+
+/**
+ * The note written at a change of watch, one per campaign per change. The watches are kept by name
+ * and with who stood them then, so the note stays true after the plan changes.
+ */
+export const handovers = sqliteTable(
+  'handovers',
+  {
+    id: id(),
+    campaignId: text('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    /** The dive under way at the change, if any. */
+    diveId: text('dive_id').references(() => dives.id, { onDelete: 'set null' }),
+    changeAt: integer('change_at', { mode: 'timestamp_ms' }).notNull(),
+    /** `{ name, start, end, members: [{ id, name }] }` or null where the plan leaves a gap. */
+    outgoing: text('outgoing', { mode: 'json' }).$type<Record<string, unknown> | null>(),
+    incoming: text('incoming', { mode: 'json' }).$type<Record<string, unknown> | null>(),
+    /** Entries logged during the outgoing watch by kind, open items, the dive's phase and depth: contract JSON. */
+    content: text('content', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+    acknowledgedBy: text('acknowledged_by').references(() => user.id, { onDelete: 'set null' }),
+    acknowledgedAt: integer('acknowledged_at', { mode: 'timestamp_ms' }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('handover_change_unique').on(t.campaignId, t.changeAt)],
+);
