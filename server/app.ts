@@ -21,9 +21,11 @@ import { mailRoutes } from './routes/mail';
 import { measurementRoutes } from './routes/measurements';
 import { observationRoutes } from './routes/observations';
 import { photoRoutes } from './routes/photos';
+import { reportRoutes } from './routes/reports';
 import { searchRoutes } from './routes/search';
 import { teamRoutes } from './routes/team';
 import { taxaRoutes } from './routes/taxa';
+import { watchRoutes } from './routes/watches';
 import { telemetryRoutes } from './routes/telemetry';
 import { refusedLinkReason } from './services/invitation-links';
 import { webExport } from './services/web';
@@ -115,8 +117,10 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', mailRoutes(ctx), digestRoutes(ctx));
   app.use('/api', searchRoutes(ctx));
   app.use('/api', taxaRoutes(ctx));
+  app.use('/api', watchRoutes(ctx));
   app.use('/api', measurementRoutes(ctx));
   app.use('/api', exportRoutes(ctx));
+  app.use('/api', reportRoutes(ctx));
   app.use('/api', apiNotFound);
 
   app.use(...web.handlers);

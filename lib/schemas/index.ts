@@ -11,3 +11,5 @@ export * from './telemetry';
 export * from './search';
 export * from './taxa';
 export * from './measurements';
+export * from './watches';
+export * from './reports';

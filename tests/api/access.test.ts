@@ -183,6 +183,8 @@ const table: Record<string, Row> = {
   'GET /api/campaigns/:campaignId/names': { expect: readers, path: () => `/api/campaigns/${c()}/names?q=a` },
   'GET /api/campaigns/:campaignId/taxa': { expect: readers, path: () => `/api/campaigns/${c()}/taxa` },
   'GET /api/dives/:diveId/taxa': { expect: readers, path: () => `/api/dives/${d()}/taxa` },
+  'GET /api/dives/:diveId/report': { expect: readers, path: () => `/api/dives/${d()}/report` },
+  'GET /api/campaigns/:campaignId/reports/:date': { expect: readers, path: () => `/api/campaigns/${c()}/reports/2026-05-14` },
   'GET /api/campaigns/:campaignId/samples': { expect: readers, path: () => `/api/campaigns/${c()}/samples` },
   'GET /api/dives/:diveId/samples': { expect: readers, path: () => `/api/dives/${d()}/samples` },
   'GET /api/campaigns/:campaignId/samples/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/samples/next-number` },
