@@ -10,6 +10,7 @@ import { LiveHub } from './services/live';
 import { createLogger } from './services/logger';
 import { createMailer } from './services/mail';
 import { createDigestScheduler, digestMailHandler } from './services/digests';
+import { createHandoverScheduler } from './services/handovers';
 import { createMailSender } from './services/mail-queue';
 import { signInLinkMailHandler } from './services/sign-in-links';
 import { invitationMailHandler } from './services/team';
@@ -44,6 +45,7 @@ export async function createContext(env: Env, options: { now?: () => Date; migra
     mailer,
     mail: createMailSender(db, mailer, log, { attempts: env.MAIL_ATTEMPTS, retryBaseMs: env.MAIL_RETRY_BASE_MS }),
     digests: createDigestScheduler({ db, publicUrl: env.PUBLIC_URL, secret: env.AUTH_SECRET }, log, () => ctx.mail.kick(), options.now),
+    handovers: createHandoverScheduler(db, log, env.PUBLIC_URL, () => ctx.mail.kick(), options.now),
     postbox,
     version: packageVersion(),
   };
@@ -52,12 +54,14 @@ export async function createContext(env: Env, options: { now?: () => Date; migra
   ctx.mail.handle('sign-in-link', signInLinkMailHandler(ctx));
   ctx.mail.start();
   ctx.digests.start();
+  ctx.handovers.start();
   return ctx;
 }
 
-/** Stops what runs in the background (the digest schedule, the mail sender), closes the mail transport and the database. */
+/** Stops what runs in the background (the digest and handover schedules, the mail sender), closes the mail transport and the database. */
 export async function closeContext(ctx: AppContext): Promise<void> {
   ctx.digests.stop();
+  ctx.handovers.stop();
   await ctx.mail.stop();
   await ctx.mailer.close();
   ctx.db.$client.close();

@@ -5,6 +5,7 @@ import type { LiveHub } from './services/live';
 import type { Logger } from './services/logger';
 import type { Mailer } from './services/mail';
 import type { DigestScheduler } from './services/digests';
+import type { HandoverScheduler } from './services/handovers';
 import type { MailSender } from './services/mail-queue';
 
 /** Everything a request handler may need, built once at start (or per test). */
@@ -19,6 +20,8 @@ export type AppContext = {
   mail: MailSender;
   /** The daily digests' schedule (`tick(now)` runs it at a given instant). */
   digests: DigestScheduler;
+  /** The handover notes at each change of watch (`tick(now)` runs it at a given instant). */
+  handovers: HandoverScheduler;
   postbox: MagicLinkPostbox;
   version: string;
 };

@@ -123,6 +123,20 @@ type Row = {
 };
 
 const c = () => ids.campaign;
+
+let handoverId: string | undefined;
+/** A handover note whose incoming watch is the scientist and the pilot. */
+function fixtureHandover(): string {
+  if (handoverId) return handoverId;
+  handoverId = crypto.randomUUID();
+  const members = [emails.biologist, emails.pilot].map((e) => ({ id: ids.userId(e), name: e }));
+  const incoming = { name: 'Fixture watch', start: '2026-05-14T08:00:00.000Z', end: '2026-05-14T12:00:00.000Z', members };
+  const content = { entries: { total: 0, byKind: {}, latest: [] }, openItems: [], dive: null };
+  t.ctx.db.$client
+    .prepare('insert into handovers (id, campaign_id, change_at, incoming, content, created_at) values (?, ?, ?, ?, ?, ?)')
+    .run(handoverId, ids.campaign, Date.parse(incoming.start), JSON.stringify(incoming), JSON.stringify(content), Date.now());
+  return handoverId;
+}
 const d = () => ids.dive;
 
 const table: Record<string, Row> = {
@@ -187,6 +201,14 @@ const table: Record<string, Row> = {
   'GET /api/campaigns/:campaignId/reports/:date': { expect: readers, path: () => `/api/campaigns/${c()}/reports/2026-05-14` },
   'GET /api/campaigns/:campaignId/samples': { expect: readers, path: () => `/api/campaigns/${c()}/samples` },
   'GET /api/dives/:diveId/samples': { expect: readers, path: () => `/api/dives/${d()}/samples` },
+  'GET /api/campaigns/:campaignId/watches': { expect: readers, path: () => `/api/campaigns/${c()}/watches` },
+  'PUT /api/campaigns/:campaignId/watches': { expect: leadOnly, path: () => `/api/campaigns/${c()}/watches`, body: { watches: 'x' } },
+  'GET /api/campaigns/:campaignId/handovers': { expect: readers, path: () => `/api/campaigns/${c()}/handovers` },
+  'POST /api/handovers/:handoverId/acknowledge': {
+    // The note's incoming watch is the scientist and the pilot; a lead may acknowledge for them.
+    expect: R(403, 'ok', 'ok', 'ok', 403, 404, 401),
+    path: () => `/api/handovers/${fixtureHandover()}/acknowledge`,
+  },
   'GET /api/campaigns/:campaignId/samples/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/samples/next-number` },
   'GET /api/campaigns/:campaignId/finds/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/finds/next-number` },
   'GET /api/campaigns/:campaignId/export/summary': { expect: readers, path: () => `/api/campaigns/${c()}/export/summary` },
