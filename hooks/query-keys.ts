@@ -51,6 +51,12 @@ export const photoKeys = {
   galleries: (diveId: string) => [...photoKeys.root, 'gallery', diveId] as const,
 };
 
+export const measurementKeys = {
+  root: ['measurements'] as const,
+  photo: (photoId: string) => [...measurementKeys.root, 'photo', photoId] as const,
+  entry: (observationId: string) => [...measurementKeys.root, 'entry', observationId] as const,
+};
+
 export const telemetryKeys = {
   root: ['telemetry'] as const,
   dive: (diveId: string) => [...telemetryKeys.root, diveId] as const,

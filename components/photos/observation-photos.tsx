@@ -7,6 +7,7 @@ import { useMe } from '@/hooks/session';
 import { can } from '@/lib/permissions';
 import type { ObservationDetail } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
+import { EntryMeasurements } from './entry-measurements';
 import { GalleryLink } from './gallery-link';
 import { PhotoStrip } from './photo-strip';
 import { PhotoUploader } from './photo-uploader';
@@ -19,6 +20,8 @@ export function ObservationPhotos({ observation }: { observation: ObservationDet
   const [open, setOpen] = useState<number | null>(null);
   const canEdit = !observation.retired && can(campaign?.myRole, 'photo.edit', { isAuthor: me?.user.id === observation.authorId });
   const count = observation.photos.length;
+  // Measuring adds to the entry's record, so it is for those who may edit the entry.
+  const canMeasure = !observation.retired && can(campaign?.myRole, 'entry.edit', { isAuthor: me?.user.id === observation.authorId });
 
   return (
     <View style={styles.wrap} testID="observation-photos">
@@ -33,12 +36,16 @@ export function ObservationPhotos({ observation }: { observation: ObservationDet
         <GalleryLink diveId={observation.diveId} label="All photos of the dive" testID="entry-gallery-link" />
       </View>
       {count > 0 ? <PhotoStrip observation={observation} canEdit={canEdit} onOpen={setOpen} /> : null}
+      {count > 0 ? (
+        <EntryMeasurements observation={observation} myId={me?.user.id} isLead={campaign?.myRole === 'lead'} canEdit={canMeasure} />
+      ) : null}
       {canEdit ? <PhotoUploader observation={observation} /> : null}
       <PhotoViewer
         photos={observation.photos.map((p) => ({ ...p, entryTitle: observation.title }))}
         index={open}
         onIndexChange={setOpen}
         onClose={() => setOpen(null)}
+        measureFor={canMeasure ? observation : undefined}
       />
     </View>
   );

@@ -1,14 +1,20 @@
-import { useState } from 'react';
-import { Linking, Modal, StyleSheet, View } from 'react-native';
+import { useReducer, useState } from 'react';
+import { Linking, Modal, ScrollView, StyleSheet, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
 import { Chip } from '@/components/ui/chip';
 import { Text } from '@/components/ui/text';
 import { useLayout } from '@/hooks/layout';
+import { usePhotoMeasurements } from '@/hooks/measurements';
 import { photoUrl, useThumbnailsOnly } from '@/hooks/photos';
 import { formatUtc } from '@/lib/format';
+import { defaultPlacementPx } from '@/lib/laser-scale';
 import type { Photo } from '@/lib/schemas';
 import { palettes, space } from '@/lib/tokens';
+import { draftReducer, emptyDraft, hasNext } from './measure-draft';
+import { useMeasureKeys } from './measure-keys';
+import { containedRect, MeasureLayer } from './measure-layer';
+import { MeasurePanel } from './measure-panel';
 import { PhotoImage } from './photo-image';
 import { useViewerKeys } from './viewer-keys';
 
@@ -26,13 +32,22 @@ type Props = {
   total?: number;
   /** Called on stepping past the last loaded photo. */
   onNeedMore?: () => void;
+  /** The entry the photos belong to, when the caller may measure on them with the laser scale. */
+  measureFor?: { id: string; diveId: string };
 };
+
+/** One screen pixel in the photo's pixels (a click is no finer than that), and never less than the default. */
+function placementPx(box: { width: number; height: number }, image: { width: number; height: number }): number {
+  const { scale } = containedRect(box, image);
+  return scale > 0 ? Math.max(defaultPlacementPx, Math.ceil(10 / scale) / 10) : defaultPlacementPx;
+}
 
 // The viewer is always dark, whatever the theme: photos read best on black.
 const dark = palettes.dark;
 
 /** One photo at a time on a dark ground, stepping with buttons, or ← → and Esc on a keyboard. */
-export function PhotoViewer({ photos, index, onIndexChange, onClose, total, onNeedMore }: Props) {
+export function PhotoViewer({ photos, index, onIndexChange, onClose, total, onNeedMore, measureFor }: Props) {
+  const [measuring, setMeasuring] = useState(false);
   const current = index === null ? undefined : photos[index];
   const open = current !== undefined;
   const count = Math.max(total ?? 0, photos.length);
@@ -44,13 +59,30 @@ export function PhotoViewer({ photos, index, onIndexChange, onClose, total, onNe
       onNeedMore?.();
       return;
     }
+    setMeasuring(false);
     onIndexChange(next);
   };
-  useViewerKeys({ onPrevious: () => step(-1), onNext: () => step(1), onClose }, open);
+  const close = () => {
+    setMeasuring(false);
+    onClose();
+  };
+  // While measuring, the arrow keys and Esc belong to the points being placed.
+  useViewerKeys({ onPrevious: () => step(-1), onNext: () => step(1), onClose: close }, open && !measuring);
 
   return (
-    <Modal visible={open} transparent animationType="none" onRequestClose={onClose}>
-      {current && index !== null ? <ViewerBody photo={current} position={index + 1} count={count} onStep={step} onClose={onClose} /> : null}
+    <Modal visible={open} transparent animationType="none" onRequestClose={close}>
+      {current && index !== null ? (
+        <ViewerBody
+          photo={current}
+          position={index + 1}
+          count={count}
+          onStep={step}
+          onClose={close}
+          measureFor={measureFor}
+          measuring={measuring}
+          onMeasuring={setMeasuring}
+        />
+      ) : null}
     </Modal>
   );
 }
@@ -61,18 +93,49 @@ function ViewerBody({
   count,
   onStep,
   onClose,
+  measureFor,
+  measuring,
+  onMeasuring,
 }: {
   photo: ViewerPhoto;
   position: number;
   count: number;
   onStep: (by: number) => void;
   onClose: () => void;
+  measureFor: { id: string; diveId: string } | undefined;
+  measuring: boolean;
+  onMeasuring: (on: boolean) => void;
 }) {
   const { breakpoint } = useLayout();
   const [thumbnailsOnly, setThumbnailsOnly] = useThumbnailsOnly();
   const [asked, setAsked] = useState<ReadonlySet<string>>(new Set());
   const showFull = !thumbnailsOnly || asked.has(photo.id);
   const label = photo.caption ?? photo.entryTitle ?? 'Photo';
+  const image = { width: photo.width, height: photo.height };
+  const [box, setBox] = useState({ width: 0, height: 0 });
+  const [showMeasurements, setShowMeasurements] = useState(true);
+  const saved = usePhotoMeasurements(photo.id).data?.items ?? [];
+  const [draft, dispatch] = useReducer(draftReducer(image), image, ({ width, height }) => emptyDraft(width, height));
+  useMeasureKeys(
+    {
+      onNudge: (dx, dy) => dispatch({ type: 'nudge', dx, dy }),
+      onPlace: () => dispatch({ type: 'placeAtCursor' }),
+      onSelectNext: (backwards) => {
+        if (!hasNext(draft, backwards)) {
+          dispatch({ type: 'deselect' });
+          return false;
+        }
+        dispatch({ type: 'selectNext', backwards });
+        return true;
+      },
+      onDeselect: () => dispatch({ type: 'deselect' }),
+    },
+    measuring,
+  );
+  const startMeasuring = () => {
+    dispatch({ type: 'clear' });
+    onMeasuring(true);
+  };
 
   return (
     <View style={styles.backdrop} testID="photo-viewer" role="dialog" aria-modal aria-label="Photo viewer">
@@ -81,16 +144,27 @@ function ViewerBody({
           {position} / {count}
         </Text>
         <View style={styles.flex} />
+        {saved.length > 0 ? (
+          <Chip
+            label="Measurements"
+            selected={showMeasurements}
+            onPress={() => setShowMeasurements(!showMeasurements)}
+            testID="viewer-show-measurements"
+          />
+        ) : null}
         <Chip
           label="Thumbnails only"
           selected={thumbnailsOnly}
           onPress={() => setThumbnailsOnly(!thumbnailsOnly)}
           testID="viewer-thumbnails-only"
         />
+        {measureFor && !measuring ? (
+          <Button label="Measure" tone="secondary" compact onPress={startMeasuring} testID="viewer-measure" />
+        ) : null}
         <Button label="Close" tone="secondary" compact onPress={onClose} testID="viewer-close" />
       </View>
 
-      <View style={styles.stage}>
+      <View style={styles.stage} onLayout={(e) => setBox({ width: e.nativeEvent.layout.width, height: e.nativeEvent.layout.height })}>
         <PhotoImage key={`${photo.id}-thumb`} uri={photoUrl(photo, 'thumb')} label={label} fit="contain" testID="viewer-thumb" />
         {showFull ? (
           <PhotoImage key={`${photo.id}-display`} uri={photoUrl(photo, 'display')} label={label} fit="contain" testID="viewer-display" />
@@ -104,57 +178,79 @@ function ViewerBody({
             />
           </View>
         )}
+        <MeasureLayer
+          image={image}
+          box={box}
+          draft={measuring ? draft : null}
+          saved={saved}
+          showSaved={showMeasurements}
+          onPlace={(at) => dispatch({ type: 'place', at })}
+        />
       </View>
 
-      <View style={[styles.footer, breakpoint === 'phone' && styles.footerPhone]}>
-        <View style={styles.caption}>
-          {photo.entryTitle ? (
-            <Text variant="label" color={dark.text} testID="viewer-entry">
-              {photo.entryTitle}
-            </Text>
-          ) : null}
-          {photo.caption ? (
-            <Text color={dark.text} testID="viewer-caption" style={styles.wrapText}>
-              {photo.caption}
-            </Text>
-          ) : null}
-          <Text variant="caption" color={dark.textMuted}>
-            {[
-              photo.capturedAt ? `Taken ${formatUtc(photo.capturedAt)}` : null,
-              photo.credit ? `© ${photo.credit}` : null,
-              `${photo.width} × ${photo.height} px`,
-            ]
-              .filter(Boolean)
-              .join(' · ')}
-          </Text>
-        </View>
-        <View style={styles.steps}>
-          <Button
-            label="‹ Previous"
-            tone="secondary"
-            compact
-            disabled={position <= 1}
-            onPress={() => onStep(-1)}
-            testID="viewer-previous"
+      {measuring && measureFor ? (
+        <ScrollView style={styles.measure}>
+          <MeasurePanel
+            photo={photo}
+            observation={measureFor}
+            draft={draft}
+            placementPx={placementPx(box, image)}
+            dispatch={dispatch}
+            onDone={() => onMeasuring(false)}
           />
-          <Button label="Next ›" tone="secondary" compact disabled={position >= count} onPress={() => onStep(1)} testID="viewer-next" />
-          <Button
-            label="Original"
-            tone="ghost"
-            compact
-            onPress={() => void Linking.openURL(photoUrl(photo, 'original'))}
-            testID="viewer-original"
-          />
+        </ScrollView>
+      ) : (
+        <View style={[styles.footer, breakpoint === 'phone' && styles.footerPhone]}>
+          <View style={styles.caption}>
+            {photo.entryTitle ? (
+              <Text variant="label" color={dark.text} testID="viewer-entry">
+                {photo.entryTitle}
+              </Text>
+            ) : null}
+            {photo.caption ? (
+              <Text color={dark.text} testID="viewer-caption" style={styles.wrapText}>
+                {photo.caption}
+              </Text>
+            ) : null}
+            <Text variant="caption" color={dark.textMuted}>
+              {[
+                photo.capturedAt ? `Taken ${formatUtc(photo.capturedAt)}` : null,
+                photo.credit ? `© ${photo.credit}` : null,
+                `${photo.width} × ${photo.height} px`,
+              ]
+                .filter(Boolean)
+                .join(' · ')}
+            </Text>
+          </View>
+          <View style={styles.steps}>
+            <Button
+              label="‹ Previous"
+              tone="secondary"
+              compact
+              disabled={position <= 1}
+              onPress={() => onStep(-1)}
+              testID="viewer-previous"
+            />
+            <Button label="Next ›" tone="secondary" compact disabled={position >= count} onPress={() => onStep(1)} testID="viewer-next" />
+            <Button
+              label="Original"
+              tone="ghost"
+              compact
+              onPress={() => void Linking.openURL(photoUrl(photo, 'original'))}
+              testID="viewer-original"
+            />
+          </View>
         </View>
-      </View>
+      )}
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   backdrop: { flex: 1, backgroundColor: dark.bg },
-  bar: { flexDirection: 'row', alignItems: 'center', gap: space.md, padding: space.md },
+  bar: { flexDirection: 'row', alignItems: 'center', gap: space.md, padding: space.md, flexWrap: 'wrap' },
   flex: { flex: 1 },
+  measure: { flexGrow: 0, maxHeight: '50%' },
   stage: { flex: 1, margin: space.md, position: 'relative', overflow: 'hidden' },
   wrapText: { flexShrink: 1 },
   loadFull: { ...StyleSheet.absoluteFill, alignItems: 'center', justifyContent: 'flex-end', paddingBottom: space.xl },

@@ -1,0 +1,163 @@
+import { StyleSheet, View, type GestureResponderEvent } from 'react-native';
+import Svg, { Circle, Line, Polygon, Polyline } from 'react-native-svg';
+
+import type { Point } from '@/lib/laser-scale';
+import type { Measurement } from '@/lib/schemas';
+import type { MeasureDraft } from './measure-draft';
+import { measureStageTestId } from './measure-keys';
+
+/** Where a photo shown whole ("contain") sits in a box, and how much it is scaled. */
+export function containedRect(box: { width: number; height: number }, image: { width: number; height: number }) {
+  const scale = Math.min(box.width / image.width, box.height / image.height);
+  return {
+    scale,
+    left: (box.width - image.width * scale) / 2,
+    top: (box.height - image.height * scale) / 2,
+  };
+}
+
+/** A point on the screen (relative to the box) as a point of the original photo; null off the photo. */
+export function toOriginal(
+  at: { x: number; y: number },
+  box: { width: number; height: number },
+  image: { width: number; height: number },
+): Point | null {
+  const r = containedRect(box, image);
+  if (!(r.scale > 0)) return null;
+  const x = (at.x - r.left) / r.scale;
+  const y = (at.y - r.top) / r.scale;
+  if (x < 0 || y < 0 || x > image.width || y > image.height) return null;
+  // Tenths of a pixel are finer than any hand places a point; they keep the numbers short.
+  return [Math.round(x * 10) / 10, Math.round(y * 10) / 10];
+}
+
+const laserColour = '#ff4d4d';
+const drawColour = '#ffd166';
+const savedColour = '#7ae7ea';
+const selectedColour = '#ffffff';
+
+type Props = {
+  image: { width: number; height: number };
+  box: { width: number; height: number };
+  draft: MeasureDraft | null;
+  saved: Measurement[];
+  showSaved: boolean;
+  onPlace: (at: Point) => void;
+};
+
+const pts = (points: readonly Point[]) => points.map((p) => `${p[0]},${p[1]}`).join(' ');
+
+/**
+ * Drawn over the photo in the photo's own pixels (the drawing is scaled exactly as the image is),
+ * and, while measuring, the surface that takes taps, clicks and the keyboard.
+ */
+export function MeasureLayer({ image, box, draft, saved, showSaved, onPlace }: Props) {
+  const { scale } = containedRect(box, image);
+  if (!(scale > 0)) return null;
+  // Marks keep the same size on screen whatever the photo's scale.
+  const px = 1 / scale;
+  const onRelease = (e: GestureResponderEvent) => {
+    const at = toOriginal({ x: e.nativeEvent.locationX, y: e.nativeEvent.locationY }, box, image);
+    if (at) onPlace(at);
+  };
+  const isSelected = (list: 'laser' | 'points', index: number) => draft?.selected?.list === list && draft.selected.index === index;
+
+  return (
+    <>
+      <Svg
+        style={StyleSheet.absoluteFill}
+        width="100%"
+        height="100%"
+        viewBox={`0 0 ${image.width} ${image.height}`}
+        preserveAspectRatio="xMidYMid meet"
+        pointerEvents="none"
+        testID="measure-drawing"
+      >
+        {showSaved
+          ? saved.map((m) =>
+              m.kind === 'area' ? (
+                <Polygon key={m.id} points={pts(m.points)} stroke={savedColour} strokeWidth={2 * px} fill="rgba(122,231,234,0.15)" />
+              ) : (
+                <Polyline key={m.id} points={pts(m.points)} stroke={savedColour} strokeWidth={2 * px} fill="none" />
+              ),
+            )
+          : null}
+        {draft ? (
+          <>
+            {draft.laser.length === 2 ? (
+              <Line
+                x1={draft.laser[0]![0]}
+                y1={draft.laser[0]![1]}
+                x2={draft.laser[1]![0]}
+                y2={draft.laser[1]![1]}
+                stroke={laserColour}
+                strokeWidth={1.5 * px}
+                strokeDasharray={`${6 * px} ${4 * px}`}
+              />
+            ) : null}
+            {draft.points.length > 1 ? (
+              draft.kind === 'area' ? (
+                <Polygon points={pts(draft.points)} stroke={drawColour} strokeWidth={2 * px} fill="rgba(255,209,102,0.2)" />
+              ) : (
+                <Polyline points={pts(draft.points)} stroke={drawColour} strokeWidth={2 * px} fill="none" />
+              )
+            ) : null}
+            {draft.laser.map((p, i) => (
+              <Circle
+                key={`laser-${i}`}
+                cx={p[0]}
+                cy={p[1]}
+                r={7 * px}
+                stroke={isSelected('laser', i) ? selectedColour : laserColour}
+                strokeWidth={2 * px}
+                fill="none"
+              />
+            ))}
+            {draft.points.map((p, i) => (
+              <Circle
+                key={`point-${i}`}
+                cx={p[0]}
+                cy={p[1]}
+                r={5 * px}
+                stroke={isSelected('points', i) ? selectedColour : drawColour}
+                strokeWidth={2 * px}
+                fill="none"
+              />
+            ))}
+            {draft.selected ? null : (
+              <>
+                <Line
+                  x1={draft.cursor[0] - 9 * px}
+                  y1={draft.cursor[1]}
+                  x2={draft.cursor[0] + 9 * px}
+                  y2={draft.cursor[1]}
+                  stroke={selectedColour}
+                  strokeWidth={px}
+                />
+                <Line
+                  x1={draft.cursor[0]}
+                  y1={draft.cursor[1] - 9 * px}
+                  x2={draft.cursor[0]}
+                  y2={draft.cursor[1] + 9 * px}
+                  stroke={selectedColour}
+                  strokeWidth={px}
+                />
+              </>
+            )}
+          </>
+        ) : null}
+      </Svg>
+      {draft ? (
+        <View
+          style={StyleSheet.absoluteFill}
+          testID={measureStageTestId}
+          focusable
+          accessible
+          aria-label="Photo to measure on: tap or click to place a point; with the keyboard, Enter places a point and the arrow keys move it by one pixel"
+          onStartShouldSetResponder={() => true}
+          onResponderRelease={onRelease}
+        />
+      ) : null}
+    </>
+  );
+}
