@@ -66,7 +66,7 @@ describe('the watch plan', () => {
 
   it('refuses overlapping watches, bad times and people from outside the campaign with 400s naming the field', async () => {
     const lead = await as('lead');
-    const put = (body: unknown) => lead.put(`/api/campaigns/${ids.campaign}/watches`).send(body);
+    const put = (body: object) => lead.put(`/api/campaigns/${ids.campaign}/watches`).send(body);
     const overlap = await put({
       watches: [
         { name: 'Night', start: '22:00', end: '02:00', memberIds: [] },
