@@ -177,6 +177,12 @@ export function recogniseHeaders(headers: readonly string[], override: MappingOv
 /** Machine-readable reason a value was refused. */
 export type TelemetryErrorCode = 'missing-time' | 'bad-time' | 'no-zone' | 'bad-number' | 'out-of-range';
 
+/** Days in `month` (1 to 12) of `year` in the Gregorian calendar, leap years included. */
+function daysInMonth(year: number, month: number): number {
+  if (month === 2) return (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0 ? 29 : 28;
+  return month === 4 || month === 6 || month === 9 || month === 11 ? 30 : 31;
+}
+
 /** Result of {@link parseTime}. */
 export type TimeResult = { ok: true; ms: number } | { ok: false; code: TelemetryErrorCode; reason: string };
 
@@ -234,16 +240,18 @@ export function parseTime(value: string, options: { gpsTime?: boolean } = {}): T
     const offsetH = oh === undefined ? 0 : Number(oh);
     const offsetM = om === undefined ? 0 : Number(om);
     const base = Date.UTC(year, month - 1, day, hour, minute, second);
-    const check = new Date(base);
     if (
       hour > 23 ||
       minute > 59 ||
       second > 59 ||
       offsetH > 23 ||
       offsetM > 59 ||
-      check.getUTCFullYear() !== year ||
-      check.getUTCMonth() !== month - 1 ||
-      check.getUTCDate() !== day
+      // Date.UTC reads years 0 to 99 as 1900 to 1999.
+      year < 100 ||
+      month < 1 ||
+      month > 12 ||
+      day < 1 ||
+      day > daysInMonth(year, month)
     ) {
       return { ok: false, code: 'bad-time', reason: `"${text}" is not a valid date and time` };
     }
@@ -309,6 +317,13 @@ const UNITS_FOR_MESSAGE: Readonly<Record<NumericChannel, string>> = {
 const NUMBER = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
 const NO_VALUE = new Set(['', 'nan', 'na', 'n/a', 'null', 'none']);
 
+/** Whether a trimmed cell means "no value"; a cell not starting with a letter (any number) is not looked up. */
+function isNoValue(cell: string): boolean {
+  if (cell === '') return true;
+  const c = cell.charCodeAt(0) | 0x20;
+  return c >= 0x61 && c <= 0x7a && NO_VALUE.has(cell.toLowerCase());
+}
+
 /**
  * Reads a number strictly: the whole text must be a decimal number ("12abc",
  * "0x1F", "1 000" and "Infinity" are refused). With `decimalComma`, "," is
@@ -348,8 +363,8 @@ export function parseRow(record: readonly string[], mapping: ColumnMapping, opti
   const timeIndex = mapping.time;
   if (timeIndex === undefined) return fail('missing-time', 'time', 'the log has no time column');
   const timeCell = record[timeIndex] ?? '';
-  if (NO_VALUE.has(timeCell.trim().toLowerCase())) return fail('missing-time', 'time', 'the time is empty');
-  const time = parseTime(timeCell, { gpsTime: options.gpsTime });
+  if (isNoValue(timeCell.trim())) return fail('missing-time', 'time', 'the time is empty');
+  const time = parseTime(timeCell, options);
   if (!time.ok) return fail(time.code, 'time', time.reason);
 
   const sample: TelemetryRow = { t: time.ms };
@@ -360,7 +375,7 @@ export function parseRow(record: readonly string[], mapping: ColumnMapping, opti
     const index = mapping[channel];
     if (index === undefined) continue;
     const cell = (record[index] ?? '').trim();
-    if (NO_VALUE.has(cell.toLowerCase())) continue;
+    if (isNoValue(cell)) continue;
     let value = parseStrictNumber(cell, decimalComma);
     if (value === null) return fail('bad-number', channel, `${channel} "${cell}" is not a number`);
     if (channel === 'pressure' && options.pressure === 'absolute') value = seaPressureFromAbsolute(value);

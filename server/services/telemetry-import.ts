@@ -6,14 +6,14 @@
  * nor its rows are ever held whole in memory, however long the log.
  */
 import { randomUUID } from 'node:crypto';
-import { createReadStream, rmSync } from 'node:fs';
+import { closeSync, createReadStream, openSync, readSync, rmSync, writeSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { Writable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 
-import Database from 'better-sqlite3';
+import type { Statement } from 'better-sqlite3';
 import { Parser, type CsvError, type Options as CsvOptions } from 'csv-parse';
 import { ZodError } from 'zod';
 
@@ -38,7 +38,7 @@ import { announceStamped } from './telemetry-stamp';
 
 /** Rejected rows listed one by one in the report; the count beyond it is still exact. */
 export const REJECTED_LIST_LIMIT = 200;
-/** Rows per INSERT statement: ten values a row stays far below SQLite's limit on parameters. */
+/** Rows per INSERT statement: eleven values a row stays far below SQLite's limit on parameters. */
 const INSERT_BATCH = 200;
 const HEAD_BYTES = 64 * 1024;
 /**
@@ -439,96 +439,110 @@ function warningsOf(r: HeaderRecognition, extra: ImportWarning[]): ImportWarning
 /** Imports of the same dive run one after another, so an append always sees the log before it. */
 const oneAtATime = oneAtATimePerKey();
 
+/** Numbers a staged row holds: its time, then each stored channel (NaN for none). */
+const STAGED_WIDTH = 1 + STORED_CHANNELS.length;
+/** Rows written to, and read back from, the staging file at a time. */
+const STAGED_CHUNK_ROWS = 4096;
+
+const stagedInserts = new WeakMap<Db, Map<number, Statement>>();
+
+/** The INSERT of `rows` rows into the dive's log, prepared once per connection and row count. */
+function stagedInsertOf(db: Db, rows: number): Statement {
+  let byRows = stagedInserts.get(db);
+  if (!byRows) stagedInserts.set(db, (byRows = new Map<number, Statement>()));
+  let stmt = byRows.get(rows);
+  if (!stmt) {
+    const tuple = `(?, ?, ${STORED_CHANNELS.map(() => '?').join(', ')})`;
+    stmt = db.$client.prepare(
+      `insert into telemetry_samples (dive_id, t, ${STORED_CHANNELS.join(', ')}) values ${Array(rows).fill(tuple).join(', ')}`,
+    );
+    byRows.set(rows, stmt);
+  }
+  return stmt;
+}
+
 /**
- * The rows of a log being read, staged in a SQLite file of their own beside the database (no
- * journal, no flush: it is thrown away whatever happens) in batches of INSERT_BATCH rows, so that
- * memory holds one batch, never the log. The dive's log is not touched until the import's
- * transaction copies them in one statement; nothing else on the server's connection waits on the
- * reading meanwhile.
+ * The rows of a log being read, staged as plain 64-bit numbers in a file of their own beside the
+ * database (thrown away whatever happens), so that memory holds one chunk, never the log. The
+ * dive's log is not touched until the import's transaction copies them in (`copyInto`); nothing
+ * else on the server's connection waits on the reading meanwhile. Numbers rather than a SQLite
+ * file: the rows are written once into the record, not built into a second table first.
  */
 class StagedRows {
   readonly file: string;
-  private readonly db: Database.Database;
-  private readonly full: Database.Statement;
-  private readonly values: unknown[];
+  private fd: number | null;
+  private readonly chunk = new Float64Array(STAGED_CHUNK_ROWS * STAGED_WIDTH);
   private filled = 0;
-  private open = true;
+  private rows = 0;
 
   constructor(dir: string) {
-    this.file = path.join(dir, `.bathynote-import-${randomUUID()}.db`);
-    this.db = new Database(this.file);
-    this.db.pragma('journal_mode = OFF');
-    this.db.pragma('synchronous = OFF');
-    this.db.exec(`create table samples (t integer not null, ${STORED_CHANNELS.map((c) => `${c} real`).join(', ')})`);
-    this.full = this.insertOf(INSERT_BATCH);
-    this.values = new Array(INSERT_BATCH * (1 + STORED_CHANNELS.length));
-    // One transaction for the whole file: the staging file is private, so holding it open across
-    // the reads blocks no one.
-    this.db.exec('begin');
-  }
-
-  private insertOf(rows: number): Database.Statement {
-    const tuple = `(?, ${STORED_CHANNELS.map(() => '?').join(', ')})`;
-    return this.db.prepare(`insert into samples (t, ${STORED_CHANNELS.join(', ')}) values ${Array(rows).fill(tuple).join(', ')}`);
+    this.file = path.join(dir, `.bathynote-import-${randomUUID()}.bin`);
+    this.fd = openSync(this.file, 'w+');
   }
 
   push(sample: TelemetryRow): void {
-    let o = this.filled * (1 + STORED_CHANNELS.length);
-    this.values[o++] = sample.t;
-    for (const c of STORED_CHANNELS) this.values[o++] = sample[c] ?? null;
-    if (++this.filled === INSERT_BATCH) {
-      this.full.run(this.values);
-      this.filled = 0;
-    }
+    const c = this.chunk;
+    let o = this.filled * STAGED_WIDTH;
+    c[o++] = sample.t;
+    for (const ch of STORED_CHANNELS) c[o++] = sample[ch] ?? Number.NaN;
+    if (++this.filled === STAGED_CHUNK_ROWS) this.flush();
   }
 
-  /** Writes the last batch and closes the file, ready to be attached. */
-  finish(): void {
-    if (this.filled > 0) this.insertOf(this.filled).run(this.values.slice(0, this.filled * (1 + STORED_CHANNELS.length)));
+  private flush(): void {
+    if (this.filled === 0 || this.fd === null) return;
+    writeSync(this.fd, new Uint8Array(this.chunk.buffer, 0, this.filled * STAGED_WIDTH * 8));
+    this.rows += this.filled;
     this.filled = 0;
-    this.db.exec('commit');
-    this.close();
   }
 
-  private close(): void {
-    if (this.open) this.db.close();
-    this.open = false;
+  /** Writes the last chunk: the file then holds every row taken. */
+  finish(): void {
+    this.flush();
+  }
+
+  /**
+   * Copies the staged rows, in the order they were read, into dive `diveId`'s log inside the
+   * caller's transaction: INSERT_BATCH rows per statement, with NaN written as NULL.
+   */
+  copyInto(db: Db, diveId: string): void {
+    if (this.fd === null) throw new Error('staged rows already discarded');
+    const full = stagedInsertOf(db, INSERT_BATCH);
+    const args: unknown[] = new Array(INSERT_BATCH * (STAGED_WIDTH + 1));
+    const bytes = new Uint8Array(this.chunk.buffer);
+    const c = this.chunk;
+    let pending = 0;
+    for (let at = 0; at < this.rows;) {
+      const n = Math.min(STAGED_CHUNK_ROWS, this.rows - at);
+      readSync(this.fd, bytes, 0, n * STAGED_WIDTH * 8, at * STAGED_WIDTH * 8);
+      for (let r = 0; r < n; r++) {
+        let i = r * STAGED_WIDTH;
+        let a = pending * (STAGED_WIDTH + 1);
+        args[a++] = diveId;
+        args[a++] = c[i++];
+        for (let k = 1; k < STAGED_WIDTH; k++, i++) {
+          const v = c[i]!;
+          args[a++] = v === v ? v : null;
+        }
+        if (++pending === INSERT_BATCH) {
+          full.run(args);
+          pending = 0;
+        }
+      }
+      at += n;
+    }
+    if (pending > 0) stagedInsertOf(db, pending).run(args.slice(0, pending * (STAGED_WIDTH + 1)));
   }
 
   /** Closes and removes the staging file. */
   discard(): void {
-    this.close();
-    for (const suffix of ['', '-journal', '-wal', '-shm']) rmSync(`${this.file}${suffix}`, { force: true });
+    if (this.fd !== null) closeSync(this.fd);
+    this.fd = null;
+    rmSync(this.file, { force: true });
   }
 }
 
 /** Staging goes beside the database (same disk, and not a memory-backed /tmp), or to the temporary folder for one in memory. */
 const stagingDirOf = (db: Db) => (db.$client.memory ? tmpdir() : path.dirname(path.resolve(db.$client.name)));
-
-/**
- * Copies the staged rows into the dive's log inside the caller's transaction. The staging file
- * is attached under a name of its own (ATTACH cannot run inside a transaction, so the caller
- * attaches first, see `withStaging`).
- */
-function copyStaged(db: Db, schema: string, diveId: string): void {
-  db.$client
-    .prepare(
-      `insert into telemetry_samples (dive_id, t, ${STORED_CHANNELS.join(', ')})
-       select ?, t, ${STORED_CHANNELS.join(', ')} from ${schema}.samples order by rowid`,
-    )
-    .run(diveId);
-}
-
-/** Runs `work` with the staging file attached to the server's connection, and detaches it after. */
-function withStaging<T>(db: Db, staged: StagedRows, work: (schema: string) => T): T {
-  const schema = `staged_${randomUUID().replace(/-/g, '')}`;
-  db.$client.prepare(`attach database ? as ${schema}`).run(staged.file);
-  try {
-    return work(schema);
-  } finally {
-    db.$client.exec(`detach database ${schema}`);
-  }
-}
 
 /**
  * Imports one log file into a dive: replaces its log or adds to it, re-stamps its entries from
@@ -659,31 +673,29 @@ async function importStaged(
     importedAt: importedAt.toISOString(),
   };
 
-  withStaging(db, staged, (schema) =>
-    live.withEvents((_tx, stage) => {
-      if (fields.mode === 'replace') db.$client.prepare('delete from telemetry_samples where dive_id = ?').run(req.diveId);
-      copyStaged(db, schema, req.diveId);
-      // The log in memory, if any, is no longer the stored one (dropped again if this rolls back: it is only a cache).
-      forgetLog(db, req.diveId);
-      const result = stampDiveFromStoredLog(db, req.diveId, facts.gapMs);
-      report.stamped = { updated: result.changed.length, noTelemetry: result.noTelemetry };
-      db.insert(telemetryImports)
-        .values({
-          id: importId,
-          diveId: req.diveId,
-          fileName: req.fileName,
-          mode: fields.mode,
-          rowsTaken,
-          rowsRejected: parsed.rowsRejected,
-          firstAt: new Date(firstMs),
-          lastAt: new Date(lastMs),
-          report,
-          importedBy: req.userId,
-          importedAt,
-        })
-        .run();
-      announceStamped(stage, facts.campaignId, req.diveId, result.changed);
-    }),
-  );
+  live.withEvents((_tx, stage) => {
+    if (fields.mode === 'replace') db.$client.prepare('delete from telemetry_samples where dive_id = ?').run(req.diveId);
+    staged.copyInto(db, req.diveId);
+    // The log in memory, if any, is no longer the stored one (dropped again if this rolls back: it is only a cache).
+    forgetLog(db, req.diveId);
+    const result = stampDiveFromStoredLog(db, req.diveId, facts.gapMs);
+    report.stamped = { updated: result.changed.length, noTelemetry: result.noTelemetry };
+    db.insert(telemetryImports)
+      .values({
+        id: importId,
+        diveId: req.diveId,
+        fileName: req.fileName,
+        mode: fields.mode,
+        rowsTaken,
+        rowsRejected: parsed.rowsRejected,
+        firstAt: new Date(firstMs),
+        lastAt: new Date(lastMs),
+        report,
+        importedBy: req.userId,
+        importedAt,
+      })
+      .run();
+    announceStamped(stage, facts.campaignId, req.diveId, result.changed);
+  });
   return report;
 }
