@@ -86,6 +86,7 @@ export const errorCodes = [
   'headers_too_large',
   'internal',
   'starting',
+  'ship_unreachable',
 ] as const;
 export const errorCodeSchema = z.enum(errorCodes);
 export type ErrorCode = z.infer<typeof errorCodeSchema>;
