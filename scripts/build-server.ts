@@ -17,6 +17,8 @@ export const SERVER_BUNDLE = path.join(root, 'build', 'server.cjs');
 /** Entry points and the bundle each becomes; the server's is renamed into place last. */
 const ENTRIES: [string, string][] = [
   [path.join(root, 'server', 'prepare-database.ts'), path.join(root, 'build', 'prepare-database.cjs')],
+  // What npm start runs: the server itself, or Litestream running it when the record is replicated.
+  [path.join(root, 'scripts', 'start.ts'), path.join(root, 'build', 'start.cjs')],
   [path.join(root, 'server', 'index.ts'), SERVER_BUNDLE],
 ];
 
