@@ -174,12 +174,17 @@ export function measure(input: MeasureInput): MeasureResult {
   return { value, unit: measurementUnits.area, uncertainty: Math.sqrt(variance), scaleCmPerPx: scale, laserDistancePx: d };
 }
 
+/** Decimals that show an uncertainty to one significant figure (two when it starts with 1); 1 when there is none. */
+export function decimalsFor(uncertainty: number): number {
+  if (!(uncertainty > 0)) return 1;
+  const magnitude = Math.floor(Math.log10(uncertainty));
+  const leading = uncertainty / 10 ** magnitude;
+  return Math.max(0, -(magnitude - (leading < 2 ? 1 : 0)));
+}
+
 /** "30.0 ± 0.9 cm": the uncertainty to one significant figure (two when it starts with 1), the value to match. */
 export function formatMeasurement(m: { value: number; uncertainty: number; unit: string }): string {
-  const u = m.uncertainty;
-  if (!(u > 0)) return `${m.value.toFixed(1)} ${m.unit}`;
-  const magnitude = Math.floor(Math.log10(u));
-  const leading = u / 10 ** magnitude;
-  const decimals = Math.max(0, -(magnitude - (leading < 2 ? 1 : 0)));
-  return `${m.value.toFixed(decimals)} ± ${u.toFixed(decimals)} ${m.unit}`;
+  const decimals = decimalsFor(m.uncertainty);
+  if (!(m.uncertainty > 0)) return `${m.value.toFixed(decimals)} ${m.unit}`;
+  return `${m.value.toFixed(decimals)} ± ${m.uncertainty.toFixed(decimals)} ${m.unit}`;
 }

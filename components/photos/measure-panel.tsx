@@ -107,8 +107,13 @@ export function MeasurePanel({ photo, observation, draft, placementPx, dispatch,
           testID="measure-kind"
         />
         <View style={styles.spacing}>
+          {/* The viewer is dark whatever the theme, so the label is drawn here in the viewer's colours. */}
+          <Text variant="label" color={dark.text}>
+            Laser spacing (cm)
+          </Text>
           <Field
             label="Laser spacing (cm)"
+            hideLabel
             value={spacingText}
             onChangeText={setSpacingText}
             keyboardType="decimal-pad"
@@ -158,5 +163,5 @@ const styles = StyleSheet.create({
   panel: { gap: space.sm, padding: space.md },
   wrap: { flexShrink: 1 },
   row: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'flex-end', gap: space.sm },
-  spacing: { width: 160 },
+  spacing: { width: 160, gap: space.xs },
 });

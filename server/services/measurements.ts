@@ -6,7 +6,7 @@ import { and, asc, eq } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../db/client';
 import { observationSizes, observations, photoMeasurements, photos, user } from '../../db/schema';
-import { measure, MeasureError } from '../../lib/laser-scale';
+import { decimalsFor, measure, MeasureError } from '../../lib/laser-scale';
 import type { Measurement, MeasurementCreate } from '../../lib/schemas';
 import { ApiError, notFound } from '../errors';
 import { assertCan, type CampaignAccess } from '../middleware/campaign-access';
@@ -61,8 +61,8 @@ export function requireMeasurer(db: Executor, access: CampaignAccess, photoId: s
   requireEntryEditor(access, livePhotoEntry(db, photoId).authorId);
 }
 
-/** Lengths in the entry's sizes are kept to 0.01 cm, well inside any laser measurement's uncertainty. */
-const sizeCm = (value: number) => Math.round(value * 100) / 100;
+/** A length goes into the entry's sizes as shown, to the figures its uncertainty allows. */
+const sizeCm = (value: number, uncertainty: number) => Number(value.toFixed(decimalsFor(uncertainty)));
 
 export function createMeasurement(db: Db, live: LiveHub, access: CampaignAccess, photoId: string, input: MeasurementCreate): Measurement {
   const entry = livePhotoEntry(db, photoId);
@@ -95,7 +95,7 @@ export function createMeasurement(db: Db, live: LiveHub, access: CampaignAccess,
       .returning()
       .get();
     // Sizes belong to biology entries; there the newest length measured is the entry's length.
-    const valueCm = sizeCm(result.value);
+    const valueCm = sizeCm(result.value, result.uncertainty);
     if (input.kind === 'length' && entry.kind === 'biology' && valueCm > 0 && valueCm <= 100_000) {
       tx.insert(observationSizes)
         .values({ observationId: entry.photo.observationId, dimension: 'length', valueCm, method: 'measured' })

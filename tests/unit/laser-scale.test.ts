@@ -314,5 +314,7 @@ describe('formatMeasurement', () => {
     expect(formatMeasurement({ value: 30, uncertainty: 0.894427, unit: 'cm' })).toBe('30.0 ± 0.9 cm');
     expect(formatMeasurement({ value: 100, uncertainty: 6.3246, unit: 'cm²' })).toBe('100 ± 6 cm²');
     expect(formatMeasurement({ value: 7.0123, uncertainty: 0.15, unit: 'cm' })).toBe('7.01 ± 0.15 cm');
+    expect(formatMeasurement({ value: 1234.5, uncertainty: 23, unit: 'cm²' })).toBe('1235 ± 23 cm²');
+    expect(formatMeasurement({ value: 7, uncertainty: 0, unit: 'cm' })).toBe('7.0 cm');
   });
 });
