@@ -38,3 +38,13 @@ export function useTheme(): ThemeValue {
   if (!v) throw new Error('useTheme outside ThemeProvider');
   return v;
 }
+
+/**
+ * Holds a part of the screen to one scheme whatever the reader chose: the printable report is
+ * always light, so it reads like the paper it prints on.
+ */
+export function FixedScheme({ scheme, children }: { scheme: 'light' | 'dark'; children: ReactNode }) {
+  const outer = useTheme();
+  const value = useMemo(() => ({ ...outer, scheme, colors: palettes[scheme] }), [outer, scheme]);
+  return <ThemeContext.Provider value={value}>{children}</ThemeContext.Provider>;
+}

@@ -99,6 +99,14 @@ export function DiveSummaryView({ diveId }: { diveId: string }) {
         <RecordingSettings dive={dive.data} mayEdit={false} />
       </Card>
       <ImportHistory imports={samples.data.imports} />
+      <Button
+        label="Dive report"
+        tone="secondary"
+        accessibilityRole="link"
+        testID="summary-dive-report"
+        style={styles.link}
+        onPress={() => router.push(`/dives/${diveId}/report`)}
+      />
       {maySet ? (
         <Button
           label="Dive settings"

@@ -2,9 +2,10 @@
  * The daily dive report: one dive, or every dive of a day in the campaign's display zone, read
  * from the record in one answer so the report screen can lay it out for reading and printing.
  */
+import { DateTime } from 'luxon';
 import { z } from 'zod';
 
-import { diveSchema, observationKinds } from './core';
+import { diveSchema, observationKinds, type Dive } from './core';
 import { photoSchema } from './photos';
 import { findStates } from './record';
 import { sampleRowSchema } from './samples';
@@ -19,6 +20,15 @@ export const reportDateSchema = z
     const d = new Date(`${s}T00:00:00Z`);
     return !Number.isNaN(d.getTime()) && d.toISOString().startsWith(s);
   }, 'Not a date on the calendar');
+
+/** The instant that places a dive on a day: its launch, else its planned start, else when it was made. */
+export const diveAnchor = (dive: Dive) => dive.phases.launch ?? dive.plannedStartAt ?? dive.createdAt;
+
+/** The calendar day (YYYY-MM-DD) of an instant in a time zone. */
+export const dayInZone = (iso: string, zone: string) => DateTime.fromISO(iso, { zone: 'utc' }).setZone(zone).toISODate() ?? '';
+
+/** The day a dive's report falls on, in the campaign's display zone. */
+export const diveDay = (dive: Dive, zone: string) => dayInZone(diveAnchor(dive), zone);
 
 export const reportHeaderSchema = z.object({
   campaignId: z.string(),

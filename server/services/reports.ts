@@ -9,7 +9,16 @@ import { DateTime } from 'luxon';
 
 import type { Db } from '../../db/client';
 import { campaigns, custodyEvents, finds, observations } from '../../db/schema';
-import { observationKinds, type Dive, type DiveReportPart, type Report, type ReportHeader, type ReportWatch } from '../../lib/schemas';
+import {
+  diveAnchor,
+  diveDay,
+  observationKinds,
+  type Dive,
+  type DiveReportPart,
+  type Report,
+  type ReportHeader,
+  type ReportWatch,
+} from '../../lib/schemas';
 import { notFound } from '../errors';
 import { listDives, getDive } from './dives';
 import { FAULT_TAG } from './handovers';
@@ -33,11 +42,6 @@ function headerOf(db: Db, campaignId: string): ReportHeader {
     timeZone: c.timeZone,
   };
 }
-
-/** The instant that places a dive on a day: its launch, else its planned start, else when it was made. */
-const anchorOf = (dive: Dive) => dive.phases.launch ?? dive.plannedStartAt ?? dive.createdAt;
-
-export const dayOf = (iso: string, zone: string) => DateTime.fromISO(iso, { zone: 'utc' }).setZone(zone).toISODate() ?? '';
 
 /** Midnight to midnight of `date` in `zone`, as instants (a daylight-saving day is 23 or 25 hours). */
 export function dayBounds(date: string, zone: string): { from: Date; to: Date } {
@@ -96,7 +100,7 @@ function divePart(db: Db, dive: Dive, zone: string): DiveReportPart {
   const photos = photosOf(db, ids);
   return {
     dive,
-    date: dayOf(anchorOf(dive), zone),
+    date: diveDay(dive, zone),
     summary: diveSummary(db, dive.id),
     entries: observationKinds
       .map((kind) => ({
@@ -165,8 +169,8 @@ export function diveReport(db: Db, diveId: string, now = new Date()): Report {
 export function dayReport(db: Db, campaignId: string, date: string, now = new Date()): Report {
   const header = headerOf(db, campaignId);
   const dives = listDives(db, campaignId)
-    .filter((d) => dayOf(anchorOf(d), header.timeZone) === date)
-    .sort((a, b) => anchorOf(a).localeCompare(anchorOf(b)) || a.number.localeCompare(b.number));
+    .filter((d) => diveDay(d, header.timeZone) === date)
+    .sort((a, b) => diveAnchor(a).localeCompare(diveAnchor(b)) || a.number.localeCompare(b.number));
   const { from, to } = dayBounds(date, header.timeZone);
   return {
     scope: 'day',

@@ -28,6 +28,20 @@ export default function CampaignScreen() {
       />
       <Button label="Taxa" tone="secondary" compact testID="campaign-taxa" onPress={() => router.push(`/campaigns/${campaignId}/taxa`)} />
       <Button
+        label="Watches"
+        tone="secondary"
+        compact
+        testID="campaign-watches"
+        onPress={() => router.push(`/campaigns/${campaignId}/watches`)}
+      />
+      <Button
+        label="Daily report"
+        tone="secondary"
+        compact
+        testID="campaign-report"
+        onPress={() => router.push(`/campaigns/${campaignId}/report`)}
+      />
+      <Button
         label="Exports"
         tone="secondary"
         compact
