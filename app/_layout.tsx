@@ -10,7 +10,7 @@ import { LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
 import { ToastProvider } from '@/components/ui/toast';
 import { ApiError } from '@/hooks/api';
-import { useAppFonts } from '@/hooks/fonts';
+import { useAppFonts, useOwnFaces } from '@/hooks/fonts';
 import { afterRestore, lastAnswerAt, offlineCacheOptions, useForgetWhenSignedOut, useOnline } from '@/hooks/offline-cache';
 import { registerServiceWorker } from '@/hooks/service-worker';
 import { useMe } from '@/hooks/session';
@@ -49,8 +49,14 @@ function Gate() {
   const online = useOnline();
   const { scheme, colors } = useTheme();
   useForgetWhenSignedOut(qc);
-  if (me.isPending) return <LoadingState label="Opening Bathynote…" />;
   const signedIn = !!me.data;
+  useOwnFaces(signedIn);
+  // The offline copy is set up once someone is signed in: a cold sign-in screen over a thin link
+  // then moves only what it shows, and the copy's downloads follow behind the dive log.
+  useEffect(() => {
+    if (signedIn) registerServiceWorker();
+  }, [signedIn]);
+  if (me.isPending) return <LoadingState label="Opening Bathynote…" />;
   return (
     <View style={{ flex: 1 }}>
       <StatusBar style={scheme === 'dark' ? 'light' : 'dark'} />
@@ -76,7 +82,6 @@ export default function RootLayout() {
   const [queryClient] = useState(makeQueryClient);
   const [cacheOptions] = useState(offlineCacheOptions);
   const fontsReady = useAppFonts();
-  useEffect(registerServiceWorker, []);
   if (!fontsReady) return null;
   return (
     <SafeAreaProvider>

@@ -14,3 +14,6 @@ export function useAppFonts(): boolean {
   const [loaded, error] = useFonts({ PublicSans_400Regular, PublicSans_600SemiBold, PublicSans_700Bold, SpaceMono_400Regular });
   return loaded || !!error;
 }
+
+/** The TrueType faces are part of the app here, loaded before the first screen (fonts.web.ts waits for sign-in). */
+export function useOwnFaces(_signedIn: boolean): void {}

@@ -1,10 +1,13 @@
 /**
  * The app's fonts in a browser: WOFF2 files cut to the characters the app writes
  * (scripts/fonts-woff2.ts), declared as `@font-face` rules. A browser fetches a face only when
- * some text on the page first uses it, so the sign-in screen never waits for the monospace face,
- * and `font-display: swap` draws the text at once in a stand-in font while a face is on its way
- * over a slow link, instead of holding the first screen back for every font.
+ * some text on the page first uses it, and `font-display: swap` draws the text at once in a
+ * stand-in font while a face is on its way over a slow link.
+ * Before anyone signs in, the faces are the device's own sans-serif fonts under the app's family
+ * names: the three Public Sans faces are a sixth of what a cold sign-in screen moves over a
+ * satellite link, so they are declared only once someone is signed in.
  */
+import { useEffect } from 'react';
 import { Asset } from 'expo-asset';
 
 import PublicSans_400Regular from '@/assets/fonts/PublicSans_400Regular.woff2';
@@ -13,31 +16,55 @@ import PublicSans_700Bold from '@/assets/fonts/PublicSans_700Bold.woff2';
 import SpaceMono_400Regular from '@/assets/fonts/SpaceMono_400Regular.woff2';
 import type { fonts } from '@/lib/tokens';
 
-const faces: Record<(typeof fonts)[keyof typeof fonts], number> = {
+type Family = (typeof fonts)[keyof typeof fonts];
+
+const faces: Record<Family, number> = {
   PublicSans_400Regular,
   PublicSans_600SemiBold,
   PublicSans_700Bold,
   SpaceMono_400Regular,
 };
 
+/** The device's fonts that stand in before sign-in, by weight (local() names as fonts publish them). */
+const standIns: Record<Family, string[]> = {
+  PublicSans_400Regular: ['Arial', 'ArialMT', 'Helvetica', 'Roboto', 'Liberation Sans', 'DejaVu Sans'],
+  PublicSans_600SemiBold: ['Arial Bold', 'Arial-BoldMT', 'Helvetica Bold', 'Roboto Medium', 'Liberation Sans Bold', 'DejaVu Sans Bold'],
+  PublicSans_700Bold: ['Arial Bold', 'Arial-BoldMT', 'Helvetica Bold', 'Roboto Bold', 'Liberation Sans Bold', 'DejaVu Sans Bold'],
+  SpaceMono_400Regular: ['Courier New', 'Menlo', 'Roboto Mono', 'Liberation Mono', 'DejaVu Sans Mono'],
+};
+
 const STYLE_ID = 'bathynote-fonts';
 
-function declareFaces() {
-  if (typeof document === 'undefined' || document.getElementById(STYLE_ID)) return;
-  const style = document.createElement('style');
-  style.id = STYLE_ID;
-  style.textContent = Object.entries(faces)
-    .map(
-      ([family, asset]) =>
-        `@font-face{font-family:${JSON.stringify(family)};src:url(${JSON.stringify(Asset.fromModule(asset).uri)}) format("woff2");font-display:swap}`,
-    )
+function declareFaces(own: boolean) {
+  if (typeof document === 'undefined') return;
+  let style = document.getElementById(STYLE_ID);
+  if (style?.dataset.own === 'true' || (style && !own)) return;
+  if (!style) {
+    style = document.createElement('style');
+    style.id = STYLE_ID;
+    document.head.appendChild(style);
+  }
+  style.dataset.own = String(own);
+  style.textContent = (Object.keys(faces) as Family[])
+    .map((family) => {
+      const src = own
+        ? `url(${JSON.stringify(Asset.fromModule(faces[family]).uri)}) format("woff2")`
+        : standIns[family].map((name) => `local(${JSON.stringify(name)})`).join(',');
+      return `@font-face{font-family:${JSON.stringify(family)};src:${src};font-display:swap}`;
+    })
     .join('\n');
-  document.head.appendChild(style);
 }
 
-declareFaces();
+declareFaces(false);
 
 /** Always true: nothing waits for a font in a browser. */
 export function useAppFonts(): boolean {
   return true;
+}
+
+/** The app's own faces from the first time someone is signed in on this page (stand-ins until then). */
+export function useOwnFaces(signedIn: boolean): void {
+  useEffect(() => {
+    if (signedIn) declareFaces(true);
+  }, [signedIn]);
 }
