@@ -11,6 +11,31 @@ export type MeasureDraft = {
   cursor: Point;
 };
 
+/** Where a photo shown whole ("contain") sits in a box, and how much it is scaled. */
+export function containedRect(box: { width: number; height: number }, image: { width: number; height: number }) {
+  const scale = Math.min(box.width / image.width, box.height / image.height);
+  return {
+    scale,
+    left: (box.width - image.width * scale) / 2,
+    top: (box.height - image.height * scale) / 2,
+  };
+}
+
+/** A point on the screen (relative to the box) as a point of the original photo; null off the photo. */
+export function toOriginal(
+  at: { x: number; y: number },
+  box: { width: number; height: number },
+  image: { width: number; height: number },
+): Point | null {
+  const r = containedRect(box, image);
+  if (!(r.scale > 0)) return null;
+  const x = (at.x - r.left) / r.scale;
+  const y = (at.y - r.top) / r.scale;
+  if (x < 0 || y < 0 || x > image.width || y > image.height) return null;
+  // Tenths of a pixel are finer than any hand places a point; they keep the numbers short.
+  return [Math.round(x * 10) / 10, Math.round(y * 10) / 10];
+}
+
 export type DraftAction =
   | { type: 'place'; at: Point }
   | { type: 'placeAtCursor' }
