@@ -37,6 +37,7 @@ import { matchesSearch } from './log-rows';
 import { PhaseControls } from './phase-controls';
 import { DivePlanForm } from './dive-plan-form';
 import { QuickMarkBar } from './quick-mark-bar';
+import { DiveWatch } from '@/components/watches/dive-watch';
 
 /** A dive: its phases and its live log, with the selected entry beside the list on wide screens. */
 export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: string }) {
@@ -121,6 +122,7 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
   const header = dive.data ? (
     <View style={styles.listHeader}>
       <DivePhases dive={dive.data} />
+      {campaign.data ? <DiveWatch campaignId={dive.data.campaignId} timeZone={campaign.data.timeZone} /> : null}
       {dive.data.phases.onDeck ? (
         <Text variant="label" testID="dive-ended">
           Dive ended {formatUtcTime(dive.data.phases.onDeck).replace(/:\d\dZ$/, '')} UTC — logging from video
