@@ -35,6 +35,13 @@ export default function CampaignScreen() {
         onPress={() => router.push(`/campaigns/${campaignId}/watches`)}
       />
       <Button
+        label="Daily report"
+        tone="secondary"
+        compact
+        testID="campaign-report"
+        onPress={() => router.push(`/campaigns/${campaignId}/report`)}
+      />
+      <Button
         label="Exports"
         tone="secondary"
         compact
