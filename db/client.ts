@@ -28,7 +28,46 @@ export function openDatabase(file: string): Db {
   sqlite.pragma('foreign_keys = ON');
   sqlite.pragma('busy_timeout = 5000');
   sqlite.pragma('synchronous = FULL');
-  return drizzle(sqlite, { schema });
+  const db = drizzle(sqlite, { schema });
+  (db as unknown as { session: { client: Database.Database } }).session.client = reusingStatements(sqlite);
+  return db;
+}
+
+/** Statements the query builder keeps prepared, the least recently used dropped first. */
+const REUSED_STATEMENTS = 500;
+
+/**
+ * The connection as the query builder sees it: the same one, except that a statement it prepares
+ * is kept and handed out again for the same SQL. Preparing compiles the statement and every
+ * trigger on its table, which cost more than running most of them; a write request runs a dozen.
+ * Only the query builder's own statements are kept (`db.$client` prepares afresh), and each is
+ * handed out in the default row mode, which the builder switches per call.
+ */
+function reusingStatements(sqlite: Database.Database): Database.Database {
+  const kept = new Map<string, Database.Statement>();
+  const prepare = (source: string) => {
+    let stmt = kept.get(source);
+    if (stmt) {
+      kept.delete(source);
+      if (stmt.reader) stmt.raw(false);
+    } else {
+      stmt = sqlite.prepare(source);
+      if (kept.size >= REUSED_STATEMENTS) kept.delete(kept.keys().next().value!);
+    }
+    kept.set(source, stmt);
+    return stmt;
+  };
+  const bound = new Map<PropertyKey, unknown>();
+  return new Proxy(sqlite, {
+    get(target, key) {
+      if (key === 'prepare') return prepare;
+      const value: unknown = Reflect.get(target, key, target);
+      if (typeof value !== 'function') return value;
+      let fn = bound.get(key);
+      if (!fn) bound.set(key, (fn = (value as (...args: unknown[]) => unknown).bind(target)));
+      return fn;
+    },
+  });
 }
 
 export function migrateDatabase(db: Db): void {
