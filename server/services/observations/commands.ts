@@ -11,7 +11,7 @@ import { observations } from '../../../db/schema';
 import type { observationCreateSchema, observationUpdateSchema, Observation } from '../../../lib/schemas';
 import { ApiError, conflict, notFound } from '../../errors';
 import type { LiveHub } from '../live';
-import { getObservation, getObservationRow } from './hydrate';
+import { getObservation, getObservationRow, hydrate } from './hydrate';
 import type { Actor, ObservationRow } from './map';
 import { recordColumns, writeSizes } from './record-fields';
 import { recordChange, writeRevision } from './revisions';
@@ -56,11 +56,11 @@ export function createObservation(
         createdAt: now,
         updatedAt: now,
       })
-      .returning({ id: observations.id })
+      .returning()
       .get();
     setTags(tx, row.id, target.campaignId, input.tags, true);
     writeSizes(tx, row.id, input.sizes);
-    const created = getObservation(tx, row.id)!;
+    const created = hydrate(tx, [row], { fresh: true })[0]!;
     // A new entry has no identification, find, photos or custody yet.
     writeRevision(tx, { ...created, identificationDetail: null, find: null }, 1, 'created', target.authorId, now);
     stage(target.campaignId, target.diveId, 'observation.created', created, now);

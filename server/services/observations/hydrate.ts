@@ -119,27 +119,34 @@ function photoCountsOf(db: Executor, ids: readonly string[]): Map<string, number
   );
 }
 
-/** Tags, names, photo counts, identifications and find numbers for a batch of rows, a query each. */
-export function hydrate(db: Executor, rows: ObservationRow[]): Observation[] {
+/**
+ * Tags, names, photo counts, identifications and find numbers for a batch of rows, a query each.
+ * `fresh`: the rows were created in this transaction, so they have no photo, identification,
+ * find or sample yet, and those are not looked up.
+ */
+export function hydrate(db: Executor, rows: ObservationRow[], options: { fresh?: boolean } = {}): Observation[] {
   if (rows.length === 0) return [];
   const ids = rows.map((r) => r.id);
+  const fresh = options.fresh === true;
   const tagsBy = tagsOf(db, ids);
   const names = namesOf(
     db,
     rows.map((r) => r.authorId),
   );
-  const photoCounts = photoCountsOf(db, ids);
+  const photoCounts = fresh ? new Map<string, number>() : photoCountsOf(db, ids);
   const idents = new Map(
-    db
-      .select()
-      .from(identifications)
-      .where(inArray(identifications.observationId, ids))
-      .all()
-      .map((i) => [i.observationId, i]),
+    fresh
+      ? []
+      : db
+          .select()
+          .from(identifications)
+          .where(inArray(identifications.observationId, ids))
+          .all()
+          .map((i) => [i.observationId, i]),
   );
-  const findNumbers = findNumbersOf(db, ids);
+  const findNumbers = fresh ? new Map<string, string>() : findNumbersOf(db, ids);
   const outside = outsideDiveOf(db, rows);
-  const samplesBy = samplesOf(db, ids);
+  const samplesBy = fresh ? new Map<string, Sample>() : samplesOf(db, ids);
   const sizesBy = sizesOf(db, ids);
   const substrates = substrateNamesOf(db, rows);
   return rows.map((r) => {
