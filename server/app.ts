@@ -29,9 +29,14 @@ import { watchRoutes } from './routes/watches';
 import { telemetryRoutes } from './routes/telemetry';
 import { refusedLinkReason } from './services/invitation-links';
 import { webExport } from './services/web';
+import { forwardToShip } from './mirror/forward';
+import type { Mirror } from './mirror/mirror';
+import { keepRelayedEntries } from './mirror/overlay';
+import { mirrorStream } from './mirror/ship-stream';
 
 /** Builds the whole HTTP app: API, sign-in and the web export, on one origin. */
-export function createApp(ctx: AppContext): Express {
+export function createApp(ctx: AppContext, options: { mirror?: Mirror } = {}): Express {
+  const { mirror } = options;
   const { env, auth, log } = ctx;
   const app = express();
   app.disable('x-powered-by');
@@ -71,6 +76,8 @@ export function createApp(ctx: AppContext): Express {
   // better-auth reads the client address from this header only; set it from the socket (or the
   // configured proxy) so that a forged X-Forwarded-For cannot dodge the sign-in rate limit.
   app.use('/api', serverTiming);
+  // A shore mirror sends sign-in and every change to the ship before anything here reads the body.
+  if (mirror) app.use('/api', forwardToShip(mirror, ctx.db, env.PUBLIC_URL), keepRelayedEntries(mirror));
   app.use('/api/auth', (req, _res, next) => {
     req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
     next();
@@ -96,6 +103,7 @@ export function createApp(ctx: AppContext): Express {
 
   // Authorised by its signed link alone, posted by mail providers from their own servers.
   app.use('/api', unsubscribeRoutes(ctx));
+  app.get('/api/mirror/stream', mirrorStream(ctx));
   app.use('/api', sameOrigin(env.PUBLIC_URL));
   app.use('/api', express.json({ limit: '256kb' }));
   app.use(
@@ -111,7 +119,7 @@ export function createApp(ctx: AppContext): Express {
     }),
   );
   app.get('/api/health', (_req, res) => {
-    res.json({ ok: true, version: ctx.version });
+    res.json({ ok: true, version: ctx.version, ...(mirror ? { mirror: mirror.status() } : {}) });
   });
   app.use('/api', campaignRoutes(ctx), teamRoutes(ctx), diveRoutes(ctx), observationRoutes(ctx), telemetryRoutes(ctx), photoRoutes(ctx));
   app.use('/api', mailRoutes(ctx), digestRoutes(ctx));

@@ -37,6 +37,14 @@ const envSchema = z.object({
   MAIL_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(5),
   /** The wait before a mail's second attempt; each later wait is four times longer (30 s, 2 min, 8 min, 32 min). */
   MAIL_RETRY_BASE_MS: z.coerce.number().int().min(10).default(30_000),
+  /** Shore mirror: the ship's public URL; with REPLICA set, this server serves a restored copy of the ship's record. */
+  MIRROR_OF: z.url({ protocol: /^https?$/ }).optional(),
+  /** Shore mirror: the directory where the ship's replica arrives (`db/` from Litestream, `photos/` from rsync). */
+  REPLICA: z.string().min(1).optional(),
+  /** Shared by ship and mirror: the ship opens its stream of every dive's events to the holder of this key. */
+  MIRROR_KEY: z.string().min(16).optional(),
+  /** Shore mirror: how often the copy is restored from the replica. */
+  MIRROR_RESTORE_INTERVAL_MS: z.coerce.number().int().min(1000).default(15_000),
 });
 
 export type Env = z.infer<typeof envSchema> & {
@@ -53,6 +61,10 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
     throw new Error(`Invalid environment:\n${lines.join('\n')}`);
   }
   const env = parsed.data;
+  if ((env.MIRROR_OF === undefined) !== (env.REPLICA === undefined))
+    throw new Error('Invalid environment: a shore mirror needs both MIRROR_OF and REPLICA');
+  // A mirror serves the photos the ship's rsync passes bring, unless told otherwise.
+  if (env.REPLICA && source.UPLOADS_DIR === undefined) env.UPLOADS_DIR = path.join(env.REPLICA, 'photos');
   const dataDir = path.dirname(path.resolve(env.DATABASE_PATH));
   const host = env.HOST === '0.0.0.0' || env.HOST === '::' ? 'localhost' : env.HOST;
   return {
@@ -60,6 +72,7 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
     dataDir,
     AUTH_SECRET: env.AUTH_SECRET ?? persistentSecret(dataDir),
     PUBLIC_URL: (env.PUBLIC_URL ?? `http://${host}:${env.PORT}`).replace(/\/$/, ''),
+    MIRROR_OF: env.MIRROR_OF?.replace(/\/$/, ''),
   };
 }
 

@@ -11,6 +11,7 @@ import { loadEnv } from './env';
 import { errorBody } from './errors';
 import { createHttpServer } from './http-server';
 import { startDemoLive } from './services/demo-live';
+import { Mirror } from './mirror/mirror';
 import type { PrepareMessage, PreparedDatabase } from './prepare-database';
 
 /** Until the database is open and migrated, every request is told to come back in a moment. */
@@ -63,15 +64,25 @@ async function main() {
       resolve();
     });
   });
-  const prepared = await prepareDatabase();
+  // A shore mirror's record is the ship's, restored: it is neither migrated nor seeded here.
+  const mirror = env.MIRROR_OF && env.REPLICA ? new Mirror(mirrorSettings(env)) : undefined;
+  if (mirror) await mirror.prepare((line) => process.stdout.write(`  ${line}\n`));
+  const prepared: PreparedDatabase = mirror ? { seeded: false, observations: 0, demo: null } : await prepareDatabase();
   const ctx = await createContext(env, { migrate: false });
   if (prepared.seeded) ctx.log.info('seeded the demo campaigns', { observations: prepared.observations });
-  const app = createApp(ctx);
-  const demoLive = await startDemoLive(ctx);
+  if (mirror) {
+    // The ship sends the mail and the digests; the shore copy must not send them again.
+    ctx.digests.stop();
+    await ctx.mail.stop();
+    mirror.start(ctx.db, ctx.live, ctx.log);
+  }
+  const app = createApp(ctx, { mirror });
+  const demoLive = await startDemoLive(mirror ? { ...ctx, env: { ...env, BATHYNOTE_DEMO_LIVE: false } } : ctx);
   const lines = [
     '',
     `  Bathynote ${ctx.version} is running at ${env.PUBLIC_URL}`,
     `  database: ${env.DATABASE_PATH}   uploads: ${env.UPLOADS_DIR}`,
+    ...(mirror ? [`  shore copy of ${env.MIRROR_OF}, restored from ${env.REPLICA} every ${env.MIRROR_RESTORE_INTERVAL_MS / 1000} s`] : []),
     `  mail: ${ctx.mailer.catching ? 'caught by the built-in mail catcher (site administrators read it under Admin → Mail log)' : 'sent through SMTP_URL'}`,
   ];
   if (prepared.demo) {
@@ -89,6 +100,7 @@ async function main() {
 
   const shutdown = (signal: string) => {
     ctx.log.info('shutting down', { signal });
+    mirror?.stop();
     server.close(() => {
       void demoLive
         .stop()
@@ -101,6 +113,16 @@ async function main() {
   };
   process.on('SIGTERM', () => shutdown('SIGTERM'));
   process.on('SIGINT', () => shutdown('SIGINT'));
+}
+
+function mirrorSettings(env: ReturnType<typeof loadEnv>) {
+  return {
+    of: env.MIRROR_OF!,
+    replica: env.REPLICA!,
+    databasePath: env.DATABASE_PATH,
+    intervalMs: env.MIRROR_RESTORE_INTERVAL_MS,
+    key: env.MIRROR_KEY,
+  };
 }
 
 main().catch((err: unknown) => {

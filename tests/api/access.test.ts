@@ -296,6 +296,8 @@ const table: Record<string, Row> = {
   'POST /api/campaigns/:campaignId/digests': { expect: leadOnly, path: () => `/api/campaigns/${c()}/digests`, body: {} },
   // Anyone may post a one-click unsubscribe; a link that is not a signed one finds nothing.
   'POST /api/unsubscribe/:token': { expect: R(404, 404, 404, 404, 404, 404, 404), path: () => '/api/unsubscribe/not-a-token' },
+  // A shore mirror's stream of every dive's events: only the holder of MIRROR_KEY finds it; no person does.
+  'GET /api/mirror/stream': { expect: R(404, 404, 404, 404, 404, 404, 404), path: () => '/api/mirror/stream' },
 };
 
 function servedRoutes(app: Express): string[] {

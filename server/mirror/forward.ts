@@ -1,0 +1,88 @@
+import http from 'node:http';
+import https from 'node:https';
+
+import type { RequestHandler } from 'express';
+
+import type { Db } from '../../db/client';
+import { errorBody } from '../errors';
+import { sameOrigin } from '../middleware/same-origin';
+import { sessionCookieOf } from '../middleware/session';
+import type { Mirror } from './mirror';
+
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+const HOP_BY_HOP = new Set([
+  'connection',
+  'keep-alive',
+  'proxy-authenticate',
+  'proxy-authorization',
+  'te',
+  'trailer',
+  'transfer-encoding',
+  'upgrade',
+  'host',
+]);
+
+/** The token part of a signed session cookie (`token.signature`). */
+const tokenOf = (cookie: string) => cookie.slice(0, cookie.lastIndexOf('.') > 0 ? cookie.lastIndexOf('.') : cookie.length);
+
+/**
+ * On a mirror, what the shore copy cannot answer goes to the ship: sign-in and everything under
+ * `/api/auth`, every change (any method but GET and HEAD), and the reads of a session the copy
+ * does not know yet (just signed in on the ship) or that has just written something the copy
+ * does not hold yet. The cookie passes through both ways, so one session works on both. Nothing
+ * is queued: with the ship out of reach the answer is 502 `ship_unreachable`.
+ */
+export function forwardToShip(mirror: Mirror, db: Db, publicUrl: string): RequestHandler {
+  const ship = new URL(mirror.settings.of);
+  const checkOrigin = sameOrigin(publicUrl);
+  const knownSession = db.$client.prepare('select 1 from session where token = ? and expires_at > ?').pluck();
+  return (req, res, next) => {
+    const path = req.path;
+    if (path === '/health' || path.startsWith('/mirror/')) return next();
+    const cookie = sessionCookieOf(req.headers.cookie);
+    const token = cookie ? tokenOf(cookie) : undefined;
+    const write = !SAFE_METHODS.has(req.method);
+    const auth = path.startsWith('/auth/');
+    const toShip =
+      auth || write || (token !== undefined && (mirror.readsFromShip(token) || knownSession.get(token, Date.now()) === undefined));
+    if (!toShip) return next();
+    const send = () => {
+      if (write && token) mirror.noteWrite(token);
+      relay(ship, req, res);
+    };
+    if (write) checkOrigin(req, res, send);
+    else send();
+  };
+}
+
+function relay(ship: URL, req: Parameters<RequestHandler>[0], res: Parameters<RequestHandler>[1]): void {
+  const headers: http.OutgoingHttpHeaders = {};
+  for (const [name, value] of Object.entries(req.headers)) if (!HOP_BY_HOP.has(name) && value !== undefined) headers[name] = value;
+  // The ship checks that a change comes from its own origin; the mirror checked the shore's.
+  if (headers.origin) headers.origin = ship.origin;
+  delete headers.referer;
+  headers['x-forwarded-for'] = [req.get('x-forwarded-for'), req.socket.remoteAddress].filter(Boolean).join(', ');
+  const target = new URL(req.originalUrl, ship);
+  const upstream = (ship.protocol === 'https:' ? https : http).request(
+    target,
+    { method: req.method, headers, timeout: 30_000 },
+    (answer) => {
+      const out: http.OutgoingHttpHeaders = {};
+      for (const [name, value] of Object.entries(answer.headers)) if (!HOP_BY_HOP.has(name) && value !== undefined) out[name] = value;
+      res.writeHead(answer.statusCode ?? 502, out);
+      answer.pipe(res);
+    },
+  );
+  const fail = () => {
+    if (res.headersSent) return void res.destroy();
+    res
+      .status(502)
+      .json(
+        errorBody('ship_unreachable', 'The ship cannot be reached from the shore copy just now, so nothing was changed. Try again later.'),
+      );
+  };
+  upstream.on('timeout', () => upstream.destroy(new Error('timeout')));
+  upstream.on('error', fail);
+  req.on('aborted', () => upstream.destroy());
+  req.pipe(upstream);
+}

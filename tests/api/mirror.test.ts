@@ -1,0 +1,292 @@
+/**
+ * The shore mirror with a file replica between two real servers on this machine: Litestream
+ * replicates the ship's record into a folder, the shore (`MIRROR_OF`, `REPLICA`) restores it at
+ * an interval and relays the ship's live events over one upstream stream. The ship's address the
+ * shore uses runs through a small TCP relay of the test, so the link can be cut and restored.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { existsSync, mkdtempSync, renameSync, rmSync } from 'node:fs';
+import { createServer, connect, type Server, type Socket } from 'node:net';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+
+import Database from 'better-sqlite3';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+import { litestreamBinary } from '@/server/mirror/replicate';
+import { freePort, startServerProcess, type ServerProcess } from '../helpers/server-process';
+import { openSse } from '../helpers/sse';
+
+const work = mkdtempSync(path.join(tmpdir(), 'bathynote-mirror-'));
+const replica = path.join(work, 'replica');
+const secrets = { AUTH_SECRET: 'mirror-test-secret-mirror-test-secret-0123', MIRROR_KEY: 'mirror-key-for-the-tests-0123' };
+const RESTORE_MS = 2000;
+
+let ship: ServerProcess;
+let shore: ServerProcess;
+let litestream: ChildProcess | undefined;
+let link: { server: Server; sockets: Set<Socket>; port: number };
+let shipPublicUrl = '';
+let diveId = '';
+let otherDiveId = '';
+
+function startLitestream() {
+  litestream = spawn(litestreamBinary(), ['replicate', path.join(ship.dir, 'bathynote.db'), `file://${path.join(replica, 'db')}`], {
+    stdio: 'ignore',
+  });
+}
+
+async function stopLitestream() {
+  const child = litestream;
+  if (!child || child.exitCode !== null) return;
+  const exited = new Promise((r) => child.once('exit', r));
+  child.kill('SIGTERM');
+  await exited;
+}
+
+/** The link: a TCP relay from a port of its own to the ship, which the test can close and open. */
+async function openLink(port: number) {
+  const sockets = new Set<Socket>();
+  const shipPort = Number(new URL(ship.url).port);
+  const server = createServer((inbound) => {
+    const outbound = connect(shipPort, '127.0.0.1');
+    sockets.add(inbound).add(outbound);
+    inbound.pipe(outbound).pipe(inbound);
+    const end = () => {
+      inbound.destroy();
+      outbound.destroy();
+      sockets.delete(inbound);
+      sockets.delete(outbound);
+    };
+    inbound.on('error', end).on('close', end);
+    outbound.on('error', end).on('close', end);
+  });
+  await new Promise<void>((r) => server.listen(port, '127.0.0.1', r));
+  link = { server, sockets, port };
+}
+
+async function cutLink() {
+  await new Promise<void>((r) => {
+    link.server.close(() => r());
+    for (const s of link.sockets) s.destroy();
+  });
+}
+
+async function until<T>(what: string, check: () => Promise<T | undefined> | T | undefined, timeoutMs: number): Promise<T> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const found = await check();
+    if (found !== undefined) return found;
+    if (Date.now() > deadline) throw new Error(`${what}: not within ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+type Session = { cookie: string; call: <T = unknown>(path: string, method?: string, body?: unknown, expect?: number) => Promise<T> };
+
+/** Signs in with the demo's password at `url`; the session's calls go to the same address. */
+async function apiSignIn(url: string, email: string, origin = url): Promise<Session> {
+  const res = await fetch(`${url}/api/auth/sign-in/email`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', origin },
+    body: JSON.stringify({ email, password: 'bathynote-demo' }),
+  });
+  if (!res.ok) throw new Error(`sign-in as ${email} at ${url}: ${res.status} ${await res.text()}`);
+  const cookie = res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0]!)
+    .filter((c) => !c.endsWith('='))
+    .join('; ');
+  return {
+    cookie,
+    call: async <T>(p: string, method = 'GET', body?: unknown, expect?: number) => {
+      const answer = await fetch(`${url}${p}`, {
+        method,
+        headers: { cookie, origin, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+        ...(body === undefined ? {} : { body: JSON.stringify(body) }),
+      });
+      const text = await answer.text();
+      if (expect === undefined ? !answer.ok : answer.status !== expect) throw new Error(`${method} ${p}: ${answer.status} ${text}`);
+      return (text ? JSON.parse(text) : undefined) as T;
+    },
+  };
+}
+
+/** Reads the shore's own database file (what its restored copy holds). */
+function shoreHolds(query: string, ...params: unknown[]): number {
+  const db = new Database(path.join(shore.dir, 'bathynote.db'), { readonly: true });
+  try {
+    return (
+      (db
+        .prepare(query)
+        .pluck()
+        .get(...params) as number) ?? 0
+    );
+  } finally {
+    db.close();
+  }
+}
+
+const entryCount = (title: string) => shoreHolds('select count(*) from observations where title = ?', title);
+
+/** Signs in through the shore and waits until the restored copy holds that session. */
+async function shoreSession(email: string): Promise<Session> {
+  const session = await apiSignIn(shore.url, email);
+  const token = decodeURIComponent(/session_token=([^;]+)/.exec(session.cookie)![1]!).split('.')[0]!;
+  await until(
+    `session of ${email} in the shore copy`,
+    () => (shoreHolds('select count(*) from session where token = ?', token) ? true : undefined),
+    20_000,
+  );
+  return session;
+}
+
+async function health(url: string) {
+  return (await (await fetch(`${url}/api/health`)).json()) as { ok: boolean; mirror?: { of: string; lagSeconds: number; link: string } };
+}
+
+beforeAll(async () => {
+  // The ship's public address is the far end of the link, as a shore sees it.
+  const linkPort = await freePort();
+  shipPublicUrl = `http://127.0.0.1:${linkPort}`;
+  ship = await startServerProcess({ ...secrets, PUBLIC_URL: shipPublicUrl });
+  const db = new Database(path.join(ship.dir, 'bathynote.db'), { readonly: true });
+  const diveOf = (campaign: string, number: string) =>
+    db
+      .prepare('select d.id from dives d join campaigns c on c.id = d.campaign_id where c.name = ? and d.number = ?')
+      .pluck()
+      .get(campaign, number) as string;
+  diveId = diveOf('Varn Shoal 2026', 'VS-02');
+  otherDiveId = diveOf('Varn Shoal 2024', 'VS24-01');
+  db.close();
+  startLitestream();
+  await until('first snapshot in the replica', () => (existsSync(path.join(replica, 'db', 'generations')) ? true : undefined), 20_000);
+  await openLink(linkPort);
+  shore = await startServerProcess({
+    ...secrets,
+    MIRROR_OF: shipPublicUrl,
+    REPLICA: replica,
+    MIRROR_RESTORE_INTERVAL_MS: String(RESTORE_MS),
+  });
+}, 120_000);
+
+afterAll(async () => {
+  await stopLitestream();
+  await shore?.stop();
+  await ship?.stop();
+  link?.server.close();
+  rmSync(work, { recursive: true, force: true });
+});
+
+describe('shore mirror', () => {
+  it('says on /api/health that it is a mirror, of which ship, and how far behind', async () => {
+    // The stream from the ship opens a moment after the shore starts.
+    const answer = await until(
+      'link up',
+      async () => {
+        const h = await health(shore.url);
+        return h.mirror?.link === 'up' ? h : undefined;
+      },
+      10_000,
+    );
+    expect(answer.ok).toBe(true);
+    expect(answer.mirror).toMatchObject({ of: shipPublicUrl, link: 'up' });
+    expect(answer.mirror!.lagSeconds).toBeGreaterThanOrEqual(0);
+    expect(answer.mirror!.lagSeconds).toBeLessThan(30);
+    expect((await health(ship.url)).mirror).toBeUndefined();
+  });
+
+  it('relays an entry logged on the ship to every shore reader within 2 s, keeps it on refetch, then holds it in the restored copy', async () => {
+    const reader = await shoreSession('archaeologist@bathynote.test');
+    const streams = [0, 1].map(() => openSse(`${shore.url}/api/dives/${diveId}/stream`, { cookie: reader.cookie }));
+    for (const s of streams) await s.next((e) => e.event === 'ready', 10_000);
+    const lead = await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl);
+    const title = `Relayed ${Date.now()}`;
+    const sentAt = Date.now();
+    const entry = await lead.call<{ id: string }>(`/api/dives/${diveId}/observations`, 'POST', { kind: 'biology', title }, 201);
+    for (const s of streams) {
+      const e = await s.next((x) => x.event === 'observation.created' && x.data.includes(title), 2000);
+      expect(JSON.parse(e.data)).toMatchObject({ id: entry.id, title });
+    }
+    expect(Date.now() - sentAt).toBeLessThan(2000);
+    // A refetch right after the live event shows the entry, whether or not the copy holds it yet.
+    const page = await reader.call<{ items: { id: string }[] }>(`/api/dives/${diveId}/observations`);
+    expect(page.items.map((i) => i.id)).toContain(entry.id);
+    await until('entry in the restored copy', () => (entryCount(title) === 1 ? true : undefined), RESTORE_MS * 2 + 8000);
+    for (const s of streams) s.close();
+  }, 60_000);
+
+  it('lets a guest sign in and log an entry through the shore, and shows it to them at once', async () => {
+    const guest = await apiSignIn(shore.url, 'guest@bathynote.test');
+    const title = `From ashore ${Date.now()}`;
+    const entry = await guest.call<{ id: string; title: string }>(
+      `/api/dives/${diveId}/observations`,
+      'POST',
+      { kind: 'biology', title },
+      201,
+    );
+    expect(entry.title).toBe(title);
+    const page = await guest.call<{ items: { id: string }[] }>(`/api/dives/${diveId}/observations`);
+    expect(page.items.map((i) => i.id)).toContain(entry.id);
+    // It went to the ship, and comes back in the copy.
+    const onShip = await (
+      await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl)
+    ).call<{ title: string }>(`/api/observations/${entry.id}`);
+    expect(onShip.title).toBe(title);
+    await until('guest entry in the restored copy', () => (entryCount(title) === 1 ? true : undefined), RESTORE_MS * 2 + 8000);
+  }, 60_000);
+
+  it('answers an outsider 404 on the shore exactly as the ship does', async () => {
+    const outsider = await shoreSession('outsider@bathynote.test');
+    const onShore = await fetch(`${shore.url}/api/dives/${otherDiveId}`, { headers: { cookie: outsider.cookie } });
+    const onShip = await fetch(`${ship.url}/api/dives/${otherDiveId}`, { headers: { cookie: outsider.cookie } });
+    expect(onShore.status).toBe(404);
+    expect(onShip.status).toBe(404);
+    expect(await onShore.json()).toEqual(await onShip.json());
+  }, 60_000);
+
+  it('keeps serving through a cut link, says so, refuses writes plainly, and catches up with no entry lost', async () => {
+    const reader = await shoreSession('pilot@bathynote.test');
+    const lead = await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl);
+    const hidden = path.join(work, 'replica-away');
+    await stopLitestream();
+    renameSync(replica, hidden);
+    await cutLink();
+    const titles: string[] = [];
+    for (let i = 0; i < 3; i++) {
+      const title = `During the outage ${i} ${Date.now()}`;
+      await lead.call(`/api/dives/${diveId}/observations`, 'POST', { kind: 'biology', title }, 201);
+      titles.push(title);
+    }
+    await new Promise((r) => setTimeout(r, 4000));
+    const down = await health(shore.url);
+    expect(down.mirror!.link).toBe('down');
+    expect(down.mirror!.lagSeconds).toBeGreaterThanOrEqual(3);
+    // Reads are served from the copy; a write fails plainly, and nothing is queued.
+    const page = await reader.call<{ items: { title: string }[] }>(`/api/dives/${diveId}/observations`);
+    expect(page.items.length).toBeGreaterThan(0);
+    const refused = await fetch(`${shore.url}/api/dives/${diveId}/observations`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', cookie: reader.cookie, origin: shore.url },
+      body: JSON.stringify({ kind: 'biology', title: 'never stored' }),
+    });
+    expect(refused.status).toBe(502);
+    expect(((await refused.json()) as { error: { code: string } }).error.code).toBe('ship_unreachable');
+    for (const t of titles) expect(entryCount(t)).toBe(0);
+
+    renameSync(hidden, replica);
+    startLitestream();
+    await openLink(link.port);
+    for (const t of titles) await until(`"${t}" in the copy after the outage`, () => (entryCount(t) === 1 ? true : undefined), 30_000);
+    expect(entryCount('never stored')).toBe(0);
+    const up = await until(
+      'link up and lag small again',
+      async () => {
+        const h = await health(shore.url);
+        return h.mirror!.link === 'up' && h.mirror!.lagSeconds <= RESTORE_MS / 1000 + 5 ? h : undefined;
+      },
+      30_000,
+    );
+    expect(up.mirror!.link).toBe('up');
+  }, 120_000);
+});
