@@ -1,86 +1,49 @@
 /**
- * The ship's side of the shore copy over SSH, as at sea: a local sshd (Debian's OpenSSH server,
- * with its own host key, configuration and authorized key in a temporary folder, on a free port,
- * as the current user) stands for the shore machine. A ship server started with
- * `REPLICATE_TO=sftp://…` sends its record by Litestream's SFTP and its photos by rsync over ssh;
- * on the far side, `litestream restore` of the replica holds an entry logged through the API, and
- * the photo's files are there byte for byte.
+ * The ship's side of the shore copy over SSH, as at sea: a local sshd (tests/helpers/sshd.ts)
+ * stands for the shore machine. A ship server started with `REPLICATE_TO=sftp://…` sends its
+ * record by Litestream's SFTP and its photos by rsync over ssh; on the far side, `litestream
+ * restore` of the replica holds an entry logged through the API, and the photo's files are there
+ * byte for byte.
  */
-import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { userInfo, tmpdir } from 'node:os';
+import { execFileSync } from 'node:child_process';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir, userInfo } from 'node:os';
 import path from 'node:path';
 
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { filesUnder, logEntry, restoredWith, startShip } from '../helpers/replica';
-import { freePort, type ServerProcess } from '../helpers/server-process';
-
-const SSHD = '/usr/sbin/sshd';
-const haveSshd = existsSync(SSHD);
+import type { ServerProcess } from '../helpers/server-process';
+import { haveSshd, startSshd, type Sshd } from '../helpers/sshd';
 
 describe.skipIf(!haveSshd)(
   `ship to a shore machine over SSH${haveSshd ? '' : ' (skipped: /usr/sbin/sshd is missing; .ci/run installs openssh-server)'}`,
   () => {
     const work = mkdtempSync(path.join(tmpdir(), 'bathynote-ssh-'));
-    const keys = path.join(work, 'keys');
     const shore = path.join(work, 'shore');
-    let sshd: ChildProcess | undefined;
-    let sshdLog = '';
-    let port = 0;
+    let sshd: Sshd | undefined;
     let ship: ServerProcess | undefined;
 
     beforeAll(async () => {
-      mkdirSync(keys, { recursive: true });
       mkdirSync(shore, { recursive: true });
-      execFileSync('ssh-keygen', ['-q', '-t', 'ed25519', '-N', '', '-f', path.join(keys, 'host_key')]);
-      execFileSync('ssh-keygen', ['-q', '-t', 'ed25519', '-N', '', '-f', path.join(keys, 'ship_key')]);
-      writeFileSync(path.join(keys, 'authorized_keys'), readFileSync(path.join(keys, 'ship_key.pub')));
-      // As root, sshd wants its privilege-separation folder; as anyone else it runs without one.
-      if (process.getuid?.() === 0) mkdirSync('/run/sshd', { recursive: true });
-      port = await freePort();
-      writeFileSync(
-        path.join(keys, 'sshd_config'),
-        [
-          `Port ${port}`,
-          'ListenAddress 127.0.0.1',
-          `HostKey ${path.join(keys, 'host_key')}`,
-          `AuthorizedKeysFile ${path.join(keys, 'authorized_keys')}`,
-          `PidFile ${path.join(keys, 'sshd.pid')}`,
-          // The temporary folder's modes are the test's, not a home directory's.
-          'StrictModes no',
-          'UsePAM no',
-          'PasswordAuthentication no',
-          'KbdInteractiveAuthentication no',
-          'PubkeyAuthentication yes',
-          'PermitRootLogin prohibit-password',
-          'Subsystem sftp internal-sftp',
-          '',
-        ].join('\n'),
-      );
-      sshd = spawn(SSHD, ['-D', '-e', '-f', path.join(keys, 'sshd_config')], { stdio: ['ignore', 'ignore', 'pipe'] });
-      sshd.stderr?.on('data', (d: Buffer) => (sshdLog += d.toString()));
-      const deadline = Date.now() + 10_000;
-      while (!sshdLog.includes('Server listening')) {
-        if (sshd.exitCode !== null || Date.now() > deadline) throw new Error(`sshd did not start:\n${sshdLog}`);
-        await new Promise((r) => setTimeout(r, 100));
-      }
+      sshd = await startSshd(path.join(work, 'keys'));
     }, 30_000);
 
     afterAll(async () => {
       await ship?.stop();
       if (ship) rmSync(ship.dir, { recursive: true, force: true });
-      sshd?.kill('SIGTERM');
+      sshd?.stop();
       rmSync(work, { recursive: true, force: true });
     });
 
     it('sends the record by SFTP and the photos by rsync; the far side restores the entry', async () => {
+      const link = sshd!;
       const user = encodeURIComponent(userInfo().username);
       ship = await startShip({
-        REPLICATE_TO: `sftp://${user}@127.0.0.1:${port}${shore}`,
-        REPLICATE_SSH_KEY: path.join(keys, 'ship_key'),
-        REPLICATE_KNOWN_HOSTS: path.join(keys, 'known_hosts'),
+        REPLICATE_TO: `sftp://${user}@127.0.0.1:${link.port}${shore}`,
+        REPLICATE_SSH_KEY: link.shipKey,
+        REPLICATE_KNOWN_HOSTS: link.knownHosts,
         REPLICATE_PHOTOS_INTERVAL: '1',
       });
       const title = `Over the link ${Date.now()}`;
@@ -104,10 +67,10 @@ describe.skipIf(!haveSshd)(
       for (const key of [keysOf.t, keysOf.d, keysOf.o])
         expect(readFileSync(path.join(shore, 'photos', key)).equals(readFileSync(path.join(ship.dir, 'uploads', key)))).toBe(true);
       // Both went through this sshd: the ship's key was accepted for Litestream's SFTP and rsync's ssh.
-      expect(sshdLog).toMatch(/Accepted publickey/);
+      expect(link.log()).toMatch(/Accepted publickey/);
       // rsync's ssh recorded the shore's host key (ssh-keygen -F finds hashed entries too).
-      const known = execFileSync('ssh-keygen', ['-F', `[127.0.0.1]:${port}`, '-f', path.join(keys, 'known_hosts')], { encoding: 'utf8' });
-      expect(known).toContain(readFileSync(path.join(keys, 'host_key.pub'), 'utf8').split(' ')[1]);
+      const known = execFileSync('ssh-keygen', ['-F', `[127.0.0.1]:${link.port}`, '-f', link.knownHosts], { encoding: 'utf8' });
+      expect(known).toContain(link.hostKeyPub.split(' ')[1]);
     }, 120_000);
   },
 );
