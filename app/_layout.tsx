@@ -6,6 +6,7 @@ import { useEffect, useState } from 'react';
 import { View } from 'react-native';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 
+import { ShoreBanner } from '@/components/layout/shore-banner';
 import { LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
 import { ToastProvider } from '@/components/ui/toast';
@@ -60,6 +61,7 @@ function Gate() {
   return (
     <View style={{ flex: 1 }}>
       <StatusBar style={scheme === 'dark' ? 'light' : 'dark'} />
+      <ShoreBanner />
       {!online && signedIn ? <OfflineNotice /> : null}
       <Stack screenOptions={{ headerShown: false, contentStyle: { backgroundColor: colors.bg } }}>
         <Stack.Protected guard={signedIn}>
