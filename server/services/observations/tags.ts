@@ -100,8 +100,17 @@ function resolveTags(db: Executor, campaignId: string, names: string[], mode: { 
 }
 
 export function setTags(db: Executor, observationId: string, campaignId: string, names: string[], isNew = false) {
+  // A new entry has no tags yet: nothing to keep or take off.
+  if (isNew) {
+    const tagIds = resolveTags(db, campaignId, names, 'new');
+    if (tagIds.length > 0)
+      db.insert(observationTags)
+        .values(tagIds.map((tagId) => ({ observationId, tagId })))
+        .run();
+    return;
+  }
   const had = db.select({ id: observationTags.tagId }).from(observationTags).where(eq(observationTags.observationId, observationId)).all();
-  const tagIds = resolveTags(db, campaignId, names, isNew ? 'new' : { kept: new Set(had.map((t) => t.id)) });
+  const tagIds = resolveTags(db, campaignId, names, { kept: new Set(had.map((t) => t.id)) });
   db.delete(observationTags).where(eq(observationTags.observationId, observationId)).run();
   if (tagIds.length > 0)
     db.insert(observationTags)
