@@ -1,7 +1,8 @@
 import { EventEmitter } from 'node:events';
 
+import type { Statement } from 'better-sqlite3';
+
 import type { Db, Executor } from '../../db/client';
-import { liveEvents } from '../../db/schema';
 
 export type LiveEventType =
   'observation.created' | 'observation.updated' | 'observation.retired' | 'observation.restored' | 'dive.updated' | 'dive.restamped';
@@ -20,7 +21,9 @@ export type LiveEvent = {
 /** Records one event inside the change's transaction (see `LiveHub.withEvents`). */
 export type StageEvent = (campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at?: Date) => LiveEvent;
 
-export const sseFrame = (id: number, type: string, payload: unknown) => `id: ${id}\nevent: ${type}\ndata: ${JSON.stringify(payload)}\n\n`;
+export const sseFrame = (id: number, type: string, payload: unknown) => sseFrameOf(id, type, JSON.stringify(payload));
+/** The frame of an event whose payload is already JSON. */
+const sseFrameOf = (id: number, type: string, data: string) => `id: ${id}\nevent: ${type}\ndata: ${data}\n\n`;
 
 /**
  * The dive's live feed. Every change is written to `live_events` (so a reader who reconnects
@@ -52,7 +55,7 @@ export class LiveHub {
     try {
       result = this.db.transaction((tx) =>
         work(tx, (campaignId, diveId, type, payload, at = new Date()) => {
-          const event = this.write(tx, campaignId, diveId, type, payload, at);
+          const event = this.write(campaignId, diveId, type, payload, at);
           mine.push(event);
           return event;
         }),
@@ -112,9 +115,19 @@ export class LiveHub {
     group.forEach(({ settle }, i) => settle(outcomes[i]!));
   }
 
-  private write(db: Executor, campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at: Date): LiveEvent {
-    const row = db.insert(liveEvents).values({ campaignId, diveId, type, payload, at }).returning({ id: liveEvents.id }).get();
-    return { id: row.id, campaignId, diveId, type, payload, at, frame: sseFrame(row.id, type, payload) };
+  /** The event insert, prepared once: it runs on the transaction's own connection. */
+  private insertEvent: Statement<[string, string, string, string, number], number> | null = null;
+
+  private write(campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at: Date): LiveEvent {
+    this.insertEvent ??= this.db.$client
+      .prepare<[string, string, string, string, number], number>(
+        'insert into live_events (campaign_id, dive_id, type, payload, at) values (?, ?, ?, ?, ?) returning id',
+      )
+      .pluck();
+    // One serialisation serves the stored row and the frame every reader is sent.
+    const data = JSON.stringify(payload);
+    const id = this.insertEvent.get(campaignId, diveId, type, data, at.getTime())!;
+    return { id, campaignId, diveId, type, payload, at, frame: sseFrameOf(id, type, data) };
   }
 
   private emit(event: LiveEvent): void {
