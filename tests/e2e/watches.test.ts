@@ -1,0 +1,137 @@
+/**
+ * Watches in the browser: the lead sets a watch plan at a wide screen, the dive log shows who is on
+ * watch, and someone of the incoming watch acknowledges the handover on a phone.
+ */
+import path from 'node:path';
+
+import Database from 'better-sqlite3';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+import { openBrowser, pageApi, signInAs, viewports } from '../helpers/chromium';
+import { textPastEdges } from '../helpers/layout';
+import { startServerProcess, type ServerProcess } from '../helpers/server-process';
+
+let server: ServerProcess;
+
+beforeAll(async () => {
+  server = await startServerProcess();
+});
+afterAll(async () => {
+  await server?.stop();
+});
+
+type Turn = { name: string; start: string; end: string; members: { id: string; name: string }[] };
+
+async function demoCampaign(page: Page) {
+  const campaigns = await pageApi<{ id: string; name: string }[]>(page, '/api/campaigns');
+  const campaign = campaigns.find((c) => c.name === 'Varn Shoal 2026')!;
+  const dives = await pageApi<{ id: string; number: string }[]>(page, `/api/campaigns/${campaign.id}/dives`);
+  return { campaignId: campaign.id, diveId: dives.find((d) => d.number === 'VS-02')!.id };
+}
+
+describe('watches', () => {
+  it('lets the lead set a plan round the clock at a wide screen, and the dive log shows who is on watch', async () => {
+    const lead = await openBrowser(viewports.wide);
+    try {
+      const { page, errors } = lead;
+      await signInAs(page, server.url, 'lead@bathynote.test');
+      await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
+      await page.getByTestId('campaign-watches').click();
+      await page.getByTestId('watch-plan-editor').waitFor();
+      // Two watches cover the whole day, so whatever the time the pilot is on watch.
+      const watches: [string, string, string][] = [
+        ['Day watch', '08:00', '20:00'],
+        ['Night watch', '20:00', '08:00'],
+      ];
+      for (const [i, [name, start, end]] of watches.entries()) {
+        await page.getByTestId('watch-add').click();
+        await page.getByTestId(`watch-name-${i}`).fill(name);
+        await page.getByTestId(`watch-start-${i}`).fill(start);
+        await page.getByTestId(`watch-end-${i}`).fill(end);
+        await page.getByTestId(`watch-member-${i}-pilot@bathynote.test`).click();
+      }
+      await page.getByTestId('watch-member-1-biologist@bathynote.test').click();
+      await page.getByTestId('watch-mail').click();
+      await page.getByTestId('watch-save').click();
+      await page.getByTestId('watch-saved').waitFor();
+      expect(await page.getByTestId('on-watch').textContent()).toMatch(/On watch: (Day|Night) watch/);
+      expect(await page.getByTestId('on-watch-members').textContent()).toContain('Dev Pillai');
+
+      // An overlap is refused before it is sent.
+      await page.getByTestId('watch-end-0').fill('21:00');
+      expect(await page.getByTestId('watch-row-1').textContent()).toContain('overlaps');
+      expect(await page.getByTestId('watch-save').isDisabled()).toBe(true);
+
+      const { diveId } = await demoCampaign(page);
+      await page.goto(`${server.url}/dives/${diveId}`);
+      await page.getByTestId('on-watch').waitFor();
+      expect(await page.getByTestId('on-watch-members').textContent()).toContain('Dev Pillai');
+      expect(await textPastEdges(page)).toEqual([]);
+      expect(errors).toEqual([]);
+    } finally {
+      await lead.close();
+    }
+  });
+
+  it('shows the handover to the incoming watch on a phone, who acknowledges it', async () => {
+    const pilot = await openBrowser(viewports.phone);
+    try {
+      const { page, errors } = pilot;
+      await signInAs(page, server.url, 'pilot@bathynote.test');
+      const { campaignId, diveId } = await demoCampaign(page);
+      const plan = await pageApi<{ onWatch: Turn }>(page, `/api/campaigns/${campaignId}/watches`);
+      // The scheduler writes a note at the next change of watch; this one stands for the last change,
+      // written as it would have been, so the test need not wait hours for the clock.
+      const db = new Database(path.join(server.dir, 'bathynote.db'));
+      try {
+        db.pragma('busy_timeout = 5000');
+        const content = {
+          entries: { total: 2, byKind: { biology: 1, archaeology: 0, environment: 0, operations: 1 }, latest: [] },
+          openItems: [
+            {
+              kind: 'operations-fault',
+              observationId: 'none',
+              title: 'Manipulator jaw sticks',
+              detail: 'Operations entry marked as a fault',
+            },
+          ],
+          dive: null,
+        };
+        const outgoing = { ...plan.onWatch, name: 'Earlier watch', members: [] };
+        db.prepare(
+          'insert into handovers (id, campaign_id, change_at, outgoing, incoming, content, created_at) values (?, ?, ?, ?, ?, ?, ?)',
+        ).run(
+          crypto.randomUUID(),
+          campaignId,
+          Date.parse(plan.onWatch.start),
+          JSON.stringify(outgoing),
+          JSON.stringify(plan.onWatch),
+          JSON.stringify(content),
+          Date.now(),
+        );
+      } finally {
+        db.close();
+      }
+      await page.goto(`${server.url}/dives/${diveId}`);
+      const card = page.getByTestId('handover-card');
+      await card.waitFor();
+      expect(await card.textContent()).toContain('Manipulator jaw sticks');
+      // The note and the watch line fit the phone's width (the dive header's own buttons are not this test's).
+      for (const id of ['handover-card', 'on-watch']) {
+        const box = (await page.getByTestId(id).boundingBox())!;
+        expect(box.x).toBeGreaterThanOrEqual(0);
+        expect(box.x + box.width).toBeLessThanOrEqual(viewports.phone.width);
+      }
+      const past = await textPastEdges(page);
+      expect(past.filter((t) => /Manipulator|watch|Acknowledge|Open items/.test(t))).toEqual([]);
+      await page.getByTestId('handover-acknowledge').click();
+      await page.getByTestId('handover-acknowledged').waitFor();
+      expect(await page.getByTestId('handover-acknowledged').textContent()).toContain('Acknowledged by Dev Pillai');
+      expect(await page.getByTestId('on-watch-members').textContent()).toContain('Dev Pillai');
+      expect(errors).toEqual([]);
+    } finally {
+      await pilot.close();
+    }
+  });
+});
