@@ -32,7 +32,8 @@ export function PrintStyle({ paper, rootTestID }: { paper: PaperSize; rootTestID
     transform: none !important; background: #ffffff !important; padding: 0 !important; margin: 0 !important;
   }
   .${PATH} > :not(.${PATH}):not([data-testid="${rootTestID}"]) { display: none !important; }
-  [data-testid="${rootTestID}"] { width: 100% !important; max-width: none !important; }
+  [data-testid="${rootTestID}"] { width: 100% !important; max-width: none !important; padding: 0 !important; border: none !important; }
+  [data-testid="report-depth-profile"], [data-testid="report-site-plan"] { break-inside: avoid; page-break-inside: avoid; }
   [data-testid="report-controls"] { display: none !important; }
   [data-testid="${PAGE_BREAK}"] { display: block !important; break-before: page; page-break-before: always; }
   [data-testid="report-entry"], [data-testid="report-row"], svg { break-inside: avoid; page-break-inside: avoid; }

@@ -1,0 +1,190 @@
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+
+import sharp from 'sharp';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+
+import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { fixtureDivePhases, fixtureEntries } from '../helpers/fixtures';
+import { assertPoppler, pdfImageCount, pdfInfo, pdfPageTexts, pdfText } from '../helpers/pdf';
+import { startServerProcess, type ServerProcess } from '../helpers/server-process';
+
+let server: ServerProcess;
+let fixtures: E2eFixtures;
+let dir: string;
+
+const campaignName = 'Report print campaign 2026';
+const vessel = 'RV Test Swell';
+const vehicle = 'ROV Test Reach';
+const permit = 'PERMIT-T-0042';
+const faultTitle = 'Thruster 2 tripped';
+
+beforeAll(async () => {
+  assertPoppler();
+  server = await startServerProcess();
+  dir = mkdtempSync(path.join(tmpdir(), 'bathynote-e2e-report-'));
+  fixtures = await buildE2eFixtures(server.url, { campaignName, prefix: 'RP-', telemetry: true, entries: true });
+  const { lead, pilot, biologist } = fixtures.as;
+  await lead.call(`/api/campaigns/${fixtures.campaign}`, 'PATCH', { vessel, vehicle, permitRef: permit });
+  // An equipment fault logged by the pilot near the end of the bottom time.
+  await pilot.call(
+    `/api/dives/${fixtures.finished.id}/observations`,
+    'POST',
+    {
+      kind: 'operations',
+      title: faultTitle,
+      observedAt: new Date(fixtureDivePhases.offBottom.getTime() - 60_000).toISOString(),
+      tags: ['fault'],
+    },
+    201,
+  );
+  // One photo on the first biology entry.
+  const photo = await sharp({ create: { width: 320, height: 200, channels: 3, background: { r: 30, g: 90, b: 120 } } })
+    .png()
+    .toBuffer();
+  const first = fixtures.entries['White mat on the frames']!;
+  await biologist.upload(`/api/observations/${first.id}/photos`, 'photo', 'mat.png', photo, 201);
+  await lead.call(
+    `/api/campaigns/${fixtures.campaign}/watches`,
+    'PUT',
+    {
+      watches: [
+        { name: 'Day watch', start: '08:00', end: '20:00', memberIds: [await fixtures.userId('biologist@bathynote.test')] },
+        { name: 'Night watch', start: '20:00', end: '08:00', memberIds: [await fixtures.userId('archaeologist@bathynote.test')] },
+      ],
+    },
+    200,
+  );
+});
+afterAll(async () => {
+  await server?.stop();
+  if (dir) rmSync(dir, { recursive: true, force: true });
+});
+
+const signIn = (page: Page, email: string) => signInAs(page, server.url, email);
+
+async function openDiveReport(page: Page): Promise<void> {
+  await page.getByTestId('campaign-list').getByText(campaignName).click();
+  await page.getByTestId(`dive-${fixtures.finished.number}`).click();
+  await page.getByTestId('dive-report').click();
+  await page.getByTestId('report').waitFor();
+  await page.getByTestId('report-depth-profile').locator('svg').first().waitFor();
+  await page.getByTestId('report-photo').waitFor();
+}
+
+describe('the dive report at phone size', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await openBrowser(viewports.phone);
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('shows the header, the sections and the entries, and stays within the screen', async () => {
+    const { page } = browser;
+    await signIn(page, 'guest@bathynote.test');
+    await openDiveReport(page);
+    const header = await page.getByTestId('report-header').innerText();
+    for (const text of [campaignName, 'Test site', vessel, vehicle, permit, fixtures.finished.number, '2026-05-13'])
+      expect(header).toContain(text);
+    for (const id of ['dive', 'entries', 'finds', 'taxa', 'operations', 'watches'])
+      await page.getByTestId(`report-section-${id}`).waitFor();
+    expect(await page.getByTestId('report-entry').count()).toBe(fixtureEntries.length + 1);
+    const box = await page.getByTestId('report').boundingBox();
+    expect(box!.x + box!.width).toBeLessThanOrEqual(viewports.phone.width);
+    expect(browser.errors).toEqual([]);
+  });
+});
+
+describe('the report printed to PDF on a wide screen', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await openBrowser(viewports.wide);
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('opens the daily report on the dive’s day from the campaign screen', async () => {
+    const { page } = browser;
+    await signIn(page, 'biologist@bathynote.test');
+    await page.getByTestId('campaign-list').getByText(campaignName).click();
+    await page.getByTestId('campaign-report').click();
+    await page.getByTestId('report').waitFor();
+    expect(await page.getByTestId('report-title').innerText()).toContain('2026-05-13');
+    expect(await page.getByTestId('report-dives').innerText()).toContain(fixtures.finished.number);
+    await page.getByTestId('report-day-2026-05-13').waitFor();
+  });
+
+  it('prints every section on A4 and on US Letter, with the app’s frame left out', async () => {
+    const { page } = browser;
+    await page.goto(`${server.url}/dives/${fixtures.finished.id}/report`);
+    await page.getByTestId('report').waitFor();
+    await page.getByTestId('report-depth-profile').locator('svg').first().waitFor();
+    await page.getByTestId('report-photo').waitFor();
+    await page.waitForFunction(() => [...document.images].every((i) => i.complete && i.naturalWidth > 0));
+
+    // In print the navigation, the title bar and the report's own controls go.
+    await page.emulateMedia({ media: 'print' });
+    expect(await page.getByTestId('nav-campaigns').isVisible()).toBe(false);
+    expect(await page.getByTestId('report-print').isVisible()).toBe(false);
+    expect(await page.getByTestId('report-section-entries').isVisible()).toBe(true);
+
+    const a4 = path.join(dir, 'report-a4.pdf');
+    writeFileSync(a4, await page.pdf({ preferCSSPageSize: true, printBackground: true }));
+
+    await page.emulateMedia({ media: 'screen' });
+    await page.getByTestId('report-paper-Letter').click();
+    await page.emulateMedia({ media: 'print' });
+    const letter = path.join(dir, 'report-letter.pdf');
+    writeFileSync(letter, await page.pdf({ preferCSSPageSize: true, printBackground: true }));
+
+    const text = pdfText(a4);
+    for (const t of [`Dive report · ${fixtures.finished.number}`, campaignName, 'Test site', vessel, vehicle, permit, '2026-05-13'])
+      expect(text).toContain(t);
+    for (const t of [
+      `Entries (${fixtureEntries.length + 1})`,
+      'Finds and samples',
+      'Taxa seen (1)',
+      'Operations',
+      'On watch',
+      'Statistics',
+    ])
+      expect(text).toContain(t);
+    for (const e of fixtureEntries) expect(text).toContain(e.body.title);
+    expect(text).toContain(`Equipment fault: ${faultTitle}`);
+    expect(text).toContain('Madrepora oculata');
+    expect(text).toContain(`Find ${fixtures.findNumber}`);
+    expect(text).toContain('Day watch');
+    // Nothing of the app's frame in print.
+    expect(text).not.toContain('Print or save as PDF');
+    expect(text).not.toContain('Search');
+
+    // Each section starts a page: the entries' title opens one.
+    const pages = pdfPageTexts(a4);
+    expect(pages.some((p) => p.startsWith(`Entries (${fixtureEntries.length + 1})`))).toBe(true);
+    expect(pages.some((p) => p.startsWith('Taxa seen'))).toBe(true);
+    expect(pdfImageCount(a4)).toBeGreaterThanOrEqual(1);
+
+    // Page sizes in points (1/72 in): A4 is 210 × 297 mm (ISO 216), US Letter 8.5 × 11 in (ANSI/ASME Y14.1).
+    const infoA4 = pdfInfo(a4);
+    const infoLetter = pdfInfo(letter);
+    // Chromium rounds the page to whole CSS pixels, so within half a point.
+    expect(infoA4.widthPt).toBeCloseTo(595.28, 0);
+    expect(infoA4.heightPt).toBeCloseTo(841.89, 0);
+    expect(infoLetter.widthPt).toBeCloseTo(612, 0);
+    expect(infoLetter.heightPt).toBeCloseTo(792, 0);
+    // This fixture prints on 8 pages on either paper: the header with the dive's phases and
+    // statistics, the two plots, the entries over two pages, then finds and samples, taxa,
+    // operations and watches a page each. A report that printed only the first screenful, or ran
+    // sections together, would come out shorter.
+    expect(infoA4.pages).toBe(8);
+    expect(infoLetter.pages).toBe(8);
+    expect(pdfText(letter)).toContain(`Entries (${fixtureEntries.length + 1})`);
+    expect(browser.errors).toEqual([]);
+  });
+});
