@@ -57,6 +57,8 @@ export class Mirror {
   /** Sessions that wrote through the mirror, and when. */
   private readonly writes = new Map<string, number>();
   private restoring: Promise<boolean> | null = null;
+  /** Why the last restore brought no copy, or null when it did. */
+  lastRefusal: string | null = null;
 
   constructor(readonly settings: MirrorSettings) {}
 
@@ -144,10 +146,12 @@ export class Mirror {
       this.copyEventId = copy.lastEventId;
       this.currentAsOf = startedAt;
       this.relayed = this.relayed.filter((e) => e.id > copy.lastEventId);
+      this.lastRefusal = null;
       this.afterSwap();
       return true;
     } catch (err) {
-      this.log?.error('shore copy not restored', { reason: err instanceof Error ? err.message : String(err) });
+      this.lastRefusal = err instanceof Error ? err.message : String(err);
+      this.log?.error('shore copy not restored', { reason: this.lastRefusal });
       return false;
     }
   }

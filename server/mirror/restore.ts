@@ -87,5 +87,6 @@ export async function swapIn(copy: RestoredCopy, databasePath: string): Promise<
 }
 
 export function removeDatabaseFiles(file: string): void {
-  for (const f of [file, `${file}-wal`, `${file}-shm`, `${file}.tmp`]) rmSync(f, { force: true });
+  // Litestream restores into `<file>.tmp` (with its own WAL files) and renames it when done.
+  for (const f of [file, `${file}-wal`, `${file}-shm`, `${file}.tmp`, `${file}.tmp-wal`, `${file}.tmp-shm`]) rmSync(f, { force: true });
 }
