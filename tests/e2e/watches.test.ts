@@ -134,4 +134,27 @@ describe('watches', () => {
       await pilot.close();
     }
   });
+
+  it('keeps the plan and the acknowledged note in the campaign record, readable on a phone', async () => {
+    const lead = await openBrowser(viewports.phone);
+    try {
+      const { page, errors } = lead;
+      await signInAs(page, server.url, 'lead@bathynote.test');
+      const { campaignId } = await demoCampaign(page);
+      await page.goto(`${server.url}/campaigns/${campaignId}/watches`);
+      await page.getByTestId('watch-plan-editor').waitFor();
+      expect(await page.getByTestId('watch-name-1').inputValue()).toBe('Night watch');
+      const note = page.getByTestId('handover-list').getByTestId('handover-card');
+      await note.waitFor();
+      expect(await note.textContent()).toContain('Acknowledged by Dev Pillai');
+      for (const id of ['watch-row-0', 'watch-row-1', 'handover-list']) {
+        const box = (await page.getByTestId(id).boundingBox())!;
+        expect(box.x + box.width).toBeLessThanOrEqual(viewports.phone.width);
+      }
+      expect(await textPastEdges(page)).toEqual([]);
+      expect(errors).toEqual([]);
+    } finally {
+      await lead.close();
+    }
+  });
 });
