@@ -43,9 +43,10 @@ const KB = 1024;
 /**
  * What a cold visit may move over the link: the sign-in screen, then the dive log after signing
  * in (all of it, API included). The goals are 300 KB and 450 KB; these limits are what the app
- * reaches today (the framework's own bundle is about 220 KB of the first), kept so it never grows.
+ * reaches today (about 390 KB and 470 KB, of which the framework's own entry file is about 220 KB
+ * and the code the signed-in screens share another 150 KB), kept so it never grows.
  */
-const BUDGET = { signIn: 450 * KB, diveLog: 500 * KB };
+const BUDGET = { signIn: 400 * KB, diveLog: 480 * KB };
 
 function report(title: string, transfers: Transfer[]): number {
   const total = transfers.reduce((sum, t) => sum + t.bytes, 0);
@@ -69,9 +70,8 @@ describe('the app over a thin link', () => {
       const cold = [...transfers.values()];
       const signInTotal = report('Cold sign-in screen', cold);
       expect(signInTotal, 'bytes for the sign-in screen, cold').toBeLessThanOrEqual(BUDGET.signIn);
-      // The sign-in screen carries none of the signed-in screens' code nor the monospace face.
-      expect(cold.filter((t) => /SpaceMono/.test(t.url)).map((t) => t.url)).toEqual([]);
-      for (const font of cold.filter((t) => t.url.includes('/fonts/'))) expect(new URL(font.url).pathname).toMatch(/\.woff2$/);
+      // The sign-in screen draws in the device's own fonts: the app's faces come after sign-in.
+      expect(cold.filter((t) => t.url.includes('/fonts/')).map((t) => t.url)).toEqual([]);
 
       const html = cold.find((t) => new URL(t.url).pathname === '/');
       expect(html?.headers['content-encoding']).toMatch(/^(br|gzip)$/);
@@ -115,6 +115,10 @@ describe('the app over a thin link', () => {
           { timeout: 15_000 },
         )
         .toBe(0);
+      // Signed in, the app's own faces come, as WOFF2.
+      const faces = [...transfers.values()].filter((t) => t.url.includes('/fonts/'));
+      expect(faces.length).toBeGreaterThan(0);
+      for (const font of faces) expect(new URL(font.url).pathname).toMatch(/\.woff2$/);
       const diveLogTotal = report('Cold dive log after signing in (from the first byte)', [...transfers.values()]);
       expect(diveLogTotal, 'bytes for the sign-in screen and the dive log, cold').toBeLessThanOrEqual(BUDGET.diveLog);
       const stream = [...transfers.values()].find((t) => new URL(t.url).pathname.endsWith('/stream'));
