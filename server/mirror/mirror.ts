@@ -36,6 +36,16 @@ const WRITE_SETTLE_MS = 3000;
  * from the ship that the copy does not hold yet makes it behind since that event arrived. The lag
  * is now minus the earliest of these instants.
  */
+const mirrors = new WeakMap<LiveHub, Mirror>();
+
+/**
+ * On a shore mirror, the relayed events of a dive after `lastSeen` that the restored copy does not
+ * hold yet, for a reader who reconnects; elsewhere none.
+ */
+export function relayedSince(live: LiveHub, diveId: string, lastSeen: number): LiveEvent[] {
+  return mirrors.get(live)?.relayedAfter(diveId, lastSeen) ?? [];
+}
+
 export class Mirror {
   private db: Db | null = null;
   private live: LiveHub | null = null;
@@ -113,6 +123,7 @@ export class Mirror {
   start(db: Db, live: LiveHub, log: Logger): void {
     this.db = db;
     this.live = live;
+    mirrors.set(live, this);
     this.log = log;
     const tick = () => {
       if (this.stopped) return;

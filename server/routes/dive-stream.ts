@@ -6,6 +6,7 @@ import type { AppContext } from '../context';
 import { accessOf, roleIn } from '../middleware/campaign-access';
 import { userOf } from '../middleware/session';
 import { ApiError } from '../errors';
+import { relayedSince } from '../mirror/mirror';
 import { sseFrame } from '../services/live';
 import { streamRegistry } from '../services/stream-caps';
 
@@ -75,7 +76,11 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
         .limit(REPLAY_LIMIT + 1)
         .all();
       if (missed.length > REPLAY_LIMIT) send(`event: resync\ndata: {}\n\n`);
-      else for (const e of missed) send(sseFrame(e.id, e.type, e.payload));
+      else {
+        for (const e of missed) send(sseFrame(e.id, e.type, e.payload));
+        // A shore mirror also replays what it relayed that its restored copy does not hold yet.
+        for (const e of relayedSince(live, diveId, lastSeen)) send(e.frame);
+      }
     } else {
       send(`event: ready\ndata: {}\n\n`);
     }
