@@ -41,8 +41,14 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
       for (const c of cleanups) c();
       res.end();
     };
+    const uncork = () => res.uncork();
     const send = (chunk: string) => {
       if (closed) return;
+      // Events told in the same turn (a group commit's entries) leave in one write to the socket.
+      if (!res.writableCorked) {
+        res.cork();
+        process.nextTick(uncork);
+      }
       res.write(chunk);
       if (res.writableLength > MAX_BUFFERED_BYTES) close();
     };
