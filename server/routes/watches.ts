@@ -6,7 +6,7 @@ import type { AppContext } from '../context';
 import { accessOf, byCampaign, requireCampaignRole, requirePermission, type CampaignResolver } from '../middleware/campaign-access';
 import { requireSession } from '../middleware/session';
 import { validate } from '../middleware/validate';
-import { acknowledgeHandover, handoverCampaign, listHandovers } from '../services/handovers';
+import { acknowledgeHandover, handoverCampaign, listHandovers, mailHandover } from '../services/handovers';
 import { loadPlan, setWatchPlan, toWatchPlan } from '../services/watches';
 
 export function watchRoutes(ctx: AppContext): Router {
@@ -41,6 +41,12 @@ export function watchRoutes(ctx: AppContext): Router {
       res.json(acknowledgeHandover(db, req.params.handoverId as string, userId, role));
     },
   );
+
+  r.post('/handovers/:handoverId/mail', signedIn, requirePermission(db, byHandover, 'campaign.edit'), (req, res) => {
+    const sent = mailHandover(db, ctx.env.PUBLIC_URL, req.params.handoverId as string);
+    if (sent.queued > 0) ctx.mail.kick();
+    res.status(202).json(sent);
+  });
 
   return r;
 }

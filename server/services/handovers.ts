@@ -244,6 +244,13 @@ export function acknowledgeHandover(db: Db, handoverId: string, userId: string, 
   return toHandovers(db, [db.select().from(handovers).where(eq(handovers.id, handoverId)).get()!])[0]!;
 }
 
+/** Mails a note (again) to its incoming watch, on a lead's request; returns how many mails were queued. */
+export function mailHandover(db: Db, publicUrl: string, handoverId: string, now = new Date()): { queued: number } {
+  const row = db.select().from(handovers).where(eq(handovers.id, handoverId)).get();
+  if (!row) throw notFound();
+  return { queued: db.transaction((tx) => queueHandoverMail(tx, publicUrl, toHandovers(tx, [row])[0]!, now)) };
+}
+
 const kindLabels: Record<(typeof observationKinds)[number], string> = {
   biology: 'Biology',
   archaeology: 'Archaeology',

@@ -209,6 +209,7 @@ const table: Record<string, Row> = {
     expect: R(403, 'ok', 'ok', 'ok', 403, 404, 401),
     path: () => `/api/handovers/${fixtureHandover()}/acknowledge`,
   },
+  'POST /api/handovers/:handoverId/mail': { expect: leadOnly, path: () => `/api/handovers/${fixtureHandover()}/mail` },
   'GET /api/campaigns/:campaignId/samples/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/samples/next-number` },
   'GET /api/campaigns/:campaignId/finds/next-number': { expect: readers, path: () => `/api/campaigns/${c()}/finds/next-number` },
   'GET /api/campaigns/:campaignId/export/summary': { expect: readers, path: () => `/api/campaigns/${c()}/export/summary` },

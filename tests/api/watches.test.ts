@@ -193,6 +193,15 @@ describe('the handover at a change of watch', () => {
     expect(state).toBe('sent');
   });
 
+  it('is mailed again when a lead asks, and only a lead may', async () => {
+    const path = `/api/handovers/${handoverId}/mail`;
+    expect((await (await as('pilot')).post(path)).status).toBe(403);
+    const res = await (await as('lead')).post(path);
+    expect(res.status, JSON.stringify(res.body)).toBe(202);
+    expect(res.body).toEqual({ queued: 1 });
+    expect(t.ctx.db.$client.prepare('select count(*) from mail_queue where ref = ?').pluck().get(handoverId)).toBe(2);
+  });
+
   it('tells who stood which watch, from the notes where there are some', () => {
     const stood = watchStandersDuring(t.ctx.db, ids.campaign, new Date('2026-11-20T06:00:00Z'), new Date('2026-11-20T09:00:00Z'));
     expect(stood.map((s) => [s.watch, s.start.toISOString(), s.members.map((m) => m.id).sort()])).toEqual([
