@@ -201,7 +201,9 @@ describe('shore mirror', () => {
     const streams = [0, 1].map(() => openSse(`${shore.url}/api/dives/${diveId}/stream`, { cookie: reader.cookie }));
     for (const s of streams) await s.next((e) => e.event === 'ready', 10_000);
     const lead = await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl);
-    const title = `Relayed ${Date.now()}`;
+    // A word of letters only, so the search below finds this entry alone.
+    const word = `relayed${Array.from({ length: 8 }, () => String.fromCharCode(97 + Math.floor(Math.random() * 26))).join('')}`;
+    const title = `Seen live ${word}`;
     const sentAt = Date.now();
     const entry = await lead.call<{ id: string }>(`/api/dives/${diveId}/observations`, 'POST', { kind: 'biology', title }, 201);
     for (const s of streams) {
@@ -213,6 +215,16 @@ describe('shore mirror', () => {
     const page = await reader.call<{ items: { id: string }[] }>(`/api/dives/${diveId}/observations`);
     expect(page.items.map((i) => i.id)).toContain(entry.id);
     await until('entry in the restored copy', () => (entryCount(title) === 1 ? true : undefined), RESTORE_MS * 2 + 8000);
+    // The search index caught up with the swapped-in copy.
+    const found = await until(
+      'entry found by search on the shore',
+      async () => {
+        const r = await reader.call<{ items: { id: string }[] }>(`/api/search?q=${word}`);
+        return r.items.length > 0 ? r : undefined;
+      },
+      5000,
+    );
+    expect(found.items.map((i) => i.id)).toEqual([entry.id]);
     for (const s of streams) s.close();
   }, 60_000);
 
