@@ -12,7 +12,9 @@
  *   `photos/`  the photo store's files under their own keys.
  */
 import { spawn } from 'node:child_process';
+import { readdirSync, statSync } from 'node:fs';
 import { createRequire } from 'node:module';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 
 /** Sub-folders of the replica directory: the record's replica and the photos. */
@@ -136,6 +138,13 @@ export function sshCommand(settings: Pick<ShipSettings, 'target' | 'sshKey' | 'k
     // The first connection (in port, while seeding) records the shore's key; a changed key is refused.
     '-o',
     'StrictHostKeyChecking=accept-new',
+    // One connection kept open between passes: a new SSH handshake each pass costs kilobytes of link.
+    '-o',
+    'ControlMaster=auto',
+    '-o',
+    `ControlPath=${path.join(tmpdir(), 'bathynote-ssh-%C')}`,
+    '-o',
+    'ControlPersist=300',
     ...(settings.knownHosts ? ['-o', `UserKnownHostsFile=${settings.knownHosts}`] : []),
     ...(settings.sshKey ? ['-i', settings.sshKey, '-o', 'IdentitiesOnly=yes'] : []),
   ];
@@ -179,6 +188,26 @@ function runRsync(args: string[]): Promise<{ code: number; stderr: string }> {
   });
 }
 
+/** What the photo store holds, in one string: a pass is needed only when it changes. */
+function storeSignature(dir: string): string {
+  let files = 0;
+  let bytes = 0;
+  let newest = 0;
+  try {
+    for (const e of readdirSync(dir, { recursive: true, withFileTypes: true })) {
+      if (!e.isFile() || e.parentPath.includes(`${path.sep}.incoming`)) continue;
+      const st = statSync(path.join(e.parentPath, e.name), { throwIfNoEntry: false });
+      if (!st) continue;
+      files++;
+      bytes += st.size;
+      newest = Math.max(newest, st.mtimeMs);
+    }
+  } catch {
+    // No photo store yet.
+  }
+  return `${files}:${bytes}:${newest}`;
+}
+
 export type PhotoShipper = {
   /** One pass now (thumbnails and display sizes, then originals), unless one is already running. */
   syncNow: () => Promise<boolean>;
@@ -194,7 +223,11 @@ export function startPhotoShipper(settings: ShipSettings, log: (line: string) =>
   let running: Promise<boolean> | undefined;
   let stopped = false;
   let lastFailure = '';
+  let sent = '';
   const pass = async (): Promise<boolean> => {
+    // Nothing new since the last pass that went through: the link stays quiet.
+    const signature = storeSignature(settings.uploadsDir);
+    if (signature === sent) return true;
     for (const which of ['small', 'all'] as const) {
       if (stopped) return false;
       const { code, stderr } = await runRsync(rsyncArgs(settings, which));
@@ -208,6 +241,7 @@ export function startPhotoShipper(settings: ShipSettings, log: (line: string) =>
     }
     if (lastFailure) log('photos to the shore: sending again');
     lastFailure = '';
+    sent = signature;
     return true;
   };
   const syncNow = () => (running ??= pass().finally(() => (running = undefined)));
@@ -219,6 +253,15 @@ export function startPhotoShipper(settings: ShipSettings, log: (line: string) =>
       stopped = true;
       clearInterval(timer);
       await running;
+      // The connection kept open between passes is closed with the server, not left behind.
+      const [ssh, ...options] = sshCommand(settings);
+      if (ssh && settings.target.kind === 'sftp') {
+        const closer = spawn(ssh, [...options, '-O', 'exit', `${settings.target.user}@${settings.target.host}`], { stdio: 'ignore' });
+        await new Promise((resolve) => {
+          closer.once('exit', resolve);
+          closer.once('error', resolve);
+        });
+      }
     },
   };
 }
