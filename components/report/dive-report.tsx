@@ -1,6 +1,5 @@
 import { StyleSheet, View } from 'react-native';
 
-import { PhaseTimes } from '@/components/dives/phase-times';
 import { kindLabels } from '@/components/observations/kind-badge';
 import { DepthProfile } from '@/components/telemetry/depth-profile';
 import { DiveStatsGrid } from '@/components/telemetry/dive-stats';
@@ -8,12 +7,13 @@ import { SitePlan } from '@/components/telemetry/site-plan';
 import { Text } from '@/components/ui/text';
 import { useTelemetry } from '@/hooks/telemetry';
 import { useTheme } from '@/hooks/theme';
+import { phaseLabels } from '@/lib/dive-phases';
 import { formatDepth, formatInZone } from '@/lib/format';
 import type { DiveReportPart } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
 import { REPORT_WIDTH } from './paper';
 import { ReportPhoto } from './report-photo';
-import { ReportSection } from './report-section';
+import { Fact, ReportSection } from './report-section';
 
 /** The plots' width: the report's column less the card's padding. */
 const PLOT_HEIGHT = 260;
@@ -52,7 +52,13 @@ export function DiveReport({ part, zone, first }: { part: DiveReportPart; zone: 
     <View style={styles.dive} testID={`report-dive-${n}`}>
       <ReportSection id="dive" title={`Dive ${n}`} newPage={!first}>
         {part.dive.objectives ? <Text testID="report-objectives">{part.dive.objectives}</Text> : null}
-        <PhaseTimes dive={part.dive} mayEdit={false} />
+        <Text variant="label">Dive phases</Text>
+        <View testID="report-phases">
+          {phaseLabels.map(([key, label]) => {
+            const at = part.dive.phases[key];
+            return <Fact key={key} label={label} value={at ? formatInZone(at, zone) : 'Not reached'} />;
+          })}
+        </View>
         <Text variant="label">Statistics</Text>
         <DiveStatsGrid stats={part.summary.stats} maxDepth={part.summary.maxDepth} />
         <Text variant="caption" muted>

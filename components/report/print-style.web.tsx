@@ -6,10 +6,11 @@ const PATH = 'bn-print-path';
 
 /**
  * The report's print stylesheet. The app's frame (navigation, title bar, the report's own
- * controls) is hidden; every element between the page and the report is taken out of the
- * screen's fixed-height scrolling layout, so the whole report flows onto as many pages as it needs
- * rather than the one screenful the scroll view shows; sections start on a new page; colours are
- * the light ones whatever the theme; the paper size sets `@page`.
+ * controls, the depth profile's view switch and pointer read-out) is hidden; every element
+ * between the page and the report is taken out of the screen's fixed-height scrolling layout, so
+ * the whole report flows onto as many pages as it needs rather than the one screenful the scroll
+ * view shows; sections start on a new page; colours are the light ones whatever the theme; the
+ * paper size sets `@page`.
  */
 export function PrintStyle({ paper, rootTestID }: { paper: PaperSize; rootTestID: string }) {
   useEffect(() => {
@@ -35,6 +36,7 @@ export function PrintStyle({ paper, rootTestID }: { paper: PaperSize; rootTestID
   [data-testid="${rootTestID}"] { width: 100% !important; max-width: none !important; padding: 0 !important; border: none !important; }
   [data-testid="report-depth-profile"], [data-testid="report-site-plan"] { break-inside: avoid; page-break-inside: avoid; }
   [data-testid="report-controls"] { display: none !important; }
+  [data-testid="${rootTestID}"] div:has(> [data-testid="profile-view"]), [data-testid="${rootTestID}"] [data-testid="profile-readout"] { display: none !important; }
   [data-testid="${PAGE_BREAK}"] { display: block !important; break-before: page; page-break-before: always; }
   [data-testid="report-entry"], [data-testid="report-row"], svg { break-inside: avoid; page-break-inside: avoid; }
   * { -webkit-print-color-adjust: exact; print-color-adjust: exact; }

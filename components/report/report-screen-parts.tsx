@@ -6,6 +6,7 @@ import { Text } from '@/components/ui/text';
 import { useCampaign, useCampaignDives } from '@/hooks/campaigns';
 import { diveDay } from '@/lib/schemas';
 import { space } from '@/lib/tokens';
+import { REPORT_WIDTH } from './paper';
 
 /** The days of the campaign with a dive on them, newest first, in the display zone. */
 export function useDiveDays(campaignId: string | undefined): string[] | undefined {
@@ -40,6 +41,6 @@ export function DayPicker({ campaignId, date }: { campaignId: string; date: stri
 }
 
 const styles = StyleSheet.create({
-  wrap: { gap: space.xs },
+  wrap: { gap: space.xs, width: '100%', maxWidth: REPORT_WIDTH + 2 * space.xl, alignSelf: 'center' },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
 });

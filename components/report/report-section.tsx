@@ -46,7 +46,7 @@ export function Fact({ label, value, testID }: { label: string; value: string; t
 
 const styles = StyleSheet.create({
   section: { gap: space.md, paddingTop: space.lg, borderTopWidth: 1 },
-  fact: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
+  fact: { flexDirection: 'row', gap: space.sm },
   factLabel: { minWidth: 110 },
-  factValue: { flexShrink: 1 },
+  factValue: { flex: 1 },
 });
