@@ -1,7 +1,10 @@
 /** The campaign's watch plan and its handover notes. */
+import { z } from 'zod';
+
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 
 import { handoverListSchema, handoverSchema, watchPlanSchema, type WatchPlanUpdate } from '@/lib/schemas';
+
 import { request } from './api';
 
 const enc = encodeURIComponent;
@@ -43,5 +46,13 @@ export function useAcknowledgeHandover(campaignId: string) {
   return useMutation({
     mutationFn: (handoverId: string) => request(`/api/handovers/${enc(handoverId)}/acknowledge`, handoverSchema, { method: 'POST' }),
     onSuccess: () => qc.invalidateQueries({ queryKey: watchKeys.handovers(campaignId) }),
+  });
+}
+
+/** A lead mails a note again to its incoming watch. */
+export function useMailHandover() {
+  return useMutation({
+    mutationFn: (handoverId: string) =>
+      request(`/api/handovers/${enc(handoverId)}/mail`, z.object({ queued: z.number() }), { method: 'POST' }),
   });
 }

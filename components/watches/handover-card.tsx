@@ -4,7 +4,7 @@ import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/hooks/theme';
-import { useAcknowledgeHandover } from '@/hooks/watches';
+import { useAcknowledgeHandover, useMailHandover } from '@/hooks/watches';
 import { phaseSteps } from '@/lib/dive-phases';
 import { formatDepth, formatInZone, formatUtc } from '@/lib/format';
 import type { Handover } from '@/lib/schemas';
@@ -13,9 +13,20 @@ import { space } from '@/lib/tokens';
 const kindLabels = { biology: 'Biology', archaeology: 'Archaeology', environment: 'Environment', operations: 'Operations' } as const;
 
 /** A handover note: what the outgoing watch leaves to the incoming one, and whether it was acknowledged. */
-export function HandoverCard({ handover: h, timeZone, canAcknowledge }: { handover: Handover; timeZone: string; canAcknowledge: boolean }) {
+export function HandoverCard({
+  handover: h,
+  timeZone,
+  canAcknowledge,
+  canMail = false,
+}: {
+  handover: Handover;
+  timeZone: string;
+  canAcknowledge: boolean;
+  canMail?: boolean;
+}) {
   const { colors } = useTheme();
   const ack = useAcknowledgeHandover(h.campaignId);
+  const mail = useMailHandover();
   const c = h.content;
   const kinds = (Object.keys(kindLabels) as (keyof typeof kindLabels)[]).filter((k) => (c.entries.byKind[k] ?? 0) > 0);
   const phase = c.dive?.phase ? (phaseSteps.find((s) => s.phase === c.dive?.phase)?.label ?? c.dive.phase) : 'not launched';
@@ -52,6 +63,22 @@ export function HandoverCard({ handover: h, timeZone, canAcknowledge }: { handov
           Not acknowledged yet
         </Text>
       )}
+      {canMail && h.incoming && h.incoming.members.length > 0 ? (
+        <View style={styles.row}>
+          <Button
+            label="Mail to the incoming watch"
+            tone="ghost"
+            compact
+            busy={mail.isPending}
+            testID="handover-mail"
+            onPress={() => mail.mutate(h.id)}
+          />
+          {mail.isSuccess ? (
+            <Text muted testID="handover-mailed">{`Queued ${mail.data.queued} mail${mail.data.queued === 1 ? '' : 's'}`}</Text>
+          ) : null}
+          {mail.isError ? <Text color={colors.danger}>{mail.error.message}</Text> : null}
+        </View>
+      ) : null}
     </Card>
   );
 }

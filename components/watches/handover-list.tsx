@@ -25,6 +25,7 @@ export function HandoverList({ campaignId, timeZone, role }: { campaignId: strin
           handover={h}
           timeZone={timeZone}
           canAcknowledge={role === 'lead' || !!h.incoming?.members.some((m) => m.id === myId)}
+          canMail={role === 'lead'}
         />
       ))}
     </View>

@@ -147,6 +147,12 @@ describe('watches', () => {
       const note = page.getByTestId('handover-list').getByTestId('handover-card');
       await note.waitFor();
       expect(await note.textContent()).toContain('Acknowledged by Dev Pillai');
+      // Mailed again to each person of the watch the note was handed to (the one on now).
+      const plan = await pageApi<{ onWatch: Turn }>(page, `/api/campaigns/${campaignId}/watches`);
+      const n = plan.onWatch.members.length;
+      await note.getByTestId('handover-mail').click();
+      await note.getByTestId('handover-mailed').waitFor();
+      expect(await note.getByTestId('handover-mailed').textContent()).toBe(`Queued ${n} mail${n === 1 ? '' : 's'}`);
       for (const id of ['watch-row-0', 'watch-row-1', 'handover-list']) {
         const box = (await page.getByTestId(id).boundingBox())!;
         expect(box.x + box.width).toBeLessThanOrEqual(viewports.phone.width);
