@@ -128,8 +128,20 @@ describe('the report printed to PDF on a wide screen', () => {
     await page.getByTestId('report-photo').waitFor();
     await page.waitForFunction(() => [...document.images].every((i) => i.complete && i.naturalWidth > 0));
 
-    // In print the navigation, the title bar and the report's own controls go.
-    await page.emulateMedia({ media: 'print' });
+    // A reader on the dark theme (the system's, here) still gets the report in light colours.
+    await page.emulateMedia({ colorScheme: 'dark' });
+    const background = (testID: string) =>
+      page
+        .getByTestId(testID)
+        .first()
+        .evaluate((el) => getComputedStyle(el).backgroundColor);
+    await expect.poll(() => background('screen-header')).toBe('rgb(13, 33, 48)'); // the dark surface, lib/tokens.ts
+    expect(await background('report')).toBe('rgb(255, 253, 248)'); // the light surface
+    expect(await page.getByTestId('report-title').evaluate((el) => getComputedStyle(el).color)).toBe('rgb(19, 33, 43)');
+
+    // In print the navigation, the title bar and the report's own controls go, and the page is white.
+    await page.emulateMedia({ media: 'print', colorScheme: 'dark' });
+    expect(await page.evaluate(() => getComputedStyle(document.body).backgroundColor)).toBe('rgb(255, 255, 255)');
     expect(await page.getByTestId('nav-campaigns').isVisible()).toBe(false);
     expect(await page.getByTestId('report-print').isVisible()).toBe(false);
     expect(await page.getByTestId('report-section-entries').isVisible()).toBe(true);
@@ -140,6 +152,7 @@ describe('the report printed to PDF on a wide screen', () => {
     await page.emulateMedia({ media: 'screen' });
     await page.getByTestId('report-paper-Letter').click();
     await page.emulateMedia({ media: 'print' });
+    expect(await page.getByTestId('report-print-style').textContent()).toContain('size: letter');
     const letter = path.join(dir, 'report-letter.pdf');
     writeFileSync(letter, await page.pdf({ preferCSSPageSize: true, printBackground: true }));
 
