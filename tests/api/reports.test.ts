@@ -135,6 +135,17 @@ describe('a day report', () => {
     expect(r.watches[0]!.end).toBe('2026-05-13T07:00:00.000Z');
   });
 
+  it('takes the day whole on the day the clocks go forward', async () => {
+    // Lisbon moves from WET (UTC+0) to WEST (UTC+1) at 01:00 UTC on 29 March 2026 (EU rule: last
+    // Sunday of March, Directive 2000/84/EC), so that day is 23 hours long.
+    const r = await report(`/api/campaigns/${ids.campaign}/reports/2026-03-29`);
+    expect(r.watches.map((w) => [w.watch, w.start, w.end])).toEqual([
+      ['Night', '2026-03-28T20:00:00.000Z', '2026-03-29T07:00:00.000Z'],
+      ['Morning', '2026-03-29T07:00:00.000Z', '2026-03-29T19:00:00.000Z'],
+      ['Night', '2026-03-29T19:00:00.000Z', '2026-03-30T07:00:00.000Z'],
+    ]);
+  });
+
   it('answers an empty day with no dives rather than an error', async () => {
     const r = await report(`/api/campaigns/${ids.campaign}/reports/2026-06-01`);
     expect(r.dives).toEqual([]);
