@@ -68,7 +68,11 @@ const tagChange = `new.action in ('tag.updated', 'tag.merged')`;
  */
 const triggers: Record<string, string> = {
   observation_added: `after insert on observations begin ${reindex(byId('new.id'))} end`,
-  observation_changed: `after update of title, note, retired, dive_id, campaign_id on observations begin ${reindex(byId('new.id'))} end`,
+  // Named columns set to what they already held (an edit of other fields writes them all) leave the index alone.
+  observation_changed: `after update of title, note, retired, dive_id, campaign_id on observations
+    when old.title is not new.title or old.note is not new.note or old.retired is not new.retired
+      or old.dive_id is not new.dive_id or old.campaign_id is not new.campaign_id
+    begin ${reindex(byId('new.id'))} end`,
   observation_removed: `after delete on observations begin delete from search_entries where rowid = old.rowid; end`,
   tag_added: `after insert on observation_tags begin ${reindex(byId('new.observation_id'))} end`,
   tag_taken: `after delete on observation_tags begin ${reindex(byId('old.observation_id'))} end`,
