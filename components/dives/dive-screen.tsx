@@ -270,7 +270,6 @@ export function DiveScreen({ diveId, entryId }: { diveId: string; entryId?: stri
               onPress={() => router.push(`/dives/${diveId}/summary`)}
             />
             <Button label="Taxa" tone="secondary" compact testID="dive-taxa" onPress={() => router.push(`/dives/${diveId}/taxa`)} />
-            <Button label="Report" tone="secondary" compact testID="dive-report" onPress={() => router.push(`/dives/${diveId}/report`)} />
             {can(role, 'dive.run') ? (
               <Button
                 label="Dive settings"
