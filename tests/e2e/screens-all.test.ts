@@ -75,6 +75,8 @@ const screens: Screen[] = [
   { name: 'gallery', as: 'lead', path: () => `/dives/${fixtures.finished.id}/gallery`, ready: 'screen-title' },
   { name: 'dive-settings', as: 'lead', path: () => `/dives/${fixtures.finished.id}/settings`, ready: 'screen-title' },
   { name: 'dive-taxa', as: 'lead', path: () => `/dives/${fixtures.finished.id}/taxa`, ready: 'taxa' },
+  { name: 'dive-report', as: 'lead', path: () => `/dives/${fixtures.finished.id}/report`, ready: 'report-section-operations' },
+  { name: 'day-report', as: 'lead', path: () => `/campaigns/${fixtures.campaign}/report/2026-05-13`, ready: 'report-section-operations' },
   { name: 'new-entry', as: 'lead', path: () => `/dives/${fixtures.finished.id}/new`, ready: 'observation-form' },
   { name: 'entry', as: 'lead', path: () => `/observations/${entryId}`, ready: 'observation-detail' },
   { name: 'search', as: 'lead', path: () => '/search?q=mat', ready: 'screen-title' },
