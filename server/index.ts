@@ -12,6 +12,7 @@ import { errorBody } from './errors';
 import { createHttpServer } from './http-server';
 import { startDemoLive } from './services/demo-live';
 import { Mirror } from './mirror/mirror';
+import { sessionCacheFor } from './middleware/session';
 import type { PrepareMessage, PreparedDatabase } from './prepare-database';
 
 /** Until the database is open and migrated, every request is told to come back in a moment. */
@@ -74,6 +75,8 @@ async function main() {
     // The ship sends the mail and the digests; the shore copy must not send them again.
     ctx.digests.stop();
     await ctx.mail.stop();
+    // A session ended on the ship ends here with the next copy, not when its cached check runs out.
+    mirror.onSwap(() => sessionCacheFor(ctx.auth).clear());
     mirror.start(ctx.db, ctx.live, ctx.log);
   }
   const app = createApp(ctx, { mirror });

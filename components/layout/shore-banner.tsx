@@ -3,6 +3,7 @@ import { View } from 'react-native';
 
 import { Text } from '@/components/ui/text';
 import { request } from '@/hooks/api';
+import { sessionKeys } from '@/hooks/query-keys';
 import { useTheme } from '@/hooks/theme';
 import { healthSchema, type Health } from '@/lib/schemas/mirror';
 
@@ -28,7 +29,8 @@ export function shoreText(mirror: NonNullable<Health['mirror']>): string {
 export function ShoreBanner() {
   const { colors } = useTheme();
   const health = useQuery({
-    queryKey: ['health'],
+    // Under the session's key, which signing out keeps: the banner shows on the sign-in screen too.
+    queryKey: [...sessionKeys.root, 'server'],
     queryFn: ({ signal }) => request('/api/health', healthSchema, { signal }),
     refetchInterval: (query) => (query.state.data?.mirror ? 10_000 : false),
     staleTime: 5_000,

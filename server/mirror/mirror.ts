@@ -5,7 +5,7 @@ import type { Db } from '../../db/client';
 import type { Logger } from '../services/logger';
 import { sseFrame, type LiveEvent, type LiveEventType, type LiveHub } from '../services/live';
 import { openIndexStore } from '../services/search/store';
-import { checkCopy, removeDatabaseFiles, restoreCopy, swapIn } from './restore';
+import { checkCopy, removeDatabaseFiles, replicaFingerprint, restoreCopy, swapIn } from './restore';
 
 export type MirrorSettings = {
   /** The ship's public URL, without a trailing slash. */
@@ -67,6 +67,9 @@ export class Mirror {
   /** Sessions that wrote through the mirror, and when. */
   private readonly writes = new Map<string, number>();
   private restoring: Promise<boolean> | null = null;
+  private readonly swapListeners: (() => void)[] = [];
+  /** The replica's files (names and sizes) when the copy in place was restored from it. */
+  private restoredFrom: string | null = null;
   /** Why the last restore brought no copy, or null when it did. */
   lastRefusal: string | null = null;
 
@@ -148,9 +151,22 @@ export class Mirror {
     return this.restoring;
   }
 
+  /** Called after each copy is put in place (e.g. to check cached sessions again). */
+  onSwap(listener: () => void): void {
+    this.swapListeners.push(listener);
+  }
+
   private async restoreOnce(): Promise<boolean> {
     const startedAt = Date.now();
     try {
+      // Litestream only ever adds files or grows them: the same files at the same sizes restore
+      // the same copy, so an idle ship costs the shore no restore.
+      const fingerprint = replicaFingerprint(this.settings.replica);
+      if (fingerprint !== null && fingerprint === this.restoredFrom) {
+        this.currentAsOf = startedAt;
+        this.lastRefusal = null;
+        return false;
+      }
       const copy = await restoreCopy(this.settings.replica, this.settings.databasePath);
       if (!copy) return false;
       await swapIn(copy, this.settings.databasePath);
@@ -158,7 +174,9 @@ export class Mirror {
       this.currentAsOf = startedAt;
       this.relayed = this.relayed.filter((e) => e.id > copy.lastEventId);
       this.lastRefusal = null;
+      this.restoredFrom = fingerprint;
       this.afterSwap();
+      for (const listener of this.swapListeners) listener();
       return true;
     } catch (err) {
       this.lastRefusal = err instanceof Error ? err.message : String(err);

@@ -1,5 +1,5 @@
 import { execFile } from 'node:child_process';
-import { existsSync, renameSync, rmSync } from 'node:fs';
+import { existsSync, readdirSync, renameSync, rmSync, statSync } from 'node:fs';
 import path from 'node:path';
 
 import Database from 'better-sqlite3';
@@ -83,6 +83,23 @@ export async function swapIn(copy: RestoredCopy, databasePath: string): Promise<
     }
   } finally {
     removeDatabaseFiles(copy.file);
+  }
+}
+
+/** The replica's files with their sizes, as one string; null when it cannot be read. */
+export function replicaFingerprint(replicaDir: string): string | null {
+  const dir = path.join(path.resolve(replicaDir), REPLICA_DB_DIR);
+  try {
+    return readdirSync(dir, { recursive: true, withFileTypes: true })
+      .filter((e) => e.isFile())
+      .map((e) => {
+        const file = path.join(e.parentPath, e.name);
+        return `${path.relative(dir, file)}:${statSync(file).size}`;
+      })
+      .sort()
+      .join('\n');
+  } catch {
+    return null;
   }
 }
 
