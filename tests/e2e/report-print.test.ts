@@ -69,7 +69,8 @@ const signIn = (page: Page, email: string) => signInAs(page, server.url, email);
 async function openDiveReport(page: Page): Promise<void> {
   await page.getByTestId('campaign-list').getByText(campaignName).click();
   await page.getByTestId(`dive-${fixtures.finished.number}`).click();
-  await page.getByTestId('dive-report').click();
+  await page.getByTestId('dive-summary').click();
+  await page.getByTestId('summary-dive-report').click();
   await page.getByTestId('report').waitFor();
   await page.getByTestId('report-depth-profile').locator('svg').first().waitFor();
   await page.getByTestId('report-photo').waitFor();
