@@ -2,8 +2,8 @@ import { Redirect, useLocalSearchParams } from 'expo-router';
 import { DateTime } from 'luxon';
 
 import { useDiveDays } from '@/components/report/report-screen-parts';
-import { Screen, ScreenBody } from '@/components/ui/screen';
-import { LoadingState } from '@/components/ui/states';
+import { Screen, ScreenBody, ScreenHeader } from '@/components/ui/screen';
+import { ErrorState, LoadingState } from '@/components/ui/states';
 import { useCampaign } from '@/hooks/campaigns';
 
 /** The daily report opens on the latest day with a dive, or today in the display zone before any dive. */
@@ -14,8 +14,13 @@ export default function DayReportIndex() {
   if (!campaign.data || !days) {
     return (
       <Screen>
+        <ScreenHeader title="Daily report" back={`/campaigns/${campaignId}`} backLabel="Campaign" />
         <ScreenBody>
-          <LoadingState label="Finding the latest dive…" />
+          {campaign.isError ? (
+            <ErrorState error={campaign.error} onRetry={() => void campaign.refetch()} />
+          ) : (
+            <LoadingState label="Finding the latest dive…" />
+          )}
         </ScreenBody>
       </Screen>
     );
