@@ -9,6 +9,7 @@ import { benchLiveLoad } from './live-load';
 import { benchLogWrites } from './log-writes';
 import { benchPhotoLoad } from './photo-load';
 import { benchSearch } from './search';
+import { benchShore } from './shore';
 import { benchTelemetryImport } from './telemetry-import';
 import { benchThinLink } from './thin-link';
 
@@ -24,6 +25,7 @@ async function main() {
     ['digest', benchDigest],
     ['photo-load', benchPhotoLoad],
     ['thin-link', benchThinLink],
+    ['shore', benchShore],
   ];
   for (const [name, run] of benches) {
     if (only && only !== name) continue;
