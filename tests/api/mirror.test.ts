@@ -5,7 +5,7 @@
  * shore uses runs through a small TCP relay of the test, so the link can be cut and restored.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdtempSync, renameSync, rmSync } from 'node:fs';
+import { cpSync, existsSync, mkdtempSync, renameSync, rmSync } from 'node:fs';
 import { createServer, connect, type Server, type Socket } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -14,6 +14,7 @@ import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { litestreamBinary } from '@/server/mirror/replicate';
+import { jpegWithExif } from '../fixtures/photos/make';
 import { freePort, startServerProcess, type ServerProcess } from '../helpers/server-process';
 import { openSse } from '../helpers/sse';
 
@@ -167,6 +168,8 @@ beforeAll(async () => {
     MIRROR_OF: shipPublicUrl,
     REPLICA: replica,
     MIRROR_RESTORE_INTERVAL_MS: String(RESTORE_MS),
+    // The mirror's default; named here because the test helper gives every server a folder of its own.
+    UPLOADS_DIR: path.join(replica, 'photos'),
   });
 }, 120_000);
 
@@ -246,6 +249,44 @@ describe('shore mirror', () => {
     ).call<{ title: string }>(`/api/observations/${entry.id}`);
     expect(onShip.title).toBe(title);
     await until('guest entry in the restored copy', () => (entryCount(title) === 1 ? true : undefined), RESTORE_MS * 2 + 8000);
+  }, 60_000);
+
+  it('serves a photo from the photos the ship sends ashore, the same bytes as the ship', async () => {
+    const lead = await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl);
+    const entry = await lead.call<{ id: string }>(
+      `/api/dives/${diveId}/observations`,
+      'POST',
+      { kind: 'biology', title: 'With a photo' },
+      201,
+    );
+    const form = new FormData();
+    form.append('photo', new Blob([new Uint8Array(await jpegWithExif({}, { width: 800, height: 600 }))]), 'grab.jpg');
+    const upload = await fetch(`${ship.url}/api/observations/${entry.id}/photos`, {
+      method: 'POST',
+      headers: { cookie: lead.cookie, origin: shipPublicUrl },
+      body: form,
+    });
+    expect(upload.status).toBe(201);
+    const photoId = ((await upload.json()) as { photos: { id: string }[] }).photos.at(-1)!.id;
+    const onShip = await until(
+      'thumbnail on the ship',
+      async () => {
+        const r = await fetch(`${ship.url}/api/photos/${photoId}?size=thumb`, { headers: { cookie: lead.cookie } });
+        return r.status === 200 ? Buffer.from(await r.arrayBuffer()) : undefined;
+      },
+      20_000,
+    );
+    // What the ship's rsync pass does: the photo store's files under the same keys.
+    cpSync(path.join(ship.dir, 'uploads'), path.join(replica, 'photos'), { recursive: true });
+    const reader = await shoreSession('archaeologist@bathynote.test');
+    await until(
+      'photo in the shore copy',
+      () => (shoreHolds('select count(*) from photos where id = ?', photoId) ? true : undefined),
+      20_000,
+    );
+    const onShore = await fetch(`${shore.url}/api/photos/${photoId}?size=thumb`, { headers: { cookie: reader.cookie } });
+    expect(onShore.status).toBe(200);
+    expect(Buffer.from(await onShore.arrayBuffer()).equals(onShip)).toBe(true);
   }, 60_000);
 
   it('answers an outsider 404 on the shore exactly as the ship does', async () => {
