@@ -343,3 +343,51 @@ describe('shore mirror', () => {
     expect(up.mirror!.link).toBe('up');
   }, 120_000);
 });
+
+describe('shore mirror between two restores', () => {
+  it('keeps relayed entries in the log and replays them to a reader who reconnects, before any copy holds them', async () => {
+    // A reader whose session is in the replica before this shore makes its first and only copy.
+    const reader = await apiSignIn(ship.url, 'biologist@bathynote.test', shipPublicUrl);
+    await new Promise((r) => setTimeout(r, 3000));
+    const slow = await startServerProcess({
+      ...secrets,
+      MIRROR_OF: shipPublicUrl,
+      REPLICA: replica,
+      MIRROR_RESTORE_INTERVAL_MS: '600000',
+      UPLOADS_DIR: path.join(replica, 'photos'),
+    });
+    try {
+      const slowHolds = (title: string) => {
+        const db = new Database(path.join(slow.dir, 'bathynote.db'), { readonly: true });
+        try {
+          return db.prepare('select count(*) from observations where title = ?').pluck().get(title) as number;
+        } finally {
+          db.close();
+        }
+      };
+      await until('link up', async () => ((await health(slow.url)).mirror?.link === 'up' ? true : undefined), 10_000);
+      const first = openSse(`${slow.url}/api/dives/${diveId}/stream`, { cookie: reader.cookie });
+      await first.next((e) => e.event === 'ready', 10_000);
+      const lead = await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl);
+      const one = `Between copies one ${Date.now()}`;
+      const entry = await lead.call<{ id: string }>(`/api/dives/${diveId}/observations`, 'POST', { kind: 'biology', title: one }, 201);
+      const seen = await first.next((e) => e.event === 'observation.created' && e.data.includes(one), 2000);
+      // The copy does not hold it, yet the reader's refetch of the log still shows it.
+      expect(slowHolds(one)).toBe(0);
+      const page = await fetch(`${slow.url}/api/dives/${diveId}/observations`, { headers: { cookie: reader.cookie } });
+      expect(((await page.json()) as { items: { id: string }[] }).items.map((i) => i.id)).toContain(entry.id);
+
+      // A reader who was away while the next entry arrived is replayed it on reconnecting.
+      first.close();
+      const two = `Between copies two ${Date.now()}`;
+      await lead.call(`/api/dives/${diveId}/observations`, 'POST', { kind: 'biology', title: two }, 201);
+      await new Promise((r) => setTimeout(r, 1000));
+      const again = openSse(`${slow.url}/api/dives/${diveId}/stream`, { cookie: reader.cookie, 'last-event-id': seen.id! });
+      await again.next((e) => e.event === 'observation.created' && e.data.includes(two), 3000);
+      expect(slowHolds(two)).toBe(0);
+      again.close();
+    } finally {
+      await slow.stop();
+    }
+  }, 90_000);
+});
