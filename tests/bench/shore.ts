@@ -11,7 +11,7 @@
  * throttled to 96 kbit/s and a 650 ms round trip. The first snapshot (seeding, done in port) is
  * shown but not counted against the link.
  */
-import { mkdtempSync, openAsBlob, rmSync } from 'node:fs';
+import { mkdtempSync, openAsBlob, rmSync, statSync } from 'node:fs';
 import { loadavg, tmpdir, userInfo } from 'node:os';
 import path from 'node:path';
 
@@ -128,8 +128,16 @@ async function buildDive(ship: ServerProcess, diveId: string, work: string): Pro
 
 type Observation = { photos?: { urls?: { thumb?: string; display?: string } }[] };
 
-/** What one reader ashore fetches to follow the dive: the dive, its log, its chart, its photos. */
+/** The web app as a first visit loads it: the page and the scripts and styles it names. */
+async function loadApp(base: string): Promise<void> {
+  const page = await (await fetch(`${base}/`, { headers: { 'accept-encoding': 'br, gzip' } })).text();
+  const assets = [...page.matchAll(/(?:src|href)="(\/[^"]+\.(?:js|css))"/g)].map((m) => m[1]!);
+  for (const asset of assets) await (await fetch(`${base}${asset}`, { headers: { 'accept-encoding': 'br, gzip' } })).arrayBuffer();
+}
+
+/** What one reader ashore fetches to follow the dive: the app, the dive, its log, its chart, its photos. */
 async function readDive(base: string, diveId: string): Promise<void> {
+  await loadApp(base);
   const cookie = await signIn(base, emails.guest, PASSWORD);
   await call(base, cookie, `/api/dives/${diveId}`);
   await call(base, cookie, `/api/dives/${diveId}/summary`);
@@ -226,6 +234,7 @@ export async function benchShore(): Promise<void> {
     const buildS = (performance.now() - buildStart) / 1000;
     await settled(replLink, 12_000, () => filesUnder(path.join(shoreDir, 'photos')).length >= PHOTOS * 3);
     const diveBytes = replLink.bytes();
+    const photoBytes = filesUnder(path.join(shoreDir, 'photos')).reduce((n, f) => n + statSync(path.join(shoreDir, 'photos', f)).size, 0);
 
     // Straight from the ship: every reader's requests cross the link.
     shipLink.reset();
@@ -241,6 +250,8 @@ export async function benchShore(): Promise<void> {
         ...LIMITS,
         MIRROR_OF: shipOverLink,
         REPLICA: shoreDir,
+        // The test helper sets its own photo folder; the shore's photos are the replica's.
+        UPLOADS_DIR: path.join(shoreDir, 'photos'),
         MIRROR_KEY,
         BATHYNOTE_DEMO: '0',
       });
@@ -294,6 +305,7 @@ export async function benchShore(): Promise<void> {
     out += line('figure', 'measured', 'target');
     out += line('seeding in port (first snapshot, not counted)', mb(seedBytes));
     out += line('the dive replicated once (record + photos)', mb(diveBytes));
+    out += line('  of which photo files (all sizes, as stored)', mb(photoBytes));
     out += line(`${READERS} readers straight from the ship: bytes on link`, mb(straightBytes));
     if (typeof mirror === 'string') out += line(`${READERS} readers through the mirror`, mirror);
     else {
