@@ -51,7 +51,13 @@ export async function runShip(settings: ShipSettings, buildDir: string): Promise
   say(`  the record and photos go to the shore copy at ${where} (Litestream, rsync)`);
   const photos = startPhotoShipper(settings, say);
 
-  for (const signal of ['SIGTERM', 'SIGINT'] as const) process.on(signal, () => litestream.kill(signal));
+  for (const signal of ['SIGTERM', 'SIGINT'] as const)
+    process.on(signal, () => {
+      litestream.kill(signal);
+      // Litestream's last sync can wait on a dead link for good; what it has not sent stays in its
+      // WAL copy beside the database and goes at the next start, so it is stopped after a while.
+      setTimeout(() => litestream.kill('SIGKILL'), 20_000).unref();
+    });
   const code = await new Promise<number>((resolve) => {
     litestream.once('error', (err) => {
       say(`Bathynote could not start Litestream: ${err.message}`);
