@@ -2,8 +2,11 @@
 import { letYoungGenerationGrow } from './young-generation';
 
 import { fork } from 'node:child_process';
+import { existsSync } from 'node:fs';
 import type { RequestListener } from 'node:http';
 import path from 'node:path';
+
+import Database from 'better-sqlite3';
 
 import { createApp } from './app';
 import { closeContext, createContext } from './bootstrap';
@@ -68,8 +71,16 @@ async function main() {
   // A shore mirror's record is the ship's, restored: it is neither migrated nor seeded here.
   const mirror = env.MIRROR_OF && env.REPLICA ? new Mirror(mirrorSettings(env)) : undefined;
   if (mirror) await mirror.prepare((line) => process.stdout.write(`  ${line}\n`));
+  // An existing database is held open (with a read done, so this connection keeps its shared lock)
+  // while the child prepares it: the child's connection is then never the last to close, and a
+  // last close would checkpoint the WAL away. Under Litestream that would end its generation and
+  // send the whole database across the link again; Litestream opens the file only a moment later.
+  const hold = !mirror && existsSync(env.DATABASE_PATH) ? new Database(env.DATABASE_PATH, { fileMustExist: true }) : undefined;
+  hold?.prepare('select count(*) from sqlite_master').get();
   const prepared: PreparedDatabase = mirror ? { seeded: false, observations: 0, demo: null } : await prepareDatabase();
   const ctx = await createContext(env, { migrate: false });
+  ctx.db.$client.prepare('select count(*) from sqlite_master').get();
+  hold?.close();
   if (prepared.seeded) ctx.log.info('seeded the demo campaigns', { observations: prepared.observations });
   if (mirror) {
     // The ship sends the mail and the digests; the shore copy must not send them again.
