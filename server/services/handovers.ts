@@ -339,6 +339,12 @@ export function createHandoverScheduler(
   clock: () => Date = () => new Date(),
 ): HandoverScheduler {
   let job: Cron | undefined;
+  const noteWritten = (campaignId: string, at: Date) =>
+    db
+      .select({ id: handovers.id })
+      .from(handovers)
+      .where(and(eq(handovers.campaignId, campaignId), eq(handovers.changeAt, at)))
+      .get() !== undefined;
 
   function tick(now = clock()): number {
     let written = 0;
@@ -353,7 +359,8 @@ export function createHandoverScheduler(
         const plan = loadPlan(db, campaignId);
         const since = Math.max(now.getTime() - 86_400_000, plan.updatedAt?.getTime() ?? 0);
         const change = watchChanges(plan.watches, plan.timeZone, new Date(since), now).at(-1);
-        if (!change) continue;
+        // Once the note of this change is written, the minutes until the next change cost one lookup.
+        if (!change || noteWritten(campaignId, change.at)) continue;
         db.transaction((tx) => {
           const { diveId, content } = composeHandover(tx, campaignId, change);
           const row = tx
