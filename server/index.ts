@@ -83,8 +83,10 @@ async function main() {
   hold?.close();
   if (prepared.seeded) ctx.log.info('seeded the demo campaigns', { observations: prepared.observations });
   if (mirror) {
-    // The ship sends the mail and the digests; the shore copy must not send them again.
+    // The ship sends the mail and the digests and writes the handover notes; the shore copy must
+    // not do any of it again (what it wrote would be lost at the next copy anyway).
     ctx.digests.stop();
+    ctx.handovers.stop();
     await ctx.mail.stop();
     // A session ended on the ship ends here with the next copy, not when its cached check runs out.
     mirror.onSwap(() => sessionCacheFor(ctx.auth).clear());
