@@ -93,3 +93,16 @@ export const taxaKeys = {
   checklist: (campaignId: string) => [...taxaKeys.root, 'checklist', campaignId] as const,
   substrates: (campaignId: string) => [...taxaKeys.root, 'substrates', campaignId] as const,
 };
+
+export const watchKeys = {
+  root: ['watches'] as const,
+  plan: (campaignId: string) => [...watchKeys.root, 'plan', campaignId] as const,
+  handovers: (campaignId: string) => [...watchKeys.root, 'handovers', campaignId] as const,
+};
+
+/** A report is always made afresh from the record: nothing else reads or changes it. */
+export const reportKeys = {
+  root: ['reports'] as const,
+  dive: (diveId: string) => [...reportKeys.root, 'dive', diveId] as const,
+  day: (campaignId: string, date: string) => [...reportKeys.root, 'day', campaignId, date] as const,
+};

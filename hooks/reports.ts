@@ -3,15 +3,9 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 
 import { reportSchema } from '@/lib/schemas';
 import { request } from './api';
+import { reportKeys } from './query-keys';
 
 const enc = encodeURIComponent;
-
-/** Kept beside the report's hooks: nothing else reads or changes a report, it is always made afresh from the record. */
-export const reportKeys = {
-  root: ['reports'] as const,
-  dive: (diveId: string) => [...reportKeys.root, 'dive', diveId] as const,
-  day: (campaignId: string, date: string) => [...reportKeys.root, 'day', campaignId, date] as const,
-};
 
 export const diveReportQuery = (diveId: string) =>
   queryOptions({

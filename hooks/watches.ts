@@ -6,14 +6,9 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/r
 import { handoverListSchema, handoverSchema, watchPlanSchema, type WatchPlanUpdate } from '@/lib/schemas';
 
 import { request } from './api';
+import { watchKeys } from './query-keys';
 
 const enc = encodeURIComponent;
-
-export const watchKeys = {
-  root: ['watches'] as const,
-  plan: (campaignId: string) => [...watchKeys.root, 'plan', campaignId] as const,
-  handovers: (campaignId: string) => [...watchKeys.root, 'handovers', campaignId] as const,
-};
 
 export const watchPlanQuery = (campaignId: string) =>
   queryOptions({
