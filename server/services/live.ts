@@ -5,7 +5,15 @@ import type { Statement } from 'better-sqlite3';
 import type { Db, Executor } from '../../db/client';
 
 export type LiveEventType =
-  'observation.created' | 'observation.updated' | 'observation.retired' | 'observation.restored' | 'dive.updated' | 'dive.restamped';
+  | 'observation.created'
+  | 'observation.updated'
+  | 'observation.retired'
+  | 'observation.restored'
+  | 'dive.updated'
+  | 'dive.restamped'
+  // A handover note written at a change of watch, or acknowledged; the payload is the note.
+  | 'handover.written'
+  | 'handover.acknowledged';
 
 export type LiveEvent = {
   id: number;
