@@ -151,6 +151,8 @@ export const dives = sqliteTable(
     frameRate: text('frame_rate'),
     /** Telemetry samples further apart than this leave "no telemetry" between them. */
     telemetryGapS: real('telemetry_gap_s').notNull().default(30),
+    /** Distance between the vehicle's two parallel lasers on this dive, in cm: where photo measurements start. */
+    laserSpacingCm: real('laser_spacing_cm'),
     version: integer('version').notNull().default(1),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
@@ -243,6 +245,8 @@ export const observationSizes = sqliteTable(
     dimension: text('dimension').$type<SizeDimension>().notNull(),
     valueCm: real('value_cm').notNull(),
     method: text('method').$type<SizeMethod>().notNull(),
+    /** The photo measurement this size was taken from; null when a person gave it. */
+    measurementId: text('measurement_id'),
   },
   (t) => [primaryKey({ columns: [t.observationId, t.dimension] })],
 );

@@ -1,0 +1,1 @@
+ALTER TABLE `dives` ADD `laser_spacing_cm` real;
