@@ -13,7 +13,7 @@ import {
   isInDiveLogs,
   mergeIntoDiveLogs,
 } from './cache-effects';
-import { sessionKeys, telemetryKeys } from './query-keys';
+import { sessionKeys, telemetryKeys, watchKeys } from './query-keys';
 
 export type LiveStatus = 'connecting' | 'live' | 'offline';
 
@@ -151,6 +151,11 @@ function connect(qc: QueryClient, diveId: string, followers: Set<Follower>): Con
     summaryChanged();
     void afterTelemetryImported(qc, diveId);
   });
+  // A handover note was written at a change of watch, or acknowledged: the campaign's notes, and
+  // who is on watch now, are fetched again rather than waiting for their minute's refetch.
+  const handoverChanged = () => void qc.invalidateQueries({ queryKey: watchKeys.root });
+  on('handover.written', handoverChanged);
+  on('handover.acknowledged', handoverChanged);
   on('dive.updated', (data) => {
     const dive = parse(diveSchema, data);
     if (dive && dive.id === diveId) afterDiveChanged(qc, dive);

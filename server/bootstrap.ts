@@ -45,7 +45,7 @@ export async function createContext(env: Env, options: { now?: () => Date; migra
     mailer,
     mail: createMailSender(db, mailer, log, { attempts: env.MAIL_ATTEMPTS, retryBaseMs: env.MAIL_RETRY_BASE_MS }),
     digests: createDigestScheduler({ db, publicUrl: env.PUBLIC_URL, secret: env.AUTH_SECRET }, log, () => ctx.mail.kick(), options.now),
-    handovers: createHandoverScheduler(db, log, env.PUBLIC_URL, () => ctx.mail.kick(), options.now),
+    handovers: createHandoverScheduler(db, live, log, env.PUBLIC_URL, () => ctx.mail.kick(), options.now),
     postbox,
     version: packageVersion(),
   };

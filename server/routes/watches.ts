@@ -38,7 +38,7 @@ export function watchRoutes(ctx: AppContext): Router {
     requireCampaignRole(db, byHandover, ['lead', 'scientist', 'pilot', 'guest'], 'acknowledge a handover'),
     (req, res) => {
       const { userId, role } = accessOf(req);
-      res.json(acknowledgeHandover(db, req.params.handoverId as string, userId, role));
+      res.json(acknowledgeHandover(db, ctx.live, req.params.handoverId as string, userId, role));
     },
   );
 

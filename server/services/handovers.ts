@@ -32,6 +32,7 @@ import {
 import { observationKinds, type DivePhase, type Handover, type HandoverContent, type WatchTurnOut } from '../../lib/schemas';
 import { watchChanges, type WatchChange } from '../../lib/watches';
 import { forbidden, notFound } from '../errors';
+import type { LiveHub, StageEvent } from './live';
 import type { Logger } from './logger';
 import { queueMail } from './mail-queue';
 import { renderMail } from './mail-templates';
@@ -44,6 +45,14 @@ const MAX_ITEMS = 100;
 const MAX_LATEST = 20;
 /** A telemetry sample older than this at the change is not "the depth now". */
 const DEPTH_FRESH_MS = 10 * 60_000;
+/**
+ * After the server was down, the changes of watch it missed within this span before now get their
+ * notes; older ones get none, so a long stop does not fill the record with notes nobody was there
+ * to read.
+ */
+export const MISSED_CHANGES_WINDOW_MS = 24 * 3_600_000;
+/** A dive recovered longer ago than this before a note is not told of it live (its log is unlikely to be open). */
+const TELL_RECOVERED_WITHIN_MS = 24 * 3_600_000;
 
 const live = (campaignId: string) => and(eq(observations.campaignId, campaignId), eq(observations.retired, false));
 
@@ -228,20 +237,41 @@ export function handoverCampaign(db: Executor, handoverId: string): string | und
  * The incoming watch acknowledges the note (a lead may for them). The first acknowledgment is kept;
  * acknowledging again answers the note as it is.
  */
-export function acknowledgeHandover(db: Db, handoverId: string, userId: string, role: string, now = new Date()): Handover {
+export function acknowledgeHandover(db: Db, live: LiveHub, handoverId: string, userId: string, role: string, now = new Date()): Handover {
   const row = db.select().from(handovers).where(eq(handovers.id, handoverId)).get();
   if (!row) throw notFound();
   const incoming = row.incoming as WatchTurnOut | null;
   if (role !== 'lead' && !incoming?.members.some((m) => m.id === userId)) {
     throw forbidden('Only someone of the incoming watch, or a campaign lead, may acknowledge this handover.');
   }
-  if (!row.acknowledgedAt) {
-    db.update(handovers)
+  if (row.acknowledgedAt) return toHandovers(db, [row])[0]!;
+  return live.withEvents((tx, stage) => {
+    const changed = tx
+      .update(handovers)
       .set({ acknowledgedBy: userId, acknowledgedAt: now })
       .where(and(eq(handovers.id, handoverId), isNull(handovers.acknowledgedAt)))
-      .run();
-  }
-  return toHandovers(db, [db.select().from(handovers).where(eq(handovers.id, handoverId)).get()!])[0]!;
+      .run().changes;
+    const note = toHandovers(tx, [tx.select().from(handovers).where(eq(handovers.id, handoverId)).get()!])[0]!;
+    if (changed > 0) tellOpenDives(tx, stage, note, 'handover.acknowledged', now);
+    return note;
+  });
+}
+
+/**
+ * Tells the readers of the campaign's dives that a note was written or acknowledged, so the dive
+ * log shows it at once. The dive log shows the campaign's latest note whichever dive it is of,
+ * so every dive whose log may be open hears it: those planned or under way, and those recovered
+ * within the last day. Each event is also kept for a reader who reconnects.
+ */
+function tellOpenDives(tx: Executor, stage: StageEvent, note: Handover, type: 'handover.written' | 'handover.acknowledged', now: Date) {
+  const recent = now.getTime() - TELL_RECOVERED_WITHIN_MS;
+  const diveIds = tx
+    .select({ id: dives.id })
+    .from(dives)
+    .where(and(eq(dives.campaignId, note.campaignId), or(isNull(dives.onDeckAt), gt(dives.onDeckAt, new Date(recent)))))
+    .all()
+    .map((d) => d.id);
+  for (const diveId of diveIds) stage(note.campaignId, diveId, type, note, now);
 }
 
 /** Mails a note (again) to its incoming watch, on a lead's request; returns how many mails were queued. */
@@ -319,7 +349,10 @@ export function queueHandoverMail(tx: Executor, publicUrl: string, handover: Han
 }
 
 export type HandoverScheduler = {
-  /** Writes the note of the latest change of watch up to `now` in each campaign, once. Returns how many were written. */
+  /**
+   * Writes the notes of the changes of watch up to `now` that have none yet, within the last day,
+   * oldest first, in each campaign. Returns how many were written.
+   */
   tick(now?: Date): number;
   start(): void;
   stop(): void;
@@ -327,12 +360,17 @@ export type HandoverScheduler = {
 
 /**
  * Checks every minute (watches change on the minute) for a change of watch that has no note yet.
- * Only the latest change since the plan was last set, and within a day, is written: after a long
- * stop the server does not fill the record with notes nobody was there to read. The unique index
- * on (campaign, change) makes a second writer's insert a no-op. The clock is injected for tests.
+ * After the server was down, every change it missed since the plan was last set and within
+ * `MISSED_CHANGES_WINDOW_MS` (a day) gets its note, oldest first, each with the entries of its
+ * own outgoing watch; the open items are those open when the note is written. Only the latest of
+ * them is mailed, since the incoming watch of an earlier one has already come and gone. Each note
+ * is told live to the readers of the campaign's dives. The unique index on (campaign, change) and
+ * the check for notes already written make a second run, or a second writer, write nothing again.
+ * The clock is injected for tests.
  */
 export function createHandoverScheduler(
   db: Db,
+  live: LiveHub,
   log: Logger,
   publicUrl: string,
   kick: () => void,
@@ -345,6 +383,15 @@ export function createHandoverScheduler(
       .from(handovers)
       .where(and(eq(handovers.campaignId, campaignId), eq(handovers.changeAt, at)))
       .get() !== undefined;
+  const writtenSince = (campaignId: string, since: Date) =>
+    new Set(
+      db
+        .select({ at: handovers.changeAt })
+        .from(handovers)
+        .where(and(eq(handovers.campaignId, campaignId), gt(handovers.changeAt, since)))
+        .all()
+        .map((r) => r.at.getTime()),
+    );
 
   function tick(now = clock()): number {
     let written = 0;
@@ -357,30 +404,37 @@ export function createHandoverScheduler(
     for (const campaignId of campaignIds) {
       try {
         const plan = loadPlan(db, campaignId);
-        const since = Math.max(now.getTime() - 86_400_000, plan.updatedAt?.getTime() ?? 0);
-        const change = watchChanges(plan.watches, plan.timeZone, new Date(since), now).at(-1);
-        // Once the note of this change is written, the minutes until the next change cost one lookup.
-        if (!change || noteWritten(campaignId, change.at)) continue;
-        db.transaction((tx) => {
-          const { diveId, content } = composeHandover(tx, campaignId, change);
-          const row = tx
-            .insert(handovers)
-            .values({
-              campaignId,
-              diveId,
-              changeAt: change.at,
-              outgoing: change.outgoing ? turnOut(change.outgoing) : null,
-              incoming: change.incoming ? turnOut(change.incoming) : null,
-              content,
-              createdAt: now,
-            })
-            .onConflictDoNothing()
-            .returning()
-            .get();
-          if (!row) return;
-          written++;
-          if (plan.mailHandovers) mailed += queueHandoverMail(tx, publicUrl, toHandovers(tx, [row])[0]!, now);
-        });
+        const since = new Date(Math.max(now.getTime() - MISSED_CHANGES_WINDOW_MS, plan.updatedAt?.getTime() ?? 0));
+        const changes = watchChanges(plan.watches, plan.timeZone, since, now);
+        const latest = changes.at(-1);
+        // Once the note of the latest change is written, the minutes until the next change cost one lookup.
+        if (!latest || noteWritten(campaignId, latest.at)) continue;
+        const done = writtenSince(campaignId, since);
+        for (const change of changes) {
+          if (done.has(change.at.getTime())) continue;
+          live.withEvents((tx, stage) => {
+            const { diveId, content } = composeHandover(tx, campaignId, change);
+            const row = tx
+              .insert(handovers)
+              .values({
+                campaignId,
+                diveId,
+                changeAt: change.at,
+                outgoing: change.outgoing ? turnOut(change.outgoing) : null,
+                incoming: change.incoming ? turnOut(change.incoming) : null,
+                content,
+                createdAt: now,
+              })
+              .onConflictDoNothing()
+              .returning()
+              .get();
+            if (!row) return;
+            written++;
+            const note = toHandovers(tx, [row])[0]!;
+            tellOpenDives(tx, stage, note, 'handover.written', now);
+            if (plan.mailHandovers && change === latest) mailed += queueHandoverMail(tx, publicUrl, note, now);
+          });
+        }
       } catch (err) {
         log.error('handover note could not be written', { campaignId, err });
       }

@@ -1,14 +1,17 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { handoverListSchema, handoverSchema, watchPlanSchema } from '@/lib/schemas';
+import { handoverListSchema, handoverSchema, watchPlanSchema, type Handover } from '@/lib/schemas';
 import { watchStandersDuring } from '@/server/services/watches';
 import { emails } from '../helpers/demo';
 import { buildFixtures, type Fixtures } from '../helpers/fixtures';
+import { openSse, type SseClient } from '../helpers/sse';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
 let t: TestServer;
 let ids: Fixtures;
 let diveId: string;
+// A guest reading the dive's log, who hears of each note as it is written or acknowledged.
+let reader: SseClient;
 const as = (who: keyof typeof emails) => t.signIn(emails[who]);
 
 // The fixture campaign's display zone is Europe/Lisbon, on UTC+0 in November (IANA tz database).
@@ -42,8 +45,15 @@ beforeAll(async () => {
     const res = await lead.post(`/api/dives/${diveId}/phases`).send({ phase, at });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
   }
+  reader = openSse(`${t.url}/api/dives/${diveId}/stream`, { cookie: await t.sessionCookie(emails.guest) });
+  expect(await reader.status).toBe(200);
 });
-afterAll(() => t.close());
+afterAll(async () => {
+  reader.close();
+  await t.close();
+});
+
+const heard = (type: string) => reader.events.filter((e) => e.event === type).map((e) => JSON.parse(e.data) as Handover);
 
 describe('the watch plan', () => {
   it('is empty until a lead sets it, and only a lead may set it', async () => {
@@ -95,10 +105,10 @@ describe('the handover at a change of watch', () => {
   let handoverId: string;
 
   it('writes one note with the watch’s entries by kind, the open items and the dive’s phase and depth', async () => {
-    // The plan was set a while before the watch in question.
+    // The plan was set during the watch in question (before that, no change of watch is due a note).
     t.ctx.db.$client
       .prepare('update watch_plans set updated_at = ? where campaign_id = ?')
-      .run(Date.parse('2026-11-01T00:00:00Z'), ids.campaign);
+      .run(Date.parse('2026-11-20T05:00:00Z'), ids.campaign);
     const inWatch = (hhmm: string) => `2026-11-20T${hhmm}:00.000Z`;
     await log('biologist', { kind: 'biology', title: 'Before the watch', observedAt: '2026-11-20T03:30:00.000Z' });
     const unverified = await log('biologist', { kind: 'biology', title: 'Squat lobster', observedAt: inWatch('06:10') });
@@ -182,6 +192,18 @@ describe('the handover at a change of watch', () => {
     expect(h.acknowledgedAt).toBeNull();
   });
 
+  it('is told at once to the readers of the dive’s log, with the note itself', async () => {
+    const e = await reader.next((x) => x.event === 'handover.written', 2000);
+    const told = handoverSchema.parse(JSON.parse(e.data));
+    expect(told.id).toBe(handoverId);
+    expect(told.changeAt).toBe(change.toISOString());
+    expect(told.content.entries.total).toBe(7);
+    // Kept for a reader who reconnects, like every live event.
+    expect(
+      t.ctx.db.$client.prepare("select count(*) from live_events where type = 'handover.written' and dive_id = ?").pluck().get(diveId),
+    ).toBe(1);
+  });
+
   it('is mailed to the incoming watch through the mail queue', async () => {
     const rows = t.ctx.db.$client.prepare('select kind, "to", subject from mail_queue where ref = ?').all(handoverId) as {
       to: string;
@@ -223,6 +245,11 @@ describe('the handover at a change of watch', () => {
     const again = handoverSchema.parse((await (await as('lead')).post(path)).body);
     expect(again.acknowledgedBy?.id).toBe(ids.userId(emails.pilot));
     expect(again.acknowledgedAt).toBe(h.acknowledgedAt);
+    // The readers hear of the acknowledgment once: acknowledging again changes nothing.
+    const e = await reader.next((x) => x.event === 'handover.acknowledged', 2000);
+    expect(handoverSchema.parse(JSON.parse(e.data)).acknowledgedBy?.id).toBe(ids.userId(emails.pilot));
+    await (await as('guest')).get(`/api/campaigns/${ids.campaign}/handovers`);
+    expect(heard('handover.acknowledged')).toHaveLength(1);
   });
 
   it('is not written before the plan was set, nor where the plan has no change', () => {
@@ -232,5 +259,49 @@ describe('the handover at a change of watch', () => {
     // The 08:00 change of the 21st came before the plan was set; the next change is at 12:00.
     expect(t.ctx.handovers.tick(new Date('2026-11-21T11:59:00.000Z'))).toBe(0);
     expect(t.ctx.handovers.tick(new Date('2026-11-21T12:00:00.000Z'))).toBe(1);
+  });
+});
+
+describe('after the server was down', () => {
+  it('writes a note for every change of watch it missed within the last day, oldest first, each with its own watch’s entries', async () => {
+    // The last note was written at 12:00 on the 21st; the server then stops until 09:30 on the 23rd.
+    await log('biologist', { kind: 'biology', title: 'Forenoon on the 22nd', observedAt: '2026-11-22T10:00:00.000Z' });
+    await log('biologist', { kind: 'biology', title: 'Morning on the 23rd', observedAt: '2026-11-23T05:00:00.000Z' });
+    await log('pilot', { kind: 'operations', title: 'Morning on the 23rd, later', observedAt: '2026-11-23T06:00:00.000Z' });
+    const before = heard('handover.written').length;
+    const back = new Date('2026-11-23T09:30:00.000Z');
+    // Within the day before 09:30 on the 23rd: 12:00 on the 22nd, 04:00 and 08:00 on the 23rd.
+    // The 04:00 and 08:00 changes of the 22nd lie further back and get no note.
+    expect(t.ctx.handovers.tick(back)).toBe(3);
+    expect(t.ctx.handovers.tick(back)).toBe(0);
+    expect(t.ctx.handovers.tick(new Date('2026-11-23T09:31:00.000Z'))).toBe(0);
+
+    const list = handoverListSchema.parse((await (await as('guest')).get(`/api/campaigns/${ids.campaign}/handovers`)).body);
+    expect(list.items.map((h) => [h.changeAt, h.outgoing?.name ?? null, h.incoming?.name ?? null, h.content.entries.total])).toEqual([
+      ['2026-11-23T08:00:00.000Z', 'Morning', 'Forenoon', 2],
+      ['2026-11-23T04:00:00.000Z', null, 'Morning', 0],
+      ['2026-11-22T12:00:00.000Z', 'Forenoon', null, 1],
+      ['2026-11-21T12:00:00.000Z', 'Forenoon', null, 0],
+      ['2026-11-20T08:00:00.000Z', 'Morning', 'Forenoon', 7],
+    ]);
+    expect(list.items[0]!.content.entries.byKind).toEqual({ biology: 1, archaeology: 0, environment: 0, operations: 1 });
+    // Written oldest first, and told to the readers in that order.
+    const order = t.ctx.db.$client
+      .prepare('select change_at from handovers where campaign_id = ? and change_at > ? order by rowid')
+      .pluck()
+      .all(ids.campaign, Date.parse('2026-11-22T00:00:00Z'));
+    expect(order).toEqual([Date.parse('2026-11-22T12:00:00Z'), Date.parse('2026-11-23T04:00:00Z'), Date.parse('2026-11-23T08:00:00Z')]);
+    await reader.next(() => heard('handover.written').length >= before + 3, 2000);
+    expect(
+      heard('handover.written')
+        .slice(before)
+        .map((h) => h.changeAt),
+    ).toEqual(['2026-11-22T12:00:00.000Z', '2026-11-23T04:00:00.000Z', '2026-11-23T08:00:00.000Z']);
+    // Only the note whose incoming watch is on now is mailed.
+    const mailed = t.ctx.db.$client
+      .prepare('select h.change_at from mail_queue m join handovers h on h.id = m.ref where h.change_at > ?')
+      .pluck()
+      .all(Date.parse('2026-11-22T00:00:00Z'));
+    expect(mailed).toEqual([Date.parse('2026-11-23T08:00:00Z')]);
   });
 });
