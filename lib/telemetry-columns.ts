@@ -402,3 +402,198 @@ export function parseRow(record: readonly string[], mapping: ColumnMapping, opti
   }
   return { ok: true, sample };
 }
+
+/** Powers of ten a double holds exactly (10²² is the last). */
+const EXACT_POWERS_OF_TEN = Array.from({ length: 23 }, (_, k) => 10 ** k);
+/** Mantissas up to this many digits are integers a double holds exactly (below 2⁵³). */
+const EXACT_DIGITS = 15;
+const NOT_READ = -1;
+/** The digit at `i` as a number (outside 0 to 9 for any other character). */
+const digitAt = (line: string, i: number) => line.charCodeAt(i) - 0x30;
+/** Where "YYYY-MM-DDTHH:MM:SS" has its digits. */
+const ISO_DIGITS_AT = [0, 1, 2, 3, 5, 6, 8, 9, 11, 12, 14, 15, 17, 18] as const;
+
+/**
+ * A reader of one plain log line (no quotes, no spaces, decimal point) straight into numbers,
+ * for the rows that make up nearly all of a long log: "2026-05-13T17:40:00.100Z,598.41,...".
+ * It reads exactly what {@link parseRow} reads from the same line, or gives up (returns false)
+ * on any line it is not sure of (a space, an exponent, a "NaN", an offset other than Z, a value
+ * out of range, a field count other than the header's), leaving that line to the full reader,
+ * which then says what is wrong with it.
+ *
+ * Decimals are read as an integer mantissa divided by an exact power of ten, which a double
+ * rounds correctly (Clinger 1990, "How to read floating point numbers accurately", PLDI '90, the
+ * fast path): the same number `Number(text)` gives. Longer mantissas go to the full reader.
+ *
+ * @param channels the order of the numbers written after the time in `out`
+ * @returns a function writing the time to `out[0]` and each channel to `out[1 + k]` (NaN for none)
+ */
+export function plainRowReader(
+  mapping: ColumnMapping,
+  options: ParseRowOptions,
+  fieldCount: number,
+  separator: string,
+  channels: readonly Exclude<TelemetryChannel, 'time'>[],
+): ((line: string, out: Float64Array) => boolean) | null {
+  const timeIndex = mapping.time;
+  if (timeIndex === undefined || options.decimalComma === true || separator.length !== 1) return null;
+  const sep = separator.charCodeAt(0);
+  // For each field: the slot in `out` it goes to (0 for the time), or NOT_READ.
+  const slotOf = new Int32Array(fieldCount).fill(NOT_READ);
+  const channelOf: (NumericChannel | null)[] = new Array<NumericChannel | null>(fieldCount).fill(null);
+  slotOf[timeIndex] = 0;
+  for (const channel of TELEMETRY_CHANNELS) {
+    if (channel === 'time') continue;
+    const index = mapping[channel];
+    if (index === undefined || index >= fieldCount) continue;
+    const k = channels.indexOf(channel);
+    // A channel the caller does not keep is still checked by the full reader.
+    if (k === -1) return null;
+    slotOf[index] = 1 + k;
+    channelOf[index] = channel;
+  }
+  const pressureSlot = mapping.pressure !== undefined ? 1 + channels.indexOf('pressure') : NOT_READ;
+  const depthSlot = 1 + channels.indexOf('depth');
+  const depthFromPressureNeeded = mapping.depth === undefined && mapping.pressure !== undefined;
+  if (depthFromPressureNeeded && (depthSlot === 0 || !Number.isFinite(options.latitudeDeg) || Math.abs(options.latitudeDeg) > 90))
+    return null;
+  const absolute = options.pressure === 'absolute';
+  const gpsTime = options.gpsTime;
+  // The last date read and its midnight, so a row costs no Date.UTC while the day stays the same.
+  let dayKey = -1;
+  let dayMs = 0;
+
+  /** The time of `line` from `from` to `to`, or NaN when the full reader must read it. */
+  const readTime = (line: string, from: number, to: number): number => {
+    const n = to - from;
+    let ms: number;
+    if (n >= 20 && line.charCodeAt(to - 1) === 0x5a /* Z */) {
+      // YYYY-MM-DDTHH:MM:SS[.f+]Z
+      if (
+        line.charCodeAt(from + 4) !== 0x2d ||
+        line.charCodeAt(from + 7) !== 0x2d ||
+        (line.charCodeAt(from + 10) !== 0x54 && line.charCodeAt(from + 10) !== 0x20) ||
+        line.charCodeAt(from + 13) !== 0x3a ||
+        line.charCodeAt(from + 16) !== 0x3a
+      )
+        return Number.NaN;
+      for (const i of ISO_DIGITS_AT) {
+        const v = digitAt(line, from + i);
+        if (v < 0 || v > 9) return Number.NaN;
+      }
+      const year = digitAt(line, from + 0) * 1000 + digitAt(line, from + 1) * 100 + digitAt(line, from + 2) * 10 + digitAt(line, from + 3);
+      const month = digitAt(line, from + 5) * 10 + digitAt(line, from + 6);
+      const day = digitAt(line, from + 8) * 10 + digitAt(line, from + 9);
+      const hour = digitAt(line, from + 11) * 10 + digitAt(line, from + 12);
+      const minute = digitAt(line, from + 14) * 10 + digitAt(line, from + 15);
+      const second = digitAt(line, from + 17) * 10 + digitAt(line, from + 18);
+      if (hour > 23 || minute > 59 || second > 59) return Number.NaN;
+      const key = year * 10000 + month * 100 + day;
+      if (key !== dayKey) {
+        if (year < 100 || month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) return Number.NaN;
+        dayKey = key;
+        dayMs = Date.UTC(year, month - 1, day);
+      }
+      ms = dayMs + hour * 3_600_000 + minute * 60_000 + second * 1000;
+      if (n === 20) {
+        // No fraction.
+      } else if (line.charCodeAt(from + 19) === 0x2e || line.charCodeAt(from + 19) === 0x2c) {
+        const digits = n - 21;
+        if (digits < 1) return Number.NaN;
+        for (let i = 20; i < n - 1; i++) {
+          const v = digitAt(line, from + i);
+          if (v < 0 || v > 9) return Number.NaN;
+        }
+        // Three digits are whole milliseconds; other lengths are read as the full reader reads them.
+        ms +=
+          digits === 3
+            ? digitAt(line, from + 20) * 100 + digitAt(line, from + 21) * 10 + digitAt(line, from + 22)
+            : Number(`0.${line.slice(from + 20, to - 1)}`) * 1000;
+      } else return Number.NaN;
+    } else {
+      // Epoch seconds or milliseconds as whole digits.
+      if (n < 1 || n > 15) return Number.NaN;
+      let v = 0;
+      for (let i = from; i < to; i++) {
+        const x = line.charCodeAt(i) - 0x30;
+        if (x < 0 || x > 9) return Number.NaN;
+        v = v * 10 + x;
+      }
+      ms = v < EPOCH_MS_THRESHOLD ? v * 1000 : v;
+    }
+    ms = Math.round(ms);
+    if (gpsTime) ms = gpsToUtcMs(ms);
+    return ms >= EARLIEST_LOG_MS && ms < LATEST_LOG_MS ? ms : Number.NaN;
+  };
+
+  /** The number in `line` from `from` to `to` (NaN for an empty field), or undefined for the full reader. */
+  const readNumber = (line: string, from: number, to: number): number | undefined => {
+    if (from === to) return Number.NaN;
+    let i = from;
+    let negative = false;
+    const first = line.charCodeAt(i);
+    if (first === 0x2d || first === 0x2b) {
+      negative = first === 0x2d;
+      i++;
+    }
+    let mantissa = 0;
+    let digits = 0;
+    let decimals = -1;
+    for (; i < to; i++) {
+      const ch = line.charCodeAt(i);
+      if (ch === 0x2e) {
+        if (decimals !== -1) return undefined;
+        decimals = 0;
+        continue;
+      }
+      const x = ch - 0x30;
+      if (x < 0 || x > 9) return undefined;
+      mantissa = mantissa * 10 + x;
+      digits++;
+      if (decimals !== -1) decimals++;
+    }
+    if (digits === 0 || digits > EXACT_DIGITS) return undefined;
+    const value = decimals > 0 ? mantissa / EXACT_POWERS_OF_TEN[decimals]! : mantissa;
+    return negative ? -value : value;
+  };
+
+  return (line, out) => {
+    out.fill(Number.NaN);
+    let field = 0;
+    let from = 0;
+    const length = line.length;
+    for (let at = 0; at <= length; at++) {
+      if (at < length && line.charCodeAt(at) !== sep) continue;
+      if (field >= fieldCount) return false;
+      const slot = slotOf[field]!;
+      if (slot === 0) {
+        const t = readTime(line, from, at);
+        if (t !== t) return false;
+        out[0] = t;
+      } else if (slot !== NOT_READ) {
+        let value = readNumber(line, from, at);
+        if (value === undefined) return false;
+        if (value === value) {
+          const channel = channelOf[field]!;
+          if (channel === 'pressure' && absolute) value = seaPressureFromAbsolute(value);
+          const [min, max] = RANGES[channel];
+          if (value < min || value > max) return false;
+          if (channel === 'heading' && (value < 0 || value >= 360)) value = value - 360 * Math.floor(value / 360);
+          out[slot] = value;
+        }
+      }
+      field++;
+      from = at + 1;
+    }
+    if (field !== fieldCount) return false;
+    if (depthFromPressureNeeded) {
+      const pressure = out[pressureSlot]!;
+      if (pressure === pressure) {
+        const depth = depthFromPressure(pressure, options.latitudeDeg);
+        if (!(depth >= RANGES.depth[0] && depth <= RANGES.depth[1])) return false;
+        out[depthSlot] = depth;
+      }
+    }
+    return true;
+  };
+}

@@ -28,7 +28,14 @@ import {
   type TelemetryMapping,
   type TelemetryRejection,
 } from '../../lib/schemas';
-import { parseRow, recogniseHeaders, type ColumnMapping, type HeaderRecognition, type TelemetryChannel } from '../../lib/telemetry-columns';
+import {
+  parseRow,
+  plainRowReader,
+  recogniseHeaders,
+  type ColumnMapping,
+  type HeaderRecognition,
+  type TelemetryChannel,
+} from '../../lib/telemetry-columns';
 import { ApiError, fieldError } from '../errors';
 import type { LiveHub } from './live';
 import { diveFacts, spanOf, stampDiveFromStoredLog } from './telemetry';
@@ -204,17 +211,16 @@ async function needsFullParser(filePath: string): Promise<boolean> {
 }
 
 /**
- * The records of a log without quotes, with csv-parse's rules as the import sets them: a BOM
+ * The lines of a log without quotes, with csv-parse's rules as the import sets them: a BOM
  * dropped, LF or CRLF line ends, empty lines and lines starting with "#" skipped, a record longer
  * than MAX_RECORD_SIZE refused. `line` counts every line of the file from 1.
  */
 async function readPlainRecords(
   filePath: string,
-  s: { delimiter: Delimiter; encoding: 'utf8' | 'latin1' },
-  onRecord: (record: string[], line: number) => void,
+  s: { encoding: 'utf8' | 'latin1' },
+  onLine: (text: string, line: number) => void,
   onTooLong: (line: number) => void,
 ): Promise<void> {
-  const separator = DELIMITERS[s.delimiter];
   let line = 0;
   const take = (text: string) => {
     line++;
@@ -223,7 +229,7 @@ async function readPlainRecords(
     if (line === 1) record = record.replace(/^(\uFEFF|\u00EF\u00BB\u00BF)/, '');
     if (record === '' || record.startsWith('#')) return;
     if (record.length > MAX_RECORD_SIZE) return onTooLong(line);
-    onRecord(record.split(separator), line);
+    onLine(record, line);
   };
   let rest = '';
   // Inside a line already refused as too long: its remainder is skipped up to its end.
@@ -277,6 +283,8 @@ type ParseSettings = {
   existing: Float64Array | null;
   /** Where each row taken goes, as soon as it is checked. */
   take: (sample: TelemetryRow) => void;
+  /** The same for a row read straight into numbers: its time, then each of STORED_CHANNELS (NaN for none). */
+  takeRow: (row: Float64Array) => void;
 };
 
 const isoOf = (ms: number) => new Date(ms).toISOString();
@@ -339,25 +347,63 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
       reject(line, 'no-values', null, 'the row has a time but no values');
       return;
     }
-    if (sample.t === lastT) {
-      reject(line, 'duplicate-time', 'time', `the time ${isoOf(sample.t)} repeats line ${lastLine}`);
-      return;
+    if (!timeTaken(sample.t, line)) return;
+    s.take(sample);
+    counted(sample.t, line);
+  };
+
+  /** Whether a row's time follows the rows taken and is not stored yet; refuses the row if not. */
+  const timeTaken = (t: number, line: number): boolean => {
+    if (t === lastT) {
+      reject(line, 'duplicate-time', 'time', `the time ${isoOf(t)} repeats line ${lastLine}`);
+      return false;
     }
-    if (sample.t < lastT) {
-      reject(line, 'time-backwards', 'time', `the time ${isoOf(sample.t)} is earlier than line ${lastLine} (${isoOf(lastT)})`);
-      return;
+    if (t < lastT) {
+      reject(line, 'time-backwards', 'time', `the time ${isoOf(t)} is earlier than line ${lastLine} (${isoOf(lastT)})`);
+      return false;
     }
     if (s.existing) {
-      const i = upperBound(s.existing, sample.t) - 1;
-      if (i >= 0 && s.existing[i] === sample.t) {
-        reject(line, 'already-stored', 'time', `the dive's log already has a sample at ${isoOf(sample.t)}`);
+      const i = upperBound(s.existing, t) - 1;
+      if (i >= 0 && s.existing[i] === t) {
+        reject(line, 'already-stored', 'time', `the dive's log already has a sample at ${isoOf(t)}`);
+        return false;
+      }
+    }
+    return true;
+  };
+
+  const counted = (t: number, line: number) => {
+    if (rowsTaken++ === 0) firstMs = t;
+    lastT = t;
+    lastLine = line;
+  };
+
+  const separator = DELIMITERS[s.delimiter];
+  const row = new Float64Array(1 + STORED_CHANNELS.length);
+  // Built at the first data line, once the header has told the columns (and maybe the GPS clock).
+  let plainRow: ReturnType<typeof plainRowReader> | undefined;
+  /** Takes one line of a log without quotes: read straight into numbers where it can be, else split and read in full. */
+  const onLine = (text: string, line: number): void => {
+    if (headers) {
+      plainRow ??= plainRowReader(
+        mapping,
+        { latitudeDeg: s.latitudeDeg, pressure: s.pressure, gpsTime, decimalComma: s.decimalComma },
+        headers.length,
+        separator,
+        STORED_CHANNELS,
+      );
+      if (plainRow?.(text, row)) {
+        let values = false;
+        for (let k = 1; k < row.length; k++) if (row[k] === row[k]) values = true;
+        if (!values) return reject(line, 'no-values', null, 'the row has a time but no values');
+        const t = row[0]!;
+        if (!timeTaken(t, line)) return;
+        s.takeRow(row);
+        counted(t, line);
         return;
       }
     }
-    s.take(sample);
-    if (rowsTaken++ === 0) firstMs = sample.t;
-    lastT = sample.t;
-    lastLine = line;
+    onRecord(text.split(separator), line);
   };
 
   if (await needsFullParser(filePath)) {
@@ -403,7 +449,7 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
     const sink = new Writable({ objectMode: true, write: (_chunk, _enc, done) => done() });
     await pipeline(createReadStream(filePath, { highWaterMark: READ_CHUNK }), parser, sink);
   } else {
-    await readPlainRecords(filePath, s, onRecord, (line) => {
+    await readPlainRecords(filePath, s, onLine, (line) => {
       if (!headers) throw headerTooLong(line);
       reject(line, 'bad-csv', null, `not valid CSV: the record is longer than ${MAX_RECORD_SIZE} characters`);
     });
@@ -478,6 +524,12 @@ class StagedRows {
   constructor(dir: string) {
     this.file = path.join(dir, `.bathynote-import-${randomUUID()}.bin`);
     this.fd = openSync(this.file, 'w+');
+  }
+
+  /** Stages a row already in the staged layout: its time, then each of STORED_CHANNELS (NaN for none). */
+  pushRow(row: Float64Array): void {
+    this.chunk.set(row, this.filled * STAGED_WIDTH);
+    if (++this.filled === STAGED_CHUNK_ROWS) this.flush();
   }
 
   push(sample: TelemetryRow): void {
@@ -608,6 +660,7 @@ async function importStaged(
     latitudeDeg: facts.datum.lat,
     existing,
     take: (sample) => staged.push(sample),
+    takeRow: (row) => staged.pushRow(row),
   });
   staged.finish();
   const { recognition, rowsTaken, firstMs, lastMs } = parsed;
