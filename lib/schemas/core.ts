@@ -168,6 +168,8 @@ export const diveSchema = z.object({
   }),
   recording: z.object({ startAt: isoOut.nullable(), frameRate: z.string().nullable() }),
   telemetryGapS: z.number(),
+  /** Distance between the vehicle's two lasers on this dive, in cm; null when not set. */
+  laserSpacingCm: z.number().nullable(),
   observationCount: z.number().int(),
   version: z.number().int(),
   createdAt: isoOut,
@@ -349,6 +351,9 @@ export type ObservationListQuery = z.infer<typeof observationListQuerySchema>;
 
 /* ---- dives: planning, phases, recording ---- */
 
+/** The lasers of a vehicle's scale sit a few to some tens of cm apart; outside 1–500 cm is a typing slip. */
+const laserSpacingCm = z.number().finite().min(1, 'At least 1 cm').max(500, 'At most 500 cm');
+
 export const diveCreateSchema = z
   .object({
     number: z
@@ -360,6 +365,7 @@ export const diveCreateSchema = z
     objectives: multiLine().trim().max(4000).default(''),
     plannedMaxDepth: z.number().finite().min(0).max(11_000).nullable().optional(),
     plannedStartAt: instant.nullable().optional(),
+    laserSpacingCm: laserSpacingCm.nullable().optional(),
   })
   .strict();
 
@@ -372,6 +378,7 @@ export const diveUpdateSchema = z
     recordingStartAt: instant.nullable().optional(),
     frameRate: z.string().max(20).nullable().optional(),
     telemetryGapS: z.number().finite().min(1).max(3600).optional(),
+    laserSpacingCm: laserSpacingCm.nullable().optional(),
   })
   .strict();
 

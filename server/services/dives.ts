@@ -31,6 +31,7 @@ export function toDive(row: DiveRow, observationCount: number): Dive {
     },
     recording: { startAt: iso(row.recordingStartAt), frameRate: row.frameRate },
     telemetryGapS: row.telemetryGapS,
+    laserSpacingCm: row.laserSpacingCm,
     observationCount,
     version: row.version,
     createdAt: row.createdAt.toISOString(),
@@ -83,6 +84,7 @@ export function createDive(db: Db, live: LiveHub, campaignId: string, input: Div
         objectives: input.objectives,
         plannedMaxDepth: input.plannedMaxDepth ?? null,
         plannedStartAt: input.plannedStartAt ? new Date(input.plannedStartAt) : null,
+        laserSpacingCm: input.laserSpacingCm ?? null,
       })
       .returning()
       .get();
@@ -107,6 +109,7 @@ export function updateDive(db: Db, live: LiveHub, diveId: string, input: DiveUpd
         ...(input.recordingStartAt !== undefined ? { recordingStartAt: date(input.recordingStartAt) } : {}),
         ...(input.frameRate !== undefined ? { frameRate: input.frameRate } : {}),
         ...(input.telemetryGapS !== undefined ? { telemetryGapS: input.telemetryGapS } : {}),
+        ...(input.laserSpacingCm !== undefined ? { laserSpacingCm: input.laserSpacingCm } : {}),
         version: sql`${dives.version} + 1`,
         updatedAt: new Date(),
       })

@@ -15,6 +15,7 @@ const dive = (number: string, patch: Partial<Dive> & { launch?: string; onDeck?:
     phases: { launch, onBottom: null, offBottom: null, onDeck },
     recording: { startAt: null, frameRate: null },
     telemetryGapS: 30,
+    laserSpacingCm: null,
     observationCount: 0,
     version: 1,
     createdAt: '2026-05-01T00:00:00.000Z',
