@@ -51,7 +51,7 @@ export function measurementRoutes({ db, auth, live }: AppContext): Router {
   });
 
   r.delete('/measurements/:measurementId', signedIn, requireCampaignRole(db, byMeasurement), (req, res) => {
-    retireMeasurement(db, accessOf(req), req.params.measurementId as string);
+    retireMeasurement(db, live, accessOf(req), req.params.measurementId as string);
     res.status(204).end();
   });
 

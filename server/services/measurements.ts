@@ -2,7 +2,7 @@
  * Measurements on photos with the laser scale: kept with the photo and its entry (who, when), and
  * a length on a biology entry becomes the entry's measured length, so it counts among its sizes.
  */
-import { and, asc, eq } from 'drizzle-orm';
+import { and, asc, desc, eq } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../db/client';
 import { observationSizes, observations, photoMeasurements, photos, user } from '../../db/schema';
@@ -64,6 +64,51 @@ export function requireMeasurer(db: Executor, access: CampaignAccess, photoId: s
 /** A length goes into the entry's sizes as shown, to the figures its uncertainty allows. */
 const sizeCm = (value: number, uncertainty: number) => Number(value.toFixed(decimalsFor(uncertainty)));
 
+/** Makes a length measurement the entry's length, remembering which one it is; false when it is out of a size's range. */
+function writeMeasuredLength(tx: Executor, observationId: string, m: Pick<Row, 'id' | 'value' | 'uncertainty'>): boolean {
+  const valueCm = sizeCm(m.value, m.uncertainty);
+  if (!(valueCm > 0 && valueCm <= 100_000)) return false;
+  const set = { valueCm, method: 'measured' as const, measurementId: m.id };
+  tx.insert(observationSizes)
+    .values({ observationId, dimension: 'length', ...set })
+    .onConflictDoUpdate({ target: [observationSizes.observationId, observationSizes.dimension], set })
+    .run();
+  return true;
+}
+
+/**
+ * After a length measurement is removed: when the entry's length was taken from it, the latest
+ * length still measured on the entry's photos takes its place, or the length goes when none is left.
+ * A length a person gave, or one taken from another measurement, stays as it is. True when it changed.
+ */
+function reviseMeasuredLength(tx: Executor, observationId: string, removedId: string): boolean {
+  const size = tx
+    .select({ measurementId: observationSizes.measurementId })
+    .from(observationSizes)
+    .where(and(eq(observationSizes.observationId, observationId), eq(observationSizes.dimension, 'length')))
+    .get();
+  if (!size || size.measurementId !== removedId) return false;
+  const remaining = tx
+    .select({ id: photoMeasurements.id, value: photoMeasurements.value, uncertainty: photoMeasurements.uncertainty })
+    .from(photoMeasurements)
+    .innerJoin(photos, eq(photos.id, photoMeasurements.photoId))
+    .where(
+      and(
+        eq(photoMeasurements.observationId, observationId),
+        eq(photoMeasurements.kind, 'length'),
+        eq(photoMeasurements.retired, false),
+        eq(photos.retired, false),
+      ),
+    )
+    .orderBy(desc(photoMeasurements.createdAt), desc(photoMeasurements.id))
+    .all();
+  for (const m of remaining) if (writeMeasuredLength(tx, observationId, m)) return true;
+  tx.delete(observationSizes)
+    .where(and(eq(observationSizes.observationId, observationId), eq(observationSizes.dimension, 'length')))
+    .run();
+  return true;
+}
+
 export function createMeasurement(db: Db, live: LiveHub, access: CampaignAccess, photoId: string, input: MeasurementCreate): Measurement {
   const entry = livePhotoEntry(db, photoId);
   requireEntryEditor(access, entry.authorId);
@@ -95,12 +140,7 @@ export function createMeasurement(db: Db, live: LiveHub, access: CampaignAccess,
       .returning()
       .get();
     // Sizes belong to biology entries; there the newest length measured is the entry's length.
-    const valueCm = sizeCm(result.value, result.uncertainty);
-    if (input.kind === 'length' && entry.kind === 'biology' && valueCm > 0 && valueCm <= 100_000) {
-      tx.insert(observationSizes)
-        .values({ observationId: entry.photo.observationId, dimension: 'length', valueCm, method: 'measured' })
-        .onConflictDoUpdate({ target: [observationSizes.observationId, observationSizes.dimension], set: { valueCm, method: 'measured' } })
-        .run();
+    if (input.kind === 'length' && entry.kind === 'biology' && writeMeasuredLength(tx, entry.photo.observationId, inserted)) {
       const updated = recordChange(tx, entry.photo.observationId, access.userId, 'updated', now);
       stage(updated.campaignId, updated.diveId, 'observation.updated', updated);
     }
@@ -140,9 +180,9 @@ export function entryMeasurementsOf(db: Db, observationId: string): Measurement[
 
 /**
  * Retires a measurement (kept, no longer shown): its maker while they may still edit the entry, or
- * a lead. The entry's sizes keep what they hold; they are the entry's own record from then on.
+ * a lead. An entry length taken from it is taken again from the measurements left (see above).
  */
-export function retireMeasurement(db: Db, access: CampaignAccess, measurementId: string) {
+export function retireMeasurement(db: Db, live: LiveHub, access: CampaignAccess, measurementId: string) {
   const row = db
     .select({ m: photoMeasurements, authorId: observations.authorId, entryRetired: observations.retired })
     .from(photoMeasurements)
@@ -154,7 +194,13 @@ export function retireMeasurement(db: Db, access: CampaignAccess, measurementId:
   if (access.role !== 'lead' && row.m.createdBy !== access.userId) {
     throw new ApiError(403, 'forbidden', 'Only the person who made a measurement or a campaign lead may remove it.');
   }
-  db.update(photoMeasurements).set({ retired: true }).where(eq(photoMeasurements.id, measurementId)).run();
+  live.withEvents((tx, stage) => {
+    tx.update(photoMeasurements).set({ retired: true }).where(eq(photoMeasurements.id, measurementId)).run();
+    if (row.m.kind === 'length' && reviseMeasuredLength(tx, row.m.observationId, measurementId)) {
+      const updated = recordChange(tx, row.m.observationId, access.userId, 'updated');
+      stage(updated.campaignId, updated.diveId, 'observation.updated', updated);
+    }
+  });
 }
 
 export const measurementCampaignOf = (db: Executor, measurementId: string): string | undefined =>

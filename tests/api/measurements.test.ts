@@ -1,7 +1,14 @@
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
-import { measurementListSchema, measurementSchema, observationDetailSchema, observationSchema, type Observation } from '@/lib/schemas';
+import {
+  diveSchema,
+  measurementListSchema,
+  measurementSchema,
+  observationDetailSchema,
+  observationSchema,
+  type Observation,
+} from '@/lib/schemas';
 import { emails } from '../helpers/demo';
 import { buildFixtures, type Fixtures } from '../helpers/fixtures';
 import { startTestServer, type TestServer } from '../helpers/test-server';
@@ -203,5 +210,125 @@ describe('measuring on a photo', () => {
     expect((await agent.delete(`/api/photos/${photoId}`)).status).toBe(204);
     expect((await agent.post(`/api/photos/${photoId}/measurements`).send(bar)).status).toBe(404);
     expect((await agent.get(`/api/photos/${photoId}/measurements`)).status).toBe(404);
+  });
+});
+
+describe('removing a measurement and the entry’s length', () => {
+  /** A length on the bar, its ends `px` apart: `px` · 0.1 cm (worked here: 10 cm over 100 px). */
+  const lengthOf = (px: number) => ({
+    ...bar,
+    points: [
+      [50, 250],
+      [50 + px, 250],
+    ],
+  });
+  const sizesOf = async (id: string) => (await detail(id)).sizes;
+
+  it('takes the length again from the latest measurement left, and clears it when none is left', async () => {
+    const { entry, photoId } = await entryWithPhoto('biology');
+    const bio = await t.signIn(emails.biologist);
+    const post = async (px: number) =>
+      measurementSchema.parse((await bio.post(`/api/photos/${photoId}/measurements`).send(lengthOf(px))).body);
+    const first = await post(300); // 30 cm
+    const second = await post(200); // 20 cm
+    expect(await sizesOf(entry.id)).toEqual([{ dimension: 'length', valueCm: 20, method: 'measured' }]);
+
+    // Removing the older one leaves the length taken from the newer alone.
+    const v = (await detail(entry.id)).version;
+    expect((await bio.delete(`/api/measurements/${first.id}`)).status).toBe(204);
+    expect(await sizesOf(entry.id)).toEqual([{ dimension: 'length', valueCm: 20, method: 'measured' }]);
+    expect((await detail(entry.id)).version).toBe(v);
+
+    // Removing the one it came from takes the latest left: a third, 25 cm, made after the first.
+    const third = await post(250);
+    expect((await bio.delete(`/api/measurements/${third.id}`)).status).toBe(204);
+    expect(await sizesOf(entry.id)).toEqual([{ dimension: 'length', valueCm: 20, method: 'measured' }]);
+    const fourth = await post(250);
+    expect((await bio.delete(`/api/measurements/${second.id}`)).status).toBe(204);
+    expect(await sizesOf(entry.id)).toEqual([{ dimension: 'length', valueCm: 25, method: 'measured' }]);
+    const before = (await detail(entry.id)).version;
+    expect((await bio.delete(`/api/measurements/${fourth.id}`)).status).toBe(204);
+    const after = await detail(entry.id);
+    expect(after.sizes).toEqual([]);
+    expect(after.version).toBe(before + 1);
+  });
+
+  it('leaves a length a person gave, and an area’s removal leaves the length alone', async () => {
+    const { entry, photoId } = await entryWithPhoto('biology');
+    const bio = await t.signIn(emails.biologist);
+    const m = measurementSchema.parse((await bio.post(`/api/photos/${photoId}/measurements`).send(lengthOf(300))).body);
+    const area = measurementSchema.parse(
+      (
+        await bio.post(`/api/photos/${photoId}/measurements`).send({
+          ...bar,
+          kind: 'area',
+          points: [
+            [0, 0],
+            [100, 0],
+            [100, 100],
+          ],
+        })
+      ).body,
+    );
+    expect((await bio.delete(`/api/measurements/${area.id}`)).status).toBe(204);
+    expect(await sizesOf(entry.id)).toEqual([{ dimension: 'length', valueCm: 30, method: 'measured' }]);
+
+    // Sent back unchanged beside a new width, the length still counts as taken from the photo.
+    let version = (await detail(entry.id)).version;
+    const kept = await bio.patch(`/api/observations/${entry.id}`).send({
+      version,
+      sizes: [
+        { dimension: 'length', valueCm: 30, method: 'measured' },
+        { dimension: 'width', valueCm: 4, method: 'estimated' },
+      ],
+    });
+    expect(kept.status, JSON.stringify(kept.body)).toBe(200);
+    const again = measurementSchema.parse((await bio.post(`/api/photos/${photoId}/measurements`).send(lengthOf(300))).body);
+    expect((await bio.delete(`/api/measurements/${again.id}`)).status).toBe(204);
+    expect((await bio.delete(`/api/measurements/${m.id}`)).status).toBe(204);
+    expect(await sizesOf(entry.id)).toEqual([{ dimension: 'width', valueCm: 4, method: 'estimated' }]);
+
+    // A length typed by hand, even one marked measured, is the person's: removing a measurement leaves it.
+    const third = measurementSchema.parse((await bio.post(`/api/photos/${photoId}/measurements`).send(lengthOf(300))).body);
+    version = (await detail(entry.id)).version;
+    const typed = await bio
+      .patch(`/api/observations/${entry.id}`)
+      .send({ version, sizes: [{ dimension: 'length', valueCm: 31, method: 'measured' }] });
+    expect(typed.status, JSON.stringify(typed.body)).toBe(200);
+    expect((await bio.delete(`/api/measurements/${third.id}`)).status).toBe(204);
+    expect(await sizesOf(entry.id)).toEqual([{ dimension: 'length', valueCm: 31, method: 'measured' }]);
+  });
+});
+
+describe('the dive’s laser spacing', () => {
+  const getDive = async () => diveSchema.parse((await (await t.signIn(emails.lead)).get(`/api/dives/${ids.dive}`)).body);
+
+  it('is set and cleared by the lead, and bad values are refused with nothing stored lost', async () => {
+    const lead = await t.signIn(emails.lead);
+    const start = await getDive();
+    const set = await lead.patch(`/api/dives/${ids.dive}`).send({ version: start.version, laserSpacingCm: 12.5 });
+    expect(set.status, JSON.stringify(set.body)).toBe(200);
+    expect(diveSchema.parse(set.body).laserSpacingCm).toBe(12.5);
+    const stored = await getDive();
+    expect(stored.laserSpacingCm).toBe(12.5);
+    expect(stored.objectives).toBe(start.objectives);
+    expect(stored.telemetryGapS).toBe(start.telemetryGapS);
+
+    for (const bad of [0, -3, 0.5, 501, '10', true, [10]]) {
+      const res = await lead.patch(`/api/dives/${ids.dive}`).send({ version: stored.version, laserSpacingCm: bad, objectives: 'Lost?' });
+      expect(res.status, JSON.stringify(bad)).toBe(400);
+      expect(res.body.error.code).toBe('validation_failed');
+      expect(typeof res.body.error.message).toBe('string');
+      expect(res.body.error.issues.map((i: { path: string }) => i.path)).toContain('laserSpacingCm');
+    }
+    expect(await getDive()).toEqual(stored);
+
+    const guest = await t.signIn(emails.guest);
+    expect((await guest.patch(`/api/dives/${ids.dive}`).send({ version: stored.version, laserSpacingCm: 20 })).status).toBe(403);
+    expect((await getDive()).laserSpacingCm).toBe(12.5);
+
+    const cleared = await lead.patch(`/api/dives/${ids.dive}`).send({ version: stored.version, laserSpacingCm: null });
+    expect(cleared.status).toBe(200);
+    expect((await getDive()).laserSpacingCm).toBeNull();
   });
 });

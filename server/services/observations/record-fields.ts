@@ -51,12 +51,15 @@ export function recordColumns(
   return out;
 }
 
-/** Replaces an entry's sizes when the edit names them. */
+/** Replaces an entry's sizes when the edit names them; a size sent back unchanged keeps the photo measurement it came from. */
 export function writeSizes(db: Executor, observationId: string, sizes: SizeInput[] | undefined) {
   if (sizes === undefined) return;
+  const before = db.select().from(observationSizes).where(eq(observationSizes.observationId, observationId)).all();
+  const originOf = (s: SizeInput) =>
+    before.find((b) => b.dimension === s.dimension && b.valueCm === s.valueCm && b.method === s.method)?.measurementId ?? null;
   db.delete(observationSizes).where(eq(observationSizes.observationId, observationId)).run();
   if (sizes.length === 0) return;
   db.insert(observationSizes)
-    .values(sizes.map((s) => ({ observationId, dimension: s.dimension, valueCm: s.valueCm, method: s.method })))
+    .values(sizes.map((s) => ({ observationId, dimension: s.dimension, valueCm: s.valueCm, method: s.method, measurementId: originOf(s) })))
     .run();
 }
