@@ -35,6 +35,20 @@ export const demoSignIns: { email: string; role: string }[] = [
   { email: 'outsider@bathynote.test', role: 'member of no campaign (Oren Quist)' },
 ];
 
+/**
+ * The 2026 campaign's watch plan: three teams each standing two four-hour watches a day, four on
+ * and eight off (common practice at sea), in the campaign's display zone. The guest is ashore and
+ * stands none. Names and times are the demo's own.
+ */
+const watchPlan2026: { name: string; start: string; end: string; by: PersonKey[] }[] = [
+  { name: 'Small hours', start: '00:00', end: '04:00', by: ['archaeologist'] },
+  { name: 'Dawn', start: '04:00', end: '08:00', by: ['biologist'] },
+  { name: 'Morning', start: '08:00', end: '12:00', by: ['lead', 'pilot'] },
+  { name: 'Afternoon', start: '12:00', end: '16:00', by: ['archaeologist'] },
+  { name: 'Evening', start: '16:00', end: '20:00', by: ['biologist'] },
+  { name: 'Night', start: '20:00', end: '00:00', by: ['lead', 'pilot'] },
+];
+
 type Template = {
   kind: ObservationKind;
   by: PersonKey;
@@ -800,6 +814,7 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
       plans: DivePlan[],
       entries: Record<string, Template[]>,
       findPrefix: string,
+      watchPlan: typeof watchPlan2026 = [],
     ) => {
       const campaign = tx.insert(s.campaigns).values(values).returning().get();
       let findCount = 0;
@@ -816,6 +831,20 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
         tx.insert(s.subscriptions)
           .values({ campaignId: campaign.id, userId: ids[key], frequency: 'after-each-dive', unsubscribeNonce: crypto.randomUUID() })
           .run();
+      }
+      if (watchPlan.length > 0) {
+        // Set now, so the first handover note is the one at the next change of watch.
+        tx.insert(s.watchPlans).values({ campaignId: campaign.id, updatedBy: ids.lead, updatedAt: now }).run();
+        watchPlan.forEach((w, position) => {
+          const watchId = tx
+            .insert(s.watches)
+            .values({ campaignId: campaign.id, name: w.name, start: w.start, end: w.end, position })
+            .returning({ id: s.watches.id })
+            .get().id;
+          tx.insert(s.watchMembers)
+            .values(w.by.map((key) => ({ watchId, userId: ids[key] })))
+            .run();
+        });
       }
       const tagIds = new Map<string, string>();
       for (const name of vocabulary2026) {
@@ -972,6 +1001,7 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
       plans2026,
       entries2026,
       'VS26',
+      watchPlan2026,
     );
     makeCampaign(
       {
