@@ -3,10 +3,10 @@ import https from 'node:https';
 
 import type { RequestHandler } from 'express';
 
-import type { Db } from '../../db/client';
+import type { Auth } from '../auth';
 import { errorBody } from '../errors';
 import { sameOrigin } from '../middleware/same-origin';
-import { sessionCookieOf } from '../middleware/session';
+import { sessionCacheFor, sessionCookieOf } from '../middleware/session';
 import type { Mirror } from './mirror';
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
@@ -27,31 +27,49 @@ const tokenOf = (cookie: string) => cookie.slice(0, cookie.lastIndexOf('.') > 0 
 
 /**
  * On a mirror, what the shore copy cannot answer goes to the ship: sign-in and everything under
- * `/api/auth`, every change (any method but GET and HEAD), and the reads of a session the copy
- * does not know yet (just signed in on the ship) or that has just written something the copy
- * does not hold yet. The cookie passes through both ways, so one session works on both. Nothing
- * is queued: with the ship out of reach the answer is 502 `ship_unreachable`.
+ * `/api/auth`, every change (any method but GET and HEAD), and the reads of a session that has
+ * just written something the copy does not hold yet. A session the copy does not hold yet (signed
+ * in on the ship a moment ago) is checked once against the ship and its reads are then served from
+ * the copy, as long as the copy grants that person what the ship said it does; until then they go
+ * to the ship. A session the ship has ended is refused here at once. The cookie passes through
+ * both ways, so one session works on both. Nothing is queued: with the ship out of reach the
+ * answer is 502 `ship_unreachable`.
  */
-export function forwardToShip(mirror: Mirror, db: Db, publicUrl: string): RequestHandler {
+export function forwardToShip(mirror: Mirror, auth: Auth, publicUrl: string): RequestHandler {
   const ship = new URL(mirror.settings.of);
   const checkOrigin = sameOrigin(publicUrl);
-  const knownSession = db.$client.prepare('select 1 from session where token = ? and expires_at > ?').pluck();
-  return (req, res, next) => {
+  const sessions = mirror.sessions;
+  const cache = sessionCacheFor(auth);
+  return async (req, res, next) => {
     const path = req.path;
     if (path === '/health' || path.startsWith('/mirror/')) return next();
     const cookie = sessionCookieOf(req.headers.cookie);
     const token = cookie ? tokenOf(cookie) : undefined;
     const write = !SAFE_METHODS.has(req.method);
-    const auth = path.startsWith('/auth/');
-    const toShip =
-      auth || write || (token !== undefined && (mirror.readsFromShip(token) || knownSession.get(token, Date.now()) === undefined));
-    if (!toShip) return next();
+    const authPath = path.startsWith('/auth/');
+    if (token && sessions.isEnded(token) && !authPath) {
+      // As on the ship: an ended session is no session (a route that needs one answers 401).
+      delete req.headers.cookie;
+      if (write) return void res.status(401).json(errorBody('unauthorized', 'Sign in to continue.'));
+      return next();
+    }
     const send = () => {
       if (write && token) mirror.noteWrite(token);
       relay(ship, req, res);
     };
-    if (write) checkOrigin(req, res, send);
-    else send();
+    if (authPath || write) return write ? checkOrigin(req, res, send) : send();
+    if (!token || !cookie) return next();
+    if (mirror.readsFromShip(token)) return send();
+    if (sessions.inCopy(token)) return next();
+    const answer = await sessions.check(token, req.headers.cookie ?? '');
+    if (answer.kind === 'unreachable') return send();
+    if (answer.kind === 'none') {
+      delete req.headers.cookie;
+      return next();
+    }
+    if (!sessions.copyAgrees(answer)) return send();
+    cache.set(cookie, { user: answer.user, token, expiresAt: answer.until });
+    next();
   };
 }
 

@@ -6,6 +6,7 @@ import type { Logger } from '../services/logger';
 import { sseFrame, type LiveEvent, type LiveEventType, type LiveHub } from '../services/live';
 import { openIndexStore } from '../services/search/store';
 import { checkCopy, removeDatabaseFiles, replicaFingerprint, restoreCopy, swapIn } from './restore';
+import { ShipSessions } from './sessions';
 
 export type MirrorSettings = {
   /** The ship's public URL, without a trailing slash. */
@@ -46,6 +47,14 @@ export function relayedSince(live: LiveHub, diveId: string, lastSeen: number): L
   return mirrors.get(live)?.relayedAfter(diveId, lastSeen) ?? [];
 }
 
+/**
+ * On a shore mirror, whether a session the copy does not hold yet is one the ship vouched for
+ * within the bounded time of its check (a live stream asks this at each heartbeat).
+ */
+export function shoreVouchesFor(live: LiveHub, token: string): boolean {
+  return mirrors.get(live)?.sessions.vouched(token) ?? false;
+}
+
 export class Mirror {
   private db: Db | null = null;
   private live: LiveHub | null = null;
@@ -73,7 +82,12 @@ export class Mirror {
   /** Why the last restore brought no copy, or null when it did. */
   lastRefusal: string | null = null;
 
-  constructor(readonly settings: MirrorSettings) {}
+  /** Sessions checked against the ship that the copy does not hold yet, and sessions the ship ended. */
+  readonly sessions: ShipSessions;
+
+  constructor(readonly settings: MirrorSettings) {
+    this.sessions = new ShipSessions(new URL(settings.of));
+  }
 
   status(now = Date.now()): MirrorStatus {
     // Before any restore in this run, the copy on disk is as old as the start.
@@ -126,6 +140,7 @@ export class Mirror {
   start(db: Db, live: LiveHub, log: Logger): void {
     this.db = db;
     this.live = live;
+    this.sessions.attach(db);
     mirrors.set(live, this);
     this.log = log;
     const tick = () => {
@@ -175,6 +190,7 @@ export class Mirror {
       this.relayed = this.relayed.filter((e) => e.id > copy.lastEventId);
       this.lastRefusal = null;
       this.restoredFrom = fingerprint;
+      this.sessions.afterCopy(startedAt);
       this.afterSwap();
       for (const listener of this.swapListeners) listener();
       return true;
@@ -228,6 +244,22 @@ export class Mirror {
     return entries;
   }
 
+  /** The newest relayed state of one entry that the copy does not hold yet, with its campaign. */
+  pendingEntry(entryId: string): { campaignId: string; payload: unknown } | undefined {
+    for (let i = this.relayed.length - 1; i >= 0; i--) {
+      const e = this.relayed[i]!;
+      if (e.id <= this.copyEventId) break;
+      if (e.type.startsWith('observation.') && (e.payload as { id?: unknown }).id === entryId)
+        return { campaignId: e.campaignId, payload: e.payload };
+    }
+    return undefined;
+  }
+
+  /** The connection to the copy in place, once started. */
+  get copy(): Db | null {
+    return this.db;
+  }
+
   /** One stream from the ship for every shore reader, resumed after the last event it relayed. */
   private async follow(): Promise<void> {
     while (!this.stopped) {
@@ -238,6 +270,8 @@ export class Mirror {
           signal: this.upstream.signal,
         });
         if (!res.ok || !res.body) throw new Error(`the ship answered ${res.status}`);
+        // While the stream was down a session may have ended unheard: every session is checked again.
+        if (!this.linkUp) this.sessions.forgetChecks();
         this.linkUp = true;
         let buffer = '';
         const decoder = new TextDecoder();
@@ -271,6 +305,14 @@ export class Mirror {
       if (line.startsWith('id: ')) id = Number(line.slice(4));
       else if (line.startsWith('event: ')) type = line.slice(7);
       else if (line.startsWith('data: ')) data += line.slice(6);
+    }
+    if (type === 'session.ended') {
+      const { token } = JSON.parse(data) as { token?: unknown };
+      if (typeof token !== 'string') return;
+      this.sessions.end(token);
+      // The shore's own session cache forgets it and its live streams close, as on the ship.
+      this.live?.endSession(token);
+      return;
     }
     if (!Number.isInteger(id) || !type || id <= this.relayedUpTo) return;
     const body = JSON.parse(data) as { campaignId: string; diveId: string; at: string; payload: unknown };

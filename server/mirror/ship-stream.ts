@@ -37,6 +37,7 @@ export function mirrorStream({ db, live, env }: AppContext): RequestHandler {
       if (closed) return;
       closed = true;
       unsubscribe();
+      unsubscribeEnded();
       clearInterval(heartbeat);
       res.end();
     };
@@ -53,6 +54,9 @@ export function mirrorStream({ db, live, env }: AppContext): RequestHandler {
     const lastSeen = Number(req.get('last-event-id') ?? NaN);
     // Events committed while the replay is read are told live too; the mirror drops repeats by id.
     const unsubscribe = live.subscribeAll((e) => send(frameOf(e.id, e.type, e.campaignId, e.diveId, e.at, e.payload)));
+    // A session that ends on the ship is refused ashore on its next request, not at the next copy.
+    // The token of an ended session opens nothing any more, so it may cross the link as it is.
+    const unsubscribeEnded = live.onSessionEnded((token) => send(`event: session.ended\ndata: ${JSON.stringify({ token })}\n\n`));
     if (Number.isInteger(lastSeen) && lastSeen >= 0) {
       const missed = db
         .select()

@@ -6,7 +6,7 @@ import type { AppContext } from '../context';
 import { accessOf, roleIn } from '../middleware/campaign-access';
 import { userOf } from '../middleware/session';
 import { ApiError } from '../errors';
-import { relayedSince } from '../mirror/mirror';
+import { relayedSince, shoreVouchesFor } from '../mirror/mirror';
 import { sseFrame } from '../services/live';
 import { streamRegistry } from '../services/stream-caps';
 
@@ -94,7 +94,9 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
     const stillAllowed = () => {
       if (!token) return false;
       const s = db.select({ expiresAt: session.expiresAt }).from(session).where(eq(session.token, token)).get();
-      return !!s && s.expiresAt > new Date() && !!roleIn(db, campaignId, user);
+      // Ashore, a session the copy does not hold yet counts while the ship's answer about it holds.
+      const current = s ? s.expiresAt > new Date() : shoreVouchesFor(live, token);
+      return current && !!roleIn(db, campaignId, user);
     };
 
     cleanups.push(live.subscribe(diveId, (e) => send(e.frame)));

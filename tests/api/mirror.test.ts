@@ -391,3 +391,134 @@ describe('shore mirror between two restores', () => {
     }
   }, 90_000);
 });
+
+describe('shore mirror, sessions its copy does not hold yet', () => {
+  let slow: ServerProcess;
+  let held: Session;
+  const slowHolds = (query: string, ...params: unknown[]) => {
+    const db = new Database(path.join(slow.dir, 'bathynote.db'), { readonly: true });
+    try {
+      return db
+        .prepare(query)
+        .pluck()
+        .get(...params) as number;
+    } finally {
+      db.close();
+    }
+  };
+  const tokenOf = (s: Session) => decodeURIComponent(/session_token=([^;]+)/.exec(s.cookie)![1]!).split('.')[0]!;
+  const get = (url: string, s: Session, p: string) => fetch(`${url}${p}`, { headers: { cookie: s.cookie } });
+
+  beforeAll(async () => {
+    // A session in the replica before this shore makes its copy.
+    held = await apiSignIn(ship.url, 'pilot@bathynote.test', shipPublicUrl);
+    await new Promise((r) => setTimeout(r, 3000));
+    // One copy at the start and no other during these tests: every session signed in below is new to it.
+    slow = await startServerProcess({
+      ...secrets,
+      MIRROR_OF: shipPublicUrl,
+      REPLICA: replica,
+      MIRROR_RESTORE_INTERVAL_MS: '600000',
+      UPLOADS_DIR: path.join(replica, 'photos'),
+    });
+    await until('link up', async () => ((await health(slow.url)).mirror?.link === 'up' ? true : undefined), 10_000);
+  }, 60_000);
+
+  afterAll(async () => {
+    await slow?.stop();
+  });
+
+  it('checks a new session once with the ship and then serves its reads from the copy, with the ship’s access', async () => {
+    const guest = await apiSignIn(slow.url, 'guest@bathynote.test');
+    const outsider = await apiSignIn(slow.url, 'outsider@bathynote.test');
+    expect(slowHolds('select count(*) from session where token in (?, ?)', tokenOf(guest), tokenOf(outsider))).toBe(0);
+    expect((await get(slow.url, guest, `/api/dives/${diveId}`)).status).toBe(200);
+    const outsiderOnShore = await get(slow.url, outsider, `/api/dives/${otherDiveId}`);
+    const outsiderOnShip = await get(ship.url, outsider, `/api/dives/${otherDiveId}`);
+    expect(outsiderOnShore.status).toBe(404);
+    expect(outsiderOnShip.status).toBe(404);
+    expect(await outsiderOnShore.json()).toEqual(await outsiderOnShip.json());
+    expect((await get(slow.url, guest, `/api/dives/${otherDiveId}`)).status).toBe(
+      (await get(ship.url, guest, `/api/dives/${otherDiveId}`)).status,
+    );
+    // With the link cut, the checked session still reads: its reads are the copy's, not the ship's.
+    await cutLink();
+    try {
+      const page = await get(slow.url, guest, `/api/dives/${diveId}/observations`);
+      expect(page.status).toBe(200);
+      expect(((await page.json()) as { items: unknown[] }).items.length).toBeGreaterThan(0);
+      expect((await get(slow.url, outsider, `/api/dives/${diveId}`)).status).toBe(404);
+      // A session never checked cannot be vouched for and is not served from the copy.
+      const unknownCookie = guest.cookie.replace(/session_token=[^.;]+/, 'session_token=notasessiontoken');
+      expect((await fetch(`${slow.url}/api/dives/${diveId}`, { headers: { cookie: unknownCookie } })).status).not.toBe(200);
+    } finally {
+      await openLink(link.port);
+      await until('link up again', async () => ((await health(slow.url)).mirror?.link === 'up' ? true : undefined), 15_000);
+    }
+  }, 60_000);
+
+  it('refuses a session the ship signed out on its next request, before any copy brings the change', async () => {
+    const fresh = await apiSignIn(slow.url, 'guest@bathynote.test');
+    expect(slowHolds('select count(*) from session where token = ?', tokenOf(held))).toBe(1);
+    expect((await get(slow.url, fresh, `/api/dives/${diveId}`)).status).toBe(200);
+    expect((await get(slow.url, held, `/api/dives/${diveId}`)).status).toBe(200);
+    const stream = openSse(`${slow.url}/api/dives/${diveId}/stream`, { cookie: fresh.cookie });
+    await stream.next((e) => e.event === 'ready', 10_000);
+    for (const s of [fresh, held]) {
+      const out = await fetch(`${ship.url}/api/auth/sign-out`, { method: 'POST', headers: { cookie: s.cookie, origin: shipPublicUrl } });
+      expect(out.status).toBe(200);
+    }
+    const refused = await until(
+      'the shore refuses the signed-out session',
+      async () => {
+        const r = await get(slow.url, fresh, `/api/dives/${diveId}`);
+        return r.status === 401 ? r : undefined;
+      },
+      2000,
+    );
+    expect(((await refused.json()) as { error: { code: string } }).error.code).toBe('unauthorized');
+    expect((await get(slow.url, fresh, `/api/me`)).status).toBe(401);
+    // The live stream of the ended session closes too.
+    await Promise.race([stream.ended, new Promise((_, no) => setTimeout(() => no(new Error('stream still open')), 3000))]);
+    stream.close();
+    const heldAnswer = await get(slow.url, held, `/api/dives/${diveId}`);
+    expect(heldAnswer.status).toBe(401);
+  }, 60_000);
+
+  it('answers one entry seen live, or changed live, before the copy holds it; an outsider still gets 404', async () => {
+    const reader = await apiSignIn(slow.url, 'archaeologist@bathynote.test');
+    const outsider = await apiSignIn(slow.url, 'outsider@bathynote.test');
+    const stream = openSse(`${slow.url}/api/dives/${diveId}/stream`, { cookie: reader.cookie });
+    await stream.next((e) => e.event === 'ready', 10_000);
+    const lead = await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl);
+    const title = `One entry live ${Date.now()}`;
+    const entry = await lead.call<{ id: string; version: number }>(
+      `/api/dives/${diveId}/observations`,
+      'POST',
+      { kind: 'biology', title },
+      201,
+    );
+    await stream.next((e) => e.event === 'observation.created' && e.data.includes(title), 3000);
+    expect(slowHolds('select count(*) from observations where id = ?', entry.id)).toBe(0);
+    const one = await get(slow.url, reader, `/api/observations/${entry.id}`);
+    expect(one.status).toBe(200);
+    expect(await one.json()).toMatchObject({ id: entry.id, title });
+    expect((await get(slow.url, outsider, `/api/observations/${entry.id}`)).status).toBe(404);
+
+    // An entry the copy holds in an older state: the relayed edit is what a reader opens.
+    const older = await until(
+      'an entry of the dive in the copy',
+      () =>
+        (slowHolds('select id from observations where dive_id = ? and retired = 0 order by observed_at limit 1', diveId) as unknown as
+          string | undefined) ?? undefined,
+      1000,
+    );
+    const current = await lead.call<{ version: number; title: string }>(`/api/observations/${older}`);
+    const edited = `${current.title} (edited live)`;
+    await lead.call(`/api/observations/${older}`, 'PATCH', { version: current.version, title: edited });
+    await stream.next((e) => e.event.startsWith('observation.') && e.data.includes('(edited live)'), 3000);
+    const reopened = (await (await get(slow.url, reader, `/api/observations/${older}`)).json()) as { title: string; version: number };
+    expect(reopened).toMatchObject({ title: edited, version: current.version + 1 });
+    stream.close();
+  }, 60_000);
+});
