@@ -23,12 +23,16 @@ export const viewports = {
 /** `errors` collects uncaught exceptions of the page, which a test should end without. */
 export type Browser = { context: BrowserContext; page: Page; errors: string[]; close: () => Promise<void> };
 
-/** A fresh Chromium profile; the flags keep it off a network this machine does not have. */
-export async function openBrowser(viewport: { width: number; height: number }): Promise<Browser> {
+/** A fresh Chromium profile; the flags keep it off a network this machine does not have. `device`: a touch phone. */
+export async function openBrowser(
+  viewport: { width: number; height: number },
+  device: { hasTouch?: boolean; isMobile?: boolean } = {},
+): Promise<Browser> {
   const dir = mkdtempSync(path.join(tmpdir(), 'bathynote-chromium-'));
   const context = await chromium.launchPersistentContext(dir, {
     executablePath: chromiumPath(),
     viewport,
+    ...device,
     args: [
       '--headless',
       '--no-sandbox',
