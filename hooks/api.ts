@@ -5,7 +5,8 @@
 import { Platform } from 'react-native';
 import type { z } from 'zod';
 
-import { apiErrorSchema, type ApiErrorBody } from '@/lib/schemas';
+// Straight from the module, not the index of every schema: the sign-in screen loads this file.
+import { apiErrorSchema, type ApiErrorBody } from '@/lib/schemas/core';
 
 /** Same origin on the web; a native build points at the ship's server. */
 const configuredBase: unknown = process.env.EXPO_PUBLIC_API_URL;

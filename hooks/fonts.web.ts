@@ -8,22 +8,8 @@
  * satellite link, so they are declared only once someone is signed in.
  */
 import { useEffect } from 'react';
-import { Asset } from 'expo-asset';
 
-import PublicSans_400Regular from '@/assets/fonts/PublicSans_400Regular.woff2';
-import PublicSans_600SemiBold from '@/assets/fonts/PublicSans_600SemiBold.woff2';
-import PublicSans_700Bold from '@/assets/fonts/PublicSans_700Bold.woff2';
-import SpaceMono_400Regular from '@/assets/fonts/SpaceMono_400Regular.woff2';
-import type { fonts } from '@/lib/tokens';
-
-type Family = (typeof fonts)[keyof typeof fonts];
-
-const faces: Record<Family, number> = {
-  PublicSans_400Regular,
-  PublicSans_600SemiBold,
-  PublicSans_700Bold,
-  SpaceMono_400Regular,
-};
+import type { Family } from './fonts-files';
 
 /** The device's fonts that stand in before sign-in, by weight (local() names as fonts publish them). */
 const standIns: Record<Family, string[]> = {
@@ -35,7 +21,9 @@ const standIns: Record<Family, string[]> = {
 
 const STYLE_ID = 'bathynote-fonts';
 
-function declareFaces(own: boolean) {
+/** `@font-face` rules for the four families: each one's file when `urls` is given, else the stand-ins. */
+function declareFaces(urls?: Record<Family, string>) {
+  const own = !!urls;
   if (typeof document === 'undefined') return;
   let style = document.getElementById(STYLE_ID);
   if (style?.dataset.own === 'true' || (style && !own)) return;
@@ -45,17 +33,17 @@ function declareFaces(own: boolean) {
     document.head.appendChild(style);
   }
   style.dataset.own = String(own);
-  style.textContent = (Object.keys(faces) as Family[])
+  style.textContent = (Object.keys(standIns) as Family[])
     .map((family) => {
-      const src = own
-        ? `url(${JSON.stringify(Asset.fromModule(faces[family]).uri)}) format("woff2")`
+      const src = urls
+        ? `url(${JSON.stringify(urls[family])}) format("woff2")`
         : standIns[family].map((name) => `local(${JSON.stringify(name)})`).join(',');
       return `@font-face{font-family:${JSON.stringify(family)};src:${src};font-display:swap}`;
     })
     .join('\n');
 }
 
-declareFaces(false);
+declareFaces();
 
 /** Always true: nothing waits for a font in a browser. */
 export function useAppFonts(): boolean {
@@ -65,6 +53,12 @@ export function useAppFonts(): boolean {
 /** The app's own faces from the first time someone is signed in on this page (stand-ins until then). */
 export function useOwnFaces(signedIn: boolean): void {
   useEffect(() => {
-    if (signedIn) declareFaces(true);
+    // The files' addresses (and the asset code that knows them) load with the signed-in screens;
+    // with no link and nothing kept yet, the stand-ins stay.
+    if (signedIn)
+      void import('./fonts-files').then(
+        ({ faceUrls }) => declareFaces(faceUrls()),
+        () => undefined,
+      );
   }, [signedIn]);
 }

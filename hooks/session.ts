@@ -2,7 +2,8 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/r
 import { z } from 'zod';
 
 import { isReturnPath } from '@/lib/return-path';
-import { meSchema, type Me } from '@/lib/schemas';
+// Straight from the module, not the index of every schema: the sign-in screen loads this file.
+import { meSchema, type Me } from '@/lib/schemas/core';
 import { ApiError, request } from './api';
 import { sessionKeys } from './query-keys';
 

@@ -4,7 +4,7 @@
  */
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { brotliCompressSync, constants as zlibConstants, gzipSync } from 'node:zlib';
 
@@ -58,6 +58,128 @@ export function webBuildIsCurrent(): boolean {
     existsSync(path.join(outDir, 'sw.js')) &&
     existsSync(stampFile) &&
     readFileSync(stampFile, 'utf8').trim() === sourceFingerprint()
+  );
+}
+
+/**
+ * What a signed-out visit loads: Expo Router reads every layout file as it starts, then the sign-in
+ * screen. What these use is all the cold sign-in screen should move.
+ */
+const SIGNED_OUT_SCREEN = './(auth)/sign-in.tsx';
+
+type MetroModule = { id: number; deps: number[]; code: string };
+
+/** The modules of one Metro web chunk: one `__d(factory, id, deps)` call each, at the start of a line. */
+function metroModules(code: string): MetroModule[] | undefined {
+  const modules: MetroModule[] = [];
+  let current: string[] | undefined;
+  const finish = (): boolean => {
+    if (!current) return true;
+    const text = current.join('\n');
+    const tail = /,(\d+),(\[[\d,]*\]|\{.*\})\);$/s.exec(text);
+    if (!tail) return false;
+    const deps = JSON.parse(tail[2] ?? '[]') as number[] | Record<string, unknown>;
+    const ids = Array.isArray(deps) ? deps : Object.entries(deps).flatMap(([k, v]) => (k === 'paths' ? [] : [v as number]));
+    modules.push({ id: Number(tail[1]), deps: ids, code: text });
+    return true;
+  };
+  for (const line of code.split('\n')) {
+    if (line.startsWith('//# ') || line === '') {
+      if (!finish()) return undefined;
+      current = undefined;
+    } else if (line.startsWith('__d(')) {
+      if (!finish()) return undefined;
+      current = [line];
+    } else if (current) current.push(line);
+    else return undefined;
+  }
+  return finish() ? modules : undefined;
+}
+
+const contentHash = (text: string) => createHash('md5').update(text).digest('hex');
+
+/**
+ * Expo's web export loads one shared file (`__common`) before any screen: every module that two
+ * screens share, so the sign-in screen would pay for everything the signed-in screens share. This
+ * splits it in two: what the signed-out screens use stays in the file index.html loads; the rest
+ * goes to a second file that the loader fetches, in parallel, with the first signed-in screen's
+ * own file. A module Metro defines twice keeps its first definition, so the split cannot change
+ * what runs. If the export is not in the shape expected, it is left as it was.
+ */
+export function splitSharedChunk(dir = outDir): void {
+  const jsDir = path.join(dir, '_expo', 'static', 'js', 'web');
+  const indexFile = path.join(dir, 'index.html');
+  const html = readFileSync(indexFile, 'utf8');
+  const names = readdirSync(jsDir);
+  const commonName = names.find((n) => /^__common-[0-9a-f]+\.js$/.test(n) && html.includes(`/${n}"`));
+  const entryName = names.find((n) => /^entry-[0-9a-f]+\.js$/.test(n) && html.includes(`/${n}"`));
+  const skip = (why: string): void => {
+    process.stdout.write(`The shared file is left whole: ${why}.\n`);
+  };
+  if (!commonName || !entryName) return skip('no shared file in index.html');
+  const common = metroModules(readFileSync(path.join(jsDir, commonName), 'utf8'));
+  if (!common) return skip('its modules could not be read');
+
+  // The route table of Expo Router: route file → module id (via the deps object) → chunk URL.
+  const table = readFileSync(path.join(jsDir, entryName), 'utf8')
+    .split('\n')
+    .find((line) => line.includes(`"${SIGNED_OUT_SCREEN}":`));
+  const depsObject = table && /,\d+,(\{"0":.*\})\);$/.exec(table);
+  if (!table || !depsObject) return skip('no route table in the entry file');
+  const deps = JSON.parse(depsObject[1] ?? '{}') as Record<string, number> & { paths: Record<string, string> };
+  const ownUrls: string[] = [];
+  const layouts = [...table.matchAll(/"(\.\/(?:[^"]*\/)?_layout\.tsx)":/g)].map((m) => m[1] ?? '');
+  for (const route of [...layouts, SIGNED_OUT_SCREEN]) {
+    const at = new RegExp(
+      `"${route.replace(/[.*+?^${}()|[\]\\/]/g, '\\$&')}":\\{enumerable:!0,get:\\(\\)=>r\\(d\\[\\d+\\]\\)\\(d\\[(\\d+)\\]`,
+    ).exec(table);
+    const url = at ? deps.paths[String(deps[at[1] ?? ''])] : undefined;
+    if (!url) return skip(`no file for ${route}`);
+    ownUrls.push(url);
+  }
+
+  const byId = new Map(common.map((m) => [m.id, m]));
+  const needed = new Set<number>();
+  const visit = (ids: number[]) => {
+    for (const id of ids) {
+      const m = byId.get(id);
+      if (!m || needed.has(id)) continue;
+      needed.add(id);
+      visit(m.deps);
+    }
+  };
+  for (const url of ownUrls) {
+    const own = metroModules(readFileSync(path.join(dir, url), 'utf8'));
+    if (!own) return skip(`${url} could not be read`);
+    visit(own.flatMap((m) => m.deps));
+  }
+  const rest = common.filter((m) => !needed.has(m.id));
+  if (rest.length === 0) return skip('the signed-out screens use all of it');
+
+  const restCode = `${rest.map((m) => m.code).join('\n')}\n`;
+  const restUrl = `/_expo/static/js/web/__common-rest-${contentHash(restCode)}.js`;
+  // Expo's loader is looked up on globalThis at each dynamic import; this wraps it as it is set.
+  const loader =
+    `(function(g){var k=(g.__METRO_GLOBAL_PREFIX__||"")+"__loadBundleAsync",load,rest=${JSON.stringify(restUrl)},` +
+    `own=${JSON.stringify(Object.fromEntries([restUrl, ...ownUrls].map((u) => [u, 1])))};` +
+    `Object.defineProperty(g,k,{configurable:!0,set:function(f){load=f},get:function(){return load&&function(p){` +
+    `return own[p]?load(p):Promise.all([load(rest),load(p)]).then(function(){})}}})})(globalThis);`;
+  const eagerCode = `${loader}\n${common
+    .filter((m) => needed.has(m.id))
+    .map((m) => m.code)
+    .join('\n')}\n`;
+  const eagerName = `__common-${contentHash(eagerCode)}.js`;
+  writeFileSync(path.join(dir, restUrl), restCode);
+  writeFileSync(path.join(jsDir, eagerName), eagerCode);
+  unlinkSync(path.join(jsDir, commonName));
+  for (const stale of [`${commonName}.map`, `${commonName}.br`, `${commonName}.gz`])
+    if (existsSync(path.join(jsDir, stale))) unlinkSync(path.join(jsDir, stale));
+  const updated = html.replace(`/${commonName}"`, `/${eagerName}"`);
+  writeFileSync(`${indexFile}.tmp`, updated);
+  renameSync(`${indexFile}.tmp`, indexFile);
+  process.stdout.write(
+    `Shared file split: ${needed.size} modules (${Math.round(eagerCode.length / 1024)} KB) for the signed-out screens, ` +
+      `${rest.length} (${Math.round(restCode.length / 1024)} KB) after sign-in.\n`,
   );
 }
 
@@ -144,6 +266,7 @@ export async function ensureWebBuild(): Promise<void> {
     env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1' },
   });
   if (result.status !== 0) throw new Error(`The web build failed (exit code ${result.status ?? result.signal}).`);
+  splitSharedChunk();
   await writeServiceWorker();
   precompressWebBuild();
   writeFileSync(stampFile, sourceFingerprint());

@@ -1,23 +1,14 @@
-import { Stack, useRouter } from 'expo-router';
-import { useEffect } from 'react';
+import { lazy, Suspense } from 'react';
 
-import { AppShell } from '@/components/layout/app-shell';
-import { useSendQueueSender } from '@/hooks/send-queue';
-import { takeReturnPath } from '@/hooks/session';
-import { useTheme } from '@/hooks/theme';
+import { LoadingState } from '@/components/ui/states';
+
+// Loaded when someone signed in first sees a screen of the app, not with the sign-in screen.
+const SignedInLayout = lazy(() => import('@/components/layout/signed-in-layout'));
 
 export default function AppLayout() {
-  const { colors } = useTheme();
-  useSendQueueSender();
-  const router = useRouter();
-  // Just signed in from a deep link: land where it pointed, not on the campaign list.
-  useEffect(() => {
-    const path = takeReturnPath();
-    if (path) router.replace(path);
-  }, [router]);
   return (
-    <AppShell>
-      <Stack screenOptions={{ headerShown: false, animation: 'none', contentStyle: { backgroundColor: colors.bg } }} />
-    </AppShell>
+    <Suspense fallback={<LoadingState label="Opening Bathynote…" />}>
+      <SignedInLayout />
+    </Suspense>
   );
 }

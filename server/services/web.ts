@@ -21,8 +21,30 @@ function isHashed(file: string): boolean {
   return file.includes(`${path.sep}_expo${path.sep}static${path.sep}`) || /\.[0-9a-f]{16,}\./.test(file);
 }
 
+/**
+ * Headers that only a page (or a worker) acts on. A script, font or image fetched by the page
+ * ignores them, and on a satellite link their 800 bytes on each of a dozen files add up; the page
+ * itself, the service worker and the API keep them all.
+ */
+const PAGE_ONLY_HEADERS = [
+  'Content-Security-Policy',
+  'Cross-Origin-Opener-Policy',
+  'Origin-Agent-Cluster',
+  'Referrer-Policy',
+  'X-DNS-Prefetch-Control',
+  'X-Download-Options',
+  'X-Frame-Options',
+  'X-Permitted-Cross-Domain-Policies',
+  'X-XSS-Protection',
+];
+
 function cacheControl(res: Response, file: string): void {
-  res.setHeader('Cache-Control', isHashed(file) ? 'public, max-age=31536000, immutable' : 'no-cache');
+  if (!isHashed(file)) {
+    res.setHeader('Cache-Control', 'no-cache');
+    return;
+  }
+  res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+  for (const name of PAGE_ONLY_HEADERS) res.removeHeader(name);
 }
 
 /** Every file of the export that has precompressed siblings, by its URL path. */
@@ -84,7 +106,10 @@ export function webExport(dir: string): WebExport {
     res.type(path.extname(req.path));
     res.setHeader('Content-Encoding', encoding.name);
     cacheControl(res, req.path.split('/').join(path.sep));
-    res.sendFile(`${req.path.slice(1)}${encoding.ext}`, { root, dotfiles: 'deny', cacheControl: false }, (err?: Error) => {
+    // A hashed file never changes under its name: no date to revalidate it with.
+    const hashed = isHashed(req.path.split('/').join(path.sep));
+    const options = { root, dotfiles: 'deny' as const, cacheControl: false, lastModified: !hashed };
+    res.sendFile(`${req.path.slice(1)}${encoding.ext}`, options, (err?: Error) => {
       if (err && !res.headersSent) next(err);
     });
   };

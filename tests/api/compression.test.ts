@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { brotliDecompressSync, gunzipSync } from 'node:zlib';
 
+import helmet from 'helmet';
 import express from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
@@ -192,7 +193,7 @@ describe('the web export', () => {
     writeFileSync(path.join(dir, 'index.html'), index);
     precompressWebBuild(dir);
     const app = express();
-    app.use(...webExport(dir).handlers);
+    app.use(helmet(), ...webExport(dir).handlers);
     server = app.listen(0, '127.0.0.1');
     await new Promise<void>((resolve) => server.once('listening', resolve));
     const address = server.address();
@@ -221,6 +222,9 @@ describe('the web export', () => {
       expect(res.headers['cache-control']).toBe('public, max-age=31536000, immutable');
       expect(varies(res)).toBe(true);
       expect(decoded(res)).toBe(bundle);
+      // Only what a script acts on: no page policies.
+      expect(res.headers['x-content-type-options']).toBe('nosniff');
+      for (const name of ['content-security-policy', 'x-frame-options', 'referrer-policy']) expect(res.headers[name], name).toBeUndefined();
     }
   });
 
@@ -229,6 +233,7 @@ describe('the web export', () => {
       const res = await get(`${url}/dives/some-deep-link`, { 'accept-encoding': accept });
       expect(res.status).toBe(200);
       expect(res.headers['cache-control']).toBe('no-cache');
+      expect(res.headers['content-security-policy']).toBeDefined();
       expect(res.headers['content-encoding']).toBe(accept === 'identity' ? undefined : accept);
       expect(decoded(res)).toBe(index);
       const again = await get(`${url}/`, { 'accept-encoding': accept, 'if-none-match': String(res.headers.etag) });
