@@ -51,8 +51,6 @@ const DEPTH_FRESH_MS = 10 * 60_000;
  * to read.
  */
 export const MISSED_CHANGES_WINDOW_MS = 24 * 3_600_000;
-/** A dive recovered longer ago than this before a note is not told of it live (its log is unlikely to be open). */
-const TELL_RECOVERED_WITHIN_MS = 24 * 3_600_000;
 
 const live = (campaignId: string) => and(eq(observations.campaignId, campaignId), eq(observations.retired, false));
 
@@ -252,26 +250,20 @@ export function acknowledgeHandover(db: Db, live: LiveHub, handoverId: string, u
       .where(and(eq(handovers.id, handoverId), isNull(handovers.acknowledgedAt)))
       .run().changes;
     const note = toHandovers(tx, [tx.select().from(handovers).where(eq(handovers.id, handoverId)).get()!])[0]!;
-    if (changed > 0) tellOpenDives(tx, stage, note, 'handover.acknowledged', now);
+    if (changed > 0) tellCampaignDives(tx, stage, note, 'handover.acknowledged', now);
     return note;
   });
 }
 
 /**
  * Tells the readers of the campaign's dives that a note was written or acknowledged, so the dive
- * log shows it at once. The dive log shows the campaign's latest note whichever dive it is of,
- * so every dive whose log may be open hears it: those planned or under way, and those recovered
- * within the last day. Each event is also kept for a reader who reconnects.
+ * log shows it at once. The dive log shows the campaign's latest note whichever dive is open, so
+ * every dive of the campaign hears it (a few notes a day, one small event row per dive each);
+ * each event is also kept for a reader who reconnects.
  */
-function tellOpenDives(tx: Executor, stage: StageEvent, note: Handover, type: 'handover.written' | 'handover.acknowledged', now: Date) {
-  const recent = now.getTime() - TELL_RECOVERED_WITHIN_MS;
-  const diveIds = tx
-    .select({ id: dives.id })
-    .from(dives)
-    .where(and(eq(dives.campaignId, note.campaignId), or(isNull(dives.onDeckAt), gt(dives.onDeckAt, new Date(recent)))))
-    .all()
-    .map((d) => d.id);
-  for (const diveId of diveIds) stage(note.campaignId, diveId, type, note, now);
+function tellCampaignDives(tx: Executor, stage: StageEvent, note: Handover, type: 'handover.written' | 'handover.acknowledged', now: Date) {
+  const diveIds = tx.select({ id: dives.id }).from(dives).where(eq(dives.campaignId, note.campaignId)).all();
+  for (const { id } of diveIds) stage(note.campaignId, id, type, note, now);
 }
 
 /** Mails a note (again) to its incoming watch, on a lead's request; returns how many mails were queued. */
@@ -431,7 +423,7 @@ export function createHandoverScheduler(
             if (!row) return;
             written++;
             const note = toHandovers(tx, [row])[0]!;
-            tellOpenDives(tx, stage, note, 'handover.written', now);
+            tellCampaignDives(tx, stage, note, 'handover.written', now);
             if (plan.mailHandovers && change === latest) mailed += queueHandoverMail(tx, publicUrl, note, now);
           });
         }

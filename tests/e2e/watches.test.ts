@@ -1,10 +1,12 @@
 /**
- * Watches in the browser: the lead sets a watch plan at a wide screen, the dive log shows who is on
- * watch, and someone of the incoming watch acknowledges the handover on a phone.
+ * Watches in the browser: the demo's plan is there, the lead sets another at a wide screen, the
+ * dive log shows who is on watch, someone of the incoming watch acknowledges the handover on a
+ * phone, and a note written at a real change of watch reaches an open dive log at once.
  */
 import path from 'node:path';
 
 import Database from 'better-sqlite3';
+import { DateTime } from 'luxon';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
@@ -39,6 +41,12 @@ describe('watches', () => {
       await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
       await page.getByTestId('campaign-watches').click();
       await page.getByTestId('watch-plan-editor').waitFor();
+      // The demo's own plan comes first: six four-hour watches, with someone on watch now.
+      await page.getByTestId('watch-row-5').waitFor();
+      expect(await page.getByTestId('watch-row-6').count()).toBe(0);
+      expect(await page.getByTestId('on-watch').textContent()).toMatch(/On watch: \S/);
+      for (let i = 5; i >= 0; i--) await page.getByTestId(`watch-remove-${i}`).click();
+      expect(await page.getByTestId('watch-row-0').count()).toBe(0);
       // Two watches cover the whole day, so whatever the time the pilot is on watch.
       const watches: [string, string, string][] = [
         ['Day watch', '08:00', '20:00'],
@@ -55,7 +63,7 @@ describe('watches', () => {
       await page.getByTestId('watch-mail').click();
       await page.getByTestId('watch-save').click();
       await page.getByTestId('watch-saved').waitFor();
-      expect(await page.getByTestId('on-watch').textContent()).toMatch(/On watch: (Day|Night) watch/);
+      await expect.poll(() => page.getByTestId('on-watch').textContent()).toMatch(/On watch: (Day|Night) watch/);
       expect(await page.getByTestId('on-watch-members').textContent()).toContain('Dev Pillai');
 
       // An overlap is refused before it is sent.
@@ -163,4 +171,56 @@ describe('watches', () => {
       await lead.close();
     }
   });
+
+  it('shows a note written at a change of watch at once in the incoming watch’s open dive log, and its acknowledgment too', async () => {
+    const lead = await openBrowser(viewports.wide);
+    const pilot = await openBrowser(viewports.phone);
+    try {
+      await signInAs(lead.page, server.url, 'lead@bathynote.test');
+      await signInAs(pilot.page, server.url, 'pilot@bathynote.test');
+      const { campaignId, diveId } = await demoCampaign(lead.page);
+      const { timeZone } = await pageApi<{ timeZone: string }>(lead.page, `/api/campaigns/${campaignId}/watches`);
+      const me = await pageApi<{ user: { id: string } }>(pilot.page, '/api/me');
+      // The server checks for a change of watch on each whole minute: the plan hands over to the
+      // pilot's watch at the next one at least 40 s off.
+      let change = Math.ceil(Date.now() / 60_000) * 60_000;
+      if (change - Date.now() < 40_000) change += 60_000;
+      const hhmm = (ms: number) => DateTime.fromMillis(ms, { zone: timeZone }).toFormat('HH:mm');
+      const hour = 3_600_000;
+      const saved = await pageApi<{ watches: unknown[] }>(lead.page, `/api/campaigns/${campaignId}/watches`, 'PUT', {
+        watches: [
+          { name: 'Before the change', start: hhmm(change - 4 * hour), end: hhmm(change), memberIds: [] },
+          { name: 'After the change', start: hhmm(change), end: hhmm(change + 4 * hour), memberIds: [me.user.id] },
+        ],
+      });
+      expect(saved.watches).toHaveLength(2);
+      // The dive log is opened 35 s before the change, so its own once-a-minute refetch comes well
+      // after the deadlines below: only the live stream can bring the note in time.
+      await new Promise((r) => setTimeout(r, Math.max(0, change - 35_000 - Date.now())));
+      const { page, errors } = pilot;
+      await page.goto(`${server.url}/dives/${diveId}`);
+      await page.getByTestId('on-watch').waitFor();
+      expect(await page.getByTestId('on-watch').textContent()).toContain('Before the change');
+      expect(await page.getByTestId('handover-card').count()).toBe(0);
+
+      await page.getByTestId('handover-acknowledge').waitFor({ timeout: change + 15_000 - Date.now() });
+      expect(Date.now()).toBeLessThan(change + 15_000);
+      expect(await page.getByTestId('on-watch').textContent()).toContain('After the change');
+
+      const notes = await pageApi<{ items: { id: string; changeAt: string }[] }>(
+        lead.page,
+        `/api/campaigns/${campaignId}/handovers?limit=1`,
+      );
+      expect(notes.items[0]!.changeAt).toBe(new Date(change).toISOString());
+      await pageApi(lead.page, `/api/handovers/${notes.items[0]!.id}/acknowledge`, 'POST');
+      const acknowledged = page.getByTestId('handover-acknowledged');
+      await acknowledged.waitFor({ timeout: 8_000 });
+      expect(await acknowledged.textContent()).toContain('Acknowledged by Ada Lumen');
+      expect(errors).toEqual([]);
+      expect(lead.errors).toEqual([]);
+    } finally {
+      await lead.close();
+      await pilot.close();
+    }
+  }, 180_000);
 });
