@@ -5,6 +5,7 @@ import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
+import { useDive } from '@/hooks/dives';
 import { useCreateMeasurement, useLastSpacing } from '@/hooks/measurements';
 import { formatMeasurement, measure, MeasureError, type MeasureResult, type Point } from '@/lib/laser-scale';
 import { palettes, space } from '@/lib/tokens';
@@ -16,7 +17,7 @@ type Props = {
   photo: { id: string; width: number; height: number };
   observation: { id: string; diveId: string };
   draft: MeasureDraft;
-  /** How far a placed point may be off, in the photo's pixels: one screen pixel at the scale shown, and never under 2. */
+  /** How far the most coarsely placed point may be off, in the photo's pixels (finer for points placed zoomed in). */
   placementPx: number;
   dispatch: Dispatch<DraftAction>;
   onDone: () => void;
@@ -39,7 +40,10 @@ const parseSpacing = (text: string) => Number(text.replace(',', '.'));
 /** The measuring tools under the photo: kind, laser spacing, the live value, save. */
 export function MeasurePanel({ photo, observation, draft, placementPx, dispatch, onDone }: Props) {
   const [lastSpacing, setLastSpacing] = useLastSpacing();
-  const [spacingText, setSpacingText] = useState(String(lastSpacing));
+  const diveSpacing = useDive(observation.diveId).data?.laserSpacingCm ?? null;
+  // The dive's spacing when it has one, else the last one this person used; typed, it holds for this photo.
+  const [typedSpacing, setSpacingText] = useState<string | null>(null);
+  const spacingText = typedSpacing ?? String(diveSpacing ?? lastSpacing);
   const [savedText, setSavedText] = useState<string | null>(null);
   const create = useCreateMeasurement(observation);
   const spacingCm = parseSpacing(spacingText);
@@ -122,6 +126,9 @@ export function MeasurePanel({ photo, observation, draft, placementPx, dispatch,
             testID="measure-spacing"
             mono
           />
+          <Text variant="caption" color={dark.textMuted} testID="measure-spacing-source">
+            {typedSpacing !== null ? 'For this measurement' : diveSpacing !== null ? 'Set for this dive' : 'Your last spacing'}
+          </Text>
         </View>
       </View>
       {result ? (
@@ -130,7 +137,7 @@ export function MeasurePanel({ photo, observation, draft, placementPx, dispatch,
             {kindLabel[draft.kind]} {formatMeasurement(result)}
           </Text>
           <Text variant="caption" color={dark.textMuted} testID="measure-basis" style={styles.wrap}>
-            {`Each point taken as placed to ±${placementPx} px of the photo; ${result.scaleCmPerPx.toPrecision(3)} cm per pixel.`}
+            {`Each point taken as placed to ±${placementPx} px of the photo (zoom in and place or drag points for finer); ${result.scaleCmPerPx.toPrecision(3)} cm per pixel.`}
           </Text>
         </View>
       ) : null}

@@ -1,6 +1,7 @@
 import { StyleSheet, View } from 'react-native';
 
 import { PhaseTimes } from '@/components/dives/phase-times';
+import { LaserSpacingSettings } from '@/components/photos/laser-spacing-settings';
 import { Card } from '@/components/ui/card';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { Text } from '@/components/ui/text';
@@ -59,6 +60,9 @@ export function DiveSettingsView({ diveId }: { diveId: string }) {
       </Card>
       <Card testID="recording-card">
         <RecordingSettings dive={dive.data} mayEdit />
+      </Card>
+      <Card testID="laser-card">
+        <LaserSpacingSettings dive={dive.data} />
       </Card>
       <Card testID="import-card">
         <TelemetryImport diveId={diveId} hasLog={samples.data.sampleCount > 0} sampleCount={samples.data.sampleCount} />
