@@ -4,6 +4,8 @@ export type MeasureKeyHandlers = {
   /** Selects the next (or previous) placed point; false when there is none to go to. */
   onSelectNext: (backwards: boolean) => boolean;
   onDeselect: () => void;
+  /** + zooms in, - zooms out (by this factor). */
+  onZoom: (factor: number) => void;
 };
 
 /** Devices measure by touch; the web build also listens to the keyboard. */

@@ -12,7 +12,7 @@ const steps: Record<string, [number, number]> = { ArrowLeft: [-1, 0], ArrowRight
 /**
  * While the measuring surface has focus: arrow keys move the selected point (or the cursor) by one
  * pixel of the original photo, ten with Shift; Enter places a point at the cursor; Tab goes through
- * the placed points and then on to the buttons; Esc lets go of the selected point.
+ * the placed points and then on to the buttons; Esc lets go of the selected point; + and - zoom.
  */
 export function useMeasureKeys(handlers: MeasureKeyHandlers, active: boolean) {
   const latest = useRef(handlers);
@@ -30,6 +30,8 @@ export function useMeasureKeys(handlers: MeasureKeyHandlers, active: boolean) {
         latest.current.onNudge(step[0] * by, step[1] * by);
       } else if (e.key === 'Enter' || e.key === ' ') latest.current.onPlace();
       else if (e.key === 'Escape') latest.current.onDeselect();
+      else if (e.key === '+' || e.key === '=') latest.current.onZoom(2);
+      else if (e.key === '-' || e.key === '_') latest.current.onZoom(0.5);
       else if (e.key === 'Tab') {
         if (!latest.current.onSelectNext(e.shiftKey)) return;
       } else return;

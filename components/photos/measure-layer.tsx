@@ -1,9 +1,11 @@
+import { useRef } from 'react';
 import { StyleSheet, View, type GestureResponderEvent } from 'react-native';
 import Svg, { Circle, Line, Polygon, Polyline } from 'react-native-svg';
 
 import type { Point } from '@/lib/laser-scale';
 import type { Measurement } from '@/lib/schemas';
-import { containedRect, toOriginal, type MeasureDraft } from './measure-draft';
+import { placedPoints, toOriginal, viewRect, type MeasureDraft, type ZoomView } from './measure-draft';
+import { useStageGestures, type StageGestureHandlers } from './measure-gestures';
 import { measureStageTestId } from './measure-keys';
 
 const laserColour = '#ff4d4d';
@@ -17,7 +19,11 @@ type Props = {
   draft: MeasureDraft | null;
   saved: Measurement[];
   showSaved: boolean;
+  /** The zoom the photo is shown at (whole when left out). */
+  view?: ZoomView;
   onPlace: (at: Point) => void;
+  /** Drag, pan and zoom on the surface; without them it only places points. */
+  gestures?: Omit<StageGestureHandlers, 'onTap' | 'pick'>;
 };
 
 const pts = (points: readonly Point[]) => points.map((p) => `${p[0]},${p[1]}`).join(' ');
@@ -26,13 +32,39 @@ const pts = (points: readonly Point[]) => points.map((p) => `${p[0]},${p[1]}`).j
  * Drawn over the photo in the photo's own pixels (the drawing is scaled exactly as the image is),
  * and, while measuring, the surface that takes taps, clicks and the keyboard.
  */
-export function MeasureLayer({ image, box, draft, saved, showSaved, onPlace }: Props) {
-  const { scale } = containedRect(box, image);
+export function MeasureLayer({ image, box, draft, saved, showSaved, view, onPlace, gestures }: Props) {
+  const stage = useRef<View>(null);
+  const { scale, left, top } = viewRect(box, image, view);
+  const handled = useStageGestures(
+    stage,
+    {
+      pick: (at, radius) => {
+        if (!draft || !(scale > 0)) return null;
+        // The nearest placed point within reach, measured on the screen.
+        let best: { ref: ReturnType<typeof placedPoints>[number]; d: number } | null = null;
+        for (const ref of placedPoints(draft)) {
+          const p = draft[ref.list][ref.index]!;
+          const d = Math.hypot(left + p[0] * scale - at.x, top + p[1] * scale - at.y);
+          if (d <= radius && (!best || d < best.d)) best = { ref, d };
+        }
+        return best?.ref ?? null;
+      },
+      onTap: (at) => {
+        const p = toOriginal(at, box, image, view);
+        if (p) onPlace(p);
+      },
+      onGrab: (t) => gestures?.onGrab(t),
+      onDrag: (t, dx, dy) => gestures?.onDrag(t, dx, dy),
+      onPan: (dx, dy) => gestures?.onPan(dx, dy),
+      onZoom: (f, at) => gestures?.onZoom(f, at),
+    },
+    !!draft,
+  );
   if (!(scale > 0)) return null;
   // Marks keep the same size on screen whatever the photo's scale.
   const px = 1 / scale;
   const onRelease = (e: GestureResponderEvent) => {
-    const at = toOriginal({ x: e.nativeEvent.locationX, y: e.nativeEvent.locationY }, box, image);
+    const at = toOriginal({ x: e.nativeEvent.locationX, y: e.nativeEvent.locationY }, box, image, view);
     if (at) onPlace(at);
   };
   const isSelected = (list: 'laser' | 'points', index: number) => draft?.selected?.list === list && draft.selected.index === index;
@@ -40,9 +72,9 @@ export function MeasureLayer({ image, box, draft, saved, showSaved, onPlace }: P
   return (
     <>
       <Svg
-        style={StyleSheet.absoluteFill}
-        width="100%"
-        height="100%"
+        style={{ position: 'absolute', left, top, width: image.width * scale, height: image.height * scale }}
+        width={image.width * scale}
+        height={image.height * scale}
         viewBox={`0 0 ${image.width} ${image.height}`}
         preserveAspectRatio="xMidYMid meet"
         pointerEvents="none"
@@ -124,13 +156,13 @@ export function MeasureLayer({ image, box, draft, saved, showSaved, onPlace }: P
       </Svg>
       {draft ? (
         <View
+          ref={stage}
           style={StyleSheet.absoluteFill}
           testID={measureStageTestId}
           focusable
           accessible
-          aria-label="Photo to measure on: tap or click to place a point; with the keyboard, Enter places a point and the arrow keys move it by one pixel"
-          onStartShouldSetResponder={() => true}
-          onResponderRelease={onRelease}
+          aria-label="Photo to measure on: tap or click to place a point, drag a point to move it, drag elsewhere to move a zoomed photo; with the keyboard, Enter places a point, the arrow keys move it by one pixel, + and - zoom"
+          {...(handled ? {} : { onStartShouldSetResponder: () => true, onResponderRelease: onRelease })}
         />
       ) : null}
     </>

@@ -1,4 +1,4 @@
-import { useReducer, useState } from 'react';
+import { useReducer, useRef, useState } from 'react';
 import { Linking, Modal, ScrollView, StyleSheet, View } from 'react-native';
 
 import { Button } from '@/components/ui/button';
@@ -8,10 +8,23 @@ import { useLayout } from '@/hooks/layout';
 import { usePhotoMeasurements } from '@/hooks/measurements';
 import { photoUrl, useThumbnailsOnly } from '@/hooks/photos';
 import { formatUtc } from '@/lib/format';
-import { defaultPlacementPx } from '@/lib/laser-scale';
 import type { Photo } from '@/lib/schemas';
 import { palettes, space } from '@/lib/tokens';
-import { containedRect, draftReducer, emptyDraft, hasNext } from './measure-draft';
+import {
+  draftPlacementPx,
+  draftReducer,
+  emptyDraft,
+  fitView,
+  hasNext,
+  maxZoom,
+  minZoom,
+  panBy,
+  placementAt,
+  viewRect,
+  zoomAt,
+  type PointRef,
+  type ZoomView,
+} from './measure-draft';
 import { useMeasureKeys } from './measure-keys';
 import { MeasureLayer } from './measure-layer';
 import { MeasurePanel } from './measure-panel';
@@ -35,12 +48,6 @@ type Props = {
   /** The entry the photos belong to, when the caller may measure on them with the laser scale. */
   measureFor?: { id: string; diveId: string };
 };
-
-/** One screen pixel in the photo's pixels (a click is no finer than that), and never less than the default. */
-function placementPx(box: { width: number; height: number }, image: { width: number; height: number }): number {
-  const { scale } = containedRect(box, image);
-  return scale > 0 ? Math.max(defaultPlacementPx, Math.ceil(10 / scale) / 10) : defaultPlacementPx;
-}
 
 // The viewer is always dark, whatever the theme: photos read best on black.
 const dark = palettes.dark;
@@ -116,10 +123,21 @@ function ViewerBody({
   const [showMeasurements, setShowMeasurements] = useState(true);
   const saved = usePhotoMeasurements(photo.id).data?.items ?? [];
   const [draft, dispatch] = useReducer(draftReducer(image), image, ({ width, height }) => emptyDraft(width, height));
+  // Zoom belongs to measuring: the photo is shown whole otherwise.
+  const [zoomView, setZoomView] = useState<ZoomView>(() => fitView(image));
+  const view = measuring ? zoomView : undefined;
+  const rect = viewRect(box, image, view);
+  // A point placed (or moved) now is placed this finely, in the photo's pixels.
+  const px = placementAt(box, image, view);
+  const zoomBy = (factor: number, at?: { x: number; y: number }) => setZoomView((v) => zoomAt(box, image, v, factor, at));
+  // Where a dragged point was when it was taken hold of.
+  const grabbed = useRef<{ target: PointRef; from: readonly [number, number] } | null>(null);
   useMeasureKeys(
     {
-      onNudge: (dx, dy) => dispatch({ type: 'nudge', dx, dy }),
-      onPlace: () => dispatch({ type: 'placeAtCursor' }),
+      onNudge: (dx, dy) => dispatch({ type: 'nudge', dx, dy, px }),
+      onPlace: () => dispatch({ type: 'placeAtCursor', px }),
+      // The keys zoom about the point being worked on.
+      onZoom: (factor) => zoomBy(factor, { x: rect.left + draft.cursor[0] * rect.scale, y: rect.top + draft.cursor[1] * rect.scale }),
       onSelectNext: (backwards) => {
         if (!hasNext(draft, backwards)) {
           dispatch({ type: 'deselect' });
@@ -134,8 +152,20 @@ function ViewerBody({
   );
   const startMeasuring = () => {
     dispatch({ type: 'clear' });
+    setZoomView(fitView(image));
     onMeasuring(true);
   };
+  // The photo's images sit where the zoom puts them; whole ("contain") before the stage is laid out.
+  const placed =
+    rect.scale > 0
+      ? {
+          position: 'absolute' as const,
+          left: rect.left,
+          top: rect.top,
+          width: image.width * rect.scale,
+          height: image.height * rect.scale,
+        }
+      : StyleSheet.absoluteFill;
 
   return (
     <View style={styles.backdrop} testID="photo-viewer" role="dialog" aria-modal aria-label="Photo viewer">
@@ -165,9 +195,13 @@ function ViewerBody({
       </View>
 
       <View style={styles.stage} onLayout={(e) => setBox({ width: e.nativeEvent.layout.width, height: e.nativeEvent.layout.height })}>
-        <PhotoImage key={`${photo.id}-thumb`} uri={photoUrl(photo, 'thumb')} label={label} fit="contain" testID="viewer-thumb" />
+        <View style={placed} pointerEvents="none">
+          <PhotoImage key={`${photo.id}-thumb`} uri={photoUrl(photo, 'thumb')} label={label} fit="contain" testID="viewer-thumb" />
+        </View>
         {showFull ? (
-          <PhotoImage key={`${photo.id}-display`} uri={photoUrl(photo, 'display')} label={label} fit="contain" testID="viewer-display" />
+          <View style={placed} pointerEvents="none">
+            <PhotoImage key={`${photo.id}-display`} uri={photoUrl(photo, 'display')} label={label} fit="contain" testID="viewer-display" />
+          </View>
         ) : (
           <View style={styles.loadFull}>
             <Button
@@ -184,8 +218,53 @@ function ViewerBody({
           draft={measuring ? draft : null}
           saved={saved}
           showSaved={showMeasurements}
-          onPlace={(at) => dispatch({ type: 'place', at })}
+          view={view}
+          onPlace={(at) => dispatch({ type: 'place', at, px })}
+          gestures={{
+            onGrab: (target) => {
+              const from = draft[target.list][target.index];
+              grabbed.current = from ? { target, from } : null;
+              dispatch({ type: 'select', target });
+            },
+            onDrag: (target, dx, dy) => {
+              const g = grabbed.current;
+              if (!g || g.target.list !== target.list || g.target.index !== target.index || !(rect.scale > 0)) return;
+              // Tenths of a pixel, as a placed point.
+              const to = [
+                Math.round((g.from[0] + dx / rect.scale) * 10) / 10,
+                Math.round((g.from[1] + dy / rect.scale) * 10) / 10,
+              ] as const;
+              dispatch({ type: 'move', target, to, px });
+            },
+            onPan: (dx, dy) => setZoomView((v) => panBy(box, image, v, dx, dy)),
+            onZoom: zoomBy,
+          }}
         />
+        {measuring ? (
+          <View style={styles.zoom}>
+            <Button
+              label="−"
+              aria-label="Zoom out"
+              tone="secondary"
+              compact
+              disabled={zoomView.zoom <= minZoom}
+              onPress={() => zoomBy(0.5)}
+              testID="measure-zoom-out"
+            />
+            <Text variant="mono" color={dark.text} testID="measure-zoom">
+              {`${Number(zoomView.zoom.toFixed(1))}×`}
+            </Text>
+            <Button
+              label="+"
+              aria-label="Zoom in"
+              tone="secondary"
+              compact
+              disabled={zoomView.zoom >= maxZoom}
+              onPress={() => zoomBy(2)}
+              testID="measure-zoom-in"
+            />
+          </View>
+        ) : null}
       </View>
 
       {measuring && measureFor ? (
@@ -194,7 +273,7 @@ function ViewerBody({
             photo={photo}
             observation={measureFor}
             draft={draft}
-            placementPx={placementPx(box, image)}
+            placementPx={draftPlacementPx(draft)}
             dispatch={dispatch}
             onDone={() => onMeasuring(false)}
           />
@@ -252,6 +331,17 @@ const styles = StyleSheet.create({
   flex: { flex: 1 },
   measure: { flexGrow: 0, maxHeight: '50%' },
   stage: { flex: 1, margin: space.md, position: 'relative', overflow: 'hidden' },
+  zoom: {
+    position: 'absolute',
+    top: space.sm,
+    right: space.sm,
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: space.xs,
+    padding: space.xs,
+    borderRadius: 8,
+    backgroundColor: 'rgba(0,0,0,0.55)',
+  },
   wrapText: { flexShrink: 1 },
   loadFull: { ...StyleSheet.absoluteFill, alignItems: 'center', justifyContent: 'flex-end', paddingBottom: space.xl },
   footer: { flexDirection: 'row', alignItems: 'center', gap: space.lg, padding: space.md, flexWrap: 'wrap' },

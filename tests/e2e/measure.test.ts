@@ -37,7 +37,7 @@ beforeAll(async () => {
   server = await startServerProcess();
   fixtures = await buildE2eFixtures(server.url, { campaignName: 'Measure test 2026', prefix: 'MS-' });
   const bio = fixtures.as.biologist;
-  for (const [i, size] of ['phone', 'wide'].entries()) {
+  for (const [i, size] of ['phone', 'wide', 'touch phone', 'zoomed'].entries()) {
     const entry = await bio.call<{ id: string }>(
       `/api/dives/${fixtures.finished.id}/observations`,
       'POST',
@@ -58,15 +58,38 @@ afterAll(async () => {
   await server?.stop();
 });
 
-/** Clicks at a point of the original photo, mapped onto the image as the viewer shows it (scaled to fit). */
-async function clickOnPhoto(page: Page, at: [number, number]) {
+/**
+ * Where a point of the original photo is on the screen, the photo shown scaled to fit and zoomed
+ * `zoom` times about its middle (worked here: the middle stays at the middle of the surface).
+ */
+async function onScreen(page: Page, at: readonly [number, number], zoom = 1) {
   const box = await page.getByTestId('measure-stage').boundingBox();
   if (!box) throw new Error('the measuring surface is not on screen');
-  const scale = Math.min(box.width / W, box.height / H);
-  const left = box.x + (box.width - W * scale) / 2;
-  const top = box.y + (box.height - H * scale) / 2;
-  await page.mouse.click(left + at[0] * scale, top + at[1] * scale);
+  const scale = Math.min(box.width / W, box.height / H) * zoom;
+  return { x: box.x + box.width / 2 + (at[0] - W / 2) * scale, y: box.y + box.height / 2 + (at[1] - H / 2) * scale, scale };
 }
+
+/** Clicks at a point of the original photo, mapped onto the image as the viewer shows it. */
+async function clickOnPhoto(page: Page, at: [number, number], zoom = 1) {
+  const p = await onScreen(page, at, zoom);
+  await page.mouse.click(p.x, p.y);
+}
+
+async function openMeasuring(page: Page, entryId: string, tap = false) {
+  await signInAs(page, server.url, 'biologist@bathynote.test');
+  await page.goto(`${server.url}/observations/${entryId}`);
+  const thumb = page.getByTestId('photo-strip').getByTestId('photo-thumb').first();
+  await (tap ? thumb.tap() : thumb.click());
+  const viewer = page.getByTestId('photo-viewer');
+  await viewer.waitFor();
+  await (tap ? viewer.getByTestId('viewer-measure').tap() : viewer.getByTestId('viewer-measure').click());
+  await viewer.getByTestId('measure-stage').waitFor();
+  return viewer;
+}
+
+const basisPx = async (page: Page) => Number(/±([\d.]+) px/.exec((await page.getByTestId('measure-basis').textContent()) ?? '')?.[1]);
+
+type Kept = { items: { value: number; uncertainty: number; placementPx: number; spacingCm: number; points: number[][] }[] };
 
 const shown = async (page: Page) => {
   const text = (await page.getByTestId('measure-result').textContent()) ?? '';
@@ -150,4 +173,112 @@ describe('measuring on a photo with the laser scale', () => {
       }
     });
   }
+
+  it('measures by tapping on a touch phone, and a dragged point moves the length', async () => {
+    const browser = await openBrowser(viewports.phone, { hasTouch: true, isMobile: true });
+    try {
+      const { page } = browser;
+      const entry = entries[2]!;
+      const viewer = await openMeasuring(page, entry.id, true);
+      for (const at of [...dots, ...barEnds]) {
+        const p = await onScreen(page, at);
+        await page.touchscreen.tap(p.x, p.y);
+      }
+      const tapped = await shown(page);
+      expect(Math.abs(tapped.value - barCm)).toBeLessThanOrEqual(tapped.uncertainty);
+
+      // A finger drags the bar's far end 100 px of the photo left: 2.5 cm shorter (worked here: 100 · 10 / 400).
+      const from = await onScreen(page, barEnds[1]!);
+      const cdp = await browser.context.newCDPSession(page);
+      const touch = (type: 'touchStart' | 'touchMove' | 'touchEnd', x = 0, y = 0) =>
+        cdp.send('Input.dispatchTouchEvent', { type, touchPoints: type === 'touchEnd' ? [] : [{ x, y }] });
+      await touch('touchStart', from.x, from.y);
+      for (let k = 1; k <= 5; k++) await touch('touchMove', from.x - (k * 100 * from.scale) / 5, from.y);
+      await touch('touchEnd');
+      const dragged = await shown(page);
+      expect(Math.abs(tapped.value - dragged.value - 2.5)).toBeLessThan(0.15);
+      // The drag moved the point; it placed no new one.
+      expect(await viewer.getByTestId('measure-hint').textContent()).toBe('Add points along a curved body, or save.');
+
+      await viewer.getByTestId('measure-save').tap();
+      await viewer.getByTestId('measure-saved').waitFor();
+      const kept = await pageApi<Kept>(page, `/api/photos/${entry.photoId}/measurements`);
+      expect(kept.items).toHaveLength(1);
+      expect(kept.items[0]!.points).toHaveLength(2);
+      expect(Math.abs(kept.items[0]!.value - (barCm - 2.5))).toBeLessThanOrEqual(kept.items[0]!.uncertainty + 0.15);
+      expect(browser.errors).toEqual([]);
+    } finally {
+      await browser.close();
+    }
+  });
+
+  it('starts from the dive’s laser spacing, and points placed zoomed in carry a smaller uncertainty', async () => {
+    const lead = fixtures.as.lead;
+    const dive = await lead.call<{ version: number }>(`/api/dives/${fixtures.finished.id}`);
+    await lead.call(`/api/dives/${fixtures.finished.id}`, 'PATCH', { version: dive.version, laserSpacingCm: 20 });
+    const browser = await openBrowser(viewports.wide);
+    try {
+      const { page } = browser;
+      const entry = entries[3]!;
+      const viewer = await openMeasuring(page, entry.id);
+      expect(await viewer.getByTestId('measure-spacing').inputValue()).toBe('20');
+      expect(await viewer.getByTestId('measure-spacing-source').textContent()).toBe('Set for this dive');
+      // This frame's lasers are 10 cm apart: the spacing is changed for this measurement alone.
+      await viewer.getByTestId('measure-spacing').fill('10');
+      expect(await viewer.getByTestId('measure-spacing-source').textContent()).toBe('For this measurement');
+
+      for (const at of [...dots, ...barEnds]) await clickOnPhoto(page, at);
+      const whole = await shown(page);
+      const wholePx = await basisPx(page);
+      expect(Math.abs(whole.value - barCm)).toBeLessThanOrEqual(whole.uncertainty);
+
+      // Zoomed in twice as far, every point placed anew is placed twice as finely (worked here: ±px ÷ 2).
+      await viewer.getByTestId('measure-clear').click();
+      await viewer.getByTestId('measure-zoom-in').click();
+      expect(await viewer.getByTestId('measure-zoom').textContent()).toBe('2×');
+      for (const at of [...dots, ...barEnds]) await clickOnPhoto(page, at, 2);
+      const zoomed = await shown(page);
+      expect(Math.abs(zoomed.value - barCm)).toBeLessThanOrEqual(zoomed.uncertainty);
+      expect(await basisPx(page)).toBeCloseTo(wholePx / 2, 2);
+      expect(zoomed.uncertainty).toBeLessThan(whole.uncertainty * 0.7);
+
+      // Zooming alone moves no point and makes none finer; + and - on the keyboard, and the wheel, zoom.
+      const stage = viewer.getByTestId('measure-stage');
+      await stage.focus();
+      await page.keyboard.press('+');
+      expect(await viewer.getByTestId('measure-zoom').textContent()).toBe('4×');
+      await page.keyboard.press('-');
+      expect(await viewer.getByTestId('measure-zoom').textContent()).toBe('2×');
+      const middle = await onScreen(page, [W / 2, H / 2], 2);
+      await page.mouse.move(middle.x, middle.y);
+      await page.mouse.wheel(0, -200);
+      await expect.poll(async () => Number.parseFloat((await viewer.getByTestId('measure-zoom').textContent()) ?? '')).toBeGreaterThan(2);
+      await page.mouse.wheel(0, 200);
+      await expect.poll(async () => viewer.getByTestId('measure-zoom').textContent()).toBe('2×');
+      expect(await shown(page)).toEqual(zoomed);
+
+      // The mouse drags the far end 40 px of the photo right: 1 cm longer (worked here: 40 · 10 / 400).
+      const end = await onScreen(page, barEnds[1]!, 2);
+      await page.mouse.move(end.x, end.y);
+      await page.mouse.down();
+      await page.mouse.move(end.x + 20 * end.scale, end.y, { steps: 3 });
+      await page.mouse.move(end.x + 40 * end.scale, end.y, { steps: 3 });
+      await page.mouse.up();
+      const longer = await shown(page);
+      expect(Math.abs(longer.value - zoomed.value - 1)).toBeLessThan(0.1);
+
+      await viewer.getByTestId('measure-save').click();
+      await viewer.getByTestId('measure-saved').waitFor();
+      const kept = await pageApi<Kept>(page, `/api/photos/${entry.photoId}/measurements`);
+      expect(kept.items).toHaveLength(1);
+      expect(kept.items[0]!.spacingCm).toBe(10);
+      expect(kept.items[0]!.placementPx).toBeCloseTo(wholePx / 2, 2);
+      expect(kept.items[0]!.uncertainty).toBeCloseTo(longer.uncertainty, 1);
+      expect(browser.errors).toEqual([]);
+    } finally {
+      await browser.close();
+      const now = await lead.call<{ version: number }>(`/api/dives/${fixtures.finished.id}`);
+      await lead.call(`/api/dives/${fixtures.finished.id}`, 'PATCH', { version: now.version, laserSpacingCm: null });
+    }
+  });
 });
