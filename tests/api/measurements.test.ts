@@ -111,6 +111,23 @@ describe('measuring on a photo', () => {
     expect(after.version).toBe(entry.version);
   });
 
+  it('takes a finer placement, as points placed zoomed in are, into the uncertainty and keeps it', async () => {
+    const { photoId } = await entryWithPhoto('archaeology');
+    const res = await (await t.signIn(emails.biologist)).post(`/api/photos/${photoId}/measurements`).send({ ...bar, placementPx: 0.5 });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const m = measurementSchema.parse(res.body);
+    expect(m.value).toBeCloseTo(30, 9);
+    expect(m.uncertainty).toBeCloseTo(0.1 * Math.sqrt(5), 6); // worked here: 0.4√5 at ±2 px, a quarter at ±0.5 px
+    expect(m.placementPx).toBe(0.5);
+    const tooFine = await (
+      await t.signIn(emails.biologist)
+    )
+      .post(`/api/photos/${photoId}/measurements`)
+      .send({ ...bar, placementPx: 0.01 });
+    expect(tooFine.status).toBe(400);
+    expect(tooFine.body.error.issues[0].path).toBe('placementPx');
+  });
+
   it('refuses callers who may not edit the entry, and hides it from outsiders; nothing is stored', async () => {
     const { photoId } = await entryWithPhoto('biology');
     const before = countRows();
