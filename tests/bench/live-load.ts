@@ -1,5 +1,5 @@
 import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 
@@ -16,6 +16,50 @@ const STEADY_S = 40;
 const BURST_S = 20;
 const HERD_ROUNDS = 10;
 
+/**
+ * Loaded into the server under test and the baseline (`node --import`): the delay of their event
+ * loop, that is how long a request that has arrived waits before the server can start on it,
+ * which Server-Timing cannot see. On SIGUSR2 it writes the figures since the last signal to the
+ * file named by BENCH_LOOP_DELAY_FILE and starts counting afresh. Plain JavaScript, written to a
+ * temporary file, so the server runs as it does in production (no TypeScript loader).
+ */
+const LOOP_DELAY_MODULE = `
+import { writeFileSync } from 'node:fs';
+import { monitorEventLoopDelay } from 'node:perf_hooks';
+const file = process.env.BENCH_LOOP_DELAY_FILE;
+if (file) {
+  const histogram = monitorEventLoopDelay({ resolution: 5 });
+  histogram.enable();
+  const ms = (ns) => Math.round(ns / 1e5) / 10;
+  process.on('SIGUSR2', () => {
+    writeFileSync(file, JSON.stringify({ p50: ms(histogram.percentile(50)), p99: ms(histogram.percentile(99)), max: ms(histogram.max) }));
+    histogram.reset();
+  });
+}
+`;
+
+type LoopDelay = { p50: number; p99: number; max: number };
+
+/** Event-loop delay of a process that loaded LOOP_DELAY_MODULE: `take` returns the figures since the last take. */
+function loopDelayOf(dir: string, name: string) {
+  const module = path.join(dir, 'loop-delay.mjs');
+  writeFileSync(module, LOOP_DELAY_MODULE);
+  const file = path.join(dir, `${name}-loop-delay.json`);
+  return {
+    env: { NODE_OPTIONS: `${process.env.NODE_OPTIONS ?? ''} --import ${module}`.trim(), BENCH_LOOP_DELAY_FILE: file },
+    async take(pid: number): Promise<LoopDelay> {
+      rmSync(file, { force: true });
+      process.kill(pid, 'SIGUSR2');
+      for (let waited = 0; !existsSync(file); waited += 20) {
+        if (waited > 5000) return { p50: NaN, p99: NaN, max: NaN };
+        await new Promise((r) => setTimeout(r, 20));
+      }
+      await new Promise((r) => setTimeout(r, 20));
+      return JSON.parse(readFileSync(file, 'utf8')) as LoopDelay;
+    },
+  };
+}
+
 /** Where taskset exists and there are two or more cores: the server on CPU 0, everything else on the rest. */
 function pinning(): { server: string; rest: string } | undefined {
   const cores = os.cpus().length;
@@ -30,11 +74,15 @@ function pinning(): { server: string; rest: string } | undefined {
 }
 
 /** The bare endpoint on the same stack (tests/bench/baseline-server.ts), in its own process. */
-async function startBaseline(cpus: string | undefined): Promise<{ url: string; child: ChildProcess; stop: () => void }> {
+async function startBaseline(
+  cpus: string | undefined,
+  env: Record<string, string>,
+): Promise<{ url: string; child: ChildProcess; stop: () => void }> {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'bathynote-baseline-'));
   const port = await freePort();
   const args = ['--import', 'tsx', 'tests/bench/baseline-server.ts', String(port), path.join(dir, 'baseline.db')];
-  const child = cpus ? spawn('taskset', ['-c', cpus, process.execPath, ...args]) : spawn(process.execPath, args);
+  const options = { env: { ...process.env, ...env } };
+  const child = cpus ? spawn('taskset', ['-c', cpus, process.execPath, ...args], options) : spawn(process.execPath, args, options);
   let out = '';
   child.stdout.on('data', (d: Buffer) => (out += d.toString()));
   for (let waited = 0; !out.includes('listening'); waited += 100) {
@@ -59,9 +107,13 @@ async function startBaseline(cpus: string | undefined): Promise<{ url: string; c
  */
 export async function benchLiveLoad(): Promise<void> {
   const pinned = pinning();
+  const delayDir = mkdtempSync(path.join(os.tmpdir(), 'bathynote-loop-delay-'));
+  const serverDelay = loopDelayOf(delayDir, 'server');
+  const baselineDelay = loopDelayOf(delayDir, 'baseline');
   // Its readers share a few sessions, far past the per-session and per-person stream caps.
   const server = await startServerProcess(
     {
+      ...serverDelay.env,
       LOG_LEVEL: 'silent',
       AUTH_RATE_LIMIT: '10000',
       API_RATE_LIMIT: '10000000',
@@ -137,17 +189,24 @@ export async function benchLiveLoad(): Promise<void> {
       while (!out.slice(before).includes('\n')) await new Promise((r) => setTimeout(r, 50));
       return JSON.parse(out.slice(before).trim()) as StreamFigures;
     };
+    const pid = server.child.pid!;
+    await serverDelay.take(pid);
     const steady = await writers.schedule(5000, STEADY_S);
+    const steadyDelay = await serverDelay.take(pid);
     const burst = await writers.schedule(500, BURST_S);
+    const burstDelay = await serverDelay.take(pid);
     const stream = await readersSay('report');
+    await serverDelay.take(pid);
     const herd = await writers.herd(HERD_ROUNDS);
+    const herdDelay = await serverDelay.take(pid);
     const herdStream = await readersSay('stop');
     writers.close();
     clearInterval(sampler);
     const received = stream.received + herdStream.received;
 
     // The same schedule against the bare endpoint, with the readers gone.
-    baseline = await startBaseline(pinned?.server);
+    baseline = await startBaseline(pinned?.server, baselineDelay.env);
+    const basePid = baseline.child.pid!;
     const bare = new Writers(`${baseline.url}/entries`, writerCookies, () =>
       JSON.stringify({
         kind: 'biology',
@@ -156,9 +215,13 @@ export async function benchLiveLoad(): Promise<void> {
         note: 'Polyps *extended*.',
       }),
     );
+    await baselineDelay.take(basePid);
     const bareSteady = await bare.schedule(5000, STEADY_S);
+    const bareSteadyDelay = await baselineDelay.take(basePid);
     const bareBurst = await bare.schedule(500, BURST_S);
+    const bareBurstDelay = await baselineDelay.take(basePid);
     const bareHerd = await bare.herd(HERD_ROUNDS);
+    const bareHerdDelay = await baselineDelay.take(basePid);
     bare.close();
 
     const sent = (
@@ -171,21 +234,28 @@ export async function benchLiveLoad(): Promise<void> {
     const expected = sent * READERS;
     const ms = (v: number) => `${v.toFixed(0)} ms`;
     const ratio = (v: number, base: number) => (base > 0 ? `${(v / base).toFixed(1)}x` : '-');
-    const line = (name: string, r: WriteRound, base: WriteRound) =>
+    const line = (name: string, r: WriteRound, base: WriteRound, delay: LoopDelay, baseDelay: LoopDelay) =>
       [
         `  ${name.padEnd(7)} ${(r.sent / r.seconds).toFixed(1).padStart(6)} req/s   write p50 ${ms(percentile(r.latencies, 50))}   p99 ${ms(percentile(r.latencies, 99))}   max ${ms(Math.max(...r.latencies))}   server p50 ${ms(percentile(r.serverMs, 50))} p99 ${ms(percentile(r.serverMs, 99))}   non-2xx ${r.non2xx}   errors ${r.errors}`,
         `          baseline write p50 ${ms(percentile(base.latencies, 50))}   p99 ${ms(percentile(base.latencies, 99))}   server p99 ${ms(percentile(base.serverMs, 99))}   ratio write p99 ${ratio(percentile(r.latencies, 99), percentile(base.latencies, 99))}   server p99 ${ratio(percentile(r.serverMs, 99), percentile(base.serverMs, 99))}`,
+        `          event-loop delay p50 ${delay.p50} ms   p99 ${delay.p99} ms   max ${delay.max} ms   (baseline p99 ${baseDelay.p99} ms)   load generator late p99 ${ms(percentile(r.lateMs, 99))} (baseline run ${ms(percentile(base.lateMs, 99))})`,
+        `          write from send p50 ${ms(percentile(r.fromSend, 50))}   p99 ${ms(percentile(r.fromSend, 99))}   baseline p99 ${ms(percentile(base.fromSend, 99))}   ratio ${ratio(percentile(r.fromSend, 99), percentile(base.fromSend, 99))}   (the bench's own lateness left out)`,
       ].join('\n');
     process.stdout.write(
       [
+        `load average ${os
+          .loadavg()
+          .map((l) => l.toFixed(2))
+          .join(' ')} (1, 5, 15 min) at the end of the run`,
         `${WRITERS} writers (one entry each per 5 s for ${STEADY_S} s, then 10× for ${BURST_S} s, turns spread evenly), ${READERS} live readers, server in its own process`,
         pinned
           ? `  (server under test and baseline pinned to CPU ${pinned.server}; load generators and readers on CPU ${pinned.rest}, with taskset)`
           : '  (no pinning: taskset missing or one core)',
-        line('steady', steady, bareSteady),
-        line('burst', burst, bareBurst),
+        line('steady', steady, bareSteady, steadyDelay, bareSteadyDelay),
+        line('burst', burst, bareBurst, burstDelay, bareBurstDelay),
+        `  (event-loop delay: how long work that was due waited for the server's event loop; load generator late: how long after its due instant the bench itself got to send an entry)`,
         `  (write: from the moment an entry was due to its answer; server: its own time, from Server-Timing; targets: write p99 <= 1.5x the baseline's, server p99 <= 30 ms)`,
-        line('herd', herd, bareHerd),
+        line('herd', herd, bareHerd, herdDelay, bareHerdDelay),
         `  (herd: all ${WRITERS} press send in the same instant, ${HERD_ROUNDS} times, a second apart; targets: write p99 <= 2x the baseline's, server p99 <= 60 ms)`,
         `  stream  delay p50 ${stream.p50} ms   p99 ${stream.p99} ms   max ${stream.max} ms   (steady and burst; target p99 <= 100 ms)   herd p50 ${herdStream.p50} ms   p99 ${herdStream.p99} ms`,
         `  events  ${sent} entries published, ${received} of ${expected} deliveries received (${expected - received} lost)`,
@@ -197,5 +267,6 @@ export async function benchLiveLoad(): Promise<void> {
     readers?.kill();
     baseline?.stop();
     await server.stop();
+    rmSync(delayDir, { recursive: true, force: true });
   }
 }

@@ -5,6 +5,10 @@ export type WriteRound = {
   latencies: number[];
   /** The server's own time per entry, from its Server-Timing header. */
   serverMs: number[];
+  /** How long after its due instant the bench itself got round to sending each entry (its own busyness, not the server's). */
+  lateMs: number[];
+  /** Milliseconds from the moment each entry was sent (not when it was due) to the end of its answer. */
+  fromSend: number[];
   sent: number;
   non2xx: number;
   errors: number;
@@ -60,7 +64,7 @@ export class Writers {
   }
 
   private run(dues: { writer: Writer; due: number }[], seconds: number): Promise<WriteRound> {
-    const round: WriteRound = { latencies: [], serverMs: [], sent: 0, non2xx: 0, errors: 0, seconds };
+    const round: WriteRound = { latencies: [], serverMs: [], lateMs: [], fromSend: [], sent: 0, non2xx: 0, errors: 0, seconds };
     return new Promise((resolve) => {
       let pending = dues.length;
       const done = () => {
@@ -72,10 +76,13 @@ export class Writers {
     });
   }
 
-  private send(writer: Writer, due: number, round: WriteRound, finished: () => void, again?: string) {
+  private send(writer: Writer, due: number, round: WriteRound, finished: () => void, again?: string, firstSent = performance.now()) {
     const retried = again !== undefined;
     const payload = again ?? this.body();
-    if (!retried) round.sent++;
+    if (!retried) {
+      round.sent++;
+      round.lateMs.push(firstSent - due);
+    }
     let settled = false;
     const done = () => {
       if (settled) return;
@@ -101,6 +108,7 @@ export class Writers {
         res.on('end', () => {
           if (settled) return;
           round.latencies.push(performance.now() - due);
+          round.fromSend.push(performance.now() - firstSent);
           if ((res.statusCode ?? 0) < 200 || (res.statusCode ?? 0) >= 300) round.non2xx++;
           const dur = /dur=([\d.]+)/.exec(String(res.headers['server-timing'] ?? ''));
           if (dur) round.serverMs.push(Number(dur[1]));
@@ -114,7 +122,7 @@ export class Writers {
       // is this schedule's interval): sent again once on a new socket, as a browser would.
       if (!retried && req.reusedSocket && err.code === 'ECONNRESET') {
         settled = true;
-        this.send(writer, due, round, finished, payload);
+        this.send(writer, due, round, finished, payload, firstSent);
         return;
       }
       failed();
