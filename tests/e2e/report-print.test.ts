@@ -6,6 +6,8 @@ import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
+import { reportSchema } from '@/lib/schemas';
+
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { fixtureDivePhases, fixtureEntries } from '../helpers/fixtures';
@@ -21,6 +23,9 @@ const vessel = 'RV Test Swell';
 const vehicle = 'ROV Test Reach';
 const permit = 'PERMIT-T-0042';
 const faultTitle = 'Thruster 2 tripped';
+// A short dive earlier on the same day, so the day's report runs across two dives.
+const morningDive = 'RP-AM';
+const morningEntry = 'Morning transect along the stern';
 
 beforeAll(async () => {
   assertPoppler();
@@ -39,6 +44,25 @@ beforeAll(async () => {
       observedAt: new Date(fixtureDivePhases.offBottom.getTime() - 60_000).toISOString(),
       tags: ['fault'],
     },
+    201,
+  );
+  const morning = await pilot.call<{ id: string }>(
+    `/api/campaigns/${fixtures.campaign}/dives`,
+    'POST',
+    { number: morningDive, objectives: 'Stern transect' },
+    201,
+  );
+  for (const [phase, at] of [
+    ['launch', '2026-05-13T08:10:00.000Z'],
+    ['on-bottom', '2026-05-13T08:35:00.000Z'],
+    ['off-bottom', '2026-05-13T10:00:00.000Z'],
+    ['on-deck', '2026-05-13T10:30:00.000Z'],
+  ])
+    await pilot.call(`/api/dives/${morning.id}/phases`, 'POST', { phase, at }, 200);
+  await biologist.call(
+    `/api/dives/${morning.id}/observations`,
+    'POST',
+    { kind: 'biology', title: morningEntry, observedAt: '2026-05-13T09:00:00.000Z' },
     201,
   );
   // One photo on the first biology entry.
@@ -199,6 +223,69 @@ describe('the report printed to PDF on a wide screen', () => {
     expect(infoA4.pages).toBe(8);
     expect(infoLetter.pages).toBe(8);
     expect(pdfText(letter)).toContain(`Entries (${fixtureEntries.length + 1})`);
+    expect(browser.errors).toEqual([]);
+  });
+
+  it('prints the day’s report, made from the record across the day’s dives, with who stood each watch that day', async () => {
+    const { page } = browser;
+    const day = '2026-05-13';
+    // What the screen shows is the campaign's day report as the API answers it.
+    const report = reportSchema.parse(await fixtures.as.guest.call(`/api/campaigns/${fixtures.campaign}/reports/${day}`));
+    expect(report.scope).toBe('day');
+    expect(report.dives.map((d) => d.dive.number)).toEqual([morningDive, fixtures.finished.number]);
+    // Midnight to midnight in the display zone: the end of one night watch, the day watch and the next night watch.
+    expect(report.watches.map((w) => w.watch)).toEqual(['Night watch', 'Day watch', 'Night watch']);
+    const standers = [...new Set(report.watches.flatMap((w) => w.members.map((m) => m.name)))];
+    expect(standers).toHaveLength(2);
+
+    await page.emulateMedia({ media: 'screen', colorScheme: 'light' });
+    await page.goto(`${server.url}/campaigns/${fixtures.campaign}/report/${day}`);
+    await page.getByTestId('report').waitFor();
+    await page.getByTestId('report-depth-profile').locator('svg').first().waitFor();
+    await page.getByTestId('report-photo').waitFor();
+    await page.waitForFunction(() => [...document.images].every((i) => i.complete && i.naturalWidth > 0));
+    await page.emulateMedia({ media: 'print' });
+    // The day picker is the screen's control, not part of the paper.
+    expect(await page.getByTestId('report-days').isVisible()).toBe(false);
+    const file = path.join(dir, 'day-report-a4.pdf');
+    writeFileSync(file, await page.pdf({ preferCSSPageSize: true, printBackground: true }));
+
+    const text = pdfText(file);
+    for (const t of [`Daily report · ${day}`, campaignName, 'Test site', vessel, vehicle, permit, morningDive, fixtures.finished.number])
+      expect(text).toContain(t);
+    expect(text).toContain(morningEntry);
+    for (const t of [
+      `Entries (${fixtureEntries.length + 1})`,
+      'Finds and samples',
+      'Taxa seen (1)',
+      'Operations',
+      'On watch',
+      'Statistics',
+    ])
+      expect(text).toContain(t);
+    for (const e of fixtureEntries) expect(text).toContain(e.body.title);
+    expect(text).toContain(`Equipment fault: ${faultTitle}`);
+    expect(text).toContain(`Find ${fixtures.findNumber}`);
+    for (const t of ['Day watch', 'Night watch', ...standers]) expect(text).toContain(t);
+    expect(text).not.toContain('Print or save as PDF');
+    expect(text).not.toContain('Days with dives');
+    expect(pdfImageCount(file)).toBeGreaterThanOrEqual(1);
+
+    const info = pdfInfo(file);
+    // A4 in points (ISO 216: 210 × 297 mm), within half a point as Chromium rounds to CSS pixels.
+    expect(info.widthPt).toBeCloseTo(595.28, 0);
+    expect(info.heightPt).toBeCloseTo(841.89, 0);
+    const pages = pdfPageTexts(file);
+    expect(pages.some((p) => p.startsWith(`Entries (${fixtureEntries.length + 1})`))).toBe(true);
+    expect(pages.some((p) => p.startsWith('On watch'))).toBe(true);
+    // Each dive's sections start pages of their own, in launch order, and the watches close the day:
+    // the morning dive (no telemetry, so no plots) takes 5 pages (the day's header with its phases,
+    // its one entry, finds and samples, taxa, operations), the evening dive 7 (phases and depth
+    // profile, site plan, entries over two pages, finds, taxa, operations), and "On watch" one more.
+    // A report that printed one dive only, or ran the dives together, would come out shorter.
+    expect(pages[0]).toContain(morningDive);
+    expect(pages.findIndex((p) => p.startsWith(`Dive ${fixtures.finished.number}`))).toBe(5);
+    expect(info.pages).toBe(13);
     expect(browser.errors).toEqual([]);
   });
 });
