@@ -130,11 +130,24 @@ function ViewerBody({
   // A point placed (or moved) now is placed this finely, in the photo's pixels.
   const px = placementAt(box, image, view);
   const zoomBy = (factor: number, at?: { x: number; y: number }) => setZoomView((v) => zoomAt(box, image, v, factor, at));
+  // A point moved by the keys past the edge of a zoomed view brings the view along.
+  const keepInView = (p: readonly [number, number]) => {
+    if (!view || !(rect.scale > 0)) return;
+    const margin = 24;
+    const shift = (at: number, len: number) => (at < margin ? margin - at : at > len - margin ? len - margin - at : 0);
+    const dx = shift(rect.left + p[0] * rect.scale, box.width);
+    const dy = shift(rect.top + p[1] * rect.scale, box.height);
+    if (dx !== 0 || dy !== 0) setZoomView((v) => panBy(box, image, v, dx, dy));
+  };
   // Where a dragged point was when it was taken hold of.
   const grabbed = useRef<{ target: PointRef; from: readonly [number, number] } | null>(null);
   useMeasureKeys(
     {
-      onNudge: (dx, dy) => dispatch({ type: 'nudge', dx, dy, px }),
+      onNudge: (dx, dy) => {
+        dispatch({ type: 'nudge', dx, dy, px });
+        const from = draft.selected ? draft[draft.selected.list][draft.selected.index] : draft.cursor;
+        if (from) keepInView([from[0] + dx, from[1] + dy]);
+      },
       onPlace: () => dispatch({ type: 'placeAtCursor', px }),
       // The keys zoom about the point being worked on.
       onZoom: (factor) => zoomBy(factor, { x: rect.left + draft.cursor[0] * rect.scale, y: rect.top + draft.cursor[1] * rect.scale }),

@@ -267,6 +267,24 @@ describe('measuring on a photo with the laser scale', () => {
       const longer = await shown(page);
       expect(Math.abs(longer.value - zoomed.value - 1)).toBeLessThan(0.1);
 
+      // Zoomed in 8 times, the keys take the far end 200 px of the photo right and back; the view follows it.
+      await stage.focus();
+      await page.keyboard.press('+');
+      await page.keyboard.press('+');
+      expect(await viewer.getByTestId('measure-zoom').textContent()).toBe('8×');
+      const farEnd = viewer.getByTestId('measure-drawing').locator('circle').nth(3);
+      const inView = async () => {
+        const [dot, surface] = [await farEnd.boundingBox(), await stage.boundingBox()];
+        const [cx, cy] = [dot!.x + dot!.width / 2, dot!.y + dot!.height / 2];
+        return cx > surface!.x && cx < surface!.x + surface!.width && cy > surface!.y && cy < surface!.y + surface!.height;
+      };
+      for (let k = 0; k < 20; k++) await page.keyboard.press('Shift+ArrowRight');
+      expect(await inView()).toBe(true);
+      expect((await shown(page)).value).toBeGreaterThan(longer.value + 4);
+      for (let k = 0; k < 20; k++) await page.keyboard.press('Shift+ArrowLeft');
+      expect(await inView()).toBe(true);
+      expect(await shown(page)).toEqual(longer);
+
       await viewer.getByTestId('measure-save').click();
       await viewer.getByTestId('measure-saved').waitFor();
       const kept = await pageApi<Kept>(page, `/api/photos/${entry.photoId}/measurements`);
