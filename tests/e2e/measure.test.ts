@@ -214,8 +214,23 @@ describe('measuring on a photo with the laser scale', () => {
 
   it('starts from the dive’s laser spacing, and points placed zoomed in carry a smaller uncertainty', async () => {
     const lead = fixtures.as.lead;
-    const dive = await lead.call<{ version: number }>(`/api/dives/${fixtures.finished.id}`);
-    await lead.call(`/api/dives/${fixtures.finished.id}`, 'PATCH', { version: dive.version, laserSpacingCm: 20 });
+    // The lead sets the dive's spacing on its settings screen.
+    const settings = await openBrowser(viewports.phone);
+    try {
+      const { page } = settings;
+      await signInAs(page, server.url, 'lead@bathynote.test');
+      await page.goto(`${server.url}/dives/${fixtures.finished.id}/settings`);
+      await page.getByTestId('dive-laser-spacing').fill('0');
+      await page.getByTestId('dive-laser-spacing-save').click();
+      await page.getByText('Give 1 to 500 cm, or leave it empty').waitFor();
+      await page.getByTestId('dive-laser-spacing').fill('20');
+      await page.getByTestId('dive-laser-spacing-save').click();
+      await page.getByTestId('dive-laser-spacing-saved').waitFor();
+      expect((await pageApi<{ laserSpacingCm: number | null }>(page, `/api/dives/${fixtures.finished.id}`)).laserSpacingCm).toBe(20);
+      expect(settings.errors).toEqual([]);
+    } finally {
+      await settings.close();
+    }
     const browser = await openBrowser(viewports.wide);
     try {
       const { page } = browser;
