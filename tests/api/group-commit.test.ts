@@ -101,6 +101,24 @@ describe('entries sent at the same moment', () => {
     expect(kept).toBe(heard.length);
   });
 
+  it('are told to readers after their answers, in order, also when another change commits before the group is told', async () => {
+    const live = t.ctx.live;
+    const heard: number[] = [];
+    const stop = live.subscribeAll((e) => heard.push(e.id));
+    const stageOne = (note: string) => live.withEvents((_tx, stage) => stage(ids.campaign2026, dive, 'dive.updated', { note }).id);
+    const order = await live
+      .inGroupCommit(() => stageOne('grouped'))
+      .then((grouped) => {
+        // The group's answer comes first: its readers have not been told yet.
+        const toldAtAnswer = heard.includes(grouped);
+        return { grouped, toldAtAnswer, after: stageOne('right after') };
+      });
+    stop();
+    expect(order.toldAtAnswer).toBe(false);
+    expect(order.after).toBeGreaterThan(order.grouped);
+    expect(heard).toEqual([order.grouped, order.after]);
+  });
+
   it('answer a repeated send with the entry stored the first time, even within one group', async () => {
     const biologist = await t.signIn(emails.biologist);
     const body = { kind: 'biology', title: 'Sent twice at once', clientRef: 'twice-at-once' };
