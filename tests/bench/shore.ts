@@ -1,15 +1,19 @@
 /**
- * `npm run bench -- shore`: fifty readers ashore following a finished six-hour dive (300 entries,
- * 100 photos, a 216,000-row telemetry log), once straight from the ship and once through the
- * shore mirror, with a byte-counting proxy standing for the satellite link (tests/bench/link-proxy.ts).
+ * `npm run bench -- shore`: a six-hour dive (300 entries, 100 photos, a 216,000-row telemetry log)
+ * followed by fifty guests ashore straight from the ship and, at the same time, by fifty guests
+ * through the shore mirror, each group behind a byte-counting proxy standing for the satellite link
+ * (tests/bench/link-proxy.ts). Both groups do the same: open the app, sign in, open the dive and its
+ * log, keep its live stream open for the whole dive, and every half hour look at the newest entries,
+ * the dive profile and the photos that arrived since (thumbnail and display size).
  *
- * The ship replicates by Litestream's SFTP and rsync to a local sshd (the shore machine) through
- * one proxy; the shore mirror reaches the ship's HTTP port through another. The dive is built and
- * the 50 readers read with the proxies unthrottled (the volume is what counts there: a six-hour
- * dive's replication spread over six hours fits the link many times over, and 50 readers through
- * 96 kbit/s would take hours); the live entry and the lag are then timed with both proxies
- * throttled to 96 kbit/s and a 650 ms round trip. The first snapshot (seeding, done in port) is
- * shown but not counted against the link.
+ * The ship replicates by Litestream's SFTP and rsync to a local sshd (the shore machine) through one
+ * proxy; the shore mirror reaches the ship's HTTP port through another; the straight readers through
+ * a third. The mirror's bytes are the first two: the record's WAL segments, every photo file (all
+ * sizes, originals included), and what the mirror asks of the ship (its one live stream, forwarded
+ * sign-ins, one check of each new session). The first snapshot is seeded in port as the README says
+ * and is shown but not counted. The half hours are compressed in time (the volume is what counts:
+ * six hours of it fit the link); the live entry and the lag are then timed with the proxies
+ * throttled to 96 kbit/s and a 650 ms round trip.
  */
 import { mkdtempSync, openAsBlob, rmSync, statSync } from 'node:fs';
 import { loadavg, tmpdir, userInfo } from 'node:os';
@@ -22,7 +26,7 @@ import { writeVehicleLog } from '../fixtures/telemetry/logs';
 import { emails } from '../helpers/demo';
 import { filesUnder, startShip } from '../helpers/replica';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
-import { openSse } from '../helpers/sse';
+import { openSse, type SseClient } from '../helpers/sse';
 import { haveSshd, startSshd } from '../helpers/sshd';
 import { SATELLITE, startLinkProxy, type LinkProxy } from './link-proxy';
 
@@ -30,8 +34,12 @@ const PASSWORD = 'bathynote-demo';
 const READERS = 50;
 const ENTRIES = 300;
 const PHOTOS = 100;
+/** The readers look again every half hour of the six. */
+const LOOKS = 12;
 const LIMITS = { AUTH_RATE_LIMIT: '100000', API_RATE_LIMIT: '10000000', STREAM_MAX_PER_PERSON: '1000', STREAM_MAX_PER_SESSION: '100' };
 const MIRROR_KEY = 'bench-mirror-key-0123456789abcdef';
+/** Ship and shore sign sessions with the same secret (README), so a session works on both. */
+const AUTH_SECRET = 'bench-shore-auth-secret-0123456789abcdef';
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const mb = (n: number) => `${(n / 1e6).toFixed(2)} MB`;
@@ -66,6 +74,14 @@ async function call<T = Json>(base: string, cookie: string, p: string, init: Req
   return (text ? JSON.parse(text) : {}) as T;
 }
 
+async function until(what: string, timeoutMs: number, check: () => boolean | Promise<boolean>): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  while (!(await check())) {
+    if (Date.now() > deadline) throw new Error(`${what}: not within ${timeoutMs / 1000} s`);
+    await sleep(500);
+  }
+}
+
 /** Waits until the counter has not moved for `quietMs` (and `also` holds). */
 async function settled(link: LinkProxy, quietMs: number, also: () => boolean = () => true, timeoutMs = 600_000): Promise<void> {
   const deadline = Date.now() + timeoutMs;
@@ -95,9 +111,10 @@ function guestDive(ship: ServerProcess): { diveId: string } {
   return row;
 }
 
-/** The six-hour dive: the telemetry log, 300 entries, 100 of them with a photo; logged by the lead. */
-async function buildDive(ship: ServerProcess, diveId: string, work: string): Promise<void> {
-  const cookie = await signIn(ship.url, emails.lead, PASSWORD);
+type Observation = { id: string; photos?: { id: string; urls?: { thumb?: string; display?: string } }[] };
+
+/** The six-hour dive's telemetry log, imported by the lead as the dive starts. */
+async function importTelemetry(ship: ServerProcess, cookie: string, diveId: string, work: string): Promise<number> {
   const dive = await call<{ phases?: { launch?: string | null } }>(ship.url, cookie, `/api/dives/${diveId}`);
   const start = dive.phases?.launch ? Date.parse(dive.phases.launch) : Date.UTC(2026, 4, 13, 17, 40);
   const file = path.join(work, 'six-hours.csv');
@@ -106,8 +123,19 @@ async function buildDive(ship: ServerProcess, diveId: string, work: string): Pro
   form.set('mode', 'replace');
   form.set('file', await openAsBlob(file, { type: 'text/csv' }), 'six-hours.csv');
   await call(ship.url, cookie, `/api/dives/${diveId}/telemetry`, { method: 'POST', body: form });
-  const photos = await Promise.all([0, 1, 2, 3].map((i) => jpegWithExif({}, { width: 1600 + i * 8, height: 1200 })));
-  for (let i = 0; i < ENTRIES; i++) {
+  return start;
+}
+
+/** One half hour of the dive: its share of the 300 entries, one in three with a photo; logged by the lead. */
+async function logHalfHour(
+  ship: ServerProcess,
+  cookie: string,
+  diveId: string,
+  start: number,
+  from: number,
+  photos: Buffer[],
+): Promise<void> {
+  for (let i = from; i < from + ENTRIES / LOOKS; i++) {
     const entry = await call<{ id: string }>(ship.url, cookie, `/api/dives/${diveId}/observations`, {
       method: 'POST',
       headers: { 'content-type': 'application/json' },
@@ -126,48 +154,74 @@ async function buildDive(ship: ServerProcess, diveId: string, work: string): Pro
   }
 }
 
-type Observation = { photos?: { urls?: { thumb?: string; display?: string } }[] };
-
 /** The web app as a first visit loads it: the page and the scripts and styles it names. */
 async function loadApp(base: string): Promise<void> {
-  const page = await (await fetch(`${base}/`, { headers: { 'accept-encoding': 'br, gzip' } })).text();
+  const get = async (p: string) => {
+    try {
+      const res = await fetch(`${base}${p}`, { headers: { 'accept-encoding': 'br, gzip' } });
+      return await res.text();
+    } catch (err) {
+      throw new Error(`GET ${base}${p}: ${err instanceof Error ? `${err.message} ${String(err.cause)}` : String(err)}`);
+    }
+  };
+  const page = await get('/');
   const assets = [...page.matchAll(/(?:src|href)="(\/[^"]+\.(?:js|css))"/g)].map((m) => m[1]!);
-  for (const asset of assets) await (await fetch(`${base}${asset}`, { headers: { 'accept-encoding': 'br, gzip' } })).arrayBuffer();
+  for (const asset of assets) await get(asset);
 }
 
-/** What one reader ashore fetches to follow the dive: the app, the dive, its log, its chart, its photos. */
-async function readDive(base: string, diveId: string): Promise<void> {
-  await loadApp(base);
-  const cookie = await signIn(base, emails.guest, PASSWORD);
-  await call(base, cookie, `/api/dives/${diveId}`);
-  await call(base, cookie, `/api/dives/${diveId}/summary`);
-  await call(base, cookie, `/api/dives/${diveId}/telemetry?points=400`);
-  const entries: Observation[] = [];
-  let cursor: string | null = null;
-  do {
-    const page: { items: Observation[]; nextCursor: string | null } = await call(
-      base,
-      cookie,
-      `/api/dives/${diveId}/observations?limit=200${cursor ? `&cursor=${encodeURIComponent(cursor)}` : ''}`,
-    );
-    entries.push(...page.items);
-    cursor = page.nextCursor;
-  } while (cursor);
-  const photos = entries.flatMap((e) => e.photos ?? []);
-  for (const [i, p] of photos.entries()) {
-    for (const url of [p.urls?.thumb, i < 10 ? p.urls?.display : undefined]) {
-      if (!url) continue;
-      const res = await fetch(new URL(url, base), { headers: { cookie } });
-      await res.arrayBuffer();
+/**
+ * A guest ashore following the dive for its six hours: opens the app once, signs in, opens the
+ * dive and its log, and keeps the dive's live stream open (every new entry arrives on it); every
+ * half hour they look again: the newest page of the log, the dive's profile, and each photo that
+ * arrived since, as its thumbnail in the log and opened at display size. Photo originals are not
+ * opened (the app shows display sizes; an original is for download).
+ */
+class Reader {
+  cookie = '';
+  private stream: SseClient | null = null;
+  private readonly seenPhotos = new Set<string>();
+  constructor(
+    readonly base: string,
+    readonly diveId: string,
+  ) {}
+
+  async open(): Promise<void> {
+    await loadApp(this.base);
+    this.cookie = await signIn(this.base, emails.guest, PASSWORD);
+    await call(this.base, this.cookie, `/api/dives/${this.diveId}`);
+    this.stream = openSse(`${this.base}/api/dives/${this.diveId}/stream`, { cookie: this.cookie });
+    if ((await this.stream.status) !== 200) throw new Error(`the live stream at ${this.base} was refused`);
+    await this.look();
+  }
+
+  get liveEntries(): number {
+    return this.stream?.events.filter((e) => e.event === 'observation.created').length ?? 0;
+  }
+
+  async look(): Promise<void> {
+    await call(this.base, this.cookie, `/api/dives/${this.diveId}/summary`);
+    await call(this.base, this.cookie, `/api/dives/${this.diveId}/telemetry?points=400`);
+    const page = await call<{ items: Observation[] }>(this.base, this.cookie, `/api/dives/${this.diveId}/observations?limit=50`);
+    for (const photo of page.items.flatMap((e) => e.photos ?? [])) {
+      if (this.seenPhotos.has(photo.id)) continue;
+      this.seenPhotos.add(photo.id);
+      for (const url of [photo.urls?.thumb, photo.urls?.display]) {
+        if (!url) continue;
+        const res = await fetch(new URL(url, this.base), { headers: { cookie: this.cookie } });
+        await res.arrayBuffer();
+        if (!res.ok) throw new Error(`photo ${url} at ${this.base}: ${res.status}`);
+      }
     }
+  }
+
+  close(): void {
+    this.stream?.close();
   }
 }
 
-async function readers(base: string, diveId: string): Promise<number> {
-  const began = performance.now();
-  for (let batch = 0; batch < READERS; batch += 10)
-    await Promise.all(Array.from({ length: Math.min(10, READERS - batch) }, () => readDive(base, diveId)));
-  return performance.now() - began;
+/** Every reader of a group does the same, ten at a time. */
+async function each(readers: Reader[], what: (r: Reader) => Promise<void>): Promise<void> {
+  for (let i = 0; i < readers.length; i += 10) await Promise.all(readers.slice(i, i + 10).map(what));
 }
 
 /** Seconds from the ship storing an entry to a reader's stream (at `base`) delivering it. */
@@ -216,6 +270,7 @@ export async function benchShore(): Promise<void> {
       ...LIMITS,
       PUBLIC_URL: shipOverLink,
       MIRROR_KEY,
+      AUTH_SECRET,
       REPLICATE_TO: `sftp://${encodeURIComponent(userInfo().username)}@127.0.0.1:${replLink.port}${shoreDir}`,
       REPLICATE_SSH_KEY: sshd.shipKey,
       REPLICATE_KNOWN_HOSTS: sshd.knownHosts,
@@ -224,52 +279,76 @@ export async function benchShore(): Promise<void> {
     started.push(ship);
     shipPort = Number(new URL(ship.url).port);
     originOf.set(ship.url, shipOverLink);
+    // The straight arm's readers reach the ship through a link of their own, counted apart.
+    const straightLink = await startLinkProxy(shipPort);
+    links.push(straightLink);
+    const straightBase = `http://127.0.0.1:${straightLink.port}`;
+    originOf.set(straightBase, shipOverLink);
     const { diveId } = guestDive(ship);
+    // Seeding in port (README): the first snapshot reaches the shore before sailing, off the link.
     await settled(replLink, 8000, () => filesUnder(path.join(shoreDir, 'db')).some((f) => f.endsWith('.snapshot.lz4')));
     const seedBytes = replLink.bytes();
+
+    const shore = await startServerProcess({
+      ...LIMITS,
+      MIRROR_OF: shipOverLink,
+      REPLICA: shoreDir,
+      // The test helper sets its own photo folder; the shore's photos are the replica's.
+      UPLOADS_DIR: path.join(shoreDir, 'photos'),
+      MIRROR_KEY,
+      AUTH_SECRET,
+      BATHYNOTE_DEMO: '0',
+    });
+    started.push(shore);
+    await until('the shore restored its seeded copy and follows the ship', 120_000, async () => {
+      const health = (await (await fetch(`${shore.url}/api/health`)).json()) as { mirror?: { lagSeconds?: number; link?: string } };
+      return health.mirror?.link === 'up' && (health.mirror.lagSeconds ?? 99) < 60;
+    });
+
+    // From here on everything that crosses either link is the dive's.
     replLink.reset();
-
-    const buildStart = performance.now();
-    await buildDive(ship, diveId, work);
-    const buildS = (performance.now() - buildStart) / 1000;
-    await settled(replLink, 12_000, () => filesUnder(path.join(shoreDir, 'photos')).length >= PHOTOS * 3);
-    const diveBytes = replLink.bytes();
-    const photoBytes = filesUnder(path.join(shoreDir, 'photos')).reduce((n, f) => n + statSync(path.join(shoreDir, 'photos', f)).size, 0);
-
-    // Straight from the ship: every reader's requests cross the link.
     shipLink.reset();
-    const straightMs = await readers(shipOverLink, diveId);
-    const straightBytes = shipLink.bytes();
-
-    // Through the mirror: the readers read ashore; the link carries the replication (above) and
-    // whatever the mirror itself asks of the ship (sign-ins, its one live stream).
-    let mirror: { bytes: number; ms: number; replBytes: number } | string;
-    let shore: ServerProcess | undefined;
-    try {
-      shore = await startServerProcess({
-        ...LIMITS,
-        MIRROR_OF: shipOverLink,
-        REPLICA: shoreDir,
-        // The test helper sets its own photo folder; the shore's photos are the replica's.
-        UPLOADS_DIR: path.join(shoreDir, 'photos'),
-        MIRROR_KEY,
-        BATHYNOTE_DEMO: '0',
-      });
-      started.push(shore);
-      const deadline = Date.now() + 120_000;
-      for (;;) {
+    straightLink.reset();
+    const straight = Array.from({ length: READERS }, () => new Reader(straightBase, diveId));
+    const ashore = Array.from({ length: READERS }, () => new Reader(shore.url, diveId));
+    const lead = await signIn(ship.url, emails.lead, PASSWORD);
+    const buildStart = performance.now();
+    const start = await importTelemetry(ship, lead, diveId, work);
+    await each(straight, (r) => r.open());
+    await each(ashore, (r) => r.open());
+    const photos = await Promise.all([0, 1, 2, 3].map((i) => jpegWithExif({}, { width: 1600 + i * 8, height: 1200 })));
+    let readMs = 0;
+    for (let look = 0; look < LOOKS; look++) {
+      await logHalfHour(ship, lead, diveId, start, look * (ENTRIES / LOOKS), photos);
+      // Half an hour is many photo passes and restores: what the ship holds is ashore by the next look.
+      const photosSoFar = Math.floor(((look + 1) * (ENTRIES / LOOKS) - 1) / (ENTRIES / PHOTOS)) + 1;
+      await until(
+        'the half hour ashore',
+        300_000,
+        () => filesUnder(path.join(shoreDir, 'photos')).filter((f) => f.includes('-display.')).length >= photosSoFar,
+      );
+      await until('the copy caught up', 120_000, async () => {
         const health = (await (await fetch(`${shore.url}/api/health`)).json()) as { mirror?: { lagSeconds?: number } };
-        if (typeof health.mirror?.lagSeconds === 'number' && health.mirror.lagSeconds < 60) break;
-        if (Date.now() > deadline) throw new Error(`the mirror did not restore: ${JSON.stringify(health)}`);
-        await sleep(1000);
-      }
-      shipLink.reset();
-      replLink.reset();
-      const ms = await readers(shore.url, diveId);
-      mirror = { bytes: shipLink.bytes() + replLink.bytes(), replBytes: replLink.bytes(), ms };
-    } catch (err) {
-      mirror = `not measured: ${err instanceof Error ? err.message.split('\n')[0] : String(err)}`;
+        return (health.mirror?.lagSeconds ?? 99) < 20;
+      });
+      const began = performance.now();
+      await each(straight, (r) => r.look());
+      await each(ashore, (r) => r.look());
+      readMs += performance.now() - began;
     }
+    const buildS = (performance.now() - buildStart) / 1000;
+    // The originals follow the display sizes; they cross the link within the dive's bytes too.
+    await settled(replLink, 12_000, () => filesUnder(path.join(shoreDir, 'photos')).length >= PHOTOS * 3);
+    const live = { straight: straight.map((r) => r.liveEntries), ashore: ashore.map((r) => r.liveEntries) };
+    for (const r of [...straight, ...ashore]) r.close();
+    await sleep(1000);
+    const sizes = { thumb: 0, display: 0, original: 0 };
+    for (const f of filesUnder(path.join(shoreDir, 'photos'))) {
+      const kind = /-(thumb|display|original)\./.exec(f)?.[1] as keyof typeof sizes | undefined;
+      if (kind) sizes[kind] += statSync(path.join(shoreDir, 'photos', f)).size;
+    }
+    const mirror = { repl: replLink.bytes(), http: shipLink.bytes() };
+    const straightBytes = straightLink.bytes();
 
     // Timing over the throttled link.
     shipLink.shape(SATELLITE);
@@ -277,7 +356,7 @@ export async function benchShore(): Promise<void> {
     const straightLive = await liveDelay(shipOverLink, ship, diveId, 5);
     let shoreLive: number[] = [];
     const lags: number[] = [];
-    if (shore && typeof mirror !== 'string') {
+    {
       shoreLive = await liveDelay(shore.url, ship, diveId, 5);
       // Entries keep coming on the ship every 4 s for two minutes; the shore's lag is sampled each second.
       const writer = await signIn(ship.url, emails.lead, PASSWORD);
@@ -303,21 +382,24 @@ export async function benchShore(): Promise<void> {
       .map((l) => l.toFixed(2))
       .join(' ')}; dive built in ${buildS.toFixed(0)} s\n`;
     out += line('figure', 'measured', 'target');
+    const mirrorTotal = mirror.repl + mirror.http;
     out += line('seeding in port (first snapshot, not counted)', mb(seedBytes));
-    out += line('the dive replicated once (record + photos)', mb(diveBytes));
-    out += line('  of which photo files (all sizes, as stored)', mb(photoBytes));
     out += line(`${READERS} readers straight from the ship: bytes on link`, mb(straightBytes));
-    if (typeof mirror === 'string') out += line(`${READERS} readers through the mirror`, mirror);
-    else {
-      const total = diveBytes + mirror.bytes;
-      out += line(`${READERS} readers through the mirror: bytes on link`, `${mb(total)}`);
-      out += line('  of which during the readers (forwarded, live)', mb(mirror.bytes));
-      out += line('fewer bytes across the link', `${(straightBytes / total).toFixed(1)}×`, '≥ 20×');
-      out += line(
-        'readers’ wall time straight / through mirror',
-        `${(straightMs / 1000).toFixed(1)} s / ${(mirror.ms / 1000).toFixed(1)} s`,
-      );
-    }
+    out += line(`${READERS} readers through the mirror: bytes on link`, mb(mirrorTotal));
+    out += line('  replication (Litestream SFTP + rsync over SSH)', mb(mirror.repl));
+    out += line('    photo files as stored: thumbnails', mb(sizes.thumb));
+    out += line('    photo files as stored: display sizes', mb(sizes.display));
+    out += line('    photo files as stored: originals', mb(sizes.original));
+    out += line('    record (the rest: WAL segments, SSH framing)', mb(mirror.repl - sizes.thumb - sizes.display - sizes.original));
+    out += line('  the shore to the ship (stream, sign-ins, checks)', mb(mirror.http));
+    out += line('fewer bytes across the link', `${(straightBytes / mirrorTotal).toFixed(1)}×`, '≥ 20×');
+    out += line('  the same without the originals (sent, never read)', `${(straightBytes / (mirrorTotal - sizes.original)).toFixed(1)}×`);
+    out += line(
+      'live entries each reader received, straight / ashore',
+      `${Math.min(...live.straight)} / ${Math.min(...live.ashore)}`,
+      `${ENTRIES}`,
+    );
+    out += line('readers’ looks, all 100 readers, wall time', `${(readMs / 1000).toFixed(1)} s`);
     out += line(
       'live entry to a reader, straight (p50, max)',
       `${pct(straightLive, 50).toFixed(2)} s, ${Math.max(...straightLive).toFixed(2)} s`,
