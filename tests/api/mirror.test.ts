@@ -521,4 +521,24 @@ describe('shore mirror, sessions its copy does not hold yet', () => {
     expect(reopened).toMatchObject({ title: edited, version: current.version + 1 });
     stream.close();
   }, 60_000);
+  it('sends the reads of a session whose memberships the copy does not match yet to the ship: a member removed there gets its 404', async () => {
+    const db = new Database(path.join(ship.dir, 'bathynote.db'), { readonly: true });
+    const { campaignId, userId } = db
+      .prepare(
+        `select d.campaign_id as campaignId, u.id as userId from dives d, user u where d.id = ? and u.email = 'guest@bathynote.test'`,
+      )
+      .get(diveId) as { campaignId: string; userId: string };
+    db.close();
+    expect(slowHolds('select count(*) from memberships where campaign_id = ? and user_id = ?', campaignId, userId)).toBe(1);
+    const lead = await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl);
+    await lead.call(`/api/campaigns/${campaignId}/members/${userId}`, 'DELETE', undefined, 200);
+    // The copy still says member; the ship, asked about this new session, says not.
+    const guest = await apiSignIn(slow.url, 'guest@bathynote.test');
+    const onShore = await get(slow.url, guest, `/api/dives/${diveId}`);
+    const onShip = await get(ship.url, guest, `/api/dives/${diveId}`);
+    expect(onShip.status).toBe(404);
+    expect(onShore.status).toBe(404);
+    expect(await onShore.json()).toEqual(await onShip.json());
+    expect((await get(slow.url, guest, `/api/campaigns/${campaignId}`)).status).toBe(404);
+  }, 60_000);
 });
