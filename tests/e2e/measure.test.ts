@@ -206,6 +206,20 @@ describe('measuring on a photo with the laser scale', () => {
       expect(kept.items).toHaveLength(1);
       expect(kept.items[0]!.points).toHaveLength(2);
       expect(Math.abs(kept.items[0]!.value - (barCm - 2.5))).toBeLessThanOrEqual(kept.items[0]!.uncertainty + 0.15);
+
+      // Two fingers spread from 60 to 120 px apart: the photo is zoomed 2× (worked here: 120 / 60).
+      const box = (await viewer.getByTestId('measure-stage').boundingBox())!;
+      const [mx, my] = [box.x + box.width / 2, box.y + box.height / 2];
+      const fingers = (half: number) => [
+        { x: mx - half, y: my, id: 1 },
+        { x: mx + half, y: my, id: 2 },
+      ];
+      await cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints: fingers(30) });
+      for (const half of [40, 50, 60]) await cdp.send('Input.dispatchTouchEvent', { type: 'touchMove', touchPoints: fingers(half) });
+      await cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [] });
+      expect(Number.parseFloat((await viewer.getByTestId('measure-zoom').textContent()) ?? '')).toBeCloseTo(2, 1);
+      // A pinch places no point: the two laser dots kept after saving are all that is marked.
+      expect(await viewer.getByTestId('measure-drawing').locator('circle').count()).toBe(2);
       expect(browser.errors).toEqual([]);
     } finally {
       await browser.close();
