@@ -59,8 +59,8 @@ const readSpacing = (): number => {
 };
 
 /**
- * The laser spacing offered: the last one used on this device, or 10 cm. Vehicles differ, so it is
- * always shown and can be changed before measuring.
+ * The laser spacing last used on this device, or 10 cm: offered when the dive has no spacing of its
+ * own. Vehicles differ, so it is always shown and can be changed before measuring.
  */
 export function useLastSpacing(): [number, (cm: number) => void] {
   const value = useSyncExternalStore(
