@@ -9,7 +9,25 @@
  */
 import { useEffect } from 'react';
 
-import type { Family } from './fonts-files';
+import PublicSans_400Regular from '@/assets/fonts/PublicSans_400Regular.woff2';
+import PublicSans_600SemiBold from '@/assets/fonts/PublicSans_600SemiBold.woff2';
+import PublicSans_700Bold from '@/assets/fonts/PublicSans_700Bold.woff2';
+import SpaceMono_400Regular from '@/assets/fonts/SpaceMono_400Regular.woff2';
+import type { fonts } from '@/lib/tokens';
+
+type Family = (typeof fonts)[keyof typeof fonts];
+
+/**
+ * Each face's address. In a web build a font file's module is its address (Metro's web asset
+ * transform), so no asset code has to load before the sign-in screen to resolve it.
+ */
+const address = (file: unknown): string => (typeof file === 'string' ? file : String((file as { uri?: unknown }).uri));
+const faceUrls: Record<Family, string> = {
+  PublicSans_400Regular: address(PublicSans_400Regular),
+  PublicSans_600SemiBold: address(PublicSans_600SemiBold),
+  PublicSans_700Bold: address(PublicSans_700Bold),
+  SpaceMono_400Regular: address(SpaceMono_400Regular),
+};
 
 /** The device's fonts that stand in before sign-in, by weight (local() names as fonts publish them). */
 const standIns: Record<Family, string[]> = {
@@ -53,12 +71,6 @@ export function useAppFonts(): boolean {
 /** The app's own faces from the first time someone is signed in on this page (stand-ins until then). */
 export function useOwnFaces(signedIn: boolean): void {
   useEffect(() => {
-    // The files' addresses (and the asset code that knows them) load with the signed-in screens;
-    // with no link and nothing kept yet, the stand-ins stay.
-    if (signedIn)
-      void import('./fonts-files').then(
-        ({ faceUrls }) => declareFaces(faceUrls()),
-        () => undefined,
-      );
+    if (signedIn) declareFaces(faceUrls);
   }, [signedIn]);
 }

@@ -67,7 +67,10 @@ export function webBuildIsCurrent(): boolean {
  */
 const SIGNED_OUT_SCREEN = './(auth)/sign-in.tsx';
 
-type MetroModule = { id: number; deps: number[]; code: string };
+/** The screens from signing in to a dive's log: the shared code they use comes first, on its own. */
+const FIRST_SIGNED_IN_SCREENS = ['./(app)/index.tsx', './(app)/campaigns/[campaignId]/index.tsx', './(app)/dives/[diveId]/index.tsx'];
+
+type MetroModule = { id: number; deps: number[]; lazy: string[]; code: string };
 
 /** The modules of one Metro web chunk: one `__d(factory, id, deps)` call each, at the start of a line. */
 function metroModules(code: string): MetroModule[] | undefined {
@@ -80,7 +83,8 @@ function metroModules(code: string): MetroModule[] | undefined {
     if (!tail) return false;
     const deps = JSON.parse(tail[2] ?? '[]') as number[] | Record<string, unknown>;
     const ids = Array.isArray(deps) ? deps : Object.entries(deps).flatMap(([k, v]) => (k === 'paths' ? [] : [v as number]));
-    modules.push({ id: Number(tail[1]), deps: ids, code: text });
+    const lazy = Array.isArray(deps) ? [] : Object.values((deps.paths ?? {}) as Record<string, string>);
+    modules.push({ id: Number(tail[1]), deps: ids, lazy, code: text });
     return true;
   };
   for (const line of code.split('\n')) {
@@ -127,59 +131,104 @@ export function splitSharedChunk(dir = outDir): void {
   const depsObject = table && /,\d+,(\{"0":.*\})\);$/.exec(table);
   if (!table || !depsObject) return skip('no route table in the entry file');
   const deps = JSON.parse(depsObject[1] ?? '{}') as Record<string, number> & { paths: Record<string, string> };
-  const ownUrls: string[] = [];
-  const layouts = [...table.matchAll(/"(\.\/(?:[^"]*\/)?_layout\.tsx)":/g)].map((m) => m[1] ?? '');
-  for (const route of [...layouts, SIGNED_OUT_SCREEN]) {
+  const routeUrl = (route: string): string | undefined => {
     const at = new RegExp(
       `"${route.replace(/[.*+?^${}()|[\]\\/]/g, '\\$&')}":\\{enumerable:!0,get:\\(\\)=>r\\(d\\[\\d+\\]\\)\\(d\\[(\\d+)\\]`,
     ).exec(table);
-    const url = at ? deps.paths[String(deps[at[1] ?? ''])] : undefined;
+    return at ? deps.paths[String(deps[at[1] ?? ''])] : undefined;
+  };
+  const layouts = [...table.matchAll(/"(\.\/(?:[^"]*\/)?_layout\.tsx)":/g)].map((m) => m[1] ?? '');
+  const ownUrls: string[] = [];
+  for (const route of [...layouts, SIGNED_OUT_SCREEN]) {
+    const url = routeUrl(route);
     if (!url) return skip(`no file for ${route}`);
     ownUrls.push(url);
   }
 
-  const byId = new Map(common.map((m) => [m.id, m]));
-  const needed = new Set<number>();
-  const visit = (ids: number[]) => {
-    for (const id of ids) {
-      const m = byId.get(id);
-      if (!m || needed.has(id)) continue;
-      needed.add(id);
-      visit(m.deps);
-    }
-  };
-  for (const url of ownUrls) {
-    const own = metroModules(readFileSync(path.join(dir, url), 'utf8'));
-    if (!own) return skip(`${url} could not be read`);
-    visit(own.flatMap((m) => m.deps));
+  // Every screen's own file, and the closure of shared modules it needs.
+  const chunks = new Map<string, MetroModule[]>();
+  for (const name of names) {
+    if (!name.endsWith('.js') || name === commonName || name === entryName || name.startsWith('__expo-metro-runtime-')) continue;
+    const modules = metroModules(readFileSync(path.join(jsDir, name), 'utf8'));
+    if (!modules) return skip(`${name} could not be read`);
+    chunks.set(`/_expo/static/js/web/${name}`, modules);
   }
+  const byId = new Map(common.map((m) => [m.id, m]));
+  const closure = (urls: string[]): Set<number> => {
+    const found = new Set<number>();
+    const visit = (ids: number[]) => {
+      for (const id of ids) {
+        const m = byId.get(id);
+        if (!m || found.has(id)) continue;
+        found.add(id);
+        visit(m.deps);
+      }
+    };
+    for (const url of urls) visit((chunks.get(url) ?? []).flatMap((m) => m.deps));
+    return found;
+  };
+  if (ownUrls.some((url) => !chunks.has(url))) return skip('a signed-out screen has no file');
+  const needed = closure(ownUrls);
   const rest = common.filter((m) => !needed.has(m.id));
   if (rest.length === 0) return skip('the signed-out screens use all of it');
 
-  const restCode = `${rest.map((m) => m.code).join('\n')}\n`;
-  const restUrl = `/_expo/static/js/web/__common-rest-${contentHash(restCode)}.js`;
-  // Expo's loader is looked up on globalThis at each dynamic import; this wraps it as it is set.
+  // What the first signed-in screens use (with what the layouts load later: the signed-in frame, the
+  // font files) comes in one file; what only the other screens share, in another.
+  const firstUrls = FIRST_SIGNED_IN_SCREENS.map(routeUrl).filter((u): u is string => !!u);
+  for (const url of ownUrls) firstUrls.push(...(chunks.get(url) ?? []).flatMap((m) => m.lazy));
+  const first = closure(firstUrls);
+  const parts = [rest.filter((m) => first.has(m.id)), rest.filter((m) => !first.has(m.id))].filter((p) => p.length > 0);
+  const partUrls: string[] = [];
+  for (const part of parts) {
+    const code = `${part.map((m) => m.code).join('\n')}\n`;
+    partUrls.push(`/_expo/static/js/web/__common-rest-${contentHash(code)}.js`);
+  }
+  // The files that need no shared part (the signed-out screens, the parts themselves) and those that
+  // need the second part, by the first eight digits of their hash; every other file needs the first.
+  const tag = (url: string) => /-([0-9a-f]{8})[0-9a-f]*\.js$/.exec(url)?.[1] ?? url;
+  const tags = [...chunks.keys(), ...partUrls].map(tag);
+  if (new Set(tags).size !== tags.length) return skip('two files share a hash prefix');
+  const alone = [...ownUrls, ...partUrls].map(tag);
+  const second =
+    parts.length > 1
+      ? [...chunks.keys()].filter((url) => !ownUrls.includes(url) && (parts[1] ?? []).some((m) => closure([url]).has(m.id))).map(tag)
+      : [];
+
+  // Expo's loader is looked up on globalThis at each dynamic import; this wraps it as it is set, so
+  // that a screen's file and the shared parts it needs are fetched side by side.
   const loader =
-    `(function(g){var k=(g.__METRO_GLOBAL_PREFIX__||"")+"__loadBundleAsync",load,rest=${JSON.stringify(restUrl)},` +
-    `own=${JSON.stringify(Object.fromEntries([restUrl, ...ownUrls].map((u) => [u, 1])))};` +
+    `(function(g){var k=(g.__METRO_GLOBAL_PREFIX__||"")+"__loadBundleAsync",load,parts=${JSON.stringify(partUrls)},` +
+    `alone=${JSON.stringify(alone.join(' '))},second=${JSON.stringify(second.join(' '))};` +
     `Object.defineProperty(g,k,{configurable:!0,set:function(f){load=f},get:function(){return load&&function(p){` +
-    `return own[p]?load(p):Promise.all([load(rest),load(p)]).then(function(){})}}})})(globalThis);`;
-  const eagerCode = `${loader}\n${common
-    .filter((m) => needed.has(m.id))
-    .map((m) => m.code)
-    .join('\n')}\n`;
-  const eagerName = `__common-${contentHash(eagerCode)}.js`;
-  writeFileSync(path.join(dir, restUrl), restCode);
-  writeFileSync(path.join(jsDir, eagerName), eagerCode);
-  unlinkSync(path.join(jsDir, commonName));
-  for (const stale of [`${commonName}.map`, `${commonName}.br`, `${commonName}.gz`])
-    if (existsSync(path.join(jsDir, stale))) unlinkSync(path.join(jsDir, stale));
-  const updated = html.replace(`/${commonName}"`, `/${eagerName}"`);
+    `var t=(/-([0-9a-f]{8})[0-9a-f]*\\.js$/.exec(p)||[])[1]||p,n=alone.indexOf(t)>=0?[]:second.indexOf(t)>=0?parts:parts.slice(0,1);` +
+    `return Promise.all(n.map(function(u){return load(u)}).concat([load(p)])).then(function(){})}}})})(globalThis);`;
+  // The page's first scripts run in order (Metro's runtime, the shared modules, the entry); as one
+  // file they cross the link as one answer, compressed together.
+  const runtimeName = names.find((n) => /^__expo-metro-runtime-[0-9a-f]+\.js$/.test(n) && html.includes(`/${n}"`));
+  const script = (name: string) => `<script src="/_expo/static/js/web/${name}" defer></script>`;
+  if (!runtimeName || !html.includes(script(runtimeName) + script(commonName) + script(entryName)))
+    return skip('index.html loads other scripts than expected');
+  const withoutMaps = (name: string) =>
+    readFileSync(path.join(jsDir, name), 'utf8')
+      .split('\n')
+      .filter((line) => !line.startsWith('//# '))
+      .join('\n');
+  const eagerModules = common.filter((m) => needed.has(m.id)).map((m) => m.code);
+  const firstCode = [withoutMaps(runtimeName), loader, ...eagerModules, withoutMaps(entryName)].join('\n');
+  const firstName = `entry-${contentHash(firstCode)}.js`;
+  for (const [index, part] of parts.entries())
+    writeFileSync(path.join(dir, partUrls[index] ?? ''), `${part.map((m) => m.code).join('\n')}\n`);
+  writeFileSync(path.join(jsDir, firstName), firstCode);
+  for (const name of [runtimeName, commonName, entryName])
+    for (const stale of [name, `${name}.map`, `${name}.br`, `${name}.gz`])
+      if (existsSync(path.join(jsDir, stale))) unlinkSync(path.join(jsDir, stale));
+  const updated = html.replace(script(runtimeName) + script(commonName) + script(entryName), script(firstName));
   writeFileSync(`${indexFile}.tmp`, updated);
   renameSync(`${indexFile}.tmp`, indexFile);
   process.stdout.write(
-    `Shared file split: ${needed.size} modules (${Math.round(eagerCode.length / 1024)} KB) for the signed-out screens, ` +
-      `${rest.length} (${Math.round(restCode.length / 1024)} KB) after sign-in.\n`,
+    `Shared file split: ${needed.size} modules (${Math.round(eagerModules.join('').length / 1024)} KB) for the signed-out screens, then ` +
+      parts.map((part) => `${part.length} (${Math.round(part.reduce((n, m) => n + m.code.length, 0) / 1024)} KB)`).join(' and ') +
+      ' after sign-in.\n',
   );
 }
 

@@ -22,7 +22,7 @@ function isHashed(file: string): boolean {
 }
 
 /**
- * Headers that only a page (or a worker) acts on. A script, font or image fetched by the page
+ * Headers that only a page (or a worker) acts on. A script, font or icon fetched by the page
  * ignores them, and on a satellite link their 800 bytes on each of a dozen files add up; the page
  * itself, the service worker and the API keep them all.
  */
@@ -39,12 +39,10 @@ const PAGE_ONLY_HEADERS = [
 ];
 
 function cacheControl(res: Response, file: string): void {
-  if (!isHashed(file)) {
-    res.setHeader('Cache-Control', 'no-cache');
-    return;
-  }
-  res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
-  for (const name of PAGE_ONLY_HEADERS) res.removeHeader(name);
+  const hashed = isHashed(file);
+  res.setHeader('Cache-Control', hashed ? 'public, max-age=31536000, immutable' : 'no-cache');
+  // The service worker is a worker: its policy stays.
+  if ((hashed && !file.endsWith('sw.js')) || /\.(ico|png)$/.test(file)) for (const name of PAGE_ONLY_HEADERS) res.removeHeader(name);
 }
 
 /** Every file of the export that has precompressed siblings, by its URL path. */

@@ -34,6 +34,8 @@ async function recordTransfers(page: Page): Promise<{ transfers: Map<string, Tra
   // A cold load: nothing from an earlier visit.
   await cdp.send('Network.enable');
   await cdp.send('Network.setCacheDisabled', { cacheDisabled: true });
+  // Every file the page asks for crosses the link here, even once the service worker has a copy.
+  await cdp.send('Network.setBypassServiceWorker', { bypass: true });
   return { transfers, cdp };
 }
 
@@ -42,11 +44,10 @@ const KB = 1024;
 
 /**
  * What a cold visit may move over the link: the sign-in screen, then the dive log after signing
- * in (all of it, API included). The goals are 300 KB and 450 KB; these limits are what the app
- * reaches today (about 390 KB and 470 KB, of which the framework's own entry file is about 220 KB
- * and the code the signed-in screens share another 150 KB), kept so it never grows.
+ * in (all of it, API included). The service worker's own downloads of the rest of the app, which
+ * follow behind the dive log, are not counted: they are what the app kept for a reload with no link.
  */
-const BUDGET = { signIn: 400 * KB, diveLog: 480 * KB };
+const BUDGET = { signIn: 300 * KB, diveLog: 450 * KB };
 
 function report(title: string, transfers: Transfer[]): number {
   const total = transfers.reduce((sum, t) => sum + t.bytes, 0);
