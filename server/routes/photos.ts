@@ -68,7 +68,7 @@ export function photoRoutes({ db, auth, env, live }: AppContext): Router {
   });
 
   r.delete('/photos/:photoId', ...photoMember, mayEditPhoto, (req, res) => {
-    retirePhoto(db, live, req.params.photoId as string);
+    retirePhoto(db, live, req.params.photoId as string, accessOf(req).userId);
     res.status(204).end();
   });
 

@@ -109,6 +109,26 @@ function reviseMeasuredLength(tx: Executor, observationId: string, removedId: st
   return true;
 }
 
+/**
+ * After a photo is retired: an entry length taken from one of its measurements is taken again from
+ * the measurements left on the entry's other photos, or cleared. True when the length changed.
+ */
+export function reviseLengthAfterPhotoRetired(tx: Executor, observationId: string, photoId: string): boolean {
+  const source = tx
+    .select({ id: photoMeasurements.id })
+    .from(observationSizes)
+    .innerJoin(photoMeasurements, eq(photoMeasurements.id, observationSizes.measurementId))
+    .where(
+      and(
+        eq(observationSizes.observationId, observationId),
+        eq(observationSizes.dimension, 'length'),
+        eq(photoMeasurements.photoId, photoId),
+      ),
+    )
+    .get();
+  return source ? reviseMeasuredLength(tx, observationId, source.id) : false;
+}
+
 export function createMeasurement(db: Db, live: LiveHub, access: CampaignAccess, photoId: string, input: MeasurementCreate): Measurement {
   const entry = livePhotoEntry(db, photoId);
   requireEntryEditor(access, entry.authorId);

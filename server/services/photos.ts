@@ -18,7 +18,9 @@ import {
 import { fieldError, notFound } from '../errors';
 import { assertCan, type CampaignAccess } from '../middleware/campaign-access';
 import type { LiveHub, StageEvent } from './live';
+import { reviseLengthAfterPhotoRetired } from './measurements';
 import { observationFilters } from './observations/filters';
+import { recordChange } from './observations/revisions';
 import { getObservation, tagsOf } from './observations/hydrate';
 import { processPhoto, type ProcessedPhoto } from './photo-processing';
 import { newPhotoKey, type PhotoStorage } from './photo-storage';
@@ -253,12 +255,17 @@ export function updatePhoto(db: Db, live: LiveHub, photoId: string, input: Photo
   return toPhoto(photoRow(db, photoId)!);
 }
 
-/** Retires a photo: hidden everywhere, its files kept (nothing is hard-deleted). */
-export function retirePhoto(db: Db, live: LiveHub, photoId: string): PhotoRow {
+/** Retires a photo: hidden everywhere, its files kept (nothing is hard-deleted); `actorId` is who retired it. */
+export function retirePhoto(db: Db, live: LiveHub, photoId: string, actorId: string): PhotoRow {
   const row = livePhoto(db, photoId);
   live.withEvents((tx, stage) => {
     tx.update(photos).set({ retired: true }).where(eq(photos.id, photoId)).run();
     stagePhotosChanged(tx, stage, row.observationId);
+    // A length measured on this photo no longer stands on a photo anyone can see.
+    if (reviseLengthAfterPhotoRetired(tx, row.observationId, photoId)) {
+      const updated = recordChange(tx, row.observationId, actorId, 'updated');
+      stage(updated.campaignId, updated.diveId, 'observation.updated', updated);
+    }
   });
   return row;
 }

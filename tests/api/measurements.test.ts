@@ -317,6 +317,38 @@ describe('removing a measurement and the entry’s length', () => {
   });
 });
 
+describe('retiring a photo and the entry’s length', () => {
+  it('takes the length again from the entry’s other photos when the photo it was measured on is retired, and clears it when none is left', async () => {
+    const { entry, photoId: first } = await entryWithPhoto('biology');
+    const bio = await t.signIn(emails.biologist);
+    const up = await bio
+      .post(`/api/observations/${entry.id}/photos`)
+      .attach('photo', await png(), { filename: 'second.png', contentType: 'image/png' });
+    expect(up.status).toBe(201);
+    const second = up.body.photos[0].id as string;
+    const length = (px: number) => ({
+      ...bar,
+      points: [
+        [50, 250],
+        [50 + px, 250],
+      ],
+    });
+    // Worked here: 10 cm over 100 px is 0.1 cm a pixel, so 200 px is 20 cm and 300 px 30 cm.
+    expect((await bio.post(`/api/photos/${second}/measurements`).send(length(200))).status).toBe(201);
+    expect((await bio.post(`/api/photos/${first}/measurements`).send(length(300))).status).toBe(201);
+    expect((await detail(entry.id)).sizes).toEqual([{ dimension: 'length', valueCm: 30, method: 'measured' }]);
+
+    const v = (await detail(entry.id)).version;
+    expect((await bio.delete(`/api/photos/${first}`)).status).toBe(204);
+    const after = await detail(entry.id);
+    expect(after.sizes).toEqual([{ dimension: 'length', valueCm: 20, method: 'measured' }]);
+    expect(after.version).toBe(v + 1);
+
+    expect((await bio.delete(`/api/photos/${second}`)).status).toBe(204);
+    expect((await detail(entry.id)).sizes).toEqual([]);
+  });
+});
+
 describe('the dive’s laser spacing', () => {
   const getDive = async () => diveSchema.parse((await (await t.signIn(emails.lead)).get(`/api/dives/${ids.dive}`)).body);
 
