@@ -870,6 +870,8 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
             onBottomAt: onBottom,
             offBottomAt: offBottom,
             onDeckAt: onDeck,
+            // The demo vehicle's two lasers are 10 cm apart.
+            laserSpacingCm: 10,
           })
           .returning()
           .get();
