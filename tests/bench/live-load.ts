@@ -38,24 +38,38 @@ if (file) {
 }
 `;
 
-type LoopDelay = { p50: number; p99: number; max: number };
+type LoopDelay = { p50: number; p99: number; max: number; cpuMs: number };
+
+/** CPU time (user and system) process `pid` has used, in ms, from /proc (Linux; 100 ticks a second). */
+function cpuMsOf(pid: number): number {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ');
+    return (Number(fields[11]) + Number(fields[12])) * 10;
+  } catch {
+    return NaN;
+  }
+}
 
 /** Event-loop delay of a process that loaded LOOP_DELAY_MODULE: `take` returns the figures since the last take. */
 function loopDelayOf(dir: string, name: string) {
   const module = path.join(dir, 'loop-delay.mjs');
   writeFileSync(module, LOOP_DELAY_MODULE);
   const file = path.join(dir, `${name}-loop-delay.json`);
+  let cpuAtLastTake = 0;
   return {
     env: { NODE_OPTIONS: `${process.env.NODE_OPTIONS ?? ''} --import ${module}`.trim(), BENCH_LOOP_DELAY_FILE: file },
     async take(pid: number): Promise<LoopDelay> {
+      const cpu = cpuMsOf(pid);
+      const cpuMs = cpu - cpuAtLastTake;
+      cpuAtLastTake = cpu;
       rmSync(file, { force: true });
       process.kill(pid, 'SIGUSR2');
       for (let waited = 0; !existsSync(file); waited += 20) {
-        if (waited > 5000) return { p50: NaN, p99: NaN, max: NaN };
+        if (waited > 5000) return { p50: NaN, p99: NaN, max: NaN, cpuMs };
         await new Promise((r) => setTimeout(r, 20));
       }
       await new Promise((r) => setTimeout(r, 20));
-      return JSON.parse(readFileSync(file, 'utf8')) as LoopDelay;
+      return { ...(JSON.parse(readFileSync(file, 'utf8')) as Omit<LoopDelay, 'cpuMs'>), cpuMs };
     },
   };
 }
@@ -239,6 +253,7 @@ export async function benchLiveLoad(): Promise<void> {
         `  ${name.padEnd(7)} ${(r.sent / r.seconds).toFixed(1).padStart(6)} req/s   write p50 ${ms(percentile(r.latencies, 50))}   p99 ${ms(percentile(r.latencies, 99))}   max ${ms(Math.max(...r.latencies))}   server p50 ${ms(percentile(r.serverMs, 50))} p99 ${ms(percentile(r.serverMs, 99))}   non-2xx ${r.non2xx}   errors ${r.errors}`,
         `          baseline write p50 ${ms(percentile(base.latencies, 50))}   p99 ${ms(percentile(base.latencies, 99))}   server p99 ${ms(percentile(base.serverMs, 99))}   ratio write p99 ${ratio(percentile(r.latencies, 99), percentile(base.latencies, 99))}   server p99 ${ratio(percentile(r.serverMs, 99), percentile(base.serverMs, 99))}`,
         `          event-loop delay p50 ${delay.p50} ms   p99 ${delay.p99} ms   max ${delay.max} ms   (baseline p99 ${baseDelay.p99} ms)   load generator late p99 ${ms(percentile(r.lateMs, 99))} (baseline run ${ms(percentile(base.lateMs, 99))})`,
+        `          CPU per entry: server ${(delay.cpuMs / r.sent).toFixed(1)} ms, baseline ${(baseDelay.cpuMs / base.sent).toFixed(1)} ms   ratio ${ratio(delay.cpuMs / r.sent, baseDelay.cpuMs / base.sent)}   (the server's includes telling ${READERS} readers; CPU time is what a busy machine does not stretch)`,
         `          write from send p50 ${ms(percentile(r.fromSend, 50))}   p99 ${ms(percentile(r.fromSend, 99))}   baseline p99 ${ms(percentile(base.fromSend, 99))}   ratio ${ratio(percentile(r.fromSend, 99), percentile(base.fromSend, 99))}   (the bench's own lateness left out)`,
       ].join('\n');
     process.stdout.write(
