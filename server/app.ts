@@ -77,7 +77,7 @@ export function createApp(ctx: AppContext, options: { mirror?: Mirror } = {}): E
   // configured proxy) so that a forged X-Forwarded-For cannot dodge the sign-in rate limit.
   app.use('/api', serverTiming);
   // A shore mirror sends sign-in and every change to the ship before anything here reads the body.
-  if (mirror) app.use('/api', forwardToShip(mirror, ctx.auth, env.PUBLIC_URL), keepRelayedEntries(mirror));
+  if (mirror) app.use('/api', forwardToShip(mirror, ctx.auth, env.PUBLIC_URL, env.UPLOADS_DIR), keepRelayedEntries(mirror));
   app.use('/api/auth', (req, _res, next) => {
     req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
     next();

@@ -1,6 +1,9 @@
+import { existsSync } from 'node:fs';
 import http from 'node:http';
 import https from 'node:https';
+import { resolve, sep } from 'node:path';
 
+import type { Statement } from 'better-sqlite3';
 import type { RequestHandler } from 'express';
 
 import type { Auth } from '../auth';
@@ -35,8 +38,9 @@ const tokenOf = (cookie: string) => cookie.slice(0, cookie.lastIndexOf('.') > 0 
  * both ways, so one session works on both. Nothing is queued: with the ship out of reach the
  * answer is 502 `ship_unreachable`.
  */
-export function forwardToShip(mirror: Mirror, auth: Auth, publicUrl: string): RequestHandler {
+export function forwardToShip(mirror: Mirror, auth: Auth, publicUrl: string, uploadsDir: string): RequestHandler {
   const ship = new URL(mirror.settings.of);
+  const photoHere = photoFilesAshore(mirror, uploadsDir);
   const checkOrigin = sameOrigin(publicUrl);
   const sessions = mirror.sessions;
   const cache = sessionCacheFor(auth);
@@ -60,6 +64,9 @@ export function forwardToShip(mirror: Mirror, auth: Auth, publicUrl: string): Re
     if (authPath || write) return write ? checkOrigin(req, res, send) : send();
     if (!token || !cookie) return next();
     if (mirror.readsFromShip(token)) return send();
+    // A photo file the ship has not sent ashore yet (an original waits behind the display sizes)
+    // comes from the ship for the one who asks; the ship decides whether they may see it.
+    if (!photoHere(path, req.query.size)) return send();
     if (sessions.inCopy(token)) return next();
     const answer = await sessions.check(token, req.headers.cookie ?? '');
     if (answer.kind === 'unreachable') return send();
@@ -70,6 +77,30 @@ export function forwardToShip(mirror: Mirror, auth: Auth, publicUrl: string): Re
     if (!sessions.copyAgrees(answer)) return send();
     cache.set(cookie, { user: answer.user, token, expiresAt: answer.until });
     next();
+  };
+}
+
+const PHOTO = /^\/photos\/([^/]+)$/;
+const SIZE_COLUMN = { thumb: 'thumb_key', display: 'display_key', original: 'original_key' } as const;
+
+/** Whether a photo file request can be answered ashore: the copy holds the photo and the file is here. */
+function photoFilesAshore(mirror: Mirror, uploadsDir: string): (path: string, size: unknown) => boolean {
+  const base = resolve(uploadsDir);
+  // The server's connection stays the same object across swapped-in copies, so these stay good.
+  const statements = new Map<string, Statement>();
+  return (path, size) => {
+    const match = PHOTO.exec(path);
+    const db = mirror.copy;
+    if (!match || !db) return true;
+    // Anything but a known size is the route's to refuse; an absent size means the original.
+    const column = SIZE_COLUMN[(size ?? 'original') as keyof typeof SIZE_COLUMN];
+    if (!column) return true;
+    let statement = statements.get(column);
+    if (!statement) statements.set(column, (statement = db.$client.prepare(`select ${column} from photos where id = ?`).pluck()));
+    const key = statement.get(decodeURIComponent(match[1]!)) as string | undefined;
+    if (key === undefined) return false;
+    const file = resolve(base, key);
+    return !file.startsWith(base + sep) || existsSync(file);
   };
 }
 

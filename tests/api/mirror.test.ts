@@ -150,7 +150,8 @@ beforeAll(async () => {
   // The ship's public address is the far end of the link, as a shore sees it.
   const linkPort = await freePort();
   shipPublicUrl = `http://127.0.0.1:${linkPort}`;
-  ship = await startServerProcess({ ...secrets, PUBLIC_URL: shipPublicUrl });
+  // Every sign-in through a shore reaches the ship from the shore's one address (README: AUTH_RATE_LIMIT or TRUST_PROXY).
+  ship = await startServerProcess({ ...secrets, PUBLIC_URL: shipPublicUrl, AUTH_RATE_LIMIT: '1000' });
   const db = new Database(path.join(ship.dir, 'bathynote.db'), { readonly: true });
   const diveOf = (campaign: string, number: string) =>
     db
@@ -540,5 +541,31 @@ describe('shore mirror, sessions its copy does not hold yet', () => {
     expect(onShore.status).toBe(404);
     expect(await onShore.json()).toEqual(await onShip.json());
     expect((await get(slow.url, guest, `/api/campaigns/${campaignId}`)).status).toBe(404);
+  }, 60_000);
+  it('fetches a photo file the ship has not sent ashore yet from the ship, for a member only', async () => {
+    const reader = await apiSignIn(slow.url, 'biologist@bathynote.test');
+    const outsider = await apiSignIn(slow.url, 'outsider@bathynote.test');
+    const lead = await apiSignIn(ship.url, 'lead@bathynote.test', shipPublicUrl);
+    const entry = await lead.call<{ id: string }>(
+      `/api/dives/${diveId}/observations`,
+      'POST',
+      { kind: 'biology', title: 'Original on demand' },
+      201,
+    );
+    const form = new FormData();
+    form.append('photo', new Blob([new Uint8Array(await jpegWithExif({}, { width: 640, height: 480 }))]), 'late.jpg');
+    const upload = await fetch(`${ship.url}/api/observations/${entry.id}/photos`, {
+      method: 'POST',
+      headers: { cookie: lead.cookie, origin: shipPublicUrl },
+      body: form,
+    });
+    expect(upload.status).toBe(201);
+    const photoId = ((await upload.json()) as { photos: { id: string }[] }).photos.at(-1)!.id;
+    expect(slowHolds('select count(*) from photos where id = ?', photoId)).toBe(0);
+    const onShip = Buffer.from(await (await get(ship.url, lead, `/api/photos/${photoId}?size=original`)).arrayBuffer());
+    const onShore = await get(slow.url, reader, `/api/photos/${photoId}?size=original`);
+    expect(onShore.status).toBe(200);
+    expect(Buffer.from(await onShore.arrayBuffer()).equals(onShip)).toBe(true);
+    expect((await get(slow.url, outsider, `/api/photos/${photoId}?size=original`)).status).toBe(404);
   }, 60_000);
 });
