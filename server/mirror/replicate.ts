@@ -63,6 +63,12 @@ export type ShipSettings = {
   photosIntervalS: number;
   /** rsync's --bwlimit in KiB/s, so originals never crowd out the record on the link; 0 for none. */
   photosBwLimit: number;
+  /**
+   * Seconds without a new photo before originals go (e.g. after the dive); 0 sends them in every
+   * pass. Thumbnails and display sizes never wait; ashore, an original opened before it arrives
+   * is fetched from the ship.
+   */
+  originalsAfterS: number;
 };
 
 /** Reads the ship's replication settings from the environment; `undefined` without `REPLICATE_TO`. */
@@ -83,6 +89,7 @@ export function shipSettings(env: Record<string, string | undefined>): ShipSetti
     knownHosts: env.REPLICATE_KNOWN_HOSTS ? path.resolve(env.REPLICATE_KNOWN_HOSTS) : undefined,
     photosIntervalS: number('REPLICATE_PHOTOS_INTERVAL', 30),
     photosBwLimit: number('REPLICATE_PHOTOS_BWLIMIT', 0),
+    originalsAfterS: number('REPLICATE_ORIGINALS_AFTER', 0),
   };
 }
 
@@ -224,11 +231,15 @@ export function startPhotoShipper(settings: ShipSettings, log: (line: string) =>
   let stopped = false;
   let lastFailure = '';
   let sent = '';
+  let sentSmall = '';
   const pass = async (): Promise<boolean> => {
     // Nothing new since the last pass that went through: the link stays quiet.
     const signature = storeSignature(settings.uploadsDir);
     if (signature === sent) return true;
-    for (const which of ['small', 'all'] as const) {
+    const newest = Number(signature.split(':')[2]);
+    const originalsDue = Date.now() - newest >= settings.originalsAfterS * 1000;
+    if (!originalsDue && signature === sentSmall) return true;
+    for (const which of originalsDue ? (['small', 'all'] as const) : (['small'] as const)) {
       if (stopped) return false;
       const { code, stderr } = await runRsync(rsyncArgs(settings, which));
       // 23 and 24: some files vanished or could not be read mid-pass; the next pass takes them.
@@ -241,7 +252,8 @@ export function startPhotoShipper(settings: ShipSettings, log: (line: string) =>
     }
     if (lastFailure) log('photos to the shore: sending again');
     lastFailure = '';
-    sent = signature;
+    sentSmall = signature;
+    if (originalsDue) sent = signature;
     return true;
   };
   const syncNow = () => (running ??= pass().finally(() => (running = undefined)));

@@ -98,3 +98,39 @@ describe('ship without REPLICATE_TO', () => {
     expect(filesUnder(path.join(work, 'plain'))).not.toContain('litestream.yml');
   }, 60_000);
 });
+
+describe('ship whose photo originals wait for a quiet photo store', () => {
+  it('sends thumbnails and display sizes at once and the originals only once no new photo came for REPLICATE_ORIGINALS_AFTER', async () => {
+    const replica = path.join(work, 'shore-late');
+    const shipDir = path.join(work, 'ship-late');
+    const ship = await startShip(
+      { REPLICATE_TO: replica, REPLICATE_PHOTOS_INTERVAL: '1', REPLICATE_ORIGINALS_AFTER: '15' },
+      { dir: shipDir },
+    );
+    servers.push(ship);
+    const { photoId } = await logEntry(ship, `Late original ${Date.now()}`, true);
+    const uploadedAt = Date.now();
+    const ashore = new Database(path.join(shipDir, 'bathynote.db'), { readonly: true });
+    const keys = ashore.prepare('select original_key as o, display_key as d, thumb_key as t from photos where id = ?').get(photoId) as {
+      o: string;
+      d: string;
+      t: string;
+    };
+    ashore.close();
+    const present = () => filesUnder(path.join(replica, 'photos'));
+    const waitFor = async (key: string, ms: number) => {
+      const deadline = Date.now() + ms;
+      while (Date.now() < deadline && !present().includes(key)) await new Promise((r) => setTimeout(r, 300));
+      return present().includes(key);
+    };
+    expect(await waitFor(keys.d, 12_000)).toBe(true);
+    expect(present()).toContain(keys.t);
+    // Still within the quiet time: the original has not gone.
+    expect(Date.now() - uploadedAt).toBeLessThan(15_000);
+    expect(present()).not.toContain(keys.o);
+    expect(await waitFor(keys.o, 40_000)).toBe(true);
+    expect(Date.now() - uploadedAt).toBeGreaterThanOrEqual(14_000);
+    expect(readFileSync(path.join(replica, 'photos', keys.o)).equals(readFileSync(path.join(shipDir, 'uploads', keys.o)))).toBe(true);
+    await ship.stop();
+  }, 90_000);
+});
