@@ -34,6 +34,8 @@ import type { Mirror } from './mirror/mirror';
 import { keepRelayedEntries } from './mirror/overlay';
 import { mirrorStream } from './mirror/ship-stream';
 
+export const API_CSP = "default-src 'none'; frame-ancestors 'none'";
+
 /** Builds the whole HTTP app: API, sign-in and the web export, on one origin. */
 export function createApp(ctx: AppContext, options: { mirror?: Mirror } = {}): Express {
   const { mirror } = options;
@@ -72,6 +74,12 @@ export function createApp(ctx: AppContext, options: { mirror?: Mirror } = {}): E
   );
 
   app.use('/api', apiCompression);
+  // An API answer is data, never a page: the shortest policy that forbids everything (OWASP's REST
+  // Security Cheat Sheet), and not the page's long one with its script hashes on every answer.
+  app.use('/api', (_req, res, next) => {
+    res.setHeader('Content-Security-Policy', API_CSP);
+    next();
+  });
 
   // better-auth reads the client address from this header only; set it from the socket (or the
   // configured proxy) so that a forged X-Forwarded-For cannot dodge the sign-in rate limit.
