@@ -1,5 +1,5 @@
 import compression from 'compression';
-import type { Request, Response } from 'express';
+import type { Request, RequestHandler, Response } from 'express';
 
 /**
  * Types that must pass through untouched: the live stream (a compressor holds bytes back until
@@ -18,4 +18,11 @@ function shouldCompress(req: Request, res: Response): boolean {
  * Brotli or gzip for API answers, as the client asks (Accept-Encoding), with Vary set; answers
  * under 1 KB go as they are. The package's brotli quality (4) keeps the CPU cost per answer low.
  */
-export const apiCompression = compression({ filter: shouldCompress });
+const compressor = compression({ filter: shouldCompress });
+
+/**
+ * The live streams skip the compressor altogether: it would pass them through anyway, but its
+ * wrapper would still sit in every write to every reader, and a stream writes far more often than
+ * any other answer.
+ */
+export const apiCompression: RequestHandler = (req, res, next) => (req.path.endsWith('/stream') ? next() : compressor(req, res, next));
