@@ -2,6 +2,7 @@ import http from 'node:http';
 import https from 'node:https';
 
 import type { Db } from '../../db/client';
+import { meSchema } from '../../lib/schemas/core';
 import type { SessionUser } from '../middleware/session';
 
 /** How long the ship's answer about a session the copy does not hold yet is trusted. */
@@ -12,12 +13,6 @@ const REVOKED_KEEP_MS = 24 * 60 * 60_000;
 /** What the ship said about a session: who it is and where they are a member, or that it is no session. */
 export type ShipAnswer =
   { kind: 'session'; user: SessionUser; memberships: string; until: number } | { kind: 'none'; until: number } | { kind: 'unreachable' };
-
-type Me = {
-  user: { id: string; name: string; email: string };
-  siteRole: 'admin' | 'user';
-  memberships: { campaignId: string; role: string }[];
-};
 
 /** Memberships as one comparable string: `campaign:role` sorted. */
 export const membershipKey = (rows: { campaignId: string; role: string }[]) =>
@@ -138,7 +133,8 @@ export class ShipSessions {
             if (res.statusCode === 401) return resolve({ kind: 'none', until });
             if (res.statusCode !== 200) return resolve({ kind: 'unreachable' });
             try {
-              const me = JSON.parse(Buffer.concat(chunks).toString('utf8')) as Me;
+              // The ship's answer crosses the link: read through its schema, never trusted as it comes.
+              const me = meSchema.parse(JSON.parse(Buffer.concat(chunks).toString('utf8')));
               resolve({
                 kind: 'session',
                 user: { id: me.user.id, name: me.user.name, email: me.user.email, siteRole: me.siteRole === 'admin' ? 'admin' : 'user' },
