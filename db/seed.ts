@@ -788,7 +788,8 @@ export function hasData(db: Db): boolean {
 }
 
 /** Seeds the demo into an empty database; does nothing (and says so) when there is data. */
-export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations: number }> {
+/** Seeds the invented demo into an empty database; `watchPlan: false` leaves out the 2026 campaign's watch plan. */
+export async function seedDemo(db: Db, options: { watchPlan?: boolean } = {}): Promise<{ seeded: boolean; observations: number }> {
   if (hasData(db)) return { seeded: false, observations: 0 };
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const rand = random(20260512);
@@ -1003,7 +1004,7 @@ export async function seedDemo(db: Db): Promise<{ seeded: boolean; observations:
       plans2026,
       entries2026,
       'VS26',
-      watchPlan2026,
+      options.watchPlan === false ? [] : watchPlan2026,
     );
     makeCampaign(
       {

@@ -15,6 +15,8 @@ const envSchema = z.object({
   BATHYNOTE_DEMO: flag.default(false),
   /** With the demo on: a simulated dive under way, its telemetry growing and two colleagues logging entries (0 turns it off). */
   BATHYNOTE_DEMO_LIVE: flag.default(true),
+  /** With the demo on: the 2026 campaign's watch plan, so handover notes are written at each change of watch (0 leaves it out). */
+  BATHYNOTE_DEMO_WATCHES: flag.default(true),
   AUTH_SECRET: z.string().min(32).optional(),
   /** The origin people open in the browser; defaults to http://HOST:PORT. */
   PUBLIC_URL: z.url({ protocol: /^https?$/ }).optional(),

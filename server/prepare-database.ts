@@ -38,7 +38,7 @@ async function prepare(): Promise<PreparedDatabase> {
   try {
     migrateDatabase(db);
     if (!env.BATHYNOTE_DEMO) return { seeded: false, observations: 0, demo: null };
-    const { seeded, observations } = await seedDemo(db);
+    const { seeded, observations } = await seedDemo(db, { watchPlan: env.BATHYNOTE_DEMO_WATCHES });
     return { seeded, observations, demo: { password: DEMO_PASSWORD, signIns: demoSignIns } };
   } finally {
     db.$client.close();

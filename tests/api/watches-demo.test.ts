@@ -13,7 +13,7 @@ let t: TestServer;
 let ids: ReturnType<typeof demoIds>;
 
 beforeAll(async () => {
-  t = await startTestServer();
+  t = await startTestServer({ demoWatchPlan: true });
   // Only the ticks the test makes.
   t.ctx.handovers.stop();
   ids = demoIds(t.ctx.db);

@@ -21,7 +21,7 @@ function residentOf(pid: number): { anonMb: number; fileMb: number } {
  */
 export async function benchIdleMemory(): Promise<void> {
   const began = performance.now();
-  const server = await startServerProcess({ LOG_LEVEL: 'silent' });
+  const server = await startServerProcess({ LOG_LEVEL: 'silent', BATHYNOTE_DEMO_WATCHES: '1' });
   const startedMs = performance.now() - began;
   try {
     const pid = server.child.pid!;

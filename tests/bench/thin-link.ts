@@ -98,7 +98,8 @@ const s = (ms: number) => `${(ms / 1000).toFixed(1)} s`;
 
 export async function benchThinLink(): Promise<void> {
   await ensureWebBuild();
-  const server = await startServerProcess();
+  // The demo as npm start serves it, watch plan included.
+  const server = await startServerProcess({ BATHYNOTE_DEMO_WATCHES: '1' });
   try {
     const fast = await run(server.url, false);
     const slow = await run(server.url, true);

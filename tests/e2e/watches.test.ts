@@ -17,7 +17,7 @@ import { startServerProcess, type ServerProcess } from '../helpers/server-proces
 let server: ServerProcess;
 
 beforeAll(async () => {
-  server = await startServerProcess();
+  server = await startServerProcess({ BATHYNOTE_DEMO_WATCHES: '1' });
 });
 afterAll(async () => {
   await server?.stop();

@@ -57,6 +57,8 @@ export async function startServerProcess(
       BATHYNOTE_DEMO: '1',
       // The demo's simulated dive under way writes on its own; a test that wants it asks for it.
       BATHYNOTE_DEMO_LIVE: '0',
+      // Nor does the demo's watch plan write handover notes at a real change of watch mid-test.
+      BATHYNOTE_DEMO_WATCHES: '0',
       LOG_LEVEL: 'error',
       // As npm start sets it: two malloc arenas, not one per thread that ever decoded a photo.
       MALLOC_ARENA_MAX: '2',

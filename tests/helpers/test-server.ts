@@ -34,7 +34,14 @@ export const FAKE_INDEX = '<!DOCTYPE html><html><head><script>window.__bn=1</scr
  * Starts the real app on an ephemeral port over real HTTP, with its own database in a temp
  * folder. The port is bound first so that better-auth's base URL is the exact origin.
  */
-export async function startTestServer(options: { seed?: boolean; env?: Record<string, string> } = {}): Promise<TestServer> {
+/**
+ * An API test server on the demo. The demo's watch plan is left out unless `demoWatchPlan` asks for
+ * it: with it, a server that happens to run across a real change of watch would write a handover
+ * note and its events into a test that did not ask for them.
+ */
+export async function startTestServer(
+  options: { seed?: boolean; env?: Record<string, string>; demoWatchPlan?: boolean } = {},
+): Promise<TestServer> {
   const dir = mkdtempSync(path.join(tmpdir(), 'bathynote-test-'));
   const webDir = path.join(dir, 'web');
   mkdirSync(webDir);
@@ -55,7 +62,7 @@ export async function startTestServer(options: { seed?: boolean; env?: Record<st
     ...options.env,
   });
   const ctx = await createContext(env);
-  if (options.seed !== false) await seedDemo(ctx.db);
+  if (options.seed !== false) await seedDemo(ctx.db, { watchPlan: options.demoWatchPlan === true });
   server.on('request', createApp(ctx));
 
   const agents = new Map<string, ReturnType<typeof request.agent>>();
