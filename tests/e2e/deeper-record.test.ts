@@ -138,6 +138,8 @@ describe.each([
     await page.getByTestId('observation-detail').getByText(`Squat lobster pair ${n}`).first().waitFor();
 
     await page.goto(`${server.url}/dives/${fixtures.finished.id}/taxa`);
+    // The list drawn from data means the screen is live, not the server-rendered page a click would miss.
+    await page.getByTestId('taxon-Munida').waitFor();
     await page.getByTestId('record-view-samples').click();
     // The fixture dive is on deck and nobody has taken the sample: it is flagged.
     await page.getByTestId(`sample-RT-S${n}`).getByTestId('sample-flag').waitFor();
