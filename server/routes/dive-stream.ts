@@ -7,13 +7,27 @@ import { accessOf, roleIn } from '../middleware/campaign-access';
 import { userOf } from '../middleware/session';
 import { ApiError } from '../errors';
 import { relayedSince, shoreVouchesFor } from '../mirror/mirror';
-import { sseFrame } from '../services/live';
+import { sseFrame, type ToldEvents } from '../services/live';
 import { streamRegistry } from '../services/stream-caps';
 
 /** More missed events than this and the reader is told to reload instead. */
 const REPLAY_LIMIT = 2000;
 /** A reader that stops reading is cut off before its buffer grows without bound. */
 const MAX_BUFFERED_BYTES = 4 * 1024 * 1024;
+
+/**
+ * The told events as one HTTP/1.1 chunk (size in hex, CRLF, the bytes, CRLF: RFC 9112 section
+ * 7.1), encoded once for all of a dive's readers.
+ */
+const chunks = new WeakMap<ToldEvents, Buffer>();
+function chunkOf(told: ToldEvents): Buffer {
+  let chunk = chunks.get(told);
+  if (!chunk) {
+    chunk = Buffer.from(`${Buffer.byteLength(told.frames).toString(16)}\r\n${told.frames}\r\n`);
+    chunks.set(told, chunk);
+  }
+  return chunk;
+}
 
 /**
  * `GET /api/dives/:diveId/stream`: the dive's changes as Server-Sent Events. A reconnect with
@@ -50,6 +64,22 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
         process.nextTick(uncork);
       }
       res.write(chunk);
+      if (res.writableLength > MAX_BUFFERED_BYTES) close();
+    };
+    /**
+     * Live events go straight to the socket as one chunk already framed, shared by every reader:
+     * through `res.write` each reader's copy was framed, encoded and corked on its own, and with
+     * two hundred readers that held the event loop while writes waited. Node writes a response's
+     * output to its socket as soon as the socket is the response's (`res.socket` is set only
+     * then), so these bytes keep their place among the response's own writes. A response that is
+     * not chunked (an HTTP/1.0 reader) or has no socket yet takes the ordinary way.
+     */
+    const tell = (told: ToldEvents) => {
+      if (closed) return;
+      const socket = res.socket;
+      if (!socket || !res.chunkedEncoding) return send(told.frames);
+      if (!socket.writable) return close();
+      socket.write(chunkOf(told));
       if (res.writableLength > MAX_BUFFERED_BYTES) close();
     };
     const admitted = streams.admit({
@@ -99,7 +129,7 @@ export function diveStream({ db, live, env }: AppContext): RequestHandler {
       return current && !!roleIn(db, campaignId, user);
     };
 
-    cleanups.push(live.subscribe(diveId, (e) => send(e.frame)));
+    cleanups.push(live.subscribe(diveId, tell));
     cleanups.push(
       live.onSessionEnded((ended) => {
         if (ended === token) close();

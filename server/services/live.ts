@@ -26,6 +26,12 @@ export type LiveEvent = {
   frame: string;
 };
 
+/**
+ * What a dive's readers are told at once: the events of one commit for that dive, in order, and
+ * their frames joined, so each reader gets one write however many events the commit held.
+ */
+export type ToldEvents = { events: LiveEvent[]; frames: string };
+
 /** Records one event inside the change's transaction (see `LiveHub.withEvents`). */
 export type StageEvent = (campaignId: string, diveId: string, type: LiveEventType, payload: unknown, at?: Date) => LiveEvent;
 
@@ -58,7 +64,7 @@ export class LiveHub {
   withEvents<T>(work: (tx: Executor, stage: StageEvent) => T): T {
     const { result, events } = this.committed(work);
     this.tellUntold();
-    for (const event of events) this.emit(event);
+    this.tell(events);
     return result;
   }
 
@@ -149,7 +155,7 @@ export class LiveHub {
   private tellUntold(): void {
     const events = this.untold;
     this.untold = [];
-    for (const event of events) this.emit(event);
+    this.tell(events);
   }
 
   /** The event insert, prepared once: it runs on the transaction's own connection. */
@@ -167,12 +173,37 @@ export class LiveHub {
     return { id, campaignId, diveId, type, payload, at, frame: sseFrameOf(id, type, data) };
   }
 
+  /** One event on its own (a shore mirror relays the ship's events this way). */
   private emit(event: LiveEvent): void {
-    this.emitter.emit(`dive:${event.diveId}`, event);
-    this.emitter.emit('any', event);
+    this.tell([event]);
   }
 
-  subscribe(diveId: string, listener: (e: LiveEvent) => void): () => void {
+  /**
+   * Tells committed events, in order: to every-event listeners one by one, and to each dive's
+   * readers as one `ToldEvents` per dive, so a group commit of twenty entries costs a reader one
+   * write instead of twenty (with two hundred readers, the writes are most of the telling).
+   */
+  private tell(events: LiveEvent[]): void {
+    if (events.length === 0) return;
+    for (const event of events) this.emitter.emit('any', event);
+    if (events.length === 1) {
+      const event = events[0]!;
+      this.emitter.emit(`dive:${event.diveId}`, { events, frames: event.frame } satisfies ToldEvents);
+      return;
+    }
+    const byDive = new Map<string, LiveEvent[]>();
+    for (const event of events) {
+      const list = byDive.get(event.diveId);
+      if (list) list.push(event);
+      else byDive.set(event.diveId, [event]);
+    }
+    for (const [diveId, list] of byDive) {
+      this.emitter.emit(`dive:${diveId}`, { events: list, frames: list.map((e) => e.frame).join('') } satisfies ToldEvents);
+    }
+  }
+
+  /** A dive's readers: told each commit's events of the dive at once, in commit order. */
+  subscribe(diveId: string, listener: (told: ToldEvents) => void): () => void {
     const key = `dive:${diveId}`;
     this.emitter.on(key, listener);
     return () => this.emitter.off(key, listener);

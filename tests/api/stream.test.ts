@@ -72,6 +72,27 @@ describe('the live dive log', () => {
     again.close();
   });
 
+  it("tells a group commit's entries to a reader whole and in order, text outside ASCII included", async () => {
+    const reader = openSse(streamUrl(), { cookie: await t.sessionCookie(emails.archaeologist) });
+    await reader.next((e) => e.event === 'ready');
+    const writer = await t.signIn(emails.biologist);
+    // Sent at once, they share group commits, whose events each reader is sent in one write.
+    const titles = Array.from({ length: 8 }, (_, i) => `Grenadier nº ${i} — près du câble, 3 °C`);
+    const created = await Promise.all(
+      titles.map((title) => writer.post(`/api/dives/${ids.dive}/observations`).send({ kind: 'biology', title })),
+    );
+    expect(created.map((r) => r.status)).toEqual(titles.map(() => 201));
+    await vi.waitFor(() => expect(reader.events.filter((e) => e.event === 'observation.created')).toHaveLength(titles.length), {
+      timeout: 5000,
+      interval: 20,
+    });
+    const told = reader.events.filter((e) => e.event === 'observation.created');
+    const eventIds = told.map((e) => Number(e.id));
+    expect(eventIds).toEqual([...eventIds].sort((a, b) => a - b));
+    expect(told.map((e) => (JSON.parse(e.data) as { title: string }).title).sort()).toEqual([...titles].sort());
+    reader.close();
+  });
+
   it('sends a heartbeat comment regularly', async () => {
     const reader = openSse(streamUrl(), { cookie: await t.sessionCookie(emails.pilot) });
     await reader.next((e) => e.event === 'ready');
