@@ -40,6 +40,15 @@ export const sseFrame = (id: number, type: string, payload: unknown) => sseFrame
 const sseFrameOf = (id: number, type: string, data: string) => `id: ${id}\nevent: ${type}\ndata: ${data}\n\n`;
 
 /**
+ * How many of a dive's readers are told in one turn of the event loop. Telling is a socket write
+ * per reader; a dive followed by hundreds is told in slices, with the requests that arrived
+ * meanwhile handled between them, so no write waits behind the whole crowd of readers.
+ */
+export const READERS_PER_TURN = 25;
+
+type Reader = (told: ToldEvents) => void;
+
+/**
  * The dive's live feed. Every change is written to `live_events` (so a reader who reconnects
  * with Last-Event-ID gets what it missed, even across a restart) and then told to the readers
  * connected to this process.
@@ -173,6 +182,49 @@ export class LiveHub {
     return { id, campaignId, diveId, type, payload, at, frame: sseFrameOf(id, type, data) };
   }
 
+  /** Each dive's readers. */
+  private readonly readers = new Map<string, Set<Reader>>();
+  /**
+   * Tellings under way, oldest first: each reader hears them in this order, and a telling lists
+   * the readers there were when it was committed (one who comes later reads it from the
+   * database instead, when it reconnects with Last-Event-ID).
+   */
+  private telling: { told: ToldEvents; readers: Reader[]; current: Set<Reader>; next: number }[] = [];
+  private sliceDue = false;
+
+  private tellReaders(diveId: string, told: ToldEvents): void {
+    const readers = this.readers.get(diveId);
+    if (!readers || readers.size === 0) return;
+    if (this.telling.length === 0 && readers.size <= READERS_PER_TURN) {
+      for (const reader of readers) reader(told);
+      return;
+    }
+    this.telling.push({ told, readers: [...readers], current: readers, next: 0 });
+    // The first slice now; the rest in the turns after, unless a slice is already due.
+    if (!this.sliceDue) this.tellSlice();
+  }
+
+  private readonly tellSlice = (): void => {
+    this.sliceDue = false;
+    let left = READERS_PER_TURN;
+    while (left > 0 && this.telling.length > 0) {
+      const job = this.telling[0]!;
+      const end = Math.min(job.readers.length, job.next + left);
+      for (let i = job.next; i < end; i++) {
+        const reader = job.readers[i]!;
+        // One who left meanwhile is told no more.
+        if (job.current.has(reader)) reader(job.told);
+      }
+      left -= end - job.next;
+      job.next = end;
+      if (end === job.readers.length) this.telling.shift();
+    }
+    if (this.telling.length > 0) {
+      this.sliceDue = true;
+      setImmediate(this.tellSlice);
+    }
+  };
+
   /** One event on its own (a shore mirror relays the ship's events this way). */
   private emit(event: LiveEvent): void {
     this.tell([event]);
@@ -188,7 +240,7 @@ export class LiveHub {
     for (const event of events) this.emitter.emit('any', event);
     if (events.length === 1) {
       const event = events[0]!;
-      this.emitter.emit(`dive:${event.diveId}`, { events, frames: event.frame } satisfies ToldEvents);
+      this.tellReaders(event.diveId, { events, frames: event.frame });
       return;
     }
     const byDive = new Map<string, LiveEvent[]>();
@@ -198,15 +250,22 @@ export class LiveHub {
       else byDive.set(event.diveId, [event]);
     }
     for (const [diveId, list] of byDive) {
-      this.emitter.emit(`dive:${diveId}`, { events: list, frames: list.map((e) => e.frame).join('') } satisfies ToldEvents);
+      this.tellReaders(diveId, { events: list, frames: list.map((e) => e.frame).join('') });
     }
   }
 
-  /** A dive's readers: told each commit's events of the dive at once, in commit order. */
-  subscribe(diveId: string, listener: (told: ToldEvents) => void): () => void {
-    const key = `dive:${diveId}`;
-    this.emitter.on(key, listener);
-    return () => this.emitter.off(key, listener);
+  /**
+   * A dive's reader: told each commit's events of the dive at once, in commit order; maybe a
+   * few turns of the event loop after the commit, when the dive has many readers.
+   */
+  subscribe(diveId: string, reader: Reader): () => void {
+    let readers = this.readers.get(diveId);
+    if (!readers) this.readers.set(diveId, (readers = new Set()));
+    readers.add(reader);
+    return () => {
+      readers.delete(reader);
+      if (readers.size === 0 && this.readers.get(diveId) === readers) this.readers.delete(diveId);
+    };
   }
 
   /** Every event of every dive (for tests and benchmarks). */

@@ -4,6 +4,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
+import { READERS_PER_TURN } from '../../server/services/live';
 import { demoIds, emails } from '../helpers/demo';
 import { startTestServer, type TestServer } from '../helpers/test-server';
 
@@ -117,6 +118,24 @@ describe('entries sent at the same moment', () => {
     expect(order.toldAtAnswer).toBe(false);
     expect(order.after).toBeGreaterThan(order.grouped);
     expect(heard).toEqual([order.grouped, order.after]);
+  });
+
+  it('are told to a crowd of readers a slice per turn, each reader hearing every commit in order', async () => {
+    const live = t.ctx.live;
+    const crowd = READERS_PER_TURN * 2 + 10;
+    const heard: number[][] = Array.from({ length: crowd }, () => []);
+    const stops = heard.map((mine) => live.subscribe(dive, (told) => mine.push(...told.events.map((e) => e.id))));
+    const stageOne = (note: string) => live.withEvents((_tx, stage) => stage(ids.campaign2026, dive, 'dive.updated', { note }).id);
+    const first = stageOne('sliced one');
+    // Only the first slice of readers has been told when the change returns.
+    expect(heard.filter((h) => h.length > 0)).toHaveLength(READERS_PER_TURN);
+    const second = stageOne('sliced two');
+    // A reader who leaves before its turn is not told.
+    stops[crowd - 1]!();
+    await new Promise((r) => setTimeout(r, 50));
+    stops.forEach((stop) => stop());
+    expect(heard.slice(0, -1)).toEqual(heard.slice(0, -1).map(() => [first, second]));
+    expect(heard[crowd - 1]).toEqual([]);
   });
 
   it('answer a repeated send with the entry stored the first time, even within one group', async () => {
