@@ -52,6 +52,14 @@ const pct = (xs: number[], p: number) => {
 
 type Json = Record<string, unknown>;
 
+/** Bytes of the record's WAL segments in the replica, LZ4-compressed as Litestream wrote and sent them. */
+const segmentBytes = (shoreDir: string) => {
+  const dir = path.join(shoreDir, 'db');
+  return filesUnder(dir)
+    .filter((f) => f.endsWith('.wal.lz4'))
+    .reduce((sum, f) => sum + statSync(path.join(dir, f)).size, 0);
+};
+
 /** The origin a browser would send to each base: the ship's is its PUBLIC_URL (the address across the link). */
 const originOf = new Map<string, string>();
 const origin = (base: string) => originOf.get(base) ?? base;
@@ -310,6 +318,7 @@ export async function benchShore(): Promise<void> {
     });
 
     // From here on everything that crosses either link is the dive's.
+    const segmentsSeeded = segmentBytes(shoreDir);
     replLink.reset();
     shipLink.reset();
     straightLink.reset();
@@ -322,6 +331,7 @@ export async function benchShore(): Promise<void> {
     await each(ashore, (r) => r.open());
     const photos = await Promise.all([0, 1, 2, 3].map((i) => jpegWithExif({}, { width: 1600 + i * 8, height: 1200 })));
     let readMs = 0;
+    const originalsByLook: number[] = [];
     for (let look = 0; look < LOOKS; look++) {
       await logHalfHour(ship, lead, diveId, start, look * (ENTRIES / LOOKS), photos);
       // Half an hour is many photo passes and restores: what the ship holds is ashore by the next look.
@@ -339,6 +349,7 @@ export async function benchShore(): Promise<void> {
       await each(straight, (r) => r.look());
       await each(ashore, (r) => r.look());
       readMs += performance.now() - began;
+      originalsByLook.push(filesUnder(path.join(shoreDir, 'photos')).filter((f) => f.includes('-original.')).length);
     }
     const buildS = (performance.now() - buildStart) / 1000;
     const during = { repl: replLink.bytes(), http: shipLink.bytes(), straight: straightLink.bytes() };
@@ -354,6 +365,7 @@ export async function benchShore(): Promise<void> {
       if (kind) sizes[kind] += statSync(path.join(shoreDir, 'photos', f)).size;
     }
     const mirror = { repl: replLink.bytes(), http: shipLink.bytes() };
+    const record = segmentBytes(shoreDir) - segmentsSeeded;
     const straightBytes = straightLink.bytes();
 
     // Timing over the throttled link.
@@ -396,11 +408,13 @@ export async function benchShore(): Promise<void> {
     out += line('    photo files as stored: thumbnails', mb(sizes.thumb));
     out += line('    photo files as stored: display sizes', mb(sizes.display));
     out += line('    photo files as stored: originals', mb(sizes.original));
-    out += line('    the rest, were the files sent at stored size', mb(mirror.repl - sizes.thumb - sizes.display - sizes.original));
+    out += line('    the record: Litestream WAL segments as stored', mb(record));
+    out += line('    the rest (SSH, SFTP and rsync framing)', mb(mirror.repl - record - sizes.thumb - sizes.display - sizes.original));
     out += line('  the shore to the ship (stream, sign-ins, checks)', mb(mirror.http));
     out += line('  of it while the guests followed the dive', mb(during.repl + during.http));
     out += line('  of it after the dive', mb(mirrorTotal - during.repl - during.http));
     out += line('  originals ashore when the dive ended', `${originalsDuring} of ${PHOTOS}`);
+    out += line('  originals ashore after each look', originalsByLook.join(' '));
     out += line('fewer bytes across the link, all counted', `${(straightBytes / mirrorTotal).toFixed(1)}×`, '≥ 20×');
     out += line('  during the dive only', `${(during.straight / (during.repl + during.http)).toFixed(1)}×`);
     out += line(
