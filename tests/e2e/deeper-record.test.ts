@@ -140,7 +140,11 @@ describe.each([
     await page.goto(`${server.url}/dives/${fixtures.finished.id}/taxa`);
     // The list drawn from data means the screen is live, not the server-rendered page a click would miss.
     await page.getByTestId('taxon-Munida').waitFor();
-    await page.getByTestId('record-view-samples').click();
+    const samples = page.getByTestId('record-view-samples');
+    await samples.click();
+    // A click taken while the screen was still settling is given again, as a person would.
+    if ((await samples.getAttribute('aria-checked')) !== 'true') await samples.click();
+    await page.locator('[data-testid="record-view-samples"][aria-checked="true"]').waitFor();
     // The fixture dive is on deck and nobody has taken the sample: it is flagged.
     await page.getByTestId(`sample-RT-S${n}`).getByTestId('sample-flag').waitFor();
     // Nothing of the list runs past the screen's edge.
