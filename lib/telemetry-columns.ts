@@ -426,7 +426,9 @@ const ISO_DIGITS_AT = [0, 1, 2, 3, 5, 6, 8, 9, 11, 12, 14, 15, 17, 18] as const;
  * fast path): the same number `Number(text)` gives. Longer mantissas go to the full reader.
  *
  * @param channels the order of the numbers written after the time in `out`
- * @returns a function writing the time to `out[0]` and each channel to `out[1 + k]` (NaN for none)
+ * @returns a function writing the time to `out[0]` and each channel to `out[1 + k]` (NaN for none);
+ *   it reads `line` from `start` to `end`, so a caller holding many lines in one string need not
+ *   cut each out
  */
 export function plainRowReader(
   mapping: ColumnMapping,
@@ -434,7 +436,7 @@ export function plainRowReader(
   fieldCount: number,
   separator: string,
   channels: readonly Exclude<TelemetryChannel, 'time'>[],
-): ((line: string, out: Float64Array) => boolean) | null {
+): ((line: string, out: Float64Array, start?: number, end?: number) => boolean) | null {
   const timeIndex = mapping.time;
   if (timeIndex === undefined || options.decimalComma === true || separator.length !== 1) return null;
   const sep = separator.charCodeAt(0);
@@ -557,12 +559,12 @@ export function plainRowReader(
     return negative ? -value : value;
   };
 
-  return (line, out) => {
+  return (line, out, start = 0, end = line.length) => {
     out.fill(Number.NaN);
     let field = 0;
-    let from = 0;
-    const length = line.length;
-    for (let at = 0; at <= length; at++) {
+    let from = start;
+    const length = end;
+    for (let at = start; at <= length; at++) {
       if (at < length && line.charCodeAt(at) !== sep) continue;
       if (field >= fieldCount) return false;
       const slot = slotOf[field]!;

@@ -218,18 +218,27 @@ async function needsFullParser(filePath: string): Promise<boolean> {
 async function readPlainRecords(
   filePath: string,
   s: { encoding: 'utf8' | 'latin1' },
-  onLine: (text: string, line: number) => void,
+  onLine: (text: string, from: number, to: number, line: number) => void,
   onTooLong: (line: number) => void,
 ): Promise<void> {
   let line = 0;
-  const take = (text: string) => {
+  /**
+   * Takes the line of `text` from `from` to `to` (its LF left out). Lines are handed on as places
+   * in the chunk they were read in, not cut out of it: a string per line was most of the garbage
+   * a long import left behind.
+   */
+  const take = (text: string, from: number, to: number) => {
     line++;
-    let record = text.endsWith('\r') ? text.slice(0, -1) : text;
-    // A UTF-8 byte-order mark, as decoded in UTF-8 or in Latin-1.
-    if (line === 1) record = record.replace(/^(\uFEFF|\u00EF\u00BB\u00BF)/, '');
-    if (record === '' || record.startsWith('#')) return;
-    if (record.length > MAX_RECORD_SIZE) return onTooLong(line);
-    onLine(record, line);
+    if (to > from && text.charCodeAt(to - 1) === 0x0d) to--;
+    if (line === 1) {
+      // A UTF-8 byte-order mark, as decoded in UTF-8 or in Latin-1.
+      text = text.slice(from, to).replace(/^(\uFEFF|\u00EF\u00BB\u00BF)/, '');
+      from = 0;
+      to = text.length;
+    }
+    if (from === to || text.charCodeAt(from) === 0x23 /* # */) return;
+    if (to - from > MAX_RECORD_SIZE) return onTooLong(line);
+    onLine(text, from, to, line);
   };
   let rest = '';
   // Inside a line already refused as too long: its remainder is skipped up to its end.
@@ -246,7 +255,7 @@ async function readPlainRecords(
     const text = rest === '' ? chunk.slice(start) : rest + chunk;
     start = 0;
     for (let nl = text.indexOf('\n'); nl !== -1; nl = text.indexOf('\n', start)) {
-      take(text.slice(start, nl));
+      take(text, start, nl);
       start = nl + 1;
     }
     rest = text.slice(start);
@@ -258,7 +267,7 @@ async function readPlainRecords(
       skipping = true;
     }
   }
-  if (rest !== '' && !skipping) take(rest);
+  if (rest !== '' && !skipping) take(rest, 0, rest.length);
 }
 
 type ParseOutcome = {
@@ -383,7 +392,7 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
   // Built at the first data line, once the header has told the columns (and maybe the GPS clock).
   let plainRow: ReturnType<typeof plainRowReader> | undefined;
   /** Takes one line of a log without quotes: read straight into numbers where it can be, else split and read in full. */
-  const onLine = (text: string, line: number): void => {
+  const onLine = (text: string, from: number, to: number, line: number): void => {
     if (headers) {
       plainRow ??= plainRowReader(
         mapping,
@@ -392,7 +401,7 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
         separator,
         STORED_CHANNELS,
       );
-      if (plainRow?.(text, row)) {
+      if (plainRow?.(text, row, from, to)) {
         let values = false;
         for (let k = 1; k < row.length; k++) if (row[k] === row[k]) values = true;
         if (!values) return reject(line, 'no-values', null, 'the row has a time but no values');
@@ -403,7 +412,7 @@ async function parseLog(filePath: string, s: ParseSettings): Promise<ParseOutcom
         return;
       }
     }
-    onRecord(text.split(separator), line);
+    onRecord(text.slice(from, to).split(separator), line);
   };
 
   if (await needsFullParser(filePath)) {
