@@ -12,6 +12,7 @@ import { createMailer } from './services/mail';
 import { createDigestScheduler, digestMailHandler } from './services/digests';
 import { createHandoverScheduler } from './services/handovers';
 import { createMailSender } from './services/mail-queue';
+import { checkpointerOf, startCheckpointer } from './services/checkpointer';
 import { signInLinkMailHandler } from './services/sign-in-links';
 import { invitationMailHandler } from './services/team';
 import { projectRoot } from '../db/root';
@@ -30,6 +31,7 @@ export async function createContext(env: Env, options: { now?: () => Date; migra
   const db = openDatabase(env.DATABASE_PATH);
   if (options.migrate !== false) migrateDatabase(db);
   const log = createLogger(env.LOG_LEVEL);
+  startCheckpointer(db, env.DATABASE_PATH, log);
   const postbox = new MagicLinkPostbox();
   const mailer = await createMailer(db, log, env.SMTP_URL);
   const live = new LiveHub(db);
@@ -64,5 +66,7 @@ export async function closeContext(ctx: AppContext): Promise<void> {
   ctx.handovers.stop();
   await ctx.mail.stop();
   await ctx.mailer.close();
+  // The checkpoint worker's connections close first, so the server's stays the last one.
+  await checkpointerOf(ctx.db)?.stop();
   ctx.db.$client.close();
 }
