@@ -404,7 +404,7 @@ export function parseRow(record: readonly string[], mapping: ColumnMapping, opti
 }
 
 /** Powers of ten a double holds exactly (10²² is the last). */
-const EXACT_POWERS_OF_TEN = Array.from({ length: 23 }, (_, k) => 10 ** k);
+const EXACT_POWERS_OF_TEN = Float64Array.from({ length: 23 }, (_, k) => 10 ** k);
 /** Mantissas up to this many digits are integers a double holds exactly (below 2⁵³). */
 const EXACT_DIGITS = 15;
 const NOT_READ = -1;
@@ -442,7 +442,12 @@ export function plainRowReader(
   const sep = separator.charCodeAt(0);
   // For each field: the slot in `out` it goes to (0 for the time), or NOT_READ.
   const slotOf = new Int32Array(fieldCount).fill(NOT_READ);
-  const channelOf: (NumericChannel | null)[] = new Array<NumericChannel | null>(fieldCount).fill(null);
+  // Each field's range and what is done to its value, looked up by field rather than by channel
+  // name, which is one of the costs a million rows multiply.
+  const minOf = new Float64Array(fieldCount);
+  const maxOf = new Float64Array(fieldCount);
+  const absolutePressureField = options.pressure === 'absolute' && mapping.pressure !== undefined ? mapping.pressure : NOT_READ;
+  const headingField = mapping.heading ?? NOT_READ;
   slotOf[timeIndex] = 0;
   for (const channel of TELEMETRY_CHANNELS) {
     if (channel === 'time') continue;
@@ -452,14 +457,13 @@ export function plainRowReader(
     // A channel the caller does not keep is still checked by the full reader.
     if (k === -1) return null;
     slotOf[index] = 1 + k;
-    channelOf[index] = channel;
+    [minOf[index], maxOf[index]] = RANGES[channel];
   }
   const pressureSlot = mapping.pressure !== undefined ? 1 + channels.indexOf('pressure') : NOT_READ;
   const depthSlot = 1 + channels.indexOf('depth');
   const depthFromPressureNeeded = mapping.depth === undefined && mapping.pressure !== undefined;
   if (depthFromPressureNeeded && (depthSlot === 0 || !Number.isFinite(options.latitudeDeg) || Math.abs(options.latitudeDeg) > 90))
     return null;
-  const absolute = options.pressure === 'absolute';
   const gpsTime = options.gpsTime;
   // The last date read and its midnight, so a row costs no Date.UTC while the day stays the same.
   let dayKey = -1;
@@ -528,66 +532,66 @@ export function plainRowReader(
     return ms >= EARLIEST_LOG_MS && ms < LATEST_LOG_MS ? ms : Number.NaN;
   };
 
-  /** The number in `line` from `from` to `to` (NaN for an empty field), or undefined for the full reader. */
-  const readNumber = (line: string, from: number, to: number): number | undefined => {
-    if (from === to) return Number.NaN;
-    let i = from;
-    let negative = false;
-    const first = line.charCodeAt(i);
-    if (first === 0x2d || first === 0x2b) {
-      negative = first === 0x2d;
-      i++;
-    }
-    let mantissa = 0;
-    let digits = 0;
-    let decimals = -1;
-    for (; i < to; i++) {
-      const ch = line.charCodeAt(i);
-      if (ch === 0x2e) {
-        if (decimals !== -1) return undefined;
-        decimals = 0;
-        continue;
-      }
-      const x = ch - 0x30;
-      if (x < 0 || x > 9) return undefined;
-      mantissa = mantissa * 10 + x;
-      digits++;
-      if (decimals !== -1) decimals++;
-    }
-    if (digits === 0 || digits > EXACT_DIGITS) return undefined;
-    const value = decimals > 0 ? mantissa / EXACT_POWERS_OF_TEN[decimals]! : mantissa;
-    return negative ? -value : value;
-  };
-
+  // Each field is read as it is scanned for its end: numbers digit by digit in the one pass, so a
+  // line's characters are each looked at once (the time, checked by its fixed layout, is the exception).
   return (line, out, start = 0, end = line.length) => {
     out.fill(Number.NaN);
-    let field = 0;
     let from = start;
-    const length = end;
-    for (let at = start; at <= length; at++) {
-      if (at < length && line.charCodeAt(at) !== sep) continue;
-      if (field >= fieldCount) return false;
+    for (let field = 0; ; field++) {
       const slot = slotOf[field]!;
-      if (slot === 0) {
-        const t = readTime(line, from, at);
-        if (t !== t) return false;
-        out[0] = t;
-      } else if (slot !== NOT_READ) {
-        let value = readNumber(line, from, at);
-        if (value === undefined) return false;
-        if (value === value) {
-          const channel = channelOf[field]!;
-          if (channel === 'pressure' && absolute) value = seaPressureFromAbsolute(value);
-          const [min, max] = RANGES[channel];
-          if (value < min || value > max) return false;
-          if (channel === 'heading' && (value < 0 || value >= 360)) value = value - 360 * Math.floor(value / 360);
+      let at = from;
+      if (slot > 0) {
+        let negative = false;
+        if (at < end) {
+          const first = line.charCodeAt(at);
+          if (first === 0x2d || first === 0x2b) {
+            negative = first === 0x2d;
+            at++;
+          }
+        }
+        let mantissa = 0;
+        let digits = 0;
+        let decimals = -1;
+        for (; at < end; at++) {
+          const ch = line.charCodeAt(at);
+          if (ch === sep) break;
+          if (ch === 0x2e) {
+            if (decimals !== -1) return false;
+            decimals = 0;
+            continue;
+          }
+          const x = ch - 0x30;
+          if (x < 0 || x > 9) return false;
+          mantissa = mantissa * 10 + x;
+          digits++;
+          if (decimals !== -1) decimals++;
+        }
+        // An empty field is no value; anything else must be a number of at most EXACT_DIGITS digits.
+        if (at > from) {
+          if (digits === 0 || digits > EXACT_DIGITS) return false;
+          let value = decimals > 0 ? mantissa / EXACT_POWERS_OF_TEN[decimals]! : mantissa;
+          if (negative) value = -value;
+          if (field === absolutePressureField) value = seaPressureFromAbsolute(value);
+          if (value < minOf[field]! || value > maxOf[field]!) return false;
+          if (field === headingField && (value < 0 || value >= 360)) value = value - 360 * Math.floor(value / 360);
           out[slot] = value;
         }
+      } else {
+        while (at < end && line.charCodeAt(at) !== sep) at++;
+        if (slot === 0) {
+          const t = readTime(line, from, at);
+          if (t !== t) return false;
+          out[0] = t;
+        }
       }
-      field++;
+      // The line must have as many fields as the header, no more and no fewer.
+      if (at >= end) {
+        if (field + 1 !== fieldCount) return false;
+        break;
+      }
+      if (field + 1 >= fieldCount) return false;
       from = at + 1;
     }
-    if (field !== fieldCount) return false;
     if (depthFromPressureNeeded) {
       const pressure = out[pressureSlot]!;
       if (pressure === pressure) {
