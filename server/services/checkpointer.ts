@@ -8,9 +8,10 @@
  * follows the WAL, sees what it saw before (its documentation advises turning the automatic one
  * off under a heavy write load).
  *
- * If the worker stops unexpectedly the connection goes back to automatic checkpoints, so the WAL
- * cannot grow without bound.
+ * The worker starts with the first sizeable writes, not with the server. If it stops unexpectedly
+ * the connection goes back to automatic checkpoints, so the WAL cannot grow without bound.
  */
+import { statSync } from 'node:fs';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 
@@ -65,29 +66,40 @@ parentPort.on('message', (m) => {
 });
 `;
 
+/**
+ * The worker starts once the database's or the search index's WAL passes this size: a server
+ * nobody writes to holds no thread for it (about 9 MB resident), and until then SQLite's own
+ * automatic checkpoint, at 1000 pages, keeps the WAL short.
+ */
+export const START_AFTER_WAL_BYTES = 1024 * 1024;
+
 export type Checkpointer = {
-  /** The worker thread (none for an in-memory database). */
-  readonly worker?: Worker;
+  /** The worker thread, once writes have started it (never for an in-memory database). */
+  readonly worker: Worker | undefined;
   stop(): Promise<void>;
 };
 
 const running = new WeakMap<Db, Checkpointer>();
 
+const walBytes = (file: string): number => {
+  try {
+    return statSync(`${file}-wal`).size;
+  } catch {
+    return 0;
+  }
+};
+
 /**
- * Turns the connection's automatic checkpoints off and starts the worker for `databasePath`
- * (nothing for an in-memory database). Stop it before the connection closes.
+ * Watches the WALs of `databasePath` and its search index, and once writes have grown one past
+ * `START_AFTER_WAL_BYTES`, turns the connection's automatic checkpoints off and starts the
+ * worker (nothing for an in-memory database). Stop it before the connection closes.
  */
 export function startCheckpointer(db: Db, databasePath: string, log: Logger): Checkpointer {
-  if (databasePath === ':memory:' || databasePath === '') return { stop: () => Promise.resolve() };
+  if (databasePath === ':memory:' || databasePath === '') return { worker: undefined, stop: () => Promise.resolve() };
   const main = path.resolve(databasePath);
   const files = [main, indexFileFor(main)];
-  const worker = new Worker(WORKER_SOURCE, {
-    eval: true,
-    workerData: { sqlite: require.resolve('better-sqlite3'), files, intervalMs: CHECKPOINT_INTERVAL_MS },
-    // A few MB of heap: it holds two connections and a timer.
-    resourceLimits: { maxOldGenerationSizeMb: 16, maxYoungGenerationSizeMb: 2 },
-  });
-  worker.unref();
+  let worker: Worker | undefined;
+  let exited = Promise.resolve();
   let stopping = false;
   const fallBack = (reason: string) => {
     if (stopping) return;
@@ -95,25 +107,47 @@ export function startCheckpointer(db: Db, databasePath: string, log: Logger): Ch
     if (db.$client.open) db.$client.pragma(`wal_autocheckpoint = ${AUTOCHECKPOINT_PAGES}`);
     log.error('checkpoint worker stopped; the database checkpoints itself again', { reason });
   };
-  worker.on('error', (err) => fallBack(err instanceof Error ? err.message : String(err)));
-  const exited = new Promise<void>((resolve) =>
-    worker.once('exit', (code) => {
-      fallBack(`exit code ${code}`);
-      resolve();
-    }),
-  );
-  db.$client.pragma('wal_autocheckpoint = 0');
+  const start = () => {
+    const started = new Worker(WORKER_SOURCE, {
+      eval: true,
+      workerData: { sqlite: require.resolve('better-sqlite3'), files, intervalMs: CHECKPOINT_INTERVAL_MS },
+      // A few MB of heap: it holds two connections and a timer.
+      resourceLimits: { maxOldGenerationSizeMb: 16, maxYoungGenerationSizeMb: 2 },
+    });
+    started.unref();
+    started.on('error', (err) => fallBack(err instanceof Error ? err.message : String(err)));
+    exited = new Promise<void>((resolve) =>
+      started.once('exit', (code) => {
+        fallBack(`exit code ${code}`);
+        resolve();
+      }),
+    );
+    db.$client.pragma('wal_autocheckpoint = 0');
+    worker = started;
+  };
+  const watch = setInterval(() => {
+    if (worker || stopping || !files.some((f) => walBytes(f) >= START_AFTER_WAL_BYTES)) return;
+    clearInterval(watch);
+    start();
+  }, CHECKPOINT_INTERVAL_MS);
+  watch.unref();
   const checkpointer: Checkpointer = {
-    worker,
+    get worker() {
+      return worker;
+    },
     async stop() {
-      if (!stopping) {
+      clearInterval(watch);
+      if (worker && !stopping) {
         stopping = true;
         worker.postMessage('stop');
         // A worker that does not stop (stuck in a checkpoint on a dead disk) is ended after a while.
-        const cut = setTimeout(() => void worker.terminate(), 5000);
+        const cut = setTimeout(() => void worker?.terminate(), 5000);
         await exited;
         clearTimeout(cut);
-      } else await exited;
+      } else {
+        stopping = true;
+        await exited;
+      }
       running.delete(db);
     },
   };

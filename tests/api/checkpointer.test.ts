@@ -1,6 +1,8 @@
 /**
- * WAL checkpoints run on a worker thread, not inside a request's commit: the server's connection
- * has automatic checkpoints off, yet the WAL still goes back to its start after writes; a worker
+ * WAL checkpoints run on a worker thread, not inside a request's commit: a server nobody writes to
+ * has no worker and SQLite's own checkpoints; once writes pass a megabyte of WAL the worker starts,
+ * the server's connection has automatic checkpoints off, yet the WAL still goes back to its start
+ * after writes; a worker
  * that dies hands checkpoints back to the connection; closing stops the worker first, so the
  * server's connection is the last to close and takes the WAL away (SQLite's last-close checkpoint).
  */
@@ -13,7 +15,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { closeContext, createContext } from '@/server/bootstrap';
 import type { AppContext } from '@/server/context';
 import { loadEnv } from '@/server/env';
-import { CHECKPOINT_INTERVAL_MS, checkpointerOf } from '@/server/services/checkpointer';
+import { CHECKPOINT_INTERVAL_MS, START_AFTER_WAL_BYTES, checkpointerOf } from '@/server/services/checkpointer';
 
 /** The WAL header's first salt: SQLite changes it each time a writer starts the WAL again from its first frame (https://www.sqlite.org/fileformat.html#wal_file_format). */
 const walSalt = (file: string) => readFileSync(`${file}-wal`).readUInt32BE(16);
@@ -44,7 +46,26 @@ describe('checkpoints off the event loop', () => {
     for (let i = 0; i < rows; i++) insert.run();
   };
 
+  /** Writes until the worker has started (it looks once per interval). */
+  async function startWorker(on: AppContext, insert: () => void) {
+    const until = Date.now() + 4 * CHECKPOINT_INTERVAL_MS;
+    while (!checkpointerOf(on.db)!.worker && Date.now() < until) {
+      insert();
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    expect(checkpointerOf(on.db)!.worker).toBeDefined();
+  }
+
+  it('starts no worker for a server nobody writes to, and leaves checkpoints to SQLite meanwhile', async () => {
+    write(5);
+    await new Promise((r) => setTimeout(r, 2 * CHECKPOINT_INTERVAL_MS));
+    expect(checkpointerOf(ctx.db)!.worker).toBeUndefined();
+    expect(ctx.db.$client.pragma('wal_autocheckpoint', { simple: true })).toBe(1000);
+  });
+
   it('the worker checkpoints a WAL the connection no longer checkpoints itself', async () => {
+    // A megabyte of WAL: 3000-byte rows, a page or so each.
+    await startWorker(ctx, () => write(Math.ceil(START_AFTER_WAL_BYTES / 4096 / 4)));
     expect(ctx.db.$client.pragma('wal_autocheckpoint', { simple: true })).toBe(0);
     write(50);
     const before = walSalt(file);
@@ -68,6 +89,11 @@ describe('checkpoints off the event loop', () => {
         LOG_LEVEL: 'silent',
       }),
     );
+    probe.db.$client.exec('create table scratch (body blob)');
+    const insert = probe.db.$client.prepare('insert into scratch (body) values (randomblob(3000))');
+    await startWorker(probe, () => {
+      for (let i = 0; i < 80; i++) insert.run();
+    });
     expect(probe.db.$client.pragma('wal_autocheckpoint', { simple: true })).toBe(0);
     await checkpointerOf(probe.db)!.worker!.terminate();
     expect(probe.db.$client.pragma('wal_autocheckpoint', { simple: true })).toBe(1000);
