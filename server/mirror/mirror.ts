@@ -329,7 +329,6 @@ export class Mirror {
     };
     if (this.relayed.length > 5000) this.relayed.shift();
     this.relayed.push(event);
-    // The hub tells a dive's readers through its own emitter; the relay is one more source of events.
-    (this.live as unknown as { emit(e: LiveEvent): void } | null)?.emit(event);
+    this.live?.relay(event);
   }
 }

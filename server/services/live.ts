@@ -225,8 +225,8 @@ export class LiveHub {
     }
   };
 
-  /** One event on its own (a shore mirror relays the ship's events this way). */
-  private emit(event: LiveEvent): void {
+  /** Tells an event committed elsewhere (a shore mirror relays the ship's this way), in order with this hub's own. */
+  relay(event: LiveEvent): void {
     this.tell([event]);
   }
 
