@@ -208,7 +208,8 @@ export const observations = sqliteTable(
     uniqueIndex('observation_client_ref_unique').on(t.authorId, t.clientRef),
     index('observation_dive_time_idx').on(t.diveId, t.observedAt),
     index('observation_campaign_idx').on(t.campaignId),
-    index('observation_author_idx').on(t.authorId),
+    // None of its own on author_id: observation_client_ref_unique leads with it and serves every
+    // lookup by author, the foreign-key check when a user is deleted included.
   ],
 );
 
@@ -291,6 +292,11 @@ export const tags = sqliteTable(
   (t) => [uniqueIndex('tag_name_unique').on(t.campaignId, sql`lower(${t.name})`)],
 );
 
+/**
+ * Which tags an entry carries. Stored WITHOUT ROWID (migration 0013, which the schema builder
+ * cannot express): a pair lives in its primary key's own B-tree, so tagging an entry writes that
+ * B-tree and the tag index rather than a table, its key's index and the tag index.
+ */
 export const observationTags = sqliteTable(
   'observation_tags',
   {
