@@ -1,7 +1,8 @@
-import { eq } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import type { Request, RequestHandler } from 'express';
 
-import type { Db } from '../../db/client';
+import type { Db, Executor } from '../../db/client';
+import { preparedOn } from '../../db/prepared';
 import { campaigns, dives, memberships, observations } from '../../db/schema';
 import { refusal, rolesFor, roleWithArticle, type AccessRole, type Action, type Facts } from '../../lib/permissions';
 import type { CampaignRole } from '../../lib/schemas';
@@ -25,19 +26,39 @@ const param = (req: Request, name: string): string | undefined => {
   return typeof v === 'string' ? v : undefined;
 };
 
+// Every request that touches a campaign asks one of these: built once per connection.
+const campaignQuery = (db: Executor) =>
+  db
+    .select({ c: campaigns.id })
+    .from(campaigns)
+    .where(eq(campaigns.id, sql.placeholder('id')))
+    .prepare();
+const diveCampaignQuery = (db: Executor) =>
+  db
+    .select({ c: dives.campaignId })
+    .from(dives)
+    .where(eq(dives.id, sql.placeholder('id')))
+    .prepare();
+const entryCampaignQuery = (db: Executor) =>
+  db
+    .select({ c: observations.campaignId })
+    .from(observations)
+    .where(eq(observations.id, sql.placeholder('id')))
+    .prepare();
+
 export const byCampaign: CampaignResolver = (db, req) => {
   const id = param(req, 'campaignId');
-  return id ? db.select({ id: campaigns.id }).from(campaigns).where(eq(campaigns.id, id)).get()?.id : undefined;
+  return id ? preparedOn(db, campaignQuery).get({ id })?.c : undefined;
 };
 
 export const byDive: CampaignResolver = (db, req) => {
   const id = param(req, 'diveId');
-  return id ? db.select({ c: dives.campaignId }).from(dives).where(eq(dives.id, id)).get()?.c : undefined;
+  return id ? preparedOn(db, diveCampaignQuery).get({ id })?.c : undefined;
 };
 
 export const byObservation: CampaignResolver = (db, req) => {
   const id = param(req, 'id');
-  return id ? db.select({ c: observations.campaignId }).from(observations).where(eq(observations.id, id)).get()?.c : undefined;
+  return id ? preparedOn(db, entryCampaignQuery).get({ id })?.c : undefined;
 };
 
 const roleStatements = new WeakMap<Db, { get(campaignId: string, userId: string): unknown }>();

@@ -3,10 +3,11 @@
  * are one transaction (`live.withEvents`); readers hear of it only once it has committed. Who may
  * change an entry is settled before (the routes check the permission table).
  */
-import { and, eq } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import type { z } from 'zod';
 
-import type { Db } from '../../../db/client';
+import type { Db, Executor } from '../../../db/client';
+import { preparedOn } from '../../../db/prepared';
 import { observations } from '../../../db/schema';
 import type { observationCreateSchema, observationUpdateSchema, Observation } from '../../../lib/schemas';
 import { ApiError, conflict, notFound } from '../../errors';
@@ -20,6 +21,40 @@ import { setTags } from './tags';
 
 export type ObservationCreateInput = z.output<typeof observationCreateSchema>;
 export type ObservationUpdateInput = z.output<typeof observationUpdateSchema>;
+
+/** Every column the insert names is a placeholder: a default the schema computes would be computed once, when the query is built. */
+const insertObservation = (db: Executor) => {
+  const columns = [
+    'id',
+    'diveId',
+    'campaignId',
+    'authorId',
+    'observedAt',
+    'kind',
+    'title',
+    'note',
+    'depth',
+    'depthSource',
+    'lat',
+    'lon',
+    'positionSource',
+    'temperature',
+    'temperatureSource',
+    'heading',
+    'headingSource',
+    'altitude',
+    'altitudeSource',
+    'individualCount',
+    'organismQuantity',
+    'organismQuantityType',
+    'substrateId',
+    'clientRef',
+    'createdAt',
+    'updatedAt',
+  ] as const;
+  const values = Object.fromEntries(columns.map((c) => [c, sql.placeholder(c)])) as unknown as typeof observations.$inferInsert;
+  return db.insert(observations).values(values).returning().prepare();
+};
 
 export function createObservation(
   db: Db,
@@ -40,24 +75,25 @@ export function createObservation(
   const stamped = stampValues(db, target.diveId, observedAt, input);
   const observation = live.withEvents((tx, stage) => {
     const record = recordColumns(tx, target.campaignId, input.kind, input);
-    const row = tx
-      .insert(observations)
-      .values({
-        diveId: target.diveId,
-        campaignId: target.campaignId,
-        authorId: target.authorId,
-        observedAt,
-        kind: input.kind,
-        title: input.title,
-        note: input.note,
-        ...stamped,
-        ...record,
-        clientRef: input.clientRef ?? null,
-        createdAt: now,
-        updatedAt: now,
-      })
-      .returning()
-      .get();
+    const row = preparedOn(tx, insertObservation).get({
+      id: crypto.randomUUID(),
+      diveId: target.diveId,
+      campaignId: target.campaignId,
+      authorId: target.authorId,
+      observedAt,
+      kind: input.kind,
+      title: input.title,
+      note: input.note,
+      ...stamped,
+      individualCount: null,
+      organismQuantity: null,
+      organismQuantityType: null,
+      substrateId: null,
+      ...record,
+      clientRef: input.clientRef ?? null,
+      createdAt: now,
+      updatedAt: now,
+    });
     setTags(tx, row.id, target.campaignId, input.tags, true);
     writeSizes(tx, row.id, input.sizes);
     const created = hydrate(tx, [row], { fresh: true })[0]!;

@@ -1,11 +1,17 @@
-import { inArray } from 'drizzle-orm';
-
 import type { Executor } from '../../../db/client';
+import { inJsonList, preparedOn } from '../../../db/prepared';
 import { dives } from '../../../db/schema';
 import { isOutsideDive } from '../../../lib/dive-window';
 import type { ObservationRow } from './map';
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
+
+const timingQuery = (db: Executor) =>
+  db
+    .select({ id: dives.id, launchAt: dives.launchAt, onDeckAt: dives.onDeckAt, plannedStartAt: dives.plannedStartAt })
+    .from(dives)
+    .where(inJsonList(dives.id, 'ids'))
+    .prepare();
 
 /**
  * Which entries lie outside their dive's window (an hour either side of launch and on deck, or a
@@ -16,11 +22,8 @@ export function outsideDiveOf(db: Executor, rows: readonly ObservationRow[]): Ma
   const diveIds = [...new Set(rows.map((r) => r.diveId))];
   if (diveIds.length === 0) return new Map();
   const timing = new Map(
-    db
-      .select({ id: dives.id, launchAt: dives.launchAt, onDeckAt: dives.onDeckAt, plannedStartAt: dives.plannedStartAt })
-      .from(dives)
-      .where(inArray(dives.id, diveIds))
-      .all()
+    preparedOn(db, timingQuery)
+      .all({ ids: JSON.stringify(diveIds) })
       .map((d) => [
         d.id,
         {

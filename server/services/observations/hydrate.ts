@@ -3,9 +3,10 @@
  * identification, find number and sample, each fetched for a whole batch of rows in one query. Lists,
  * details, search, digests, exports and the live feed all read entries through here.
  */
-import { and, count, eq, inArray } from 'drizzle-orm';
+import { and, count, eq, inArray, sql } from 'drizzle-orm';
 
 import type { Executor } from '../../../db/client';
+import { inJsonList, preparedOn } from '../../../db/prepared';
 import {
   finds,
   identifications,
@@ -21,17 +22,20 @@ import { sizeDimensions, type Observation, type Sample, type Size } from '../../
 import { outsideDiveOf } from './dive-window';
 import { namesOf, toObservation, type ObservationRow } from './map';
 
+const tagsQuery = (db: Executor) =>
+  db
+    .select({ observationId: observationTags.observationId, name: tags.name })
+    .from(observationTags)
+    .innerJoin(tags, eq(tags.id, observationTags.tagId))
+    .where(inJsonList(observationTags.observationId, 'ids'))
+    .orderBy(tags.name)
+    .prepare();
+
 /** Each entry's tag names, in name order. */
 export function tagsOf(db: Executor, ids: readonly string[]): Map<string, string[]> {
   const tagsBy = new Map<string, string[]>();
   if (ids.length === 0) return tagsBy;
-  for (const t of db
-    .select({ observationId: observationTags.observationId, name: tags.name })
-    .from(observationTags)
-    .innerJoin(tags, eq(tags.id, observationTags.tagId))
-    .where(inArray(observationTags.observationId, [...ids]))
-    .orderBy(tags.name)
-    .all()) {
+  for (const t of preparedOn(db, tagsQuery).all({ ids: JSON.stringify(ids) })) {
     const list = tagsBy.get(t.observationId);
     if (list) list.push(t.name);
     else tagsBy.set(t.observationId, [t.name]);
@@ -39,28 +43,27 @@ export function tagsOf(db: Executor, ids: readonly string[]): Map<string, string
   return tagsBy;
 }
 
+const findNumbersQuery = (db: Executor) =>
+  db.select({ id: finds.observationId, n: finds.findNumber }).from(finds).where(inJsonList(finds.observationId, 'ids')).prepare();
+
 /** Each entry's find number, where it has a find. */
 export function findNumbersOf(db: Executor, ids: readonly string[]): Map<string, string> {
   if (ids.length === 0) return new Map();
   return new Map(
-    db
-      .select({ id: finds.observationId, n: finds.findNumber })
-      .from(finds)
-      .where(inArray(finds.observationId, [...ids]))
-      .all()
+    preparedOn(db, findNumbersQuery)
+      .all({ ids: JSON.stringify(ids) })
       .map((f) => [f.id, f.n]),
   );
 }
+
+const samplesQuery = (db: Executor) => db.select().from(samples).where(inJsonList(samples.observationId, 'ids')).prepare();
 
 /** The samples of entries by entry id, one query. */
 export function samplesOf(db: Executor, ids: readonly string[]): Map<string, Sample> {
   if (ids.length === 0) return new Map();
   return new Map(
-    db
-      .select()
-      .from(samples)
-      .where(inArray(samples.observationId, [...ids]))
-      .all()
+    preparedOn(db, samplesQuery)
+      .all({ ids: JSON.stringify(ids) })
       .map((s) => [
         s.observationId,
         {
@@ -76,15 +79,13 @@ export function samplesOf(db: Executor, ids: readonly string[]): Map<string, Sam
   );
 }
 
+const sizesQuery = (db: Executor) => db.select().from(observationSizes).where(inJsonList(observationSizes.observationId, 'ids')).prepare();
+
 /** Each entry's sizes, length before width before height. */
 export function sizesOf(db: Executor, ids: readonly string[]): Map<string, Size[]> {
   const by = new Map<string, Size[]>();
   if (ids.length === 0) return by;
-  for (const s of db
-    .select()
-    .from(observationSizes)
-    .where(inArray(observationSizes.observationId, [...ids]))
-    .all()) {
+  for (const s of preparedOn(db, sizesQuery).all({ ids: JSON.stringify(ids) })) {
     const list = by.get(s.observationId) ?? [];
     list.push({ dimension: s.dimension, valueCm: s.valueCm, method: s.method });
     by.set(s.observationId, list);
@@ -93,31 +94,42 @@ export function sizesOf(db: Executor, ids: readonly string[]): Map<string, Size[
   return by;
 }
 
+const substrateNamesQuery = (db: Executor) =>
+  db
+    .select({ id: substrateClasses.id, name: substrateClasses.name })
+    .from(substrateClasses)
+    .where(inJsonList(substrateClasses.id, 'ids'))
+    .prepare();
+
 /** The substrate classes' names the rows point at, one query. */
 function substrateNamesOf(db: Executor, rows: ObservationRow[]): Map<string, string> {
   const wanted = [...new Set(rows.map((r) => r.substrateId).filter((i): i is string => !!i))];
   if (wanted.length === 0) return new Map();
   return new Map(
-    db
-      .select({ id: substrateClasses.id, name: substrateClasses.name })
-      .from(substrateClasses)
-      .where(inArray(substrateClasses.id, wanted))
-      .all()
+    preparedOn(db, substrateNamesQuery)
+      .all({ ids: JSON.stringify(wanted) })
       .map((c) => [c.id, c.name]),
   );
 }
 
+const photoCountsQuery = (db: Executor) =>
+  db
+    .select({ id: photos.observationId, n: count() })
+    .from(photos)
+    .where(and(inJsonList(photos.observationId, 'ids'), eq(photos.retired, false)))
+    .groupBy(photos.observationId)
+    .prepare();
+
 function photoCountsOf(db: Executor, ids: readonly string[]): Map<string, number> {
   return new Map(
-    db
-      .select({ id: photos.observationId, n: count() })
-      .from(photos)
-      .where(and(inArray(photos.observationId, [...ids]), eq(photos.retired, false)))
-      .groupBy(photos.observationId)
-      .all()
+    preparedOn(db, photoCountsQuery)
+      .all({ ids: JSON.stringify(ids) })
       .map((p) => [p.id, p.n]),
   );
 }
+
+const identificationsQuery = (db: Executor) =>
+  db.select().from(identifications).where(inJsonList(identifications.observationId, 'ids')).prepare();
 
 /**
  * Tags, names, photo counts, identifications and find numbers for a batch of rows, a query each.
@@ -137,11 +149,8 @@ export function hydrate(db: Executor, rows: ObservationRow[], options: { fresh?:
   const idents = new Map(
     fresh
       ? []
-      : db
-          .select()
-          .from(identifications)
-          .where(inArray(identifications.observationId, ids))
-          .all()
+      : preparedOn(db, identificationsQuery)
+          .all({ ids: JSON.stringify(ids) })
           .map((i) => [i.observationId, i]),
   );
   const findNumbers = fresh ? new Map<string, string>() : findNumbersOf(db, ids);
@@ -167,8 +176,15 @@ export function hydrate(db: Executor, rows: ObservationRow[], options: { fresh?:
   });
 }
 
+const rowQuery = (db: Executor) =>
+  db
+    .select()
+    .from(observations)
+    .where(eq(observations.id, sql.placeholder('id')))
+    .prepare();
+
 export function getObservationRow(db: Executor, id: string): ObservationRow | undefined {
-  return db.select().from(observations).where(eq(observations.id, id)).get();
+  return preparedOn(db, rowQuery).get({ id });
 }
 
 export function getObservation(db: Executor, id: string): Observation | undefined {

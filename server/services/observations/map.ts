@@ -1,6 +1,5 @@
-import { inArray } from 'drizzle-orm';
-
 import type { Executor } from '../../../db/client';
+import { inJsonList, preparedOn } from '../../../db/prepared';
 import { type observations, user } from '../../../db/schema';
 import type { Observation } from '../../../lib/schemas';
 
@@ -47,16 +46,15 @@ export function toObservation(
   };
 }
 
+const namesQuery = (db: Executor) => db.select({ id: user.id, name: user.name }).from(user).where(inJsonList(user.id, 'ids')).prepare();
+
 /** People's display names by id, one query. */
 export function namesOf(db: Executor, ids: (string | null)[]): Map<string, string> {
   const wanted = [...new Set(ids.filter((i): i is string => !!i))];
   if (wanted.length === 0) return new Map();
   return new Map(
-    db
-      .select({ id: user.id, name: user.name })
-      .from(user)
-      .where(inArray(user.id, wanted))
-      .all()
+    preparedOn(db, namesQuery)
+      .all({ ids: JSON.stringify(wanted) })
       .map((u) => [u.id, u.name]),
   );
 }

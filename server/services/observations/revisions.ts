@@ -1,6 +1,7 @@
 import { desc, eq, sql } from 'drizzle-orm';
 
 import type { Db, Executor } from '../../../db/client';
+import { preparedOn } from '../../../db/prepared';
 import { observationRevisions, observations } from '../../../db/schema';
 import type { Observation, Revision } from '../../../lib/schemas';
 import { notFound } from '../../errors';
@@ -15,6 +16,21 @@ function snapshotOf(db: Executor, observation: Observation): Record<string, unkn
   return rest;
 }
 
+// Every column is a placeholder: a default the schema computes would be computed once, when the query is built.
+const insertRevision = (db: Executor) =>
+  db
+    .insert(observationRevisions)
+    .values({
+      id: sql.placeholder('id'),
+      observationId: sql.placeholder('observationId'),
+      version: sql.placeholder('version'),
+      action: sql.placeholder('action'),
+      snapshot: sql.placeholder('snapshot'),
+      editedBy: sql.placeholder('editedBy'),
+      editedAt: sql.placeholder('editedAt'),
+    })
+    .prepare();
+
 export function writeRevision(
   db: Executor,
   snapshot: Record<string, unknown> & { id: string },
@@ -23,7 +39,15 @@ export function writeRevision(
   actorId: string,
   at: Date,
 ) {
-  db.insert(observationRevisions).values({ observationId: snapshot.id, version, action, snapshot, editedBy: actorId, editedAt: at }).run();
+  preparedOn(db, insertRevision).run({
+    id: crypto.randomUUID(),
+    observationId: snapshot.id,
+    version,
+    action,
+    snapshot,
+    editedBy: actorId,
+    editedAt: at,
+  });
 }
 
 /**

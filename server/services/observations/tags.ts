@@ -1,6 +1,7 @@
-import { and, desc, eq, inArray, or, sql } from 'drizzle-orm';
+import { and, desc, eq, or, sql } from 'drizzle-orm';
 
 import type { Executor } from '../../../db/client';
+import { inJsonList, preparedOn } from '../../../db/prepared';
 import { auditLog, campaigns, observationTags, tags } from '../../../db/schema';
 import { ApiError } from '../../errors';
 
@@ -46,6 +47,25 @@ function replacementOf(db: Executor, campaignId: string, tagId: string): { id: s
   return null;
 }
 
+const tagsByNameQuery = (db: Executor) =>
+  db
+    .select()
+    .from(tags)
+    .where(and(eq(tags.campaignId, sql.placeholder('campaignId')), inJsonList(sql`lower(${tags.name})`, 'names')))
+    .prepare();
+
+const addTagQuery = (db: Executor) =>
+  db
+    .insert(observationTags)
+    .values({ observationId: sql.placeholder('observationId'), tagId: sql.placeholder('tagId') })
+    .prepare();
+
+/** Puts the tags on the entry, which has none of them yet. */
+function addTags(db: Executor, observationId: string, tagIds: readonly string[]) {
+  const add = preparedOn(db, addTagQuery);
+  for (const tagId of tagIds) add.run({ observationId, tagId });
+}
+
 /**
  * Finds the campaign's tags by name (case-insensitively), creating the missing ones when the
  * campaign allows free tags; otherwise an unknown tag is a field error. A merged tag stands for
@@ -57,19 +77,7 @@ function resolveTags(db: Executor, campaignId: string, names: string[], mode: { 
   const kept = mode === 'new' ? new Set<string>() : mode.kept;
   const wanted = [...new Map(names.map((n) => [n.toLowerCase(), n])).values()];
   if (wanted.length === 0) return [];
-  const existing = db
-    .select()
-    .from(tags)
-    .where(
-      and(
-        eq(tags.campaignId, campaignId),
-        inArray(
-          sql`lower(${tags.name})`,
-          wanted.map((n) => n.toLowerCase()),
-        ),
-      ),
-    )
-    .all();
+  const existing = preparedOn(db, tagsByNameQuery).all({ campaignId, names: JSON.stringify(wanted.map((n) => n.toLowerCase())) });
   const byLower = new Map<string, { id: string }>(existing.map((t) => [t.name.toLowerCase(), t]));
   const refused: { path: string; message: string }[] = [];
   for (const t of existing.filter((x) => x.retired && !kept.has(x.id))) {
@@ -102,18 +110,11 @@ function resolveTags(db: Executor, campaignId: string, names: string[], mode: { 
 export function setTags(db: Executor, observationId: string, campaignId: string, names: string[], isNew = false) {
   // A new entry has no tags yet: nothing to keep or take off.
   if (isNew) {
-    const tagIds = resolveTags(db, campaignId, names, 'new');
-    if (tagIds.length > 0)
-      db.insert(observationTags)
-        .values(tagIds.map((tagId) => ({ observationId, tagId })))
-        .run();
+    addTags(db, observationId, resolveTags(db, campaignId, names, 'new'));
     return;
   }
   const had = db.select({ id: observationTags.tagId }).from(observationTags).where(eq(observationTags.observationId, observationId)).all();
   const tagIds = resolveTags(db, campaignId, names, { kept: new Set(had.map((t) => t.id)) });
   db.delete(observationTags).where(eq(observationTags.observationId, observationId)).run();
-  if (tagIds.length > 0)
-    db.insert(observationTags)
-      .values(tagIds.map((tagId) => ({ observationId, tagId })))
-      .run();
+  addTags(db, observationId, tagIds);
 }
