@@ -362,6 +362,21 @@ describe('the index follows every change', () => {
     expect((await search(emails.guest, { q: 'quillomantic' })).total).toBe(0);
   });
 
+  it('a new entry is found by each of its tags, and a tag put on or taken off in an edit counts at once', async () => {
+    const entry = await log(emails.lead, ids.dive2026, { kind: 'biology', title: 'Brittle star', tags: ['vornellic', 'quastrine'] });
+    for (const q of ['vornellic', 'quastrine']) {
+      const page = await search(emails.lead, { q });
+      expect(page.items.map((i) => i.id)).toEqual([entry.id]);
+      expect(page.items[0]!.matchedFields).toEqual(['tags']);
+    }
+    const lead = await t.signIn(emails.lead);
+    const edit = await lead.patch(`/api/observations/${entry.id}`).send({ version: 1, tags: ['vornellic', 'drummelite'] });
+    expect(edit.status).toBe(200);
+    expect((await search(emails.lead, { q: 'drummelite' })).items.map((i) => i.id)).toEqual([entry.id]);
+    expect((await search(emails.lead, { q: 'quastrine' })).total).toBe(0);
+    expect((await search(emails.lead, { q: 'vornellic' })).items.map((i) => i.id)).toEqual([entry.id]);
+  });
+
   it('a tag merged into another is found under the name it went into', async () => {
     const entry = await log(emails.lead, ids.dive2026, { kind: 'biology', title: 'Sea pen', tags: ['plovantic'] });
     const lead = await t.signIn(emails.lead);

@@ -67,14 +67,15 @@ const tagChange = `new.action in ('tag.updated', 'tag.merged')`;
  * resolve to the index's own tables, which no other database has.
  */
 const triggers: Record<string, string> = {
-  observation_added: `after insert on observations begin ${reindex(byId('new.id'))} end`,
   // Named columns set to what they already held (an edit of other fields writes them all) leave the index alone.
   observation_changed: `after update of title, note, retired, dive_id, campaign_id on observations
     when old.title is not new.title or old.note is not new.note or old.retired is not new.retired
       or old.dive_id is not new.dive_id or old.campaign_id is not new.campaign_id
     begin ${reindex(byId('new.id'))} end`,
   observation_removed: `after delete on observations begin delete from search_entries where rowid = old.rowid; end`,
-  tag_added: `after insert on observation_tags begin ${reindex(byId('new.observation_id'))} end`,
+  // A tag put on an entry being created is indexed with the entry, at its first revision.
+  tag_added: `after insert on observation_tags when exists (select 1 from observation_revisions r where r.observation_id = new.observation_id)
+    begin ${reindex(byId('new.observation_id'))} end`,
   tag_taken: `after delete on observation_tags begin ${reindex(byId('old.observation_id'))} end`,
   tag_renamed: `after update of name on tags begin ${reindex(byTag('new.id'))} end`,
   identification_added: `after insert on identifications begin ${reindex(byId('new.observation_id'))} end`,
@@ -83,7 +84,11 @@ const triggers: Record<string, string> = {
   find_added: `after insert on finds begin ${reindex(byId('new.observation_id'))} end`,
   find_changed: `after update of find_number on finds begin ${reindex(byId('new.observation_id'))} end`,
   find_removed: `after delete on finds begin ${reindex(byId('old.observation_id'))} end`,
+  // A new entry is indexed once, when its creation is recorded as its first revision: by then its
+  // tags are on it, where indexing it as its row went in and again for each tag took a dozen
+  // index writes. Every entry is created with that revision in the same transaction.
   revision_mark: `after insert on observation_revisions begin
+    ${insertRows(`new.action = 'created' and ${byId('new.observation_id')}`)}
     update search_meta set value = new.rowid where key = 'revision';
     update search_meta set value = new.observation_id where key = 'revision_of';
   end`,
