@@ -25,20 +25,29 @@ const HERD_ROUNDS = 10;
  */
 const LOOP_DELAY_MODULE = `
 import { writeFileSync } from 'node:fs';
-import { monitorEventLoopDelay } from 'node:perf_hooks';
+import { monitorEventLoopDelay, PerformanceObserver } from 'node:perf_hooks';
 const file = process.env.BENCH_LOOP_DELAY_FILE;
 if (file) {
   const histogram = monitorEventLoopDelay({ resolution: 5 });
   histogram.enable();
+  let gc = { pauses: 0, longest: 0, total: 0 };
+  new PerformanceObserver((list) => {
+    for (const e of list.getEntries()) {
+      gc.pauses++;
+      gc.longest = Math.max(gc.longest, e.duration);
+      gc.total += e.duration;
+    }
+  }).observe({ entryTypes: ['gc'] });
   const ms = (ns) => Math.round(ns / 1e5) / 10;
   process.on('SIGUSR2', () => {
-    writeFileSync(file, JSON.stringify({ p50: ms(histogram.percentile(50)), p99: ms(histogram.percentile(99)), max: ms(histogram.max) }));
+    writeFileSync(file, JSON.stringify({ p50: ms(histogram.percentile(50)), p99: ms(histogram.percentile(99)), max: ms(histogram.max), gc }));
     histogram.reset();
+    gc = { pauses: 0, longest: 0, total: 0 };
   });
 }
 `;
 
-type LoopDelay = { p50: number; p99: number; max: number; cpuMs: number };
+type LoopDelay = { p50: number; p99: number; max: number; gc: { pauses: number; longest: number; total: number }; cpuMs: number };
 
 /** CPU time (user and system) process `pid` has used, in ms, from /proc (Linux; 100 ticks a second). */
 function cpuMsOf(pid: number): number {
@@ -65,7 +74,7 @@ function loopDelayOf(dir: string, name: string) {
       rmSync(file, { force: true });
       process.kill(pid, 'SIGUSR2');
       for (let waited = 0; !existsSync(file); waited += 20) {
-        if (waited > 5000) return { p50: NaN, p99: NaN, max: NaN, cpuMs };
+        if (waited > 5000) return { p50: NaN, p99: NaN, max: NaN, gc: { pauses: NaN, longest: NaN, total: NaN }, cpuMs };
         await new Promise((r) => setTimeout(r, 20));
       }
       await new Promise((r) => setTimeout(r, 20));
@@ -253,6 +262,7 @@ export async function benchLiveLoad(): Promise<void> {
         `  ${name.padEnd(7)} ${(r.sent / r.seconds).toFixed(1).padStart(6)} req/s   write p50 ${ms(percentile(r.latencies, 50))}   p99 ${ms(percentile(r.latencies, 99))}   max ${ms(Math.max(...r.latencies))}   server p50 ${ms(percentile(r.serverMs, 50))} p99 ${ms(percentile(r.serverMs, 99))}   non-2xx ${r.non2xx}   errors ${r.errors}`,
         `          baseline write p50 ${ms(percentile(base.latencies, 50))}   p99 ${ms(percentile(base.latencies, 99))}   server p99 ${ms(percentile(base.serverMs, 99))}   ratio write p99 ${ratio(percentile(r.latencies, 99), percentile(base.latencies, 99))}   server p99 ${ratio(percentile(r.serverMs, 99), percentile(base.serverMs, 99))}`,
         `          event-loop delay p50 ${delay.p50} ms   p99 ${delay.p99} ms   max ${delay.max} ms   (baseline p99 ${baseDelay.p99} ms)   load generator late p99 ${ms(percentile(r.lateMs, 99))} (baseline run ${ms(percentile(base.lateMs, 99))})`,
+        `          garbage collection: ${delay.gc.pauses} pauses, longest ${delay.gc.longest.toFixed(1)} ms, ${delay.gc.total.toFixed(0)} ms in all   (baseline ${baseDelay.gc.pauses}, longest ${baseDelay.gc.longest.toFixed(1)} ms)`,
         `          CPU per entry: server ${(delay.cpuMs / r.sent).toFixed(1)} ms, baseline ${(baseDelay.cpuMs / base.sent).toFixed(1)} ms   ratio ${ratio(delay.cpuMs / r.sent, baseDelay.cpuMs / base.sent)}   (the server's includes telling ${READERS} readers; CPU time is what a busy machine does not stretch)`,
         `          write from send p50 ${ms(percentile(r.fromSend, 50))}   p99 ${ms(percentile(r.fromSend, 99))}   baseline p99 ${ms(percentile(base.fromSend, 99))}   ratio ${ratio(percentile(r.fromSend, 99), percentile(base.fromSend, 99))}   (the bench's own lateness left out)`,
       ].join('\n');
