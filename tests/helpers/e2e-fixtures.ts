@@ -7,6 +7,8 @@
  * demo's campaigns, so the demo can change freely; only the demo's people (part of the contract)
  * are used.
  */
+import type { Locator, Page } from 'playwright-core';
+
 import { emails } from './demo';
 import { fixtureDivePhases, fixtureEntries, fixtureTelemetryCsv, fixtureVocabulary } from './fixtures';
 
@@ -259,4 +261,25 @@ export async function buildE2eFixtures(url: string, options: E2eFixtureOptions =
     return found.userId;
   };
   return { campaign, campaignName, finished, underWay, entries, findNumber, as, userId };
+}
+
+/**
+ * Picks one choice of a group (a radio segment, `aria-checked`; a tab, `aria-selected`) and
+ * sees it chosen. A screen drawn before its data arrives re-renders as the data comes in, and a click
+ * taken in between can be lost; it is given once more, as a person would. Picking a choice that is
+ * already chosen keeps it chosen, so the second click never undoes the first. Not for toggles.
+ */
+export async function choose(choice: Locator, attribute: 'aria-checked' | 'aria-selected' = 'aria-checked'): Promise<void> {
+  await choice.click();
+  if ((await choice.getAttribute(attribute)) !== 'true') await choice.click();
+  await choice.and(choice.page().locator(`[${attribute}="true"]`)).waitFor();
+}
+
+/**
+ * Waits for a dive's screen to be drawn from the dive's data: its title names the dive. Its
+ * buttons (Log entry, Summary, Taxa) are there before the data, and on a phone the entry button
+ * is drawn anew once the dive is known, so a click before that can be lost.
+ */
+export async function diveScreenDrawn(page: Page, number: string): Promise<void> {
+  await page.getByRole('heading', { name: `Dive ${number}`, exact: true }).waitFor();
 }
