@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { openBrowser, pageApi as api, signInAs, viewports, type Browser } from '../helpers/chromium';
-import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { buildE2eFixtures, choose, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -50,7 +50,9 @@ describe('the entry form at phone size', () => {
   it('takes a field’s error away as soon as the field is fixed', async () => {
     const page = bio.page;
     await page.goto(`${server.url}/dives/${diveId}/new`);
-    await page.getByTestId('field-kind-biology').click();
+    // The dive's window, drawn from the dive's data, means the form is live.
+    await page.getByTestId('dive-window').getByText(`Dive ${fixtures.finished.number}:`).waitFor();
+    await choose(page.getByTestId('field-kind-biology'));
     await page.getByTestId('field-title').fill('Holothurian on the mound');
     await page.getByTestId('field-time').fill('2026-13-13 19:00:00');
     await page.getByTestId('field-depth').fill('deep');
@@ -80,6 +82,7 @@ describe('the entry form at phone size', () => {
     );
     expect(entry.depthSource).toBe('telemetry');
     await page.goto(`${server.url}/observations/${entry.id}`);
+    await page.getByTestId('observation-detail').getByText('Brittle star on a jar').first().waitFor();
     await page.getByTestId('edit').click();
     await page.getByTestId('observation-editor').waitFor();
     expect(await page.getByTestId('field-depth').inputValue()).toBe(String(entry.depth));
@@ -96,7 +99,9 @@ describe('the entry form at phone size', () => {
   it('warns of a time outside the dive, keeps the entry and marks it, with its date, in the log', async () => {
     const page = bio.page;
     await page.goto(`${server.url}/dives/${diveId}/new`);
-    await page.getByTestId('field-kind-biology').click();
+    // The dive's window, drawn from the dive's data, means the form is live.
+    await page.getByTestId('dive-window').getByText(`Dive ${fixtures.finished.number}:`).waitFor();
+    await choose(page.getByTestId('field-kind-biology'));
     await page.getByTestId('field-title').fill('Logged from the video months later');
     await page.getByTestId('field-time').fill('2026-11-30 09:15:00');
     await page.getByTestId('time-outside-dive').waitFor();
