@@ -12,6 +12,7 @@ import type { Locator, Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports } from '../helpers/chromium';
 import { emails } from '../helpers/demo';
+import { choose } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -327,7 +328,9 @@ describe('an entry logged months after its dive', () => {
       const page = b.page;
       await signInAs(page, server.url, emails.biologist);
       await page.goto(`${server.url}/dives/${diveId}/new`);
-      await page.getByTestId('field-kind-biology').click();
+      // The dive's window, drawn from the dive's data, means the form is live.
+      await page.getByTestId('dive-window').getByText(`Dive ${diveNumber}:`).waitFor();
+      await choose(page.getByTestId('field-kind-biology'));
       const title = 'Octopus in the amphora, from the video';
       await page.getByTestId('field-title').fill(title);
       await page.getByTestId('field-time').fill('2026-09-14 10:00:00');
@@ -400,6 +403,7 @@ describe('the tag vocabulary and the entry detail at phone size', () => {
       await page.getByTestId('field-scientific-name').waitFor();
 
       await page.goto(`${server.url}/observations/${leadEntryId}`);
+      await page.getByTestId('observation-detail').getByText('Lead’s note to retire').first().waitFor();
       await page.getByTestId('retire').click();
       await page.getByTestId('confirm-retire').waitFor();
       expect(await page.getByTestId('retired-banner').count()).toBe(0);
