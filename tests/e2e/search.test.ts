@@ -60,6 +60,8 @@ describe('at phone size', () => {
     const { page } = browser;
     await signInAs(page, server.url, 'lead@bathynote.test');
     await page.getByTestId('nav-search').click();
+    // The campaign chips, drawn from data, mean the search screen is live before it is typed into.
+    await page.getByTestId(`filter-campaign-${campaigns[0]}`).waitFor();
     await page.getByTestId('search-input').fill('quelmarine');
     await result(page, 'vent').waitFor();
     await result(page, 'sponge').waitFor();
