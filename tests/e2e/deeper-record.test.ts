@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
-import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { buildE2eFixtures, diveScreenDrawn, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -125,6 +125,7 @@ describe.each([
       taxonRank: 'genus',
     });
     await page.goto(`${server.url}/dives/${fixtures.finished.id}`);
+    await diveScreenDrawn(page, fixtures.finished.number);
     await page.getByTestId('dive-taxa').click();
     const row = page.getByTestId('taxon-Munida');
     await row.waitFor();
