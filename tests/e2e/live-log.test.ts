@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
-import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { buildE2eFixtures, fixtureQuickMarks, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -186,6 +186,8 @@ describe('logging fast and over a failing link', () => {
       await signIn(lead.page, 'lead@bathynote.test');
       await lead.page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
       await lead.page.getByTestId('campaign-settings').click();
+      // The campaign's own quick marks, drawn from data, mean the list is in before the form below it is used.
+      await lead.page.getByTestId(`edit-quick-mark-${fixtureQuickMarks[0].label}`).waitFor();
       await lead.page.getByTestId('field-quick-mark-label').fill('Rusticle drip');
       await lead.page.getByTestId('add-quick-mark').click();
       await lead.page.getByTestId('quick-mark-settings').getByText('Rusticle drip').waitFor();
