@@ -44,9 +44,22 @@ function answerClientErrors(server: Server) {
   });
 }
 
-/** The HTTP server Bathynote runs on (and its tests): the header limit above, errors in JSON. */
+/**
+ * How long a connection may sit idle between requests before the server closes it. Node's 5 s
+ * means a person who logs an entry every minute opens a new connection for each, and over a
+ * satellite link (650 ms each way) that is a round trip or three (TLS) before the entry even
+ * leaves. A minute keeps their connection for the next one; the request head must still arrive
+ * within `HEADERS_TIMEOUT_MS` of a request's start, and Node's own limit on a whole request stays.
+ */
+export const KEEP_ALIVE_TIMEOUT_MS = 60_000;
+/** Longer than the keep-alive, as Node advises, so an idle connection is never cut as a request starts on it. */
+export const HEADERS_TIMEOUT_MS = 65_000;
+
+/** The HTTP server Bathynote runs on (and its tests): the header limit above, errors in JSON, connections kept a minute. */
 export function createHttpServer(listener?: RequestListener): Server {
   const server = listener ? createServer(serverOptions, listener) : createServer(serverOptions);
+  server.keepAliveTimeout = KEEP_ALIVE_TIMEOUT_MS;
+  server.headersTimeout = HEADERS_TIMEOUT_MS;
   answerClientErrors(server);
   return server;
 }

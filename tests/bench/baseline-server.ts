@@ -1,16 +1,15 @@
 /**
  * The live-load benchmark's baseline: a bare Express endpoint on the same stack as the server
- * (the same JSON parsing, better-sqlite3 opened with the same pragmas, synchronous=FULL) that
+ * (the same HTTP server settings and JSON parsing, better-sqlite3 opened with the same pragmas, synchronous=FULL) that
  * inserts one row per request and answers 201. The same schedule driven at it in the same run
  * says how much of a figure is the machine and how much is the notebook.
  *
  * Usage: node --import tsx tests/bench/baseline-server.ts <port> <database file>
  */
-import { createServer } from 'node:http';
-
 import express from 'express';
 
 import { openDatabase } from '../../db/client';
+import { createHttpServer } from '../../server/http-server';
 import { serverTiming } from '../../server/middleware/timing';
 
 const [port, file] = process.argv.slice(2);
@@ -31,4 +30,4 @@ app.post('/entries', (req, res) => {
 app.get('/health', (_req, res) => {
   res.json({ ok: true });
 });
-createServer(app).listen(Number(port), '127.0.0.1', () => process.stdout.write('listening\n'));
+createHttpServer(app).listen(Number(port), '127.0.0.1', () => process.stdout.write('listening\n'));

@@ -118,8 +118,8 @@ export class Writers {
     );
     req.setTimeout(REQUEST_TIMEOUT_MS, () => req.destroy(new Error('timed out')));
     req.on('error', (err: NodeJS.ErrnoException) => {
-      // A kept-alive socket the server closed as this request went out (its idle timeout, 5 s,
-      // is this schedule's interval): sent again once on a new socket, as a browser would.
+      // A kept-alive socket the server closed as this request went out (an idle timeout no
+      // longer than this schedule's interval): sent again once on a new socket, as a browser would.
       if (!retried && req.reusedSocket && err.code === 'ECONNRESET') {
         settled = true;
         this.send(writer, due, round, finished, payload, firstSent);
