@@ -13,6 +13,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
 import { emails } from '../helpers/demo';
+import { choose } from '../helpers/e2e-fixtures';
 import { overlaps, textPastEdges, type Box } from '../helpers/layout';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
@@ -433,7 +434,9 @@ for (const scheme of ['light', 'dark'] as const) {
 
       // Remembered for this person after a reload.
       await page.reload();
-      await page.getByTestId('log-view-table').click();
+      // The log's rows, drawn from data, mean the screen is live before the view is switched.
+      await page.getByTestId('dive-log').locator('[data-testid^="observation-"]').first().waitFor();
+      await choose(page.getByTestId('log-view-table'));
       await page.getByTestId('column-position').waitFor();
       expect(await page.getByTestId('column-find').count()).toBe(1);
       expect(await page.getByTestId('column-temperature').count()).toBe(0);
