@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
-import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { buildE2eFixtures, diveScreenDrawn, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { fixtureDivePhases } from '../helpers/fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 import { csv, iso } from '../fixtures/telemetry/logs';
@@ -77,6 +77,7 @@ describe('the dive summary at phone size', () => {
     await signIn(page, 'pilot@bathynote.test');
     await page.getByTestId('campaign-list').getByText(fixtures.campaignName).click();
     await page.getByTestId(`dive-${fixtures.finished.number}`).click();
+    await diveScreenDrawn(page, fixtures.finished.number);
     await page.getByTestId('dive-summary').click();
     // No log yet: the summary says so, and the pilot imports one on the dive's settings.
     await page.getByTestId('telemetry-empty').waitFor();
@@ -203,6 +204,7 @@ describe('the dive summary on a wide screen', () => {
       await page.getByTestId('recording-saved').waitFor();
 
       await page.goto(`${server.url}/dives/${diveId}`);
+      await diveScreenDrawn(page, fixtures.finished.number);
       await page.getByTestId('new-observation').click();
       await page.getByTestId('observation-form').waitFor();
       // 00:01:00;00 is a label 29.97 drop-frame never shows (SMPTE ST 12-1 drops frames 0 and 1 of each minute but every tenth).
