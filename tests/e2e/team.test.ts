@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { choose, diveScreenDrawn } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -117,8 +118,10 @@ describe('a guest scientist joins by invitation', () => {
     expect(new URL(page.url()).search).toBe('?welcome=1');
 
     await page.getByTestId('dive-VS-02').click();
+    await diveScreenDrawn(page, 'VS-02');
     await page.getByTestId('new-observation').click();
-    await page.getByTestId('field-kind-biology').click();
+    await page.getByTestId('observation-form').waitFor();
+    await choose(page.getByTestId('field-kind-biology'));
     const title = 'Brittle stars on the amphora shoulder, seen from ashore';
     await page.getByTestId('field-title').fill(title);
     // The time as the Now button gives it: a dive that is over starts its entries with no time.
