@@ -11,6 +11,7 @@ import type { Page } from 'playwright-core';
 
 import { XSS_VECTORS } from '../fixtures/xss-vectors';
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
+import { diveScreenDrawn } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -69,6 +70,7 @@ describe('a note typed with script in it, in the browser', () => {
     await signInAs(page, server.url, 'biologist@bathynote.test');
     await page.getByTestId('campaign-list').getByText('Varn Shoal 2026').click();
     await page.getByTestId('dive-VS-03').click();
+    await diveScreenDrawn(page, 'VS-03');
     await page.getByTestId('new-observation').click();
     const note = page.getByTestId('field-note');
     const preview = page.getByTestId('note-preview');
