@@ -10,7 +10,7 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 import { openBrowser, signInAs, viewports } from '../helpers/chromium';
-import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { buildE2eFixtures, diveScreenDrawn, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
 
 let server: ServerProcess;
@@ -103,6 +103,7 @@ describe('the export screen', () => {
 
       await page.goBack();
       await page.getByTestId(`dive-${fixtures.finished.number}`).click();
+      await diveScreenDrawn(page, fixtures.finished.number);
       await page.getByTestId('toggle-filters').click();
       await page.getByTestId('filter-kind-biology').click();
       const list = await downloadFrom(page, 'log-download-csv');
