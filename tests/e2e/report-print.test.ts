@@ -9,7 +9,7 @@ import type { Page } from 'playwright-core';
 import { reportSchema } from '@/lib/schemas';
 
 import { openBrowser, signInAs, viewports, type Browser } from '../helpers/chromium';
-import { buildE2eFixtures, type E2eFixtures } from '../helpers/e2e-fixtures';
+import { buildE2eFixtures, diveScreenDrawn, type E2eFixtures } from '../helpers/e2e-fixtures';
 import { fixtureDivePhases, fixtureEntries } from '../helpers/fixtures';
 import { assertPoppler, pdfImageCount, pdfInfo, pdfPageTexts, pdfText } from '../helpers/pdf';
 import { startServerProcess, type ServerProcess } from '../helpers/server-process';
@@ -93,6 +93,7 @@ const signIn = (page: Page, email: string) => signInAs(page, server.url, email);
 async function openDiveReport(page: Page): Promise<void> {
   await page.getByTestId('campaign-list').getByText(campaignName).click();
   await page.getByTestId(`dive-${fixtures.finished.number}`).click();
+  await diveScreenDrawn(page, fixtures.finished.number);
   await page.getByTestId('dive-summary').click();
   await page.getByTestId('summary-dive-report').click();
   await page.getByTestId('report').waitFor();
