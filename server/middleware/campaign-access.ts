@@ -1,11 +1,10 @@
-import { eq, sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import type { Request, RequestHandler } from 'express';
 
 import type { Db, Executor } from '../../db/client';
 import { preparedOn } from '../../db/prepared';
 import { campaigns, dives, memberships, observations } from '../../db/schema';
 import { refusal, rolesFor, roleWithArticle, type AccessRole, type Action, type Facts } from '../../lib/permissions';
-import type { CampaignRole } from '../../lib/schemas';
 import { forbidden, notFound } from '../errors';
 import { userOf } from './session';
 
@@ -61,16 +60,16 @@ export const byObservation: CampaignResolver = (db, req) => {
   return id ? preparedOn(db, entryCampaignQuery).get({ id })?.c : undefined;
 };
 
-const roleStatements = new WeakMap<Db, { get(campaignId: string, userId: string): unknown }>();
+const roleQuery = (db: Executor) =>
+  db
+    .select({ role: memberships.role })
+    .from(memberships)
+    .where(and(eq(memberships.campaignId, sql.placeholder('campaignId')), eq(memberships.userId, sql.placeholder('userId'))))
+    .prepare();
 
-/** The caller's role in a campaign; asked on every request, so a prepared statement. */
+/** The caller's role in a campaign; asked on every request. */
 export function roleIn(db: Db, campaignId: string, user: { id: string; siteRole: string }): AccessRole | undefined {
-  let statement = roleStatements.get(db);
-  if (!statement) {
-    statement = db.$client.prepare('select role from memberships where campaign_id = ? and user_id = ?').pluck();
-    roleStatements.set(db, statement);
-  }
-  const role = statement.get(campaignId, user.id) as CampaignRole | undefined;
+  const role = preparedOn(db, roleQuery).get({ campaignId, userId: user.id })?.role;
   if (role) return role;
   return user.siteRole === 'admin' ? 'admin' : undefined;
 }
