@@ -12,7 +12,7 @@ import { createApp } from './app';
 import { closeContext, createContext } from './bootstrap';
 import { loadEnv } from './env';
 import { errorBody } from './errors';
-import { createHttpServer } from './http-server';
+import { bornFor, createHttpServer } from './http-server';
 import { startDemoLive } from './services/demo-live';
 import { Mirror } from './mirror/mirror';
 import { sessionCacheFor } from './middleware/session';
@@ -111,6 +111,7 @@ async function main() {
       );
   }
   process.stdout.write(`${lines.join('\n')}\n\n`);
+  bornFor(server, app);
   handle = app;
   letYoungGenerationGrow();
 

@@ -9,7 +9,7 @@
 import express from 'express';
 
 import { openDatabase } from '../../db/client';
-import { createHttpServer } from '../../server/http-server';
+import { bornFor, createHttpServer } from '../../server/http-server';
 import { serverTiming } from '../../server/middleware/timing';
 
 const [port, file] = process.argv.slice(2);
@@ -30,4 +30,7 @@ app.post('/entries', (req, res) => {
 app.get('/health', (_req, res) => {
   res.json({ ok: true });
 });
-createHttpServer(app).listen(Number(port), '127.0.0.1', () => process.stdout.write('listening\n'));
+const server = createHttpServer(app);
+// As the server under test does, so the two stay on the same stack.
+bornFor(server, app);
+server.listen(Number(port), '127.0.0.1', () => process.stdout.write('listening\n'));

@@ -11,7 +11,7 @@ import { createApp } from '@/server/app';
 import { closeContext, createContext } from '@/server/bootstrap';
 import type { AppContext } from '@/server/context';
 import { loadEnv } from '@/server/env';
-import { createHttpServer } from '@/server/http-server';
+import { bornFor, createHttpServer } from '@/server/http-server';
 
 export type TestServer = {
   url: string;
@@ -63,7 +63,9 @@ export async function startTestServer(
   });
   const ctx = await createContext(env);
   if (options.seed !== false) await seedDemo(ctx.db, { watchPlan: options.demoWatchPlan === true });
-  server.on('request', createApp(ctx));
+  const app = createApp(ctx);
+  bornFor(server, app);
+  server.on('request', app);
 
   const agents = new Map<string, ReturnType<typeof request.agent>>();
   const freshSignIn = async (email: string, password = DEMO_PASSWORD) => {
