@@ -288,6 +288,7 @@ export async function benchLiveLoad(): Promise<void> {
         '',
       ].join('\n'),
     );
+    if (process.env.BENCH_SERVER_OUTPUT) writeFileSync(process.env.BENCH_SERVER_OUTPUT, server.output());
   } finally {
     readers?.kill();
     baseline?.stop();

@@ -43,7 +43,12 @@ export async function startServerProcess(
   const url = `http://127.0.0.1:${port}`;
   let log = '';
   const entry = options.script ? ['--import', 'tsx', options.script] : [(bundle ??= buildServer())];
-  const args = [...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []), ...entry];
+  const args = [
+    ...(process.env.BENCH_PROFILE_DIR ? ['--cpu-prof', '--cpu-prof-dir', process.env.BENCH_PROFILE_DIR] : []),
+    // Node and V8 flags for the server alone, to try one on a benchmark (e.g. --trace-gc).
+    ...(process.env.BENCH_SERVER_FLAGS?.split(/\s+/).filter(Boolean) ?? []),
+    ...entry,
+  ];
   // taskset runs the server in its own place (exec), so the child's pid is the server's.
   const child = spawn(options.cpus ? 'taskset' : process.execPath, options.cpus ? ['-c', options.cpus, process.execPath, ...args] : args, {
     cwd: root,
