@@ -256,10 +256,17 @@ export async function benchLiveLoad(): Promise<void> {
     const memory = memoryOf(server.child.pid!);
     const expected = sent * READERS;
     const ms = (v: number) => `${v.toFixed(0)} ms`;
+    /** Which answer `percentile(…, 99)` picks, counted from the slowest: with a few hundred, one hiccup moves it. */
+    const rankFromSlowest = (n: number) => {
+      const k = n - Math.floor(0.99 * n);
+      const suffix =
+        k % 10 === 1 && k % 100 !== 11 ? 'st' : k % 10 === 2 && k % 100 !== 12 ? 'nd' : k % 10 === 3 && k % 100 !== 13 ? 'rd' : 'th';
+      return k === 1 ? 'the slowest' : `the ${k}${suffix} slowest`;
+    };
     const ratio = (v: number, base: number) => (base > 0 ? `${(v / base).toFixed(1)}x` : '-');
     const line = (name: string, r: WriteRound, base: WriteRound, delay: LoopDelay, baseDelay: LoopDelay) =>
       [
-        `  ${name.padEnd(7)} ${(r.sent / r.seconds).toFixed(1).padStart(6)} req/s   write p50 ${ms(percentile(r.latencies, 50))}   p99 ${ms(percentile(r.latencies, 99))}   max ${ms(Math.max(...r.latencies))}   server p50 ${ms(percentile(r.serverMs, 50))} p99 ${ms(percentile(r.serverMs, 99))}   non-2xx ${r.non2xx}   errors ${r.errors}`,
+        `  ${name.padEnd(7)} ${(r.sent / r.seconds).toFixed(1).padStart(6)} req/s   write p50 ${ms(percentile(r.latencies, 50))}   p99 ${ms(percentile(r.latencies, 99))}   max ${ms(Math.max(...r.latencies))}   server p50 ${ms(percentile(r.serverMs, 50))} p99 ${ms(percentile(r.serverMs, 99))}   non-2xx ${r.non2xx}   errors ${r.errors}   (${r.latencies.length} entries: p99 is ${rankFromSlowest(r.latencies.length)})`,
         `          baseline write p50 ${ms(percentile(base.latencies, 50))}   p99 ${ms(percentile(base.latencies, 99))}   server p99 ${ms(percentile(base.serverMs, 99))}   ratio write p99 ${ratio(percentile(r.latencies, 99), percentile(base.latencies, 99))}   server p99 ${ratio(percentile(r.serverMs, 99), percentile(base.serverMs, 99))}`,
         `          event-loop delay p50 ${delay.p50} ms   p99 ${delay.p99} ms   max ${delay.max} ms   (baseline p99 ${baseDelay.p99} ms)   load generator late p99 ${ms(percentile(r.lateMs, 99))} (baseline run ${ms(percentile(base.lateMs, 99))})`,
         `          garbage collection: ${delay.gc.pauses} pauses, longest ${delay.gc.longest.toFixed(1)} ms, ${delay.gc.total.toFixed(0)} ms in all   (baseline ${baseDelay.gc.pauses}, longest ${baseDelay.gc.longest.toFixed(1)} ms)`,
